@@ -1,0 +1,331 @@
+"""The building model: plain, immutable value objects in SI units.
+
+Nothing here parses, validates against a file or imports Qt. Parsing and located validation
+live in :mod:`petfall_audit.io`; the computation modules take these objects and numpy arrays.
+Update an object with :func:`dataclasses.replace`.
+
+Units: lengths in metres (``_m``) unless a name says millimetres (``_mm``), masses in kilograms,
+areas in square metres, speeds in metres per second, times in seconds, temperatures in °C.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from enum import StrEnum
+
+__all__ = [
+    "OpeningKind",
+    "SurfaceKind",
+    "Screen",
+    "OpenFrequency",
+    "CatsPresent",
+    "BuildingInfo",
+    "Floor",
+    "Facade",
+    "Surface",
+    "Opening",
+    "Fixed",
+    "Normal",
+    "Uniform",
+    "LogNormal",
+    "Distribution",
+    "CatProfile",
+    "CAT_PRESETS",
+    "Building",
+    "BALCONY_LIKE",
+    "WINDOW_KINDS",
+]
+
+
+class OpeningKind(StrEnum):
+    """What kind of opening a cat could fall from."""
+
+    BALCONY = "balcony"
+    TERRACE = "terrace"
+    GALLERY = "gallery"  # walkway / access gallery
+    WINDOW_CASEMENT = "window_casement"
+    WINDOW_SLIDING = "window_sliding"
+    WINDOW_HUNG = "window_hung"
+    WINDOW_TILT_TURN = "window_tilt_turn"
+    WINDOW_TOP_HUNG = "window_top_hung"  # awning / top-hung
+    FIXED = "fixed"  # fixed glazing, never opens
+
+
+#: Kinds that stand out from the facade and can catch a cat falling from above.
+BALCONY_LIKE: frozenset[OpeningKind] = frozenset(
+    {OpeningKind.BALCONY, OpeningKind.TERRACE, OpeningKind.GALLERY}
+)
+#: Kinds that are windows in a wall (``projection_m`` is 0 for them).
+WINDOW_KINDS: frozenset[OpeningKind] = frozenset(
+    {
+        OpeningKind.WINDOW_CASEMENT,
+        OpeningKind.WINDOW_SLIDING,
+        OpeningKind.WINDOW_HUNG,
+        OpeningKind.WINDOW_TILT_TURN,
+        OpeningKind.WINDOW_TOP_HUNG,
+        OpeningKind.FIXED,
+    }
+)
+
+
+class SurfaceKind(StrEnum):
+    """What a falling cat meets at the bottom."""
+
+    CONCRETE = "concrete"  # concrete or paving
+    ASPHALT = "asphalt"
+    GRAVEL = "gravel"
+    LAWN = "lawn"  # lawn or bare soil
+    PLANTING = "planting"  # planting bed, shrubs
+    WATER = "water"
+    ROOF = "roof"  # roof membrane
+    DECK = "deck"  # timber deck
+
+
+class Screen(StrEnum):
+    NONE = "none"
+    INSECT = "insect"
+    PET_RESISTANT = "pet_resistant"
+
+
+class OpenFrequency(StrEnum):
+    NEVER = "never"
+    RARELY = "rarely"
+    SEASONAL = "seasonal"
+    DAILY = "daily"
+    ALWAYS = "always"
+
+
+class CatsPresent(StrEnum):
+    YES = "yes"
+    NO = "no"
+    UNKNOWN = "unknown"
+
+
+@dataclass(frozen=True, slots=True)
+class BuildingInfo:
+    """Who and what is audited. ``site_altitude_m`` above mean sea level; ``audit_date`` ISO 8601."""
+
+    name: str
+    address: str = ""
+    site_altitude_m: float = 0.0
+    air_temperature_c: float = 15.0
+    auditor: str = ""
+    audit_date: str = ""
+    notes: str = ""
+
+
+@dataclass(frozen=True, slots=True)
+class Floor:
+    """A storey. ``elevation_m``: finished floor level above the building's datum."""
+
+    level: int
+    label: str
+    elevation_m: float
+
+
+@dataclass(frozen=True, slots=True)
+class Facade:
+    """A named building face, ``length_m`` long; openings sit along it at ``x_m``."""
+
+    id: str
+    length_m: float
+    label: str = ""
+
+
+@dataclass(frozen=True, slots=True)
+class Surface:
+    """What lies below a facade (ground, podium roof, canopy, pond...).
+
+    ``elevation_m`` is the top of the surface above the datum. Its outward extent runs from
+    ``from_facade_m`` to ``to_facade_m`` (``None``: unbounded, e.g. the street beyond).
+    ``facade`` is the facade it lies in front of, or ``None`` for every facade.
+    """
+
+    id: str
+    kind: SurfaceKind
+    elevation_m: float
+    facade: str | None = None
+    from_facade_m: float = 0.0
+    to_facade_m: float | None = None
+    label: str = ""
+
+
+@dataclass(frozen=True, slots=True)
+class Opening:
+    """A balcony, terrace, gallery or window on one floor and facade.
+
+    Geometry: ``x_m`` is the left edge along the facade, ``width_m`` its width, ``projection_m``
+    how far it stands out from the facade (0 for windows), ``perch_height_m`` the rail top or sill
+    above its floor. Guard: ``largest_gap_mm`` (widest gap in the infill, ``None`` = solid),
+    ``bottom_gap_mm`` (gap under the guard, ``None`` = none). ``limiter_gap_mm``: the opening a
+    limiter allows (``None`` = no limiter). ``netting_mesh_mm``: mesh of fitted netting (``None`` =
+    no netting).
+    """
+
+    id: str
+    floor: int
+    facade: str
+    kind: OpeningKind
+    x_m: float
+    width_m: float
+    projection_m: float = 0.0
+    perch_height_m: float = 1.1
+    largest_gap_mm: float | None = None
+    bottom_gap_mm: float | None = None
+    climbable_infill: bool = False
+    flat_rail_top: bool = False
+    climbing_aids: bool = False  # furniture, planters or bins next to the guard
+    limiter_gap_mm: float | None = None
+    screen: Screen = Screen.NONE
+    netting_mesh_mm: float | None = None
+    open_frequency: OpenFrequency = OpenFrequency.SEASONAL
+    cats_present: CatsPresent = CatsPresent.UNKNOWN
+    escape_window: bool = False
+    notes: str = ""
+    photos: tuple[str, ...] = ()
+
+
+# --- cat profile -------------------------------------------------------------------------------
+
+
+@dataclass(frozen=True, slots=True)
+class Fixed:
+    """A parameter that takes one value."""
+
+    value: float
+
+
+@dataclass(frozen=True, slots=True)
+class Normal:
+    """Normal distribution, truncated at zero by the sampler (quantities are positive)."""
+
+    mean: float
+    sd: float
+
+
+@dataclass(frozen=True, slots=True)
+class Uniform:
+    """Uniform distribution on [min, max]."""
+
+    min: float
+    max: float
+
+
+@dataclass(frozen=True, slots=True)
+class LogNormal:
+    """Log-normal distribution given by the arithmetic ``mean`` and ``sd`` of the quantity."""
+
+    mean: float
+    sd: float
+
+
+Distribution = Fixed | Normal | Uniform | LogNormal
+
+
+@dataclass(frozen=True, slots=True)
+class CatProfile:
+    """The population of cats at risk.
+
+    ``cda_tense_m2`` / ``cda_spread_m2``: drag coefficient × frontal area in the tense and the
+    spread-out posture (m²). ``relax_probability``: chance that a cat spreads out at all.
+    ``relax_fraction``: fraction of the tense terminal speed at which it does. ``righting_time_s``:
+    time it needs to turn feet-down. ``launch_speed_mps``: horizontal speed leaving the perch.
+    ``preset`` names the preset the profile started from (``None`` if fully custom).
+    """
+
+    mass_kg: Distribution
+    cda_tense_m2: Distribution
+    cda_spread_m2: Distribution
+    relax_probability: float
+    relax_fraction: Distribution
+    righting_time_s: Distribution
+    launch_speed_mps: Distribution
+    preset: str | None = None
+
+    @property
+    def is_deterministic(self) -> bool:
+        """True when every sample is the same cat."""
+        params = (
+            self.mass_kg,
+            self.cda_tense_m2,
+            self.cda_spread_m2,
+            self.relax_fraction,
+            self.righting_time_s,
+            self.launch_speed_mps,
+        )
+        return all(isinstance(p, Fixed) for p in params) and self.relax_probability in (0.0, 1.0)
+
+
+# Sources for the presets (see docs/risk-model.md):
+# - mean adult mass 4.1 kg among cats that fell: Candela Andrade et al. 2025, J Feline Med Surg;
+#   the spread (sd 1.1 kg, log-normal) is common practice, no source.
+# - tense / spread terminal speeds about 24 / 17 m/s, relaxing at about three quarters of the
+#   tense terminal speed: fact of the trade, no source. C_d·A follows from v_t = sqrt(2 m g / (rho C_d A))
+#   at 4.1 kg and rho = 1.225 kg/m³: 0.114 m² tense, 0.227 m² spread.
+# - righting time about 0.3 s: popular science, unverified (from memory).
+# - chance of relaxing and launch speeds: assumptions of this model (from memory), adjustable.
+CAT_PRESETS: dict[str, CatProfile] = {
+    "adult": CatProfile(
+        mass_kg=LogNormal(4.1, 1.1),
+        cda_tense_m2=Normal(0.114, 0.012),
+        cda_spread_m2=Normal(0.227, 0.023),
+        relax_probability=0.7,
+        relax_fraction=Uniform(0.65, 0.85),
+        righting_time_s=Uniform(0.25, 0.4),
+        launch_speed_mps=Uniform(0.0, 2.5),
+        preset="adult",
+    ),
+    "kitten": CatProfile(
+        mass_kg=LogNormal(1.5, 0.5),
+        cda_tense_m2=Normal(0.058, 0.008),
+        cda_spread_m2=Normal(0.116, 0.015),
+        relax_probability=0.5,
+        relax_fraction=Uniform(0.65, 0.85),
+        righting_time_s=Uniform(0.3, 0.5),
+        launch_speed_mps=Uniform(0.0, 2.0),
+        preset="kitten",
+    ),
+    "heavy_adult": CatProfile(
+        mass_kg=LogNormal(6.0, 1.0),
+        cda_tense_m2=Normal(0.147, 0.015),
+        cda_spread_m2=Normal(0.294, 0.03),
+        relax_probability=0.7,
+        relax_fraction=Uniform(0.65, 0.85),
+        righting_time_s=Uniform(0.25, 0.4),
+        launch_speed_mps=Uniform(0.0, 2.0),
+        preset="heavy_adult",
+    ),
+}
+
+
+@dataclass(frozen=True, slots=True)
+class Building:
+    """A whole audited building. Tuples keep it hashable and immutable."""
+
+    info: BuildingInfo
+    floors: tuple[Floor, ...] = ()
+    facades: tuple[Facade, ...] = ()
+    surfaces: tuple[Surface, ...] = ()
+    openings: tuple[Opening, ...] = ()
+    cat_profile: CatProfile = field(default_factory=lambda: CAT_PRESETS["adult"])
+
+    def floor(self, level: int) -> Floor:
+        """The floor at ``level``; ``KeyError`` if there is none."""
+        for f in self.floors:
+            if f.level == level:
+                return f
+        raise KeyError(level)
+
+    def opening(self, opening_id: str) -> Opening:
+        """The opening with ``opening_id``; ``KeyError`` if there is none."""
+        for o in self.openings:
+            if o.id == opening_id:
+                return o
+        raise KeyError(opening_id)
+
+    def facade(self, facade_id: str) -> Facade:
+        """The facade with ``facade_id``; ``KeyError`` if there is none."""
+        for f in self.facades:
+            if f.id == facade_id:
+                return f
+        raise KeyError(facade_id)
