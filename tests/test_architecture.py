@@ -1,0 +1,55 @@
+"""The Qt boundary: nothing outside ``petfall_audit.gui`` imports Qt (conventions.md, habit 1)."""
+
+from __future__ import annotations
+
+import pkgutil
+import subprocess
+import sys
+from pathlib import Path
+
+import petfall_audit
+
+QT_MODULES = ("PySide6", "pyqtgraph", "shiboken6")
+
+
+def _core_modules() -> list[str]:
+    names = []
+    for info in pkgutil.walk_packages(petfall_audit.__path__, prefix="petfall_audit."):
+        if info.name.startswith("petfall_audit.gui"):
+            continue
+        if info.name.startswith(("petfall_audit.resources", "petfall_audit.sample_buildings")):
+            continue
+        names.append(info.name)
+    return names
+
+
+def test_core_modules_do_not_import_qt() -> None:
+    modules = _core_modules()
+    assert "petfall_audit.model" in modules
+    code = (
+        "import importlib, sys\n"
+        f"for name in {modules!r}:\n"
+        "    importlib.import_module(name)\n"
+        f"bad = sorted(m for m in sys.modules if m.split('.')[0] in {QT_MODULES!r})\n"
+        "print(','.join(bad))\n"
+    )
+    out = subprocess.run(
+        [sys.executable, "-c", code],
+        capture_output=True,
+        text=True,
+        check=True,
+        cwd=Path(__file__).resolve().parents[1],
+    )
+    assert out.stdout.strip() == "", f"Qt imported outside gui/: {out.stdout.strip()}"
+
+
+def test_import_linter_contract_holds() -> None:
+    """The same rule as an import-linter contract (pyproject.toml), which also sees lazy imports."""
+    root = Path(__file__).resolve().parents[1]
+    out = subprocess.run(
+        [sys.executable, "-c", "from importlinter.cli import lint_imports_command; lint_imports_command()"],
+        capture_output=True,
+        text=True,
+        cwd=root,
+    )
+    assert out.returncode == 0, out.stdout + out.stderr
