@@ -1,0 +1,502 @@
+"""Checks on a building model: limits, duplicates, references, order, geometry, cat profile.
+
+Used by :func:`petfall_audit.io.building_file.validate_building` (the GUI calls it after edits)
+and by the loader after the shape checks. Places are written like the file
+(``openings[3].floor``); after a partial load, :class:`Places` maps model indices back to file
+indices. Lengths in metres, gaps and mesh in millimetres (see the limits in ``_schema``).
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import difflib
+import functools
+import math
+import re
+from collections.abc import Iterable, Sequence
+from typing import Any
+
+import numpy as np
+
+from petfall_audit.errors import Problem
+from petfall_audit.io._schema import CAT_PARAMETERS, LIMITS, is_iso_date
+from petfall_audit.model import (
+    BALCONY_LIKE,
+    CAT_PRESETS,
+    WINDOW_KINDS,
+    Building,
+    BuildingInfo,
+    CatProfile,
+    Distribution,
+    Fixed,
+    Floor,
+    LogNormal,
+    Normal,
+    OpeningKind,
+    Uniform,
+)
+
+__all__ = ["Places", "check_model", "describe", "number", "unit_of"]
+
+_EPS = 1e-9
+
+
+def describe(value: Any) -> str:
+    """A short, plain rendering of a JSON value for messages."""
+    if value is None:
+        return "null"
+    if isinstance(value, bool):
+        return "true" if value else "false"
+    if isinstance(value, int):
+        if abs(value) >= 10**15:
+            return "a very large number"
+        return str(value)
+    if isinstance(value, float):
+        if math.isnan(value):
+            return "NaN"
+        if math.isinf(value):
+            return "infinity" if value > 0 else "minus infinity"
+        return repr(value)
+    if isinstance(value, str):
+        text = value if len(value) <= 40 else value[:37] + "..."
+        return repr(text)
+    if isinstance(value, dict):
+        return "an object"
+    if isinstance(value, list | tuple):
+        return "a list"
+    return f"a {type(value).__name__}"
+
+
+_UNIT_SUFFIXES = (
+    ("_mm", "mm"),
+    ("_m2", "m²"),
+    ("_mps", "m/s"),
+    ("_kg", "kg"),
+    ("_m", "m"),
+    ("_c", "°C"),
+    ("_s", "s"),
+)
+
+
+def unit_of(loc: Sequence[Any]) -> str:
+    names = [p for p in loc if isinstance(p, str) and not p.startswith("<")]
+    for name in reversed(names):
+        for suffix, unit in _UNIT_SUFFIXES:
+            if name.endswith(suffix):
+                return f" {unit}"
+        if name not in ("mean", "sd", "min", "max", "lognormal"):
+            return ""
+    return ""
+
+
+def number(x: float) -> str:
+    return f"{x:g}"
+
+
+@dataclasses.dataclass(frozen=True, slots=True)
+class Places:
+    """Maps an item's index in the model to its index in the file (they differ after salvage)."""
+
+    index: dict[str, list[int]]
+
+    @classmethod
+    def identity(cls, b: Building) -> Places:
+        return cls(
+            {
+                "floors": list(range(len(b.floors))),
+                "facades": list(range(len(b.facades))),
+                "surfaces": list(range(len(b.surfaces))),
+                "openings": list(range(len(b.openings))),
+            }
+        )
+
+    def at(self, section: str, i: int, field: str = "") -> str:
+        place = f"{section}[{self.index[section][i]}]"
+        return f"{place}.{field}" if field else place
+
+
+def _finite(x: object) -> bool:
+    return isinstance(x, int | float) and not isinstance(x, bool) and math.isfinite(x)
+
+
+def _range(
+    problems: list[Problem],
+    where: str,
+    value: float | None,
+    unit: str,
+    lo: float | None = None,
+    hi: float | None = None,
+    *,
+    lo_open: bool = False,
+    hi_open: bool = False,
+    why: str = "",
+) -> bool:
+    """Append a problem unless ``lo (<)<= value (<)<= hi``; True when the value is fine.
+
+    ``why`` explains the upper bound (e.g. "far heavier than any cat")."""
+    if value is None:
+        return True
+    u = f" {unit}" if unit else ""
+    if not _finite(value):
+        problems.append(Problem(where, f"expected a finite number, got {describe(value)}"))
+        return False
+    got = f", got {number(value)}{u}"
+    tail = f" ({why})" if why else ""
+    if lo is not None and (value <= lo if lo_open else value < lo):
+        word = "greater than" if lo_open else "at least"
+        problems.append(Problem(where, f"must be {word} {number(lo)}{u}{got}"))
+        return False
+    if hi is not None and (value >= hi if hi_open else value > hi):
+        word = "less than" if hi_open else "at most"
+        problems.append(Problem(where, f"must be {word} {number(hi)}{u}{got}{tail}"))
+        return False
+    return True
+
+
+def _duplicates(
+    problems: list[Problem], places: Places, section: str, keys: Sequence[object], what: str
+) -> None:
+    first: dict[object, int] = {}
+    for i, key in enumerate(keys):
+        if key in first:
+            field = "level" if section == "floors" else "id"
+            other = places.at(section, first[key])
+            problems.append(
+                Problem(
+                    places.at(section, i, field),
+                    f"{what} {describe(key)} is used more than once (also {other})",
+                )
+            )
+        else:
+            first[key] = i
+
+
+def _suggest(name: str, known: Iterable[str]) -> str:
+    known = sorted(known)
+    hint = difflib.get_close_matches(name, known, n=1)
+    if hint:
+        return f" (did you mean {hint[0]!r}?)"
+    if known and len(known) <= 8:
+        return " (known: " + ", ".join(known) + ")"
+    return ""
+
+
+def check_model(b: Building, places: Places, incomplete: frozenset[str]) -> list[Problem]:
+    """Every problem in ``b``; checks that need a section in ``incomplete`` are skipped."""
+    problems: list[Problem] = []
+    _check_info(problems, b.info)
+    _check_floors(problems, b, places)
+    _check_facades(problems, b, places)
+    _check_surfaces(problems, b, places, incomplete)
+    _check_openings(problems, b, places, incomplete)
+    _check_landing(problems, b, places, coverage="surfaces" not in incomplete)
+    _check_profile(problems, b.cat_profile, compare="cat_profile" not in incomplete)
+    return problems
+
+
+def _check_info(problems: list[Problem], info: BuildingInfo) -> None:
+    L = LIMITS
+    where = "building.site_altitude_m"
+    _range(problems, where, info.site_altitude_m, "m", L.altitude_min_m, L.altitude_max_m)
+    where = "building.air_temperature_c"
+    _range(problems, where, info.air_temperature_c, "°C", L.temperature_min_c, L.temperature_max_c)
+    if info.audit_date and not is_iso_date(info.audit_date):
+        problems.append(
+            Problem(
+                "building.audit_date",
+                f"expected a date written YYYY-MM-DD (or empty), got {describe(info.audit_date)}",
+            )
+        )
+
+
+def _check_floors(problems: list[Problem], b: Building, places: Places) -> None:
+    L = LIMITS
+    _duplicates(problems, places, "floors", [f.level for f in b.floors], "level")
+    previous: Floor | None = None
+    for i, f in enumerate(b.floors):
+        if not (L.level_min <= f.level <= L.level_max):
+            problems.append(
+                Problem(
+                    places.at("floors", i, "level"),
+                    f"must be between {L.level_min} and {L.level_max}, got {f.level}",
+                )
+            )
+        where = places.at("floors", i, "elevation_m")
+        ok = _range(problems, where, f.elevation_m, "m", L.elevation_min_m, L.elevation_max_m)
+        if previous is not None and f.level != previous.level:
+            below = places.at("floors", i - 1)
+            if f.level < previous.level:
+                problems.append(
+                    Problem(
+                        places.at("floors", i, "level"),
+                        f"floors must be listed from the lowest level up: level {f.level} comes "
+                        f"after level {previous.level} ({below})",
+                    )
+                )
+            elif ok and _finite(previous.elevation_m) and f.elevation_m <= previous.elevation_m:
+                problems.append(
+                    Problem(
+                        places.at("floors", i, "elevation_m"),
+                        f"level {f.level} at {f.elevation_m:g} m is not above level "
+                        f"{previous.level} at {previous.elevation_m:g} m ({below})",
+                    )
+                )
+        previous = f
+
+
+def _check_facades(problems: list[Problem], b: Building, places: Places) -> None:
+    _duplicates(problems, places, "facades", [f.id for f in b.facades], "facade id")
+    for i, f in enumerate(b.facades):
+        if not f.id:
+            problems.append(Problem(places.at("facades", i, "id"), "must not be empty"))
+        where = places.at("facades", i, "length_m")
+        _range(problems, where, f.length_m, "m", 0.0, LIMITS.length_max_m, lo_open=True)
+
+
+def _check_surfaces(
+    problems: list[Problem], b: Building, places: Places, incomplete: frozenset[str]
+) -> None:
+    L = LIMITS
+    facade_ids = {f.id for f in b.facades}
+    _duplicates(problems, places, "surfaces", [s.id for s in b.surfaces], "surface id")
+    for i, s in enumerate(b.surfaces):
+        at = functools.partial(places.at, "surfaces", i)
+        if not s.id:
+            problems.append(Problem(at("id"), "must not be empty"))
+        _range(
+            problems, at("elevation_m"), s.elevation_m, "m", L.elevation_min_m, L.elevation_max_m
+        )
+        ok_from = _range(problems, at("from_facade_m"), s.from_facade_m, "m", 0.0, L.length_max_m)
+        ok_to = _range(problems, at("to_facade_m"), s.to_facade_m, "m", 0.0, L.length_max_m)
+        if ok_from and ok_to and s.to_facade_m is not None and s.to_facade_m <= s.from_facade_m:
+            problems.append(
+                Problem(
+                    at("to_facade_m"),
+                    f"must be greater than from_facade_m ({s.from_facade_m:g} m), got "
+                    f"{s.to_facade_m:g} m (use null for a surface that runs on without end)",
+                )
+            )
+        if s.facade is not None and "facades" not in incomplete and s.facade not in facade_ids:
+            problems.append(
+                Problem(
+                    at("facade"),
+                    f"facade {s.facade!r} does not exist{_suggest(s.facade, facade_ids)}",
+                )
+            )
+
+
+def _check_openings(
+    problems: list[Problem], b: Building, places: Places, incomplete: frozenset[str]
+) -> None:
+    L = LIMITS
+    facades = {f.id: f for f in b.facades}
+    levels = {f.level for f in b.floors}
+    _duplicates(problems, places, "openings", [o.id for o in b.openings], "opening id")
+    for i, o in enumerate(b.openings):
+        at = functools.partial(places.at, "openings", i)
+        if not o.id:
+            problems.append(Problem(at("id"), "must not be empty"))
+        if "floors" not in incomplete and o.floor not in levels:
+            problems.append(Problem(at("floor"), f"level {o.floor} does not exist"))
+        facade = facades.get(o.facade)
+        if facade is None and "facades" not in incomplete:
+            problems.append(
+                Problem(
+                    at("facade"), f"facade {o.facade!r} does not exist{_suggest(o.facade, facades)}"
+                )
+            )
+        ok_x = _range(problems, at("x_m"), o.x_m, "m", 0.0, L.length_max_m)
+        ok_w = _range(problems, at("width_m"), o.width_m, "m", 0.0, L.width_max_m, lo_open=True)
+        if ok_x and ok_w and facade is not None and _finite(facade.length_m):
+            end = o.x_m + o.width_m
+            if end > facade.length_m + L.facade_tolerance_m:
+                problems.append(
+                    Problem(
+                        at("x_m"),
+                        f"the opening runs to {end:g} m along facade {facade.id!r}, which is only "
+                        f"{facade.length_m:g} m long",
+                    )
+                )
+        if _range(problems, at("projection_m"), o.projection_m, "m", 0.0, L.projection_max_m):
+            if o.kind in WINDOW_KINDS and o.projection_m != 0:
+                problems.append(
+                    Problem(
+                        at("projection_m"),
+                        f"a {o.kind.value.replace('_', ' ')} sits in the wall: projection_m "
+                        f"must be 0, got {o.projection_m:g} m",
+                    )
+                )
+        _range(problems, at("perch_height_m"), o.perch_height_m, "m", 0.0, L.perch_height_max_m)
+        _range(problems, at("largest_gap_mm"), o.largest_gap_mm, "mm", 0.0, L.gap_max_mm)
+        _range(problems, at("bottom_gap_mm"), o.bottom_gap_mm, "mm", 0.0, L.gap_max_mm)
+        _range(problems, at("limiter_gap_mm"), o.limiter_gap_mm, "mm", 0.0, L.gap_max_mm)
+        mesh_mm = o.netting_mesh_mm
+        _range(problems, at("netting_mesh_mm"), mesh_mm, "mm", 0.0, L.mesh_max_mm, lo_open=True)
+        if o.escape_window and (o.kind is OpeningKind.FIXED or o.kind in BALCONY_LIKE):
+            problems.append(
+                Problem(
+                    at("escape_window"),
+                    f"only an opening window can be an emergency escape window, not a "
+                    f"{o.kind.value.replace('_', ' ')}",
+                )
+            )
+        for k, photo in enumerate(o.photos):
+            if not photo or photo.startswith(("/", "\\")) or re.match(r"^[A-Za-z]:", photo):
+                problems.append(
+                    Problem(
+                        at(f"photos[{k}]"),
+                        f"expected a path relative to the building file, got {describe(photo)}",
+                    )
+                )
+
+
+def _check_landing(
+    problems: list[Problem], b: Building, places: Places, *, coverage: bool = True
+) -> None:
+    """Surfaces above the openings they would catch; with ``coverage``, facades with gaps in
+    what lies below (skipped when some surfaces were left out: one of them may fill the gap)."""
+    if not b.openings:
+        return
+    L = LIMITS
+    elevation = {f.level: f.elevation_m for f in b.floors}
+    facade_index = {f.id: k for k, f in enumerate(b.facades)}
+    o_elev = np.array([elevation.get(o.floor, np.nan) for o in b.openings], dtype=float)
+    o_fac = np.array([facade_index.get(o.facade, -2) for o in b.openings])
+    o_proj = np.array([o.projection_m for o in b.openings], dtype=float)
+    if b.surfaces:
+        s_elev = np.array([s.elevation_m for s in b.surfaces], dtype=float)
+        s_fac = np.array([facade_index.get(s.facade, -2) if s.facade else -1 for s in b.surfaces])
+        s_from = np.array([s.from_facade_m for s in b.surfaces], dtype=float)
+        s_to = np.array([np.inf if s.to_facade_m is None else s.to_facade_m for s in b.surfaces])
+        with np.errstate(invalid="ignore"):
+            same_face = (s_fac[:, None] == -1) | (s_fac[:, None] == o_fac[None, :])
+            in_reach = (s_from[:, None] <= o_proj[None, :] + L.catch_reach_m) & (
+                s_to[:, None] > o_proj[None, :]
+            )
+            above = s_elev[:, None] > o_elev[None, :] + _EPS
+            caught = same_face & in_reach & above & (o_fac[None, :] >= 0)
+        for si in np.flatnonzero(caught.any(axis=1)):
+            hits = np.flatnonzero(caught[si])
+            first = int(hits[0])
+            o = b.openings[first]
+            more = f" and {len(hits) - 1} more" if len(hits) > 1 else ""
+            problems.append(
+                Problem(
+                    places.at("surfaces", int(si), "elevation_m"),
+                    f"at {s_elev[si]:g} m this surface is above the openings it would catch: "
+                    f"{places.at('openings', first)} ({o.id!r}, level {o.floor} at "
+                    f"{o_elev[first]:g} m){more}; check its elevation, facade and extent",
+                )
+            )
+    # Every opening must land somewhere: below the lowest opening on each facade, the surfaces
+    # must cover the whole way out from the facade.
+    if not coverage:
+        return
+    for k, facade in enumerate(b.facades):
+        on_face = (o_fac == k) & np.isfinite(o_elev)
+        if not on_face.any():
+            continue
+        lowest = float(o_elev[on_face].min())
+        spans = sorted(
+            (s.from_facade_m, math.inf if s.to_facade_m is None else s.to_facade_m)
+            for s in b.surfaces
+            if (s.facade is None or s.facade == facade.id) and s.elevation_m <= lowest + _EPS
+        )
+        gap = _first_gap(spans)
+        if gap is not None:
+            start, end = gap
+            extent = (
+                f"from {start:g} m out" if math.isinf(end) else f"from {start:g} to {end:g} m out"
+            )
+            problems.append(
+                Problem(
+                    places.at("facades", k),
+                    f"nothing lies below the openings on facade {facade.id!r} {extent} (lowest "
+                    f"opening floor at {lowest:g} m): add a surface there, e.g. the ground with "
+                    f"to_facade_m null",
+                )
+            )
+
+
+def _first_gap(spans: Sequence[tuple[float, float]]) -> tuple[float, float] | None:
+    """First stretch of [0, ∞) not covered by the sorted ``(from_m, to_m)`` spans."""
+    reach = 0.0
+    for start, end in spans:
+        if start > reach + _EPS:
+            return (reach, start)
+        reach = max(reach, end)
+        if math.isinf(reach):
+            return None
+    return (reach, math.inf)
+
+
+# (lower bound, lower bound open, upper bound, upper bound open, why the upper bound)
+_PARAM_LIMITS: dict[str, tuple[float, bool, float, bool, str]] = {
+    "mass_kg": (0.0, True, LIMITS.mass_max_kg, False, "far heavier than any cat"),
+    "cda_tense_m2": (0.0, True, LIMITS.cda_max_m2, False, "far larger than any cat"),
+    "cda_spread_m2": (0.0, True, LIMITS.cda_max_m2, False, "far larger than any cat"),
+    "relax_fraction": (0.0, True, 1.0, True, "a fraction of the terminal speed"),
+    "righting_time_s": (0.0, True, LIMITS.righting_time_max_s, False, "far slower than a cat"),
+    "launch_speed_mps": (0.0, False, LIMITS.launch_speed_max_mps, False, "far faster than a cat"),
+}
+
+
+def _centre(d: Distribution) -> float:
+    if isinstance(d, Fixed):
+        return d.value
+    if isinstance(d, Uniform):
+        return 0.5 * (d.min + d.max)
+    return d.mean
+
+
+def _check_profile(problems: list[Problem], p: CatProfile, *, compare: bool = True) -> None:
+    """Limits of every parameter; with ``compare``, spread C_d·A not below tense C_d·A."""
+    if p.preset is not None and p.preset not in CAT_PRESETS:
+        problems.append(
+            Problem(
+                "cat_profile.preset",
+                f"unknown preset {p.preset!r} (known: {', '.join(CAT_PRESETS)})",
+            )
+        )
+    _range(problems, "cat_profile.relax_probability", p.relax_probability, "", 0.0, 1.0)
+    fine = True
+    for name in CAT_PARAMETERS:
+        lo, lo_open, hi, hi_open, why = _PARAM_LIMITS[name]
+        unit = unit_of((name,)).strip()
+        d: Distribution = getattr(p, name)
+        at = f"cat_profile.{name}"
+        before = len(problems)
+
+        value = functools.partial(
+            _range, problems, unit=unit, lo=lo, hi=hi, lo_open=lo_open, hi_open=hi_open, why=why
+        )
+
+        if isinstance(d, Fixed):
+            value(at, d.value)
+        elif isinstance(d, Normal):
+            value(f"{at}.mean", d.mean)
+            _range(problems, f"{at}.sd", d.sd, unit, 0.0)
+        elif isinstance(d, Uniform):
+            value(f"{at}.min", d.min)
+            value(f"{at}.max", d.max)
+            if len(problems) == before and d.min > d.max:
+                problems.append(
+                    Problem(f"{at}.max", f"must not be below min ({d.min:g}), got {d.max:g}")
+                )
+        elif isinstance(d, LogNormal):
+            value(f"{at}.lognormal.mean", d.mean)
+            _range(problems, f"{at}.lognormal.sd", d.sd, unit, 0.0)
+        else:
+            problems.append(Problem(at, DISTRIBUTION_WORDS))
+        fine = fine and len(problems) == before
+    if compare and fine and _centre(p.cda_spread_m2) < _centre(p.cda_tense_m2):
+        problems.append(
+            Problem(
+                "cat_profile.cda_spread_m2",
+                f"the spread-out posture ({_centre(p.cda_spread_m2):g} m²) must not meet less "
+                f"air than the tense one ({_centre(p.cda_tense_m2):g} m²)",
+            )
+        )
+
+
+DISTRIBUTION_WORDS = "expected a fixed number or a normal, uniform or log-normal distribution"
