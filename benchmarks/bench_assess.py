@@ -1,0 +1,60 @@
+"""Time the full assessment of the large tower against a bare closed-form evaluation.
+
+Run: ``python benchmarks/bench_assess.py [--samples N] [--repeats R]``.
+
+(a) the full assessment (sampling, physics, severity, bands, likelihood, risk, ranking, per-opening
+    results) of the 60-floor × 20-opening tower with N samples (default 4000);
+(b) a bare numpy evaluation of the closed-form two-posture impact speed on an array of the same
+    size (openings × samples), in the same run.
+Target: a/b ≤ 4. Prints the median times and the ratio.
+"""
+
+from __future__ import annotations
+
+import argparse
+
+import numpy as np
+from _common import large_tower, median_time_s
+
+from petfall_audit.physics import G0, simulate_falls
+from petfall_audit.risk import assess
+from petfall_audit.sampling import CatSamples, sample_cat_profile
+
+
+def bare_speed(drop_m: np.ndarray, cat: CatSamples, rho: float) -> np.ndarray:
+    """Closed-form two-posture impact speed (Taylor, Classical Mechanics, §2.4), plain numpy."""
+    m, f = cat.mass_kg, cat.relax_fraction
+    vt1 = np.sqrt(2 * m * G0 / (rho * cat.cda_tense_m2))
+    vt2 = np.sqrt(2 * m * G0 / (rho * cat.cda_spread_m2))
+    hs = -vt1**2 * np.log1p(-(f**2)) / (2 * G0)
+    tense = vt1 * np.sqrt(-np.expm1(-2 * G0 * drop_m / vt1**2))
+    spread = np.sqrt(
+        vt2**2 + ((f * vt1) ** 2 - vt2**2) * np.exp(-2 * G0 * np.maximum(drop_m - hs, 0) / vt2**2)
+    )
+    out: np.ndarray = np.where(drop_m < hs, tense, spread)
+    return out
+
+
+def main() -> int:
+    parser = argparse.ArgumentParser(description=__doc__)
+    parser.add_argument("--samples", type=int, default=4000)
+    parser.add_argument("--repeats", type=int, default=5)
+    args = parser.parse_args()
+
+    building = large_tower(60, 20)
+    cat = sample_cat_profile(building.cat_profile, args.samples, seed=1)
+    falls = simulate_falls(building, cat)  # the drops for (b)
+    assess(building, samples=args.samples, seed=1)  # warm-up
+
+    t_a = median_time_s(lambda: assess(building, samples=args.samples, seed=1), args.repeats)
+    t_b = median_time_s(lambda: bare_speed(falls.drop_m, cat, falls.rho_kg_m3), args.repeats)
+    n = len(building.openings)
+    print(f"building: {n} openings x {args.samples} samples = {n * args.samples:,} falls")
+    print(f"(a) full assessment, median           {t_a:8.3f} s")
+    print(f"(b) bare closed-form speed, median    {t_b:8.3f} s")
+    print(f"a/b = {t_a / t_b:.2f}   (target <= 4)")
+    return 0
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())

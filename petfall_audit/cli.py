@@ -1,0 +1,348 @@
+"""The ``petfall-audit`` command line. ``main(argv) -> int``; no subcommand imports Qt except
+``open`` and the bare command, which start the desktop app.
+
+Exit codes: 0 success, 1 runtime failure, 2 invalid input (bad file, bad arguments).
+Problems go to stderr one a line; a traceback is never shown for a user's mistake.
+"""
+
+from __future__ import annotations
+
+import argparse
+import sys
+from collections.abc import Sequence
+from pathlib import Path
+
+from petfall_audit import __version__
+from petfall_audit.errors import (
+    BuildingFileError,
+    PetfallError,
+    ValidationFailed,
+)
+
+__all__ = ["main"]
+
+EXIT_OK = 0
+EXIT_FAILURE = 1
+EXIT_INVALID = 2
+
+
+def _stderr_progress(label: str):  # type: ignore[no-untyped-def]
+    """A ``progress(done, total)`` callback that draws a one-line bar on stderr when it is a tty."""
+    tty = sys.stderr.isatty()
+
+    def progress(done: int, total: int) -> None:
+        if not tty or total <= 0:
+            return
+        width = 30
+        filled = int(width * done / total)
+        sys.stderr.write(f"\r{label} [{'#' * filled}{'.' * (width - filled)}] {done}/{total}")
+        if done >= total:
+            sys.stderr.write("\n")
+        sys.stderr.flush()
+
+    return progress
+
+
+def _print_problems(exc: BuildingFileError, path: str) -> None:
+    if isinstance(exc, ValidationFailed):
+        print(f"{path}: {len(exc.problems)} problem(s):", file=sys.stderr)
+        for problem in exc.problems:
+            print(f"  {problem}", file=sys.stderr)
+    else:
+        print(f"{path}: {exc}", file=sys.stderr)
+
+
+def _cmd_check(args: argparse.Namespace) -> int:
+    from petfall_audit.io.building_file import load_building
+
+    try:
+        building = load_building(Path(args.file))
+    except BuildingFileError as exc:
+        _print_problems(exc, args.file)
+        return EXIT_INVALID
+    print(
+        f"{args.file}: valid — {building.info.name}: {len(building.floors)} floors, "
+        f"{len(building.facades)} facades, {len(building.surfaces)} surfaces, "
+        f"{len(building.openings)} openings"
+    )
+    return EXIT_OK
+
+
+def _cmd_assess(args: argparse.Namespace) -> int:
+    from petfall_audit.io.atomic import atomic_write_text
+    from petfall_audit.io.building_file import load_building
+    from petfall_audit.io.results_export import (
+        assessment_to_csv,
+        assessment_to_dict,
+        assessment_to_table,
+    )
+    from petfall_audit.risk import assess
+    from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
+
+    if args.samples is not None and args.samples < 1:
+        print("petfall-audit: --samples must be at least 1", file=sys.stderr)
+        return EXIT_INVALID
+    try:
+        building = load_building(Path(args.file))
+    except BuildingFileError as exc:
+        _print_problems(exc, args.file)
+        return EXIT_INVALID
+    assessment = assess(
+        building,
+        samples=DEFAULT_SAMPLES if args.samples is None else args.samples,
+        seed=DEFAULT_SEED if args.seed is None else args.seed,
+        sensitivity=args.format == "json" and not args.no_sensitivity,
+        progress=_stderr_progress("assessing"),
+    )
+    if args.format == "json":
+        import json
+
+        text = json.dumps(assessment_to_dict(assessment), indent=2, ensure_ascii=False) + "\n"
+    elif args.format == "csv":
+        text = assessment_to_csv(assessment)
+    else:
+        text = assessment_to_table(assessment, by=args.by)
+    if args.output:
+        atomic_write_text(args.output, text)
+        print(f"wrote {args.output}")
+    else:
+        sys.stdout.write(text)
+    return EXIT_OK
+
+
+def _build_parser() -> argparse.ArgumentParser:
+    parser = argparse.ArgumentParser(
+        prog="petfall-audit",
+        description=(
+            "Audit a residential building for the risk that a resident cat falls from a balcony "
+            "or window. With no command, opens the desktop app on a sample building. "
+            "Indicative model only: not a structural or code-compliance assessment."
+        ),
+    )
+    parser.add_argument("--version", action="version", version=f"petfall-audit {__version__}")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND")
+
+    p = sub.add_parser("check", help="validate a building file")
+    p.add_argument("file", help="building file (.json)")
+    p.set_defaults(handler=_cmd_check)
+
+    p = sub.add_parser(
+        "assess",
+        help="rank the openings of a building (table, JSON or CSV)",
+        description="Assess FILE and list its openings worst first. Indicative model only.",
+    )
+    p.add_argument("file", help="building file (.json)")
+    p.add_argument("--format", choices=("table", "json", "csv"), default="table",
+                   help="output format (default: table)")
+    p.add_argument("--samples", type=int, default=None, metavar="N",
+                   help="sampled cats (default 4000)")
+    p.add_argument("--seed", type=int, default=None, metavar="S", help="random seed (default 1)")
+    p.add_argument("-o", "--output", default=None, metavar="OUT",
+                   help="write to OUT instead of standard output")
+    p.add_argument("--by", choices=("band", "risk"), default="band",
+                   help="table order: expected injury band (default) or risk score")
+    p.add_argument("--no-sensitivity", action="store_true",
+                   help="leave the sensitivity summary out of the JSON (faster)")
+    p.set_defaults(handler=_cmd_assess)
+
+    p = sub.add_parser("open", help="open a building file in the desktop app")
+    p.add_argument("file", nargs="?", help="building file (.json)")
+    p.set_defaults(handler=_cmd_open)
+
+    p = sub.add_parser(
+        "import", help="import floors and openings from a schedule (.csv or .xlsx)"
+    )
+    p.add_argument("schedule", help="schedule spreadsheet (.csv or .xlsx)")
+    p.add_argument("--into", required=True, metavar="FILE", help="building file to update")
+    p.add_argument("--map", metavar="MAPPING.json", help="column mapping (header -> field)")
+    p.add_argument(
+        "--mode", choices=("merge", "replace"), default="merge",
+        help="merge: update matching ids and add new ones (default); replace: replace all openings",
+    )
+    p.add_argument(
+        "--accept-valid", action="store_true",
+        help="import the valid rows even when other rows have problems",
+    )
+    p.set_defaults(handler=_cmd_import)
+
+    p = sub.add_parser("template", help="write a blank opening schedule (.csv or .xlsx)")
+    p.add_argument("out", metavar="OUT", help="OUT.csv or OUT.xlsx")
+    p.add_argument(
+        "--units", choices=("metric", "imperial"), default="metric",
+        help="header units: metric (m, mm) or imperial (ft, in)",
+    )
+    p.set_defaults(handler=_cmd_template)
+
+    p = sub.add_parser(
+        "report",
+        help="write the PDF audit (or CSV/JSON results), optionally a tenant leaflet",
+        description="Assess FILE and write the audit report. Indicative model only.",
+    )
+    p.add_argument("file", help="building file (.json)")
+    p.add_argument("-o", "--output", required=True, help="output file (.pdf, .csv or .json)")
+    p.add_argument("--format", choices=("pdf", "csv", "json"), default=None,
+                   help="output format (default: from the output file's extension, else pdf)")
+    p.add_argument("--budget", type=float, default=None, metavar="AMOUNT",
+                   help="budget for the fix plan, in the control catalogue's currency")
+    p.add_argument("--leaflet", default=None, metavar="PDF", help="also write a tenant leaflet")
+    p.add_argument("--contact", default=None, metavar="TEXT",
+                   help="issuer's contact block: first line the organisation; separate lines "
+                   "with '|' or a newline")
+    p.add_argument("--samples", type=int, default=None, metavar="N", help="sampled cats")
+    p.add_argument("--seed", type=int, default=None, metavar="S", help="random seed")
+    p.add_argument("--top", type=int, default=5, metavar="N",
+                   help="openings with a detail page (default 5)")
+    p.set_defaults(handler=_cmd_report)
+
+    return parser
+
+
+def _cmd_import(args: argparse.Namespace) -> int:
+    from petfall_audit.cautions import CAUTIONS_SHORT
+    from petfall_audit.io.building_file import load_building, save_building, validate_building
+    from petfall_audit.io.schedule import (
+        apply_import,
+        combine_mapping,
+        guess_mapping,
+        header_units,
+        load_mapping,
+        preview_import,
+        read_table,
+    )
+
+    try:
+        building = load_building(Path(args.into))
+    except BuildingFileError as exc:
+        _print_problems(exc, args.into)
+        return EXIT_INVALID
+    table = read_table(Path(args.schedule))
+    mapping = guess_mapping(table.headers)
+    units = header_units(table.headers)
+    if args.map:
+        loaded = load_mapping(Path(args.map))
+        mapping = combine_mapping(mapping, loaded.columns)
+        units = {**units, **loaded.units}
+    preview = preview_import(table, mapping, building, units=units)
+    if preview.problems:
+        print(f"{args.schedule}: {len(preview.problems)} problem(s):", file=sys.stderr)
+        for problem in preview.problems:
+            print(f"  {problem}", file=sys.stderr)
+        if not args.accept_valid or not preview.openings:
+            hint = (
+                f"fix the rows above, or import the {len(preview.openings)} valid row(s) with "
+                "--accept-valid"
+                if preview.openings
+                else "fix the problems above (a mapping file may help: --map MAPPING.json)"
+            )
+            print(f"{args.schedule}: nothing imported; {hint}", file=sys.stderr)
+            return EXIT_INVALID
+    updated = apply_import(
+        building, preview, mode=args.mode, accept_valid_rows=args.accept_valid
+    )
+    after = validate_building(updated)
+    if after:  # never write a building file that would not load again
+        print(f"{args.into}: the imported building would have {len(after)} problem(s):",
+              file=sys.stderr)
+        for problem in after:
+            print(f"  {problem}", file=sys.stderr)
+        print(f"{args.into}: nothing imported", file=sys.stderr)
+        return EXIT_INVALID
+    save_building(updated, Path(args.into))
+    print(f"{args.schedule} -> {args.into} ({args.mode}): {preview.summary()}")
+    print(
+        f"{args.into}: {len(updated.floors)} floors, {len(updated.facades)} facades, "
+        f"{len(updated.openings)} openings"
+    )
+    print(CAUTIONS_SHORT)
+    return EXIT_OK
+
+
+def _cmd_template(args: argparse.Namespace) -> int:
+    from petfall_audit.io.template import template_headers, write_template
+
+    write_template(Path(args.out), system=args.units)
+    print(
+        f"{args.out}: blank {args.units} schedule, {len(template_headers(args.units))} columns "
+        "and one example row to replace"
+    )
+    return EXIT_OK
+
+
+def _cmd_report(args: argparse.Namespace) -> int:
+    from petfall_audit.errors import ReportError
+    from petfall_audit.io.building_file import load_building
+    from petfall_audit.plan import make_plan
+    from petfall_audit.report import (
+        ContactBlock,
+        ReportOptions,
+        export_results,
+        write_audit,
+        write_leaflet,
+    )
+    from petfall_audit.risk import assess
+    from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
+
+    suffix = Path(args.output).suffix.lower()
+    fmt = args.format or {".csv": "csv", ".json": "json"}.get(suffix, "pdf")
+    for name, value, low in (("--samples", args.samples, 1), ("--top", args.top, 0),
+                             ("--budget", args.budget, 0)):
+        if value is not None and value < low:
+            print(f"petfall-audit: {name} must be at least {low}", file=sys.stderr)
+            return EXIT_INVALID
+    try:
+        building = load_building(Path(args.file))
+    except BuildingFileError as exc:
+        _print_problems(exc, args.file)
+        return EXIT_INVALID
+    assessment = assess(
+        building,
+        samples=args.samples or DEFAULT_SAMPLES,
+        seed=DEFAULT_SEED if args.seed is None else args.seed,
+        progress=_stderr_progress("assessing"),
+    )
+    plan = make_plan(assessment, args.budget) if args.budget is not None else None
+    contact = ContactBlock.from_text(args.contact) if args.contact else ContactBlock()
+    try:
+        if fmt == "pdf":
+            written = [write_audit(assessment, plan, args.output, top_n=args.top,
+                                   options=ReportOptions(issuer=contact))]
+        else:
+            written = export_results(assessment, plan, args.output, fmt)
+        if args.leaflet:
+            written.append(write_leaflet(assessment, plan, args.leaflet, contact=contact))
+    except ReportError as exc:
+        print(f"petfall-audit: {exc}", file=sys.stderr)
+        return EXIT_FAILURE
+    for path in written:
+        print(f"wrote {path}")
+    return EXIT_OK
+
+
+def _cmd_open(args: argparse.Namespace) -> int:
+    from petfall_audit.gui.app import run_app  # the only place the CLI reaches Qt
+
+    return run_app(Path(args.file) if getattr(args, "file", None) else None)
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    """Run the command line with ``argv`` (default ``sys.argv[1:]``); return the exit code."""
+    parser = _build_parser()
+    argv = list(sys.argv[1:] if argv is None else argv)
+    try:
+        args = parser.parse_args(argv)
+    except SystemExit as exc:  # argparse exits 2 on bad arguments, 0 on --help
+        return int(exc.code or 0)
+    if args.command is None:
+        return _cmd_open(argparse.Namespace(file=None))
+    try:
+        return int(args.handler(args))
+    except PetfallError as exc:
+        print(f"petfall-audit: {exc}", file=sys.stderr)
+        return EXIT_INVALID
+    except OSError as exc:
+        print(f"petfall-audit: {exc.strerror or exc}: {exc.filename or ''}", file=sys.stderr)
+        return EXIT_FAILURE
+
+
+if __name__ == "__main__":  # pragma: no cover
+    raise SystemExit(main())

@@ -1,0 +1,239 @@
+"""An assessment as a JSON-ready dict, a CSV text or a terminal table.
+
+Openings are listed in band order (``rank``). Floats are rounded to 4 significant digits so the
+same seed gives byte-identical output. Units: metres, metres per second, probabilities 0..1,
+severity index in g. Every output carries the cautions.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import math
+from typing import Any
+
+from petfall_audit import __version__
+from petfall_audit.cautions import CAUTIONS, CAUTIONS_SHORT
+from petfall_audit.injury import BANDS
+from petfall_audit.model import CatProfile, Distribution, Fixed, LogNormal, Normal, Uniform
+from petfall_audit.risk import Assessment, OpeningResult, Percentiles
+
+__all__ = [
+    "SIGNIFICANT_DIGITS",
+    "assessment_to_dict",
+    "assessment_to_csv",
+    "assessment_to_table",
+    "profile_to_dict",
+]
+
+SIGNIFICANT_DIGITS = 4
+
+
+def _r(x: float) -> float | None:
+    """Round to :data:`SIGNIFICANT_DIGITS` significant digits; ``None`` for NaN or infinity."""
+    x = float(x)
+    if not math.isfinite(x):
+        return None
+    r = float(f"{x:.{SIGNIFICANT_DIGITS}g}")
+    return 0.0 if r == 0 else r  # no "-0.0"
+
+
+def _pct(p: Percentiles) -> dict[str, float | None]:
+    return {"p5": _r(p.p5), "p50": _r(p.p50), "p95": _r(p.p95)}
+
+
+def _dist(d: Distribution) -> dict[str, Any]:
+    if isinstance(d, Fixed):
+        return {"type": "fixed", "value": _r(d.value)}
+    if isinstance(d, Normal):
+        return {"type": "normal", "mean": _r(d.mean), "sd": _r(d.sd)}
+    if isinstance(d, LogNormal):
+        return {"type": "lognormal", "mean": _r(d.mean), "sd": _r(d.sd)}
+    if isinstance(d, Uniform):
+        return {"type": "uniform", "min": _r(d.min), "max": _r(d.max)}
+    raise TypeError(f"unknown distribution {d!r}")
+
+
+def profile_to_dict(profile: CatProfile) -> dict[str, Any]:
+    """The cat profile as plain JSON values (SI units)."""
+    return {
+        "preset": profile.preset,
+        "mass_kg": _dist(profile.mass_kg),
+        "cda_tense_m2": _dist(profile.cda_tense_m2),
+        "cda_spread_m2": _dist(profile.cda_spread_m2),
+        "relax_probability": _r(profile.relax_probability),
+        "relax_fraction": _dist(profile.relax_fraction),
+        "righting_time_s": _dist(profile.righting_time_s),
+        "launch_speed_mps": _dist(profile.launch_speed_mps),
+    }
+
+
+def _opening(o: OpeningResult) -> dict[str, Any]:
+    return {
+        "id": o.id,
+        "floor": o.floor,
+        "facade": o.facade,
+        "kind": str(o.kind),
+        "rank": o.rank,
+        "risk_rank": o.risk_rank,
+        "risk": _r(o.risk),
+        "expected_band": BANDS[o.expected_band],
+        "expected_band_index": o.expected_band,
+        "expected_severity_g": _r(o.expected_severity_g),
+        "likelihood": _r(o.annual_probability),
+        "one_in_n": _r(o.one_in_n),
+        "drop_m": _pct(o.drop_m),
+        "impact_speed_mps": _pct(o.impact_speed_mps),
+        "landing": {k: _r(v) for k, v in o.landing.items()},
+        "bands": {name: _r(o.bands[name]) for name in BANDS},
+        "factors": list(o.factors),
+        "hazards": list(o.hazards),
+    }
+
+
+def _sensitivity(a: Assessment) -> dict[str, Any] | None:
+    s = a.sensitivity
+    if s is None:
+        return None
+    return {
+        "method": "one-at-a-time: each parameter at its 10th and 90th percentile "
+        "(relax_probability ±0.2), others as sampled, same seed",
+        "measure": "summed risk score of the top-risk openings",
+        "openings": list(s.opening_ids),
+        "base_risk": _r(s.base_risk),
+        "parameters": [
+            {
+                "parameter": w.parameter,
+                "unit": w.unit,
+                "low_value": _r(w.low_value),
+                "high_value": _r(w.high_value),
+                "risk_low": _r(w.risk_low),
+                "risk_high": _r(w.risk_high),
+                "swing": _r(w.swing),
+            }
+            for w in s.swings
+        ],
+    }
+
+
+def assessment_to_dict(a: Assessment) -> dict[str, Any]:
+    """The assessment as JSON-ready values: building, cat profile, sample count, seed, model
+    version, the openings in band order, the sensitivity summary (or ``None``), cautions."""
+    info = a.building.info
+    t = a.thresholds
+    return {
+        "software_version": __version__,
+        "model_version": a.model_version,
+        "building": {
+            "name": info.name,
+            "address": info.address,
+            "audit_date": info.audit_date,
+            "auditor": info.auditor,
+            "site_altitude_m": _r(info.site_altitude_m),
+            "air_temperature_c": _r(info.air_temperature_c),
+        },
+        "cat_profile": profile_to_dict(a.building.cat_profile),
+        "samples": a.samples,
+        "seed": a.seed,
+        "air_density_kg_m3": _r(float(a.falls.rho_kg_m3)),
+        "bands": list(BANDS),
+        "band_thresholds_g": {
+            "moderate": _r(t.moderate_g),
+            "serious": _r(t.serious_g),
+            "life-threatening": _r(t.life_threatening_g),
+        },
+        "ranking": "rank: expected band (worst band reached by at least half of the falls), "
+        "then likelihood; risk_rank: HHSRS-style risk score",
+        "openings": [_opening(o) for o in a.ranked("band")],
+        "sensitivity": _sensitivity(a),
+        "cautions": list(CAUTIONS),
+    }
+
+
+_CSV_COLUMNS = (
+    "rank", "risk_rank", "id", "floor", "facade", "kind", "expected_band", "expected_severity_g",
+    *(f"p_{name}" for name in BANDS), "likelihood", "one_in_n", "risk",
+    "drop_m_p5", "drop_m_p50", "drop_m_p95",
+    "impact_speed_mps_p5", "impact_speed_mps_p50", "impact_speed_mps_p95",
+    "main_landing", "factors", "hazards",
+)
+
+
+def assessment_to_csv(a: Assessment) -> str:
+    """One row per opening in band order; the cautions first, as ``#`` comment lines."""
+    buf = io.StringIO()
+    for line in CAUTIONS:
+        buf.write(f"# {line}\n")
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow(_CSV_COLUMNS)
+    for o in a.ranked("band"):
+        main = next(iter(o.landing), "")
+        w.writerow([
+            o.rank, o.risk_rank, o.id, o.floor, o.facade, str(o.kind), BANDS[o.expected_band],
+            _r(o.expected_severity_g), *(_r(o.bands[name]) for name in BANDS),
+            _r(o.annual_probability), _r(o.one_in_n), _r(o.risk),
+            _r(o.drop_m.p5), _r(o.drop_m.p50), _r(o.drop_m.p95),
+            _r(o.impact_speed_mps.p5), _r(o.impact_speed_mps.p50), _r(o.impact_speed_mps.p95),
+            main, "; ".join(o.factors), "; ".join(o.hazards),
+        ])
+    return buf.getvalue()
+
+
+def _whole_percents(shares: list[float]) -> list[int]:
+    """Shares (summing to 1) as whole percentages summing to 100 (largest remainder)."""
+    raw = [100.0 * s for s in shares]
+    out = [math.floor(r) for r in raw]
+    by_remainder = sorted(range(len(raw)), key=lambda i: (out[i] - raw[i], i))
+    for i in by_remainder[: max(0, 100 - sum(out))]:
+        out[i] += 1
+    return out
+
+
+def _one_in(n: float) -> str:
+    if not math.isfinite(n) or n >= 1e5:
+        return "rare"
+    return f"1 in {n:,.0f}"
+
+
+def assessment_to_table(a: Assessment, *, by: str = "band", limit: int | None = None) -> str:
+    """A readable fixed-width table, worst first (``by`` ``"band"`` or ``"risk"``), with the
+    hazards and the cautions below it. ``limit`` shows only the first rows."""
+    rows = a.ranked("risk" if by == "risk" else "band")
+    shown = rows if limit is None else rows[:limit]
+    head = ("Rank", "Opening", "Floor", "Facade", "Expected band", "Min/Mod/Ser/Life %",
+            "Speed m/s", "Drop m", "Per year", "Risk")
+    body = []
+    for o in shown:
+        pct = "/".join(str(p) for p in _whole_percents([o.bands[n] for n in BANDS]))
+        body.append((
+            str(o.risk_rank if by == "risk" else o.rank), o.id, str(o.floor), o.facade,
+            BANDS[o.expected_band], pct, f"{o.impact_speed_mps.p50:.1f}", f"{o.drop_m.p50:.1f}",
+            _one_in(o.one_in_n), f"{o.risk:,.0f}",
+        ))
+    widths = [max(len(h), *(len(r[i]) for r in body)) if body else len(h)
+              for i, h in enumerate(head)]
+    right = {0, 2, 6, 7, 9}
+
+    def fmt(cells: tuple[str, ...]) -> str:
+        return "  ".join(c.rjust(w) if i in right else c.ljust(w)
+                         for i, (c, w) in enumerate(zip(cells, widths, strict=True))).rstrip()
+
+    info = a.building.info
+    lines = [
+        f"{info.name}: {len(a.openings)} openings, {a.samples} cats sampled (seed {a.seed}), "
+        f"{a.model_version}",
+        "Ranked by " + ("risk score" if by == "risk" else "expected injury band, then likelihood"),
+        "",
+        fmt(head),
+        fmt(tuple("-" * w for w in widths)),
+        *(fmt(r) for r in body),
+    ]
+    if limit is not None and len(rows) > limit:
+        lines.append(f"... {len(rows) - limit} more openings")
+    hazards = [(o.id, h) for o in shown for h in o.hazards]
+    if hazards:
+        lines += ["", "Other hazards:"]
+        lines += [f"  {oid}: {h}" for oid, h in hazards]
+    lines += ["", "Speed and drop are medians; 'Per year' is the chance of a fall in 12 months.",
+              "", CAUTIONS_SHORT, ""]
+    return "\n".join(lines)
