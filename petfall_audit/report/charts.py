@@ -1,0 +1,234 @@
+"""Vector charts (reportlab.graphics) drawn from :mod:`petfall_audit.figures` data.
+
+Every band fill is paired with its text mark so a grey printout still reads. Sizes in points.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+from reportlab.graphics.shapes import Drawing, Line, PolyLine, Rect, String
+from reportlab.lib import colors
+
+from petfall_audit.figures import FacadeElevation, FallProfileFigure, FloorComparison
+from petfall_audit.palette import band_style, band_styles, rgb
+from petfall_audit.report.fonts import fonts, plain
+from petfall_audit.report.styles import INK, MUTED, RULE
+
+__all__ = [
+    "facade_drawing",
+    "facade_scales",
+    "floor_chart",
+    "fall_profile_drawing",
+    "band_legend",
+    "colour",
+]
+
+
+def colour(hex_colour: str) -> colors.Color:
+    """``#RRGGBB`` as a reportlab colour."""
+    return colors.Color(*rgb(hex_colour))
+
+
+def _nice_step(span: float, target: int = 5) -> float:
+    if span <= 0 or not math.isfinite(span):
+        return 1.0
+    raw = span / target
+    mag = float(10.0 ** math.floor(math.log10(raw)))
+    for m in (1, 2, 2.5, 5, 10):
+        if raw <= m * mag:
+            return m * mag
+    return 10 * mag
+
+
+def _text(x: float, y: float, text: str, size: float = 7, *, anchor: str = "start",
+          colour_: colors.Color = INK, bold: bool = False) -> String:
+    f = fonts()
+    return String(x, y, plain(text), fontName=f.bold if bold else f.regular, fontSize=size,
+                  fillColor=colour_, textAnchor=anchor)
+
+
+def band_legend(band_names: tuple[str, ...], width: float, palette: str = "standard") -> Drawing:
+    """One row: a swatch with its mark and the band name for every band."""
+    d = Drawing(width, 16)
+    cell = width / max(len(band_names), 1)
+    for i, name in enumerate(band_names):
+        st = band_style(i, palette)
+        x = i * cell
+        d.add(Rect(x, 2, 22, 12, fillColor=colour(st.fill), strokeColor=INK, strokeWidth=0.4))
+        d.add(_text(x + 11, 5, st.mark, 6.5, anchor="middle", colour_=colour(st.text), bold=True))
+        d.add(_text(x + 26, 5, name, 7.5))
+    return d
+
+
+_FACADE_LABEL_W, _FACADE_PAD = 46.0, 6.0
+
+
+def _facade_span(elev: FacadeElevation) -> tuple[float, float]:
+    span_x = max(elev.length_m, float(np.max(elev.x_m + elev.width_m, initial=0.0)), 1.0)
+    return span_x, max(elev.roof_m - elev.ground_m, 1.0)
+
+
+def facade_scales(elev: FacadeElevation, width: float, max_height: float) -> tuple[float, float]:
+    """Vertical and horizontal scale (pt per m) of an elevation. At most 20 pt/m, so a small
+    building is not blown up; a tall, narrow facade is stretched sideways up to 4× so its
+    openings stay legible (the caption says so)."""
+    span_x, span_y = _facade_span(elev)
+    fit_x = (width - _FACADE_LABEL_W - _FACADE_PAD) / span_x
+    sy = min(fit_x, (max_height - 2 * _FACADE_PAD) / span_y, 20.0)
+    sx = max(min(fit_x, 4.0 * sy), sy) if sy < 20.0 else sy
+    return sy, sx
+
+
+def facade_drawing(elev: FacadeElevation, width: float, max_height: float,
+                   palette: str = "standard", label_ranks_upto: int = 10) -> Drawing:
+    """Elevation of one facade: floors, every opening filled and marked by its band; the worst
+    ``label_ranks_upto`` openings carry their rank number."""
+    label_w, pad = _FACADE_LABEL_W, _FACADE_PAD
+    span_x, span_y = _facade_span(elev)
+    scale, sx = facade_scales(elev, width, max_height)
+    h = span_y * scale + 2 * pad
+    d = Drawing(width, h)
+
+    def x_of(xm: float) -> float:
+        return label_w + xm * sx
+
+    def y_of(ym: float) -> float:
+        return pad + (ym - elev.ground_m) * scale
+
+    # building outline and ground
+    d.add(Rect(x_of(0), y_of(float(elev.floor_elevation_m.min(initial=elev.ground_m))),
+               elev.length_m * sx,
+               y_of(elev.roof_m) - y_of(float(elev.floor_elevation_m.min(initial=elev.ground_m))),
+               fillColor=colors.white, strokeColor=INK, strokeWidth=0.8))
+    d.add(Line(label_w - 4, y_of(elev.ground_m), x_of(span_x) + 4, y_of(elev.ground_m),
+               strokeColor=INK, strokeWidth=1.2))
+    # floor lines and labels, thinned so labels never overlap
+    every = max(1, math.ceil(9.0 / max(scale * float(np.median(np.diff(elev.floor_elevation_m)))
+                                        if elev.floor_elevation_m.size > 1 else 9.0, 1e-6)))
+    for i, (lab, ym) in enumerate(zip(elev.floor_labels, elev.floor_elevation_m, strict=True)):
+        d.add(Line(x_of(0), y_of(ym), x_of(elev.length_m), y_of(ym), strokeColor=RULE,
+                   strokeWidth=0.3))
+        if i % every == 0:
+            d.add(_text(label_w - 6, y_of(ym) + 1, lab[:10], 6, anchor="end", colour_=MUTED))
+    # openings
+    styles = band_styles(palette)
+    none = band_style(None, palette)
+    for i in range(len(elev.opening_ids)):
+        b = int(elev.band[i])
+        st = styles[b] if 0 <= b < len(styles) else none
+        x0, y0 = x_of(float(elev.x_m[i])), y_of(float(elev.bottom_m[i]))
+        w = float(elev.width_m[i]) * sx
+        hh = (float(elev.top_m[i]) - float(elev.bottom_m[i])) * scale
+        d.add(Rect(x0, y0, w, hh, fillColor=colour(st.fill), strokeColor=INK, strokeWidth=0.35))
+        g = float(elev.guard_m[i])
+        if math.isfinite(g):  # balcony rail
+            d.add(Line(x0 - 1, y_of(g), x0 + w + 1, y_of(g), strokeColor=INK, strokeWidth=0.9))
+        rank = int(elev.rank[i])
+        text = st.mark
+        if 0 < rank <= label_ranks_upto:
+            text = f"{st.mark} #{rank}"
+        size = min(6.5, hh * 0.7, w / max(len(text), 1) * 1.6)
+        if size >= 3.0:
+            d.add(_text(x0 + w / 2, y0 + hh / 2 - size * 0.35, text, size, anchor="middle",
+                        colour_=colour(st.text), bold=True))
+    return d
+
+
+def floor_chart(fc: FloorComparison, width: float, max_height: float,
+                palette: str = "standard") -> Drawing:
+    """Per floor (top floor at the top): openings stacked by expected band, and the floor's
+    highest median impact speed at the right."""
+    n = len(fc.levels)
+    label_w, right_w, top_pad, bottom_pad = 48.0, 70.0, 14.0, 22.0
+    row = max(4.0, min(14.0, (max_height - top_pad - bottom_pad) / max(n, 1)))
+    h = n * row + top_pad + bottom_pad
+    d = Drawing(width, h)
+    plot_w = width - label_w - right_w
+    max_count = int(fc.n_openings.max(initial=1)) or 1
+    step = _nice_step(max_count, 5)
+    xmax = math.ceil(max_count / step) * step
+    scale = plot_w / xmax
+    every = max(1, math.ceil(8.0 / row))
+    styles = band_styles(palette)
+    for t in np.arange(0, xmax + step / 2, step):
+        x = label_w + t * scale
+        d.add(Line(x, bottom_pad, x, bottom_pad + n * row, strokeColor=RULE, strokeWidth=0.3))
+        d.add(_text(x, bottom_pad - 9, f"{t:g}", 6.5, anchor="middle", colour_=MUTED))
+    d.add(_text(label_w + plot_w / 2, 2, "openings on the floor, by expected injury band", 7,
+                anchor="middle", colour_=MUTED))
+    d.add(_text(width - 2, bottom_pad + n * row + 4, "max median impact", 6.5, anchor="end",
+                colour_=MUTED))
+    for i in range(n):
+        y = bottom_pad + i * row
+        x = label_w
+        for b in range(fc.band_counts.shape[1]):
+            c = int(fc.band_counts[i, b])
+            if c == 0:
+                continue
+            st = styles[b]
+            w = c * scale
+            d.add(Rect(x, y + row * 0.12, w, row * 0.76, fillColor=colour(st.fill),
+                       strokeColor=INK, strokeWidth=0.3))
+            size = min(6.0, row * 0.6)
+            if w >= len(st.mark) * size * 0.7 and size >= 3.5:
+                d.add(_text(x + w / 2, y + row / 2 - size * 0.35, st.mark, size, anchor="middle",
+                            colour_=colour(st.text), bold=True))
+            x += w
+        if i % every == 0 or i == n - 1:
+            d.add(_text(label_w - 4, y + row / 2 - 2.2, fc.labels[i][:10], 6.5, anchor="end",
+                        colour_=MUTED))
+            v = float(fc.max_impact_p50_mps[i])
+            if math.isfinite(v):
+                d.add(_text(width - 2, y + row / 2 - 2.2, f"{v:.1f} m/s", 6.5, anchor="end"))
+    return d
+
+
+def _panel(d: Drawing, x0: float, y0: float, w: float, h: float, t: np.ndarray, y: np.ndarray,
+           *, xlabel: str, ylabel: str, marker_t: float | None) -> None:
+    tmax = float(t.max(initial=0.0)) or 1.0
+    ymax = float(np.nanmax(y)) if y.size else 1.0
+    ymax = ymax if ymax > 0 else 1.0
+    xs, ys = _nice_step(tmax, 5), _nice_step(ymax, 4)
+    xtop, ytop = math.ceil(tmax / xs) * xs, math.ceil(ymax / ys) * ys
+    for v in np.arange(0, ytop + ys / 2, ys):
+        yy = y0 + v / ytop * h
+        d.add(Line(x0, yy, x0 + w, yy, strokeColor=RULE, strokeWidth=0.3))
+        d.add(_text(x0 - 3, yy - 2.2, f"{v:g}", 6.5, anchor="end", colour_=MUTED))
+    for v in np.arange(0, xtop + xs / 2, xs):
+        xx = x0 + v / xtop * w
+        d.add(Line(xx, y0, xx, y0 - 2, strokeColor=INK, strokeWidth=0.4))
+        d.add(_text(xx, y0 - 10, f"{v:g}", 6.5, anchor="middle", colour_=MUTED))
+    d.add(Line(x0, y0, x0 + w, y0, strokeColor=INK, strokeWidth=0.6))
+    d.add(Line(x0, y0, x0, y0 + h, strokeColor=INK, strokeWidth=0.6))
+    if marker_t is not None and 0 <= marker_t <= xtop:
+        xx = x0 + marker_t / xtop * w
+        line = Line(xx, y0, xx, y0 + h, strokeColor=MUTED, strokeWidth=0.6)
+        line.strokeDashArray = [2, 2]
+        d.add(line)
+        d.add(_text(xx + 2, y0 + h - 8, "spreads out", 6, colour_=MUTED))
+    pts: list[float] = []
+    for ti, yi in zip(t.tolist(), y.tolist(), strict=True):
+        pts += [x0 + ti / xtop * w, y0 + yi / ytop * h]
+    d.add(PolyLine(pts, strokeColor=INK, strokeWidth=1.2))
+    d.add(_text(x0 + w / 2, y0 - 20, xlabel, 7, anchor="middle"))
+    d.add(_text(x0, y0 + h + 5, ylabel, 7, colour_=INK))
+
+
+def fall_profile_drawing(fig: FallProfileFigure, width: float, height: float = 150) -> Drawing:
+    """Two panels side by side: speed (m/s) and height above the landing (m) against time (s)."""
+    d = Drawing(width, height)
+    gap, left = 30.0, 26.0
+    w = (width - 2 * left - gap) / 2
+    t = np.asarray(fig.t_s)
+    # thin long series: a few hundred points draw smoothly
+    stride = max(1, t.size // 300)
+    idx = np.r_[np.arange(0, t.size, stride), t.size - 1] if t.size else np.arange(0)
+    _panel(d, left, 26, w, height - 40, t[idx], np.asarray(fig.speed_mps)[idx],
+           xlabel="time since leaving the perch (s)", ylabel="speed (m/s)",
+           marker_t=fig.switch_time_s)
+    _panel(d, 2 * left + w + gap, 26, w, height - 40, t[idx], np.asarray(fig.height_m)[idx],
+           xlabel="time since leaving the perch (s)", ylabel="height above landing (m)",
+           marker_t=fig.switch_time_s)
+    return d

@@ -1,0 +1,619 @@
+"""The report service: an assessment and a plan turned into plain strings and numbers.
+
+Layout code (``sections``, ``charts``, ``leaflet``) only places what this module returns; every
+number is formatted here. Strings are plain text (user text untouched); the layout escapes them.
+Units: speeds in m/s (0.1), heights in m (0.1), costs to the unit of the plan's currency.
+"""
+
+from __future__ import annotations
+
+import datetime as _dt
+import math
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass, field
+from typing import TYPE_CHECKING, Any
+
+from petfall_audit.cautions import CAUTIONS, CAUTIONS_SHORT
+from petfall_audit.model import CatProfile, Distribution, Fixed, LogNormal, Normal, Uniform
+
+if TYPE_CHECKING:
+    from petfall_audit.plan import Plan
+    from petfall_audit.risk import Assessment
+
+__all__ = [
+    "ContactBlock",
+    "ReportOptions",
+    "RankedRow",
+    "PlanRow",
+    "DetailContext",
+    "AuditContext",
+    "LeafletContext",
+    "build_audit_context",
+    "build_leaflet_context",
+    "fmt_speed",
+    "fmt_length",
+    "fmt_percent",
+    "fmt_money",
+    "fmt_one_in",
+    "fmt_risk",
+    "kind_label",
+]
+
+_KIND_LABELS = {
+    "balcony": "Balcony",
+    "terrace": "Roof terrace",
+    "gallery": "Access gallery",
+    "window_casement": "Casement window",
+    "window_sliding": "Sliding window",
+    "window_hung": "Hung sash window",
+    "window_tilt_turn": "Tilt-and-turn window",
+    "window_top_hung": "Top-hung window",
+    "fixed": "Fixed glazing",
+}
+
+
+# --- options ------------------------------------------------------------------------------------
+
+
+@dataclass(frozen=True, slots=True)
+class ContactBlock:
+    """Who issues a leaflet or report: shown literally, empty fields left out. The keys match
+    the app's contact settings (organisation, person, phone, email, website, note)."""
+
+    organisation: str = ""
+    person: str = ""
+    address: str = ""
+    phone: str = ""
+    email: str = ""
+    website: str = ""
+    note: str = ""
+
+    @classmethod
+    def from_text(cls, text: str) -> ContactBlock:
+        """A contact from free text: the first line is the organisation, the rest the address
+        block (a literal ``\\n`` or ``|`` also breaks lines, for the command line)."""
+        parts = [p.strip() for p in text.replace("\\n", "\n").replace("|", "\n").splitlines()]
+        parts = [p for p in parts if p]
+        if not parts:
+            return cls()
+        return cls(organisation=parts[0], address="\n".join(parts[1:]))
+
+    @classmethod
+    def from_mapping(cls, values: Mapping[str, str]) -> ContactBlock:
+        """A contact from a mapping such as the app's contact settings; unknown keys ignored."""
+        known = {k: str(v) for k, v in values.items() if k in cls.__dataclass_fields__}
+        return cls(**known)
+
+    def lines(self) -> tuple[str, ...]:
+        """Non-empty lines, organisation first."""
+        vals = [self.organisation, self.person, *self.address.splitlines(), self.phone,
+                self.email, self.website, *self.note.splitlines()]
+        return tuple(v for v in (x.strip() for x in vals) if v)
+
+    @property
+    def is_empty(self) -> bool:
+        return not self.lines()
+
+
+@dataclass(frozen=True, slots=True)
+class ReportOptions:
+    """Options of the audit report. ``generated_on``: ISO date, default today. ``scope``: free
+    text; a default scope sentence is written when empty."""
+
+    top_n: int = 5
+    scope: str = ""
+    palette: str = "standard"
+    generated_on: str = ""
+    issuer: ContactBlock = field(default_factory=ContactBlock)
+
+
+# --- formatting ---------------------------------------------------------------------------------
+
+
+def _as_exported(x: float) -> float:
+    """``x`` rounded as the JSON/CSV export rounds it, so printed and exported numbers agree."""
+    from petfall_audit.io.results_export import SIGNIFICANT_DIGITS
+
+    return float(f"{x:.{SIGNIFICANT_DIGITS}g}")
+
+
+def fmt_speed(v_mps: float) -> str:
+    """Speed to 0.1 m/s (no unit), rounded from the exported value."""
+    return "–" if not math.isfinite(v_mps) else f"{_as_exported(v_mps):.1f}"
+
+
+def fmt_length(x_m: float) -> str:
+    """Length to 0.1 m (no unit), rounded from the exported value."""
+    return "–" if not math.isfinite(x_m) else f"{_as_exported(x_m):.1f}"
+
+
+def fmt_percent(p: float) -> str:
+    """A probability 0..1 as a whole percentage, "<1%" for small non-zero values."""
+    if not math.isfinite(p):
+        return "–"
+    if 0 < p < 0.005:
+        return "<1%"
+    return f"{p * 100:.0f}%"
+
+
+def fmt_money(amount: float, currency: str = "") -> str:
+    """Amount to the unit with thousands separators, currency code after it."""
+    if not math.isfinite(amount):
+        return "–"
+    text = f"{amount:,.0f}"
+    return f"{text} {currency}".strip()
+
+
+def fmt_one_in(n: float) -> str:
+    """Annual likelihood as "1 in N" with N rounded to two significant figures."""
+    if not math.isfinite(n) or n <= 0:
+        return "negligible"
+    if n < 10:
+        return f"1 in {n:.1f}".replace(".0", "")
+    digits = int(math.floor(math.log10(n))) - 1
+    rounded = round(n, -digits)
+    return f"1 in {rounded:,.0f}"
+
+
+def fmt_risk(score: float) -> str:
+    """Risk score: whole numbers from 10 up, three significant figures below."""
+    if not math.isfinite(score):
+        return "–"
+    if abs(score) >= 10:
+        return f"{score:,.0f}"
+    return f"{score:.3g}"
+
+
+def kind_label(kind: object) -> str:
+    """Plain-words label of an opening kind."""
+    key = str(getattr(kind, "value", kind))
+    return _KIND_LABELS.get(key, key.replace("_", " ").capitalize())
+
+
+def _dist_text(d: Distribution, unit: str, fmt: str = ".2f") -> str:
+    if isinstance(d, Fixed):
+        return f"{d.value:{fmt}} {unit}"
+    if isinstance(d, Normal):
+        return f"normal, mean {d.mean:{fmt}} {unit}, sd {d.sd:{fmt}}"
+    if isinstance(d, LogNormal):
+        return f"log-normal, mean {d.mean:{fmt}} {unit}, sd {d.sd:{fmt}}"
+    if isinstance(d, Uniform):
+        return f"uniform {d.min:{fmt}}–{d.max:{fmt}} {unit}"
+    return str(d)
+
+
+# --- rows ---------------------------------------------------------------------------------------
+
+
+@dataclass(frozen=True, slots=True)
+class RankedRow:
+    """One line of the ranked table. ``band`` indexes ``injury.BANDS``."""
+
+    rank: str
+    floor: str
+    opening_id: str
+    kind: str
+    drop_m: str
+    v_p5: str
+    v_p50: str
+    v_p95: str
+    band_probs: tuple[str, ...]
+    band: int
+    band_name: str
+    likelihood: str
+    risk: str
+    control: str
+    cost: str
+
+
+@dataclass(frozen=True, slots=True)
+class PlanRow:
+    opening_id: str
+    control: str
+    cost: str
+    risk_before: str
+    risk_after: str
+    conditions: tuple[str, ...]
+
+
+@dataclass(frozen=True, slots=True)
+class DetailContext:
+    """One top opening's detail page. ``facts``: (label, value) pairs."""
+
+    opening_id: str
+    title: str
+    band: int
+    facts: tuple[tuple[str, str], ...]
+    band_probs: tuple[tuple[str, str], ...]
+    factors: tuple[str, ...]
+    hazards: tuple[str, ...]
+    code_notes: tuple[str, ...]
+    control: str
+    notes: str
+
+
+@dataclass(frozen=True, slots=True)
+class AuditContext:
+    """Everything the audit layout prints, as strings."""
+
+    title: str
+    building_name: str
+    address: str
+    auditor: str
+    audit_date: str
+    generated_on: str
+    scope: str
+    notes: str
+    header: str
+    footer: str
+    cover_facts: tuple[tuple[str, str], ...]
+    band_names: tuple[str, ...]
+    band_counts: tuple[tuple[str, int], ...]
+    summary: tuple[str, ...]
+    top_risks: tuple[tuple[str, str, str, str], ...]
+    method: tuple[tuple[str, str], ...]
+    assumptions: tuple[tuple[str, str], ...]
+    sources: tuple[str, ...]
+    ranked: tuple[RankedRow, ...]
+    details: tuple[DetailContext, ...]
+    plan_summary: tuple[str, ...]
+    plan_rows: tuple[PlanRow, ...]
+    cautions: tuple[str, ...]
+    limits: tuple[str, ...]
+    signoff: tuple[str, ...]
+    issuer: tuple[str, ...]
+    font_note: str
+
+
+@dataclass(frozen=True, slots=True)
+class LeafletContext:
+    building_name: str
+    address: str
+    high_floor_text: str
+    building_actions: tuple[str, ...]
+    contact: tuple[str, ...]
+    date: str
+
+
+# --- builders -----------------------------------------------------------------------------------
+
+
+def _band_names() -> tuple[str, ...]:
+    from petfall_audit.injury import BANDS
+
+    return tuple(str(b) for b in BANDS)
+
+
+def _plan_by_opening(plan: Plan | None) -> dict[str, Any]:
+    if plan is None:
+        return {}
+    return {a.opening_id: a for a in plan.actions}
+
+
+def _floor_labels(assessment: Assessment) -> dict[int, str]:
+    return {f.level: f.label or str(f.level) for f in assessment.building.floors}
+
+
+def _ranked_rows(assessment: Assessment, plan: Plan | None, bands: tuple[str, ...]
+                 ) -> tuple[RankedRow, ...]:
+    actions = _plan_by_opening(plan)
+    currency = getattr(plan, "currency", "") if plan is not None else ""
+    labels = _floor_labels(assessment)
+    rows = []
+    for o in assessment.ranked("risk"):
+        act = actions.get(o.id)
+        rows.append(
+            RankedRow(
+                rank=str(o.risk_rank),
+                floor=labels.get(o.floor, str(o.floor)),
+                opening_id=o.id,
+                kind=kind_label(o.kind),
+                drop_m=fmt_length(o.drop_m.p50),
+                v_p5=fmt_speed(o.impact_speed_mps.p5),
+                v_p50=fmt_speed(o.impact_speed_mps.p50),
+                v_p95=fmt_speed(o.impact_speed_mps.p95),
+                band_probs=tuple(fmt_percent(float(o.bands.get(b, 0.0))) for b in bands),
+                band=int(o.expected_band),
+                band_name=bands[int(o.expected_band)] if 0 <= o.expected_band < len(bands) else "",
+                likelihood=fmt_one_in(float(o.one_in_n)),
+                risk=fmt_risk(float(o.risk)),
+                control=act.control_name if act is not None else "",
+                cost=fmt_money(float(act.cost), currency) if act is not None else "",
+            )
+        )
+    return tuple(rows)
+
+
+def _landing_text(landing: dict[str, float]) -> str:
+    """Landing elements with their share of the falls, most likely first."""
+    if not landing:
+        return "–"
+    return ", ".join(f"{name} {fmt_percent(float(p))}" for name, p in landing.items())
+
+
+def _code_notes(assessment: Assessment, opening_id: str) -> tuple[str, ...]:
+    try:
+        from petfall_audit.guard_rules import why_code_compliant_is_not_cat_safe
+    except ImportError:  # pragma: no cover - optional module
+        return ()
+    return tuple(why_code_compliant_is_not_cat_safe(assessment.building.opening(opening_id)))
+
+
+def _details(assessment: Assessment, plan: Plan | None, top_n: int, bands: tuple[str, ...]
+             ) -> tuple[DetailContext, ...]:
+    actions = _plan_by_opening(plan)
+    currency = getattr(plan, "currency", "") if plan is not None else ""
+    labels = _floor_labels(assessment)
+    out = []
+    for o in assessment.ranked("risk")[: max(top_n, 0)]:
+        op = assessment.building.opening(o.id)
+        act = actions.get(o.id)
+        facts = (
+            ("Floor", labels.get(o.floor, str(o.floor))),
+            ("Facade", str(o.facade)),
+            ("Kind", kind_label(o.kind)),
+            ("Rail top or sill above floor", f"{fmt_length(op.perch_height_m)} m"),
+            ("Drop p5 / p50 / p95", f"{fmt_length(o.drop_m.p5)} / {fmt_length(o.drop_m.p50)} / "
+                                    f"{fmt_length(o.drop_m.p95)} m"),
+            ("Impact speed p5 / p50 / p95",
+             f"{fmt_speed(o.impact_speed_mps.p5)} / {fmt_speed(o.impact_speed_mps.p50)} / "
+             f"{fmt_speed(o.impact_speed_mps.p95)} m/s"),
+            ("Landing", _landing_text(dict(o.landing))),
+            ("Likelihood of a fall (12 months)",
+             f"{fmt_one_in(float(o.one_in_n))} ({fmt_percent(float(o.annual_probability))})"),
+            ("Risk score (rank)", f"{fmt_risk(float(o.risk))} (#{o.risk_rank})"),
+            ("Expected band", bands[o.expected_band] if 0 <= o.expected_band < len(bands) else "–"),
+        )
+        control = ""
+        if act is not None:
+            cost = fmt_money(float(act.cost), currency)
+            before, after = fmt_risk(float(act.risk_before)), fmt_risk(float(act.risk_after))
+            control = f"{act.control_name} — indicative cost {cost}; risk {before} → {after}"
+        out.append(
+            DetailContext(
+                opening_id=o.id,
+                title=f"#{o.risk_rank}  {o.id} — {kind_label(o.kind)}, "
+                      f"{labels.get(o.floor, str(o.floor))}",
+                band=int(o.expected_band),
+                facts=facts,
+                band_probs=tuple((b, fmt_percent(float(o.bands.get(b, 0.0)))) for b in bands),
+                factors=tuple(str(f) for f in o.factors),
+                hazards=tuple(str(h) for h in o.hazards),
+                code_notes=_code_notes(assessment, o.id),
+                control=control,
+                notes=op.notes,
+            )
+        )
+    return tuple(out)
+
+
+def _plan_parts(plan: Plan | None) -> tuple[tuple[str, ...], tuple[PlanRow, ...]]:
+    if plan is None:
+        return (("No budget was given, so no fix plan was made.",), ())
+    cur = plan.currency
+    before, after = float(plan.risk_before), float(plan.risk_after)
+    cut = (1 - after / before) if before > 0 else 0.0
+    summary = (
+        f"Budget {fmt_money(float(plan.budget), cur)}; the plan spends "
+        f"{fmt_money(float(plan.total_cost), cur)} on {len(plan.actions)} control(s).",
+        f"Total risk score {fmt_risk(before)} before and {fmt_risk(after)} after "
+        f"({fmt_percent(cut)} lower).",
+    )
+    rows = tuple(
+        PlanRow(
+            opening_id=a.opening_id,
+            control=a.control_name,
+            cost=fmt_money(float(a.cost), cur),
+            risk_before=fmt_risk(float(a.risk_before)),
+            risk_after=fmt_risk(float(a.risk_after)),
+            conditions=tuple(str(c) for c in a.conditions),
+        )
+        for a in plan.actions
+    )
+    return summary, rows
+
+
+def _method(assessment: Assessment) -> tuple[tuple[str, str], ...]:
+    return (
+        ("Fall physics",
+         "Vertical fall with quadratic air drag, solved in closed form: from rest the speed after "
+         "a drop h is v = v_t·√(1 − exp(−2gh/v_t²)), with terminal speed v_t = √(2mg/(ρ·C_d·A)); "
+         "a cat that spreads out changes to a lower terminal speed part-way down (Taylor, "
+         "Classical Mechanics, 2005, §2.4; checked against a numerical integrator)."),
+        ("Where the cat lands",
+         "The cat leaves the rail top or sill with a small outward speed; its outward travel "
+         "decides whether a balcony, canopy or podium below catches it, which sets the drop."),
+        ("Air density",
+         "ICAO / ISO 2533 standard atmosphere at the site altitude, corrected to the design air "
+         "temperature with the ideal-gas law."),
+        ("Injury bands",
+         "Severity follows the mean deceleration v²/(2s), with the stopping distance s set by the "
+         "landing surface and whether the cat has turned feet-down. Band thresholds borrow the "
+         "playground-surfacing limits (EN 1177, ASTM F1292: 200 g with a 4.6 kg headform, close "
+         "to a cat's mass) as an analogy. Severity never falls with height."),
+        ("Likelihood",
+         "Annual chance that a resident cat gets out and falls, from access (cats present, how "
+         "often open), the barrier's effect on a cat rather than a child, perch invitations and "
+         "window type; shown as \"1 in N over 12 months\"."),
+        ("Risk score",
+         "An adaptation of the Housing Health and Safety Rating System (England): harm-class "
+         "weights applied to the injury-band probabilities, divided by the likelihood N. The "
+         "adaptation to cats is ours; scores rank openings and are not HHSRS categories."),
+        ("Uncertainty",
+         f"{assessment.samples:,} sampled cats (seed {assessment.seed}), the same cats for every "
+         f"opening so differences between openings are not noise; percentiles p5, p50, p95. "
+         f"Model version {assessment.model_version}."),
+    )
+
+
+def _assumptions(profile: CatProfile, assessment: Assessment) -> tuple[tuple[str, str], ...]:
+    info = assessment.building.info
+    return (
+        ("Cat profile", profile.preset or "custom"),
+        ("Body mass", _dist_text(profile.mass_kg, "kg", ".1f")),
+        ("C_d·A tense", _dist_text(profile.cda_tense_m2, "m²", ".3f")),
+        ("C_d·A spread out", _dist_text(profile.cda_spread_m2, "m²", ".3f")),
+        ("Chance of spreading out", fmt_percent(profile.relax_probability)),
+        ("Spreads out at (fraction of tense terminal speed)",
+         _dist_text(profile.relax_fraction, "", ".2f").strip()),
+        ("Righting time", _dist_text(profile.righting_time_s, "s", ".2f")),
+        ("Outward launch speed", _dist_text(profile.launch_speed_mps, "m/s", ".1f")),
+        ("Site altitude / design air temperature",
+         f"{info.site_altitude_m:.0f} m / {info.air_temperature_c:.0f} °C "
+         f"(air density {float(assessment.falls.rho_kg_m3):.3f} kg/m³)"),
+    )
+
+
+SOURCES: tuple[str, ...] = (
+    "Candela Andrade et al. 2025, J Feline Med Surg (1125 cats, Berlin): mean mass 4.1 kg; "
+    "severity linked to height and surface; 74 % landed on hard ground.",
+    "Vnuk et al. 2004, J Feline Med Surg 6:305 (119 cats, Zagreb): more severe and more chest "
+    "injuries from the 7th storey up.",
+    "Karabağlı et al., Pak Vet J (160 cats, Istanbul): injury score rose steadily with height.",
+    "Merbl et al. 2013, Isr J Vet Med 68:28 (107 cats): survival falls with height.",
+    "ISO 2533:1975 standard atmosphere; EN 1177:2018 and ASTM F1292 playground surfacing limits "
+    "(HIC 1000, 200 g, 4.6 kg headform).",
+    "Housing Health and Safety Rating System (Housing Act 2004, England): harm-class weights and "
+    "the \"1 in N over 12 months\" likelihood.",
+    "Guard rules for people (IBC 1015, Approved Document K): sized for children's heads "
+    "(about 100 mm), wider than an adult cat's skull (about 43 mm cranial width, Vet Sci "
+    "2021;8:161).",
+    "Tense and spread-out terminal speeds (about 24 and 17 m/s) and the relaxing point: common "
+    "practice, no source; adjustable in the cat profile.",
+)
+
+LIMITS: tuple[str, ...] = (
+    "Veterinary case series undercount cats killed outright and rely on owner-reported heights; "
+    "band probabilities inherit that bias.",
+    "There are no published cat-specific surface factors: lawn, soil and planting are treated as "
+    "one severity class softer than paving, water as uncertain (drowning).",
+    "Costs are indicative catalogue values; get quotes. Nets on high floors need wind-load design; "
+    "exterior changes may need the owner's or the governing body's permission.",
+    "The model does not see furniture moved next to a guard after the audit, a window left open "
+    "by a visitor, or a cat's individual habits.",
+)
+
+
+def _default_scope(assessment: Assessment) -> str:
+    b = assessment.building
+    kinds = sorted({kind_label(o.kind).lower() for o in b.openings})
+    return (
+        f"All {len(b.openings)} recorded openings ({', '.join(kinds)}) on {len(b.floors)} floors "
+        f"and {len(b.facades)} facade(s), assessed for the risk that a resident cat falls from "
+        f"them. Common areas, roofs without access and the building's structure are outside "
+        f"this audit."
+    )
+
+
+def build_audit_context(assessment: Assessment, plan: Plan | None, *,
+                        options: ReportOptions | None = None) -> AuditContext:
+    """Strings and numbers of the audit report for ``assessment`` and (optional) ``plan``."""
+    from petfall_audit.report.fonts import fonts
+
+    opts = options or ReportOptions()
+    info = assessment.building.info
+    bands = _band_names()
+    generated = opts.generated_on or _dt.date.today().isoformat()
+    date = info.audit_date or generated
+    counts = [0] * len(bands)
+    for o in assessment.openings:
+        if 0 <= o.expected_band < len(bands):
+            counts[o.expected_band] += 1
+    ranked = _ranked_rows(assessment, plan, bands)
+    by_risk = assessment.ranked("risk")
+    top = tuple(
+        (o.id, kind_label(o.kind), bands[o.expected_band] if 0 <= o.expected_band < len(bands)
+         else "–", fmt_risk(float(o.risk)))
+        for o in by_risk[: max(opts.top_n, 0)]
+    )
+    plan_summary, plan_rows = _plan_parts(plan)
+    worst_v = max((o.impact_speed_mps.p95 for o in assessment.openings), default=float("nan"))
+    summary = (
+        f"{len(assessment.openings)} openings assessed on "
+        f"{len(assessment.building.floors)} floors.",
+        f"The highest 95th-percentile impact speed is {fmt_speed(float(worst_v))} m/s.",
+        *plan_summary,
+    )
+    name = info.name or "Unnamed building"
+    header = f"{name} — cat fall risk audit — {date}"
+    return AuditContext(
+        title="Cat fall risk audit",
+        building_name=name,
+        address=info.address,
+        auditor=info.auditor,
+        audit_date=date,
+        generated_on=generated,
+        scope=opts.scope or _default_scope(assessment),
+        notes=info.notes,
+        header=header,
+        footer=CAUTIONS_SHORT,
+        cover_facts=(
+            ("Building", name),
+            ("Address", info.address or "–"),
+            ("Auditor", info.auditor or "–"),
+            ("Audit date", date),
+            ("Report generated", generated),
+            ("Openings / floors / facades",
+             f"{len(assessment.building.openings)} / {len(assessment.building.floors)} / "
+             f"{len(assessment.building.facades)}"),
+        ),
+        band_names=bands,
+        band_counts=tuple(zip(bands, counts, strict=True)),
+        summary=summary,
+        top_risks=top,
+        method=_method(assessment),
+        assumptions=_assumptions(assessment.building.cat_profile, assessment),
+        sources=SOURCES,
+        ranked=ranked,
+        details=_details(assessment, plan, opts.top_n, bands),
+        plan_summary=plan_summary,
+        plan_rows=plan_rows,
+        cautions=CAUTIONS,
+        limits=LIMITS,
+        signoff=("Audited by", "Signature", "Date", "Reviewed by", "Signature", "Date"),
+        issuer=opts.issuer.lines(),
+        font_note=fonts().note,
+    )
+
+
+def build_leaflet_context(assessment: Assessment, plan: Plan | None, *,
+                          contact: ContactBlock, date: str = "") -> LeafletContext:
+    """Plain-language strings of the tenant leaflet."""
+    info = assessment.building.info
+    actions: list[str] = []
+    if plan is not None and plan.actions:
+        names = sorted({_sentence_case(a.control_name) for a in plan.actions})
+        actions.append(
+            f"After a survey of every balcony and window, the building plans these measures: "
+            f"{_join(names)}."
+        )
+    else:
+        actions.append("The building has surveyed every balcony and window for fall risks to cats.")
+    actions.append("Ask before fitting nets or anything else to the outside of the building: "
+                   "some fittings need permission, and escape windows must stay usable.")
+    return LeafletContext(
+        building_name=info.name or "Your building",
+        address=info.address,
+        high_floor_text=(
+            "Cats are agile, but they fall. A cat can leap at a bird or insect, lose its footing "
+            "on a rail, or slip through a gap made for children's safety. Falls from higher "
+            "floors are not safer: in recent veterinary studies, injuries grew worse with height."
+        ),
+        building_actions=tuple(actions),
+        contact=contact.lines(),
+        date=date or info.audit_date or _dt.date.today().isoformat(),
+    )
+
+
+def _sentence_case(name: str) -> str:
+    """A catalogue name for use mid-sentence: first letter lowered unless it starts an acronym."""
+    if len(name) > 1 and name[0].isupper() and not name[1].isupper():
+        return name[0].lower() + name[1:]
+    return name
+
+
+def _join(items: Sequence[str]) -> str:
+    items = list(items)
+    if len(items) <= 1:
+        return "".join(items)
+    return ", ".join(items[:-1]) + " and " + items[-1]

@@ -1,0 +1,242 @@
+"""The PDF audit, the tenant leaflet, their formatting service and the exports."""
+
+from __future__ import annotations
+
+import io
+import json
+import re
+from dataclasses import replace
+
+import pytest
+from pypdf import PdfReader
+from reportlab.platypus import Paragraph, SimpleDocTemplate
+
+from petfall_audit.cautions import CAUTIONS
+from petfall_audit.report import context as rc
+from petfall_audit.report.context import ContactBlock
+from petfall_audit.report.fonts import fonts, markup, plain
+from petfall_audit.report.styles import audit_styles
+
+# --- formatting service (pure) ------------------------------------------------------------------
+
+
+def test_speed_and_length_round_to_a_tenth() -> None:
+    # Conventions: speeds to 0.1 m/s, heights to 0.1 m.
+    assert rc.fmt_speed(15.54) == "15.5"
+    assert rc.fmt_speed(9.96) == "10.0"
+    assert rc.fmt_length(3.04) == "3.0"
+    assert rc.fmt_speed(float("nan")) == "–"
+
+
+def test_percent_keeps_small_probabilities_visible() -> None:
+    assert rc.fmt_percent(0.0) == "0%"
+    assert rc.fmt_percent(0.004) == "<1%"
+    assert rc.fmt_percent(0.256) == "26%"
+    assert rc.fmt_percent(1.0) == "100%"
+
+
+def test_money_to_the_unit_with_currency() -> None:
+    assert rc.fmt_money(12345.6, "EUR") == "12,346 EUR"
+    assert rc.fmt_money(0, "") == "0"
+
+
+def test_one_in_n_two_significant_figures() -> None:
+    # HHSRS writes likelihood as "1 in N over 12 months" (research-facts §8).
+    assert rc.fmt_one_in(1234.0) == "1 in 1,200"
+    assert rc.fmt_one_in(56.0) == "1 in 56"
+    assert rc.fmt_one_in(3.0) == "1 in 3"
+    assert rc.fmt_one_in(float("inf")) == "negligible"
+
+
+def test_risk_score_precision() -> None:
+    assert rc.fmt_risk(1234.4) == "1,234"
+    assert rc.fmt_risk(0.012345) == "0.0123"
+
+
+def test_kind_labels_are_plain_words() -> None:
+    assert rc.kind_label("window_tilt_turn") == "Tilt-and-turn window"
+    assert rc.kind_label("balcony") == "Balcony"
+
+
+def test_contact_block_from_text_and_settings() -> None:
+    c = ContactBlock.from_text("Cat Aid Eastside | 12 Invented Lane\\nSampletown | 0123 456")
+    assert c.lines() == ("Cat Aid Eastside", "12 Invented Lane", "Sampletown", "0123 456")
+    s = ContactBlock.from_mapping({"organisation": "Org", "person": "A. Person", "website": "w",
+                                   "unknown": "x"})
+    assert s.lines() == ("Org", "A. Person", "w")
+    assert ContactBlock().is_empty
+
+
+# --- user text is literal -----------------------------------------------------------------------
+
+NASTY = "Note <b>& </b> &amp; Ελληνικά Русский 北京市 東京タワー 서울 \"quoted\" 'x'"
+
+
+def test_markup_escapes_tags_and_entities() -> None:
+    m = markup("<b>&</b> &amp;")
+    assert "<b>" not in m and "&amp;amp;" in m and "&lt;b&gt;" in m
+
+
+def test_markup_wraps_cjk_runs_in_a_cjk_font() -> None:
+    m = markup("a 北京 b")
+    assert re.search(r'<font name="[^"]+">北京</font>', m)
+
+
+def test_plain_removes_control_characters() -> None:
+    assert plain("a\tb\nc\x00d") == "a b c d"
+
+
+def _pdf_text(data: bytes) -> str:
+    return "\n".join(p.extract_text() or "" for p in PdfReader(io.BytesIO(data)).pages)
+
+
+def test_nasty_text_renders_literally_in_a_paragraph() -> None:
+    buf = io.BytesIO()
+    SimpleDocTemplate(buf).build([Paragraph(markup(NASTY), audit_styles().body)])
+    text = _pdf_text(buf.getvalue())
+    for word in ("<b>&", "</b>", "&amp;", "Ελληνικά", "Русский"):
+        assert word in text
+    if not fonts().note:  # DejaVu found: Greek and Cyrillic glyphs are embedded
+        assert fonts().regular == "PetfallSans"
+
+
+# --- end to end with the real assessment --------------------------------------------------------
+
+SEED = 11
+SAMPLES = 600
+
+
+@pytest.fixture(scope="module")
+def walkup():  # type: ignore[no-untyped-def]
+    from petfall_audit.demo import sample_building
+    from petfall_audit.plan import make_plan
+    from petfall_audit.risk import assess
+
+    building = sample_building("walkup")
+    info = replace(building.info, notes=NASTY, auditor="Ζωή Петрова <QA>")
+    building = replace(building, info=info)
+    a = assess(building, samples=SAMPLES, seed=SEED)
+    return a, make_plan(a, 4000.0)
+
+
+@pytest.fixture(scope="module")
+def audit_text(walkup, tmp_path_factory) -> str:  # type: ignore[no-untyped-def]
+    from petfall_audit.report import write_audit
+
+    a, plan = walkup
+    path = write_audit(a, plan, tmp_path_factory.mktemp("audit") / "audit.pdf", top_n=3)
+    return _pdf_text(path.read_bytes())
+
+
+def _squash(text: str) -> str:
+    """Whitespace removed: extraction breaks lines where the layout wraps them."""
+    return re.sub(r"\s+", "", text)
+
+
+def test_audit_holds_every_opening_id(walkup, audit_text) -> None:  # type: ignore[no-untyped-def]
+    a, _ = walkup
+    words = set(audit_text.split())
+    missing = [o.id for o in a.building.openings if o.id not in words]
+    assert not missing  # ids sit whole in their own table cell, never wrapped
+
+
+def test_audit_holds_every_caution(audit_text) -> None:  # type: ignore[no-untyped-def]
+    squashed = _squash(audit_text)
+    for caution in CAUTIONS:
+        assert _squash(caution) in squashed
+
+
+def test_audit_speeds_equal_the_assess_json(walkup, audit_text) -> None:  # type: ignore[no-untyped-def]
+    # The ranked table prints p5 / p50 / p95 impact speeds to 0.1 m/s; they must be the
+    # numbers of the `assess` JSON export (same seed) formatted the same way.
+    from petfall_audit.io.results_export import assessment_to_dict
+
+    a, _ = walkup
+    doc = assessment_to_dict(a)
+    lines = [ln.strip() for ln in audit_text.splitlines()]
+    checked = 0
+    for o in doc["openings"]:
+        v = o["impact_speed_mps"]
+        want = [f"{v['p5']:.1f}", f"{v['p50']:.1f}", f"{v['p95']:.1f}"]
+        # a table row is extracted cell by cell: id, kind (one or two lines), drop, v p5/50/95
+        starts = [i for i, ln in enumerate(lines) if ln == o["id"]]
+        found = any(
+            lines[j : j + 3] == want for i in starts for j in range(i + 2, min(i + 6, len(lines)))
+        )
+        assert found, f"{o['id']}: {want} not in its table row"
+        checked += 1
+    assert checked == len(a.openings)
+
+
+def test_audit_user_text_is_literal(audit_text) -> None:  # type: ignore[no-untyped-def]
+    for word in ("<b>&", "</b>", "&amp;", "Ελληνικά", "Русский", "Петрова", "<QA>"):
+        assert word in audit_text
+
+
+def test_audit_has_page_x_of_y_and_sections(audit_text) -> None:  # type: ignore[no-untyped-def]
+    n = int(re.findall(r"Page 1 of (\d+)", audit_text)[0])
+    assert f"Page {n} of {n}" in audit_text
+    for heading in ("Summary", "Method and assumptions", "Facade:", "Floor comparison",
+                    "Ranked openings", "Fall profile", "Fix plan", "Sign-off", "Sources"):
+        assert heading in audit_text
+    assert "Vnuk et al. 2004" in audit_text and "Candela Andrade" in audit_text
+
+
+def test_audit_without_a_plan(walkup, tmp_path) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.report import write_audit
+
+    a, _ = walkup
+    path = write_audit(a, None, tmp_path / "a.pdf", top_n=0)
+    text = _pdf_text(path.read_bytes())
+    assert "No budget was given" in text
+    assert "Opening #" not in text  # no detail pages
+
+
+def test_leaflet_is_short_large_and_carries_the_contact(walkup, tmp_path) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.report import write_leaflet
+
+    a, plan = walkup
+    contact = ContactBlock(organisation="Cat Aid <Eastside> & Co", person="Ирина",
+                           phone="0123 456 789", note="東京 office")
+    path = write_leaflet(a, plan, tmp_path / "leaflet.pdf", contact=contact)
+    reader = PdfReader(path)
+    assert 1 <= len(reader.pages) <= 2
+    text = _pdf_text(path.read_bytes())
+    for part in ("Cat Aid <Eastside> & Co", "Ирина", "0123 456 789", a.building.info.name,
+                 "veterinarian", "even if it seems fine", "escape window"):
+        assert _squash(part) in _squash(text)
+    # large type: the body font is at least 14 pt
+    from petfall_audit.report.styles import leaflet_styles
+
+    assert leaflet_styles().body.fontSize >= 14
+
+
+def test_exports_json_and_csv(walkup, tmp_path) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.io.results_export import assessment_to_dict
+    from petfall_audit.report import export_results
+
+    a, plan = walkup
+    (jpath,) = export_results(a, plan, tmp_path / "r.json", "json")
+    doc = json.loads(jpath.read_text("utf-8"))
+    assert doc["results"] == json.loads(json.dumps(assessment_to_dict(a)))
+    assert len(doc["plan"]["actions"]) == len(plan.actions)
+    written = export_results(a, plan, tmp_path / "r.csv", "csv")
+    assert [p.name for p in written] == ["r.csv", "r-plan.csv"]
+    body = [ln for ln in written[0].read_text("utf-8").splitlines() if not ln.startswith("#")]
+    assert len(body) == 1 + len(a.openings)
+    with pytest.raises(ValueError):
+        export_results(a, plan, tmp_path / "r.x", "xml")  # type: ignore[arg-type]
+
+
+def test_a_failed_layout_leaves_no_file(walkup, tmp_path, monkeypatch) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.errors import ReportError
+    from petfall_audit.report import audit, write_audit
+
+    def broken(*args, **kwargs):  # type: ignore[no-untyped-def]
+        raise RuntimeError("boom")
+
+    monkeypatch.setattr(audit.sec, "build_signoff", broken)
+    target = tmp_path / "a.pdf"
+    with pytest.raises(ReportError):
+        write_audit(walkup[0], walkup[1], target)
+    assert not target.exists() and not list(tmp_path.iterdir())
