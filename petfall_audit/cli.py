@@ -194,6 +194,26 @@ def _build_parser() -> argparse.ArgumentParser:
                    help="openings with a detail page (default 5)")
     p.set_defaults(handler=_cmd_report)
 
+    p = sub.add_parser(
+        "plan",
+        help="choose the controls that remove the most risk within a budget",
+        description="Assess FILE and choose at most one control per opening so that the most "
+        "risk is removed within AMOUNT. Indicative costs and model only.",
+    )
+    p.add_argument("file", help="building file (.json)")
+    p.add_argument("--budget", type=float, required=True, metavar="AMOUNT",
+                   help="budget in the control catalogue's currency")
+    p.add_argument("--format", choices=("table", "json", "csv"), default="table",
+                   help="output format (default: table)")
+    p.add_argument("--samples", type=int, default=None, metavar="N",
+                   help="sampled cats (default 4000)")
+    p.add_argument("--seed", type=int, default=None, metavar="S", help="random seed (default 1)")
+    p.add_argument("--controls", default=None, metavar="FILE",
+                   help="control catalogue (.json; default: the shipped catalogue)")
+    p.add_argument("-o", "--output", default=None, metavar="OUT",
+                   help="write to OUT instead of standard output")
+    p.set_defaults(handler=_cmd_plan)
+
     return parser
 
 
@@ -315,6 +335,70 @@ def _cmd_report(args: argparse.Namespace) -> int:
         return EXIT_FAILURE
     for path in written:
         print(f"wrote {path}")
+    return EXIT_OK
+
+
+def _cmd_plan(args: argparse.Namespace) -> int:
+    import math
+    import os
+
+    from petfall_audit.fixes import load_catalogue
+    from petfall_audit.io.atomic import atomic_write_text
+    from petfall_audit.io.building_file import load_building
+    from petfall_audit.io.plan_export import plan_to_csv, plan_to_dict, plan_to_table
+    from petfall_audit.plan import make_plan
+    from petfall_audit.risk import assess
+    from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
+
+    if not math.isfinite(args.budget) or args.budget < 0:
+        print("petfall-audit: --budget must be an amount of 0 or more", file=sys.stderr)
+        return EXIT_INVALID
+    if args.samples is not None and args.samples < 1:
+        print("petfall-audit: --samples must be at least 1", file=sys.stderr)
+        return EXIT_INVALID
+    try:
+        building = load_building(Path(args.file))
+    except BuildingFileError as exc:
+        _print_problems(exc, args.file)
+        return EXIT_INVALID
+    try:
+        catalogue = load_catalogue(args.controls)
+    except OSError as exc:
+        print(f"petfall-audit: {args.controls}: {exc.strerror or exc}", file=sys.stderr)
+        return EXIT_INVALID
+    # The solver library may print diagnostics on the process's standard output; send them to
+    # stderr so that JSON or CSV on stdout stays clean.
+    sys.stdout.flush()
+    try:
+        saved_fd: int | None = os.dup(1)
+        os.dup2(2, 1)
+    except OSError:
+        saved_fd = None
+    try:
+        assessment = assess(
+            building,
+            samples=DEFAULT_SAMPLES if args.samples is None else args.samples,
+            seed=DEFAULT_SEED if args.seed is None else args.seed,
+            progress=_stderr_progress("assessing"),
+        )
+        plan = make_plan(assessment, args.budget, catalogue=catalogue)
+    finally:
+        if saved_fd is not None:
+            os.dup2(saved_fd, 1)
+            os.close(saved_fd)
+    if args.format == "json":
+        import json
+
+        text = json.dumps(plan_to_dict(plan), indent=2, ensure_ascii=False) + "\n"
+    elif args.format == "csv":
+        text = plan_to_csv(plan)
+    else:
+        text = plan_to_table(plan)
+    if args.output:
+        atomic_write_text(args.output, text)
+        print(f"wrote {args.output}")
+    else:
+        sys.stdout.write(text)
     return EXIT_OK
 
 

@@ -1,0 +1,632 @@
+"""The control catalogue and the per-opening options it gives.
+
+A control is data (``resources/controls.json``, editable by the user): where it applies (opening
+kinds, floor heights), its effect as changes to an :class:`~petfall_audit.model.Opening`'s
+fields (plus an optional likelihood multiplier for controls that change no field, such as tenant
+guidance), an indicative cost, the conflict rules that apply to it and its fixed conditions.
+The conflict rules live here in code, named by id in the data:
+
+``escape_window``
+    On an emergency escape window (``Opening.escape_window``) a control that is not releasable
+    (fixed limiter, fixed screen, permanent net) is a conflict and never offered; a releasable
+    one is offered with :data:`ESCAPE_CONDITION`.
+``wind_load``
+    On a floor higher than the catalogue's ``wind_rated_above_m`` (default 18 m): condition
+    :data:`WIND_CONDITION`.
+``exterior_permission``
+    Every change to the exterior: condition :data:`PERMISSION_CONDITION`.
+``fire_access``
+    On an access gallery (usually an escape route): condition :data:`FIRE_ACCESS_CONDITION`.
+
+The residual risk of opening *i* under control *c* is ``risk_score(likelihood(modified opening) ×
+multiplier, band_probabilities[i])``: a barrier changes the likelihood, never the severity. All
+(opening, control) pairs are evaluated as one list. Costs are in the catalogue's currency; heights
+in metres above the building's datum.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass, replace
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+
+from petfall_audit._resources import resource_path
+from petfall_audit.errors import PetfallError, Problem
+from petfall_audit.guard_rules import why_code_compliant_is_not_cat_safe
+from petfall_audit.likelihood import assess_likelihood
+from petfall_audit.model import (
+    BALCONY_LIKE,
+    Building,
+    OpenFrequency,
+    Opening,
+    OpeningKind,
+    Screen,
+)
+from petfall_audit.risk import Assessment, risk_score
+
+__all__ = [
+    "CATALOGUE_FORMAT",
+    "CATALOGUE_VERSION",
+    "HIERARCHY",
+    "RULES",
+    "ESCAPE_CONDITION",
+    "WIND_CONDITION",
+    "PERMISSION_CONDITION",
+    "FIRE_ACCESS_CONDITION",
+    "CatalogueError",
+    "Control",
+    "Catalogue",
+    "Candidate",
+    "Option",
+    "load_catalogue",
+    "parse_catalogue",
+    "opening_heights_m",
+    "candidates",
+    "opening_options",
+    "MIN_SHARE",
+    "recommend",
+    "recommendation_lines",
+]
+
+CATALOGUE_FORMAT = "petfall-audit-controls"
+CATALOGUE_VERSION = 1
+#: Hierarchy of controls, most effective first (ISO 45001:2018 8.1.2 order, adapted).
+HIERARCHY: tuple[str, ...] = ("remove", "engineer", "inform")
+
+ESCAPE_CONDITION = (
+    "Escape window: the device must release without a key or tool and keep the escape opening "
+    "the local code requires (IRC R310.4; Approved Document B) - check locally."
+)
+WIND_CONDITION = (
+    "High floor: wind-rated fixings designed by a competent person; check the fire-safety rules "
+    "for attachments on tall buildings (England: Building Regulations 2010 reg. 7(2), storeys at "
+    "18 m or more)."
+)
+PERMISSION_CONDITION = (
+    "Permission from the owner or the building's governing body (landlord, owners' association, "
+    "strata body) before changing the exterior."
+)
+FIRE_ACCESS_CONDITION = (
+    "Access gallery: keep fire-service access, the escape route and smoke vents clear; ask the "
+    "fire-safety adviser before enclosing or infilling it."
+)
+#: Conflict and condition rules that a control may name in ``conflicts``.
+RULES: tuple[str, ...] = ("escape_window", "wind_load", "exterior_permission", "fire_access")
+
+#: Opening fields a control may change, with the kind of value each takes.
+_EFFECT_FIELDS: dict[str, str] = {
+    "netting_mesh_mm": "mm",
+    "limiter_gap_mm": "mm",
+    "largest_gap_mm": "mm",
+    "bottom_gap_mm": "mm",
+    "screen": "screen",
+    "open_frequency": "frequency",
+    "climbable_infill": "bool",
+    "flat_rail_top": "bool",
+    "climbing_aids": "bool",
+}
+
+
+class CatalogueError(PetfallError):
+    """A control catalogue cannot be read; ``problems`` lists each located problem."""
+
+    def __init__(self, problems: Sequence[Problem], source: str = "") -> None:
+        self.problems = list(problems)
+        head = f"{source}: " if source else ""
+        super().__init__(
+            head + "invalid control catalogue:\n" + "\n".join(f"  {p}" for p in self.problems)
+        )
+
+
+@dataclass(frozen=True, slots=True)
+class Control:
+    """One control of the catalogue.
+
+    ``kinds``: opening kinds it applies to; ``min_height_m`` / ``max_height_m``: floor height
+    range above the datum (m, ``None`` = open). ``effect``: (field, value) pairs applied to the
+    opening; ``likelihood_multiplier``: extra factor on the yearly fall probability (1 = none).
+    ``releasable``: for devices, whether a person releases it by hand without key or tool
+    (``None`` for non-devices). Costs in the catalogue's currency: ``cost_fixed`` per opening,
+    ``cost_per_m_width`` per metre of opening width, ``cost_per_m2`` per square metre covered.
+    ``conflicts``: rule ids from :data:`RULES`; ``conditions``: text carried into every output.
+    """
+
+    id: str
+    name: str
+    hierarchy: str
+    description: str
+    kinds: frozenset[OpeningKind]
+    effect: tuple[tuple[str, Any], ...] = ()
+    likelihood_multiplier: float = 1.0
+    releasable: bool | None = None
+    min_height_m: float | None = None
+    max_height_m: float | None = None
+    cost_fixed: float = 0.0
+    cost_per_m_width: float = 0.0
+    cost_per_m2: float = 0.0
+    conflicts: tuple[str, ...] = ()
+    conditions: tuple[str, ...] = ()
+
+    def apply(self, opening: Opening) -> Opening:
+        """The opening as it would be with this control fitted."""
+        return replace(opening, **dict(self.effect)) if self.effect else opening
+
+
+@dataclass(frozen=True, slots=True)
+class Catalogue:
+    """The controls in catalogue order, their ``currency`` and the cost and rule settings.
+
+    ``enclosure_height_m``: height of a balcony enclosure for costing nets (m);
+    ``window_height_m``: window height for costing screens (m); ``wind_rated_above_m``: floor
+    height above which nets need wind-rated fixings (m).
+    """
+
+    controls: tuple[Control, ...]
+    currency: str = "EUR"
+    description: str = ""
+    enclosure_height_m: float = 2.4
+    window_height_m: float = 1.2
+    wind_rated_above_m: float = 18.0
+
+    def control(self, control_id: str) -> Control:
+        """The control with ``control_id``; ``KeyError`` if there is none."""
+        for c in self.controls:
+            if c.id == control_id:
+                return c
+        raise KeyError(control_id)
+
+    def cost(self, control: Control, opening: Opening) -> float:
+        """Indicative cost of ``control`` on ``opening`` in the catalogue's currency, to the cent.
+
+        Covered area: ``(width + 2 × projection) × enclosure_height_m`` for balconies, terraces
+        and galleries; ``width × window_height_m`` for windows."""
+        if opening.kind in BALCONY_LIKE:
+            area_m2 = (opening.width_m + 2.0 * opening.projection_m) * self.enclosure_height_m
+        else:
+            area_m2 = opening.width_m * self.window_height_m
+        total = (
+            control.cost_fixed
+            + control.cost_per_m_width * opening.width_m
+            + control.cost_per_m2 * area_m2
+        )
+        return round(total, 2)
+
+
+@dataclass(frozen=True, slots=True)
+class Option:
+    """One control offered for one opening.
+
+    ``cost`` in the catalogue's currency; ``risk_before`` / ``risk_after``: the opening's risk
+    score without and with the control (risk-score units of :mod:`petfall_audit.risk`);
+    ``conditions``: every condition that goes with it, in plain words. ``catalogue_index``: the
+    control's position in the catalogue (tie-breaks).
+    """
+
+    opening_id: str
+    control_id: str
+    control_name: str
+    cost: float
+    risk_before: float
+    risk_after: float
+    conditions: tuple[str, ...] = ()
+    hierarchy: str = "engineer"
+    catalogue_index: int = 0
+
+    @property
+    def risk_removed(self) -> float:
+        """Risk score the control removes at this opening."""
+        return self.risk_before - self.risk_after
+
+    @property
+    def share_removed(self) -> float:
+        """Share (0..1) of the opening's risk the control removes."""
+        return self.risk_removed / self.risk_before if self.risk_before > 0 else 0.0
+
+
+# --- loading -----------------------------------------------------------------------------------
+
+
+def _number(value: Any, where: str, problems: list[Problem], *, minimum: float = 0.0) -> float:
+    if isinstance(value, bool) or not isinstance(value, int | float) or not math.isfinite(value):
+        problems.append(Problem(where, f"expected a number, got {value!r}"))
+        return 0.0
+    if value < minimum:
+        problems.append(Problem(where, f"must be >= {minimum:g}, got {value!r}"))
+    return float(value)
+
+
+def _text(value: Any, where: str, problems: list[Problem], *, required: bool = True) -> str:
+    if not isinstance(value, str) or (required and not value.strip()):
+        problems.append(Problem(where, f"expected a non-empty text, got {value!r}"))
+        return ""
+    return value
+
+
+def _effect(raw: Any, where: str, problems: list[Problem]) -> tuple[tuple[str, Any], ...]:
+    if not isinstance(raw, Mapping):
+        problems.append(Problem(where, "expected an object of opening field changes"))
+        return ()
+    out: list[tuple[str, Any]] = []
+    for key, value in raw.items():
+        at = f"{where}.{key}"
+        kind = _EFFECT_FIELDS.get(key)
+        if kind is None:
+            problems.append(
+                Problem(
+                    at, f"not a field a control can change (one of {', '.join(_EFFECT_FIELDS)})"
+                )
+            )
+        elif kind == "mm":
+            out.append((key, None if value is None else _number(value, at, problems, minimum=1.0)))
+        elif kind == "bool":
+            if not isinstance(value, bool):
+                problems.append(Problem(at, f"expected true or false, got {value!r}"))
+            out.append((key, bool(value)))
+        else:
+            enum = Screen if kind == "screen" else OpenFrequency
+            try:
+                out.append((key, enum(value)))
+            except ValueError:
+                allowed = ", ".join(e.value for e in enum)
+                problems.append(Problem(at, f"expected one of {allowed}, got {value!r}"))
+    return tuple(out)
+
+
+def _control(raw: Any, where: str, problems: list[Problem]) -> Control | None:
+    if not isinstance(raw, Mapping):
+        problems.append(Problem(where, "expected an object"))
+        return None
+    cid = _text(raw.get("id"), f"{where}.id", problems)
+    hierarchy = raw.get("hierarchy")
+    if hierarchy not in HIERARCHY:
+        problems.append(
+            Problem(
+                f"{where}.hierarchy", f"expected one of {', '.join(HIERARCHY)}, got {hierarchy!r}"
+            )
+        )
+    applies = raw.get("applies_to", {})
+    kinds: set[OpeningKind] = set()
+    limits: dict[str, float | None] = {"min_height_m": None, "max_height_m": None}
+    if not isinstance(applies, Mapping):
+        problems.append(Problem(f"{where}.applies_to", "expected an object"))
+    else:
+        raw_kinds = applies.get("kinds")
+        if not isinstance(raw_kinds, list) or not raw_kinds:
+            problems.append(Problem(f"{where}.applies_to.kinds", "expected a non-empty list"))
+        else:
+            for j, k in enumerate(raw_kinds):
+                try:
+                    kinds.add(OpeningKind(k))
+                except ValueError:
+                    problems.append(
+                        Problem(f"{where}.applies_to.kinds[{j}]", f"unknown opening kind {k!r}")
+                    )
+        for key in limits:
+            if applies.get(key) is not None:
+                limits[key] = _number(applies[key], f"{where}.applies_to.{key}", problems)
+    cost = raw.get("cost")
+    costs = {"fixed": 0.0, "per_m_width": 0.0, "per_m2": 0.0}
+    if not isinstance(cost, Mapping):
+        problems.append(
+            Problem(f"{where}.cost", "expected an object with fixed, per_m_width, per_m2")
+        )
+    else:
+        for key in cost:
+            if key not in costs:
+                problems.append(Problem(f"{where}.cost.{key}", "unknown cost item"))
+        for key in costs:
+            if key in cost:
+                costs[key] = _number(cost[key], f"{where}.cost.{key}", problems)
+    conflicts = raw.get("conflicts", [])
+    if not isinstance(conflicts, list):
+        problems.append(Problem(f"{where}.conflicts", "expected a list of rule ids"))
+        conflicts = []
+    for j, rule_id in enumerate(conflicts):
+        if rule_id not in RULES:
+            problems.append(
+                Problem(
+                    f"{where}.conflicts[{j}]",
+                    f"unknown rule {rule_id!r} (one of {', '.join(RULES)})",
+                )
+            )
+    releasable = raw.get("releasable")
+    if releasable is not None and not isinstance(releasable, bool):
+        problems.append(
+            Problem(f"{where}.releasable", f"expected true, false or null, got {releasable!r}")
+        )
+        releasable = None
+    if "escape_window" in conflicts and releasable is None:
+        problems.append(
+            Problem(f"{where}.releasable", "required (true or false) with the escape_window rule")
+        )
+    conditions = raw.get("conditions", [])
+    if not isinstance(conditions, list):
+        problems.append(Problem(f"{where}.conditions", "expected a list of texts"))
+        conditions = []
+    texts = tuple(_text(c, f"{where}.conditions[{j}]", problems) for j, c in enumerate(conditions))
+    multiplier = _number(
+        raw.get("likelihood_multiplier", 1.0), f"{where}.likelihood_multiplier", problems
+    )
+    if multiplier > 1.0:
+        problems.append(Problem(f"{where}.likelihood_multiplier", "must be at most 1"))
+    return Control(
+        id=cid,
+        name=_text(raw.get("name"), f"{where}.name", problems),
+        hierarchy=str(hierarchy),
+        description=_text(
+            raw.get("description", ""), f"{where}.description", problems, required=False
+        ),
+        kinds=frozenset(kinds),
+        effect=_effect(raw.get("effect", {}), f"{where}.effect", problems),
+        likelihood_multiplier=multiplier,
+        releasable=releasable,
+        min_height_m=limits["min_height_m"],
+        max_height_m=limits["max_height_m"],
+        cost_fixed=costs["fixed"],
+        cost_per_m_width=costs["per_m_width"],
+        cost_per_m2=costs["per_m2"],
+        conflicts=tuple(str(c) for c in conflicts),
+        conditions=texts,
+    )
+
+
+def parse_catalogue(doc: Any, *, source: str = "") -> Catalogue:
+    """A :class:`Catalogue` from a parsed JSON document. Raises :class:`CatalogueError` listing
+    every problem with its place (``controls[3].cost.per_m_width: ...``)."""
+    problems: list[Problem] = []
+    if not isinstance(doc, Mapping) or doc.get("format") != CATALOGUE_FORMAT:
+        raise CatalogueError(
+            [Problem("format", f"not a control catalogue (expected {CATALOGUE_FORMAT!r})")], source
+        )
+    version = doc.get("version")
+    if version != CATALOGUE_VERSION:
+        raise CatalogueError(
+            [Problem("version", f"unsupported version {version!r} (expected {CATALOGUE_VERSION})")],
+            source,
+        )
+    currency = _text(doc.get("currency"), "currency", problems)
+    basis = doc.get("cost_basis", {})
+    settings = {"enclosure_height_m": 2.4, "window_height_m": 1.2}
+    if not isinstance(basis, Mapping):
+        problems.append(Problem("cost_basis", "expected an object"))
+    else:
+        for key in settings:
+            if key in basis:
+                settings[key] = _number(basis[key], f"cost_basis.{key}", problems)
+    wind_m = _number(doc.get("wind_rated_above_m", 18.0), "wind_rated_above_m", problems)
+    raw_controls = doc.get("controls")
+    controls: list[Control] = []
+    if not isinstance(raw_controls, list) or not raw_controls:
+        problems.append(Problem("controls", "expected a non-empty list"))
+    else:
+        seen: set[str] = set()
+        for i, raw in enumerate(raw_controls):
+            c = _control(raw, f"controls[{i}]", problems)
+            if c is None:
+                continue
+            if c.id in seen:
+                problems.append(Problem(f"controls[{i}].id", f"duplicate id {c.id!r}"))
+            seen.add(c.id)
+            controls.append(c)
+    if problems:
+        raise CatalogueError(problems, source)
+    return Catalogue(
+        controls=tuple(controls),
+        currency=currency,
+        description=str(doc.get("description", "")),
+        enclosure_height_m=settings["enclosure_height_m"],
+        window_height_m=settings["window_height_m"],
+        wind_rated_above_m=wind_m,
+    )
+
+
+def load_catalogue(path: str | Path | None = None) -> Catalogue:
+    """Read a control catalogue file (default: the shipped ``resources/controls.json``).
+
+    Raises :class:`CatalogueError` for a malformed file and ``OSError`` when it cannot be read."""
+    p = resource_path("controls.json") if path is None else Path(path)
+    text = p.read_text(encoding="utf-8")
+    try:
+        doc = json.loads(text)
+    except json.JSONDecodeError as exc:
+        raise CatalogueError([Problem(f"line {exc.lineno}", exc.msg)], p.name) from None
+    return parse_catalogue(doc, source=p.name)
+
+
+# --- applicability, conflicts, conditions ------------------------------------------------------
+
+
+def opening_heights_m(building: Building) -> np.ndarray:
+    """Floor height above the datum of each opening, in building order (m, (n,))."""
+    elevation = {f.level: f.elevation_m for f in building.floors}
+    try:
+        return np.array([elevation[o.floor] for o in building.openings], dtype=float)
+    except KeyError as exc:
+        raise ValueError(
+            f"building: an opening is on floor {exc.args[0]}, which is not listed"
+        ) from None
+
+
+@dataclass(frozen=True, slots=True)
+class Candidate:
+    """An allowed (opening, control) pair before its risk is known.
+
+    ``opening_index`` / ``control_index`` index the building's openings and the catalogue;
+    ``modified``: the opening with the control fitted; ``cost`` in the catalogue's currency."""
+
+    opening_index: int
+    control_index: int
+    modified: Opening
+    cost: float
+    conditions: tuple[str, ...]
+
+
+def _applies(
+    openings: Sequence[Opening], heights_m: np.ndarray, catalogue: Catalogue
+) -> np.ndarray:
+    """(n, m) mask: control j fits opening i by kind and height, and no conflict forbids it."""
+    kinds = np.array([o.kind.value for o in openings], dtype=str)
+    escape = np.array([o.escape_window for o in openings], dtype=bool)
+    h = np.asarray(heights_m, dtype=float)
+    mask = np.zeros((len(openings), len(catalogue.controls)), dtype=bool)
+    for j, c in enumerate(catalogue.controls):  # one vectorised column per control
+        col = np.isin(kinds, [k.value for k in c.kinds])
+        if c.min_height_m is not None:
+            col &= h >= c.min_height_m
+        if c.max_height_m is not None:
+            col &= h <= c.max_height_m
+        if "escape_window" in c.conflicts and c.releasable is False:
+            col &= ~escape  # never a fixed device or permanent net on an escape window
+        mask[:, j] = col
+    return mask
+
+
+def _conditions(o: Opening, height_m: float, c: Control, catalogue: Catalogue) -> tuple[str, ...]:
+    out: list[str] = []
+    if "escape_window" in c.conflicts and o.escape_window:
+        out.append(ESCAPE_CONDITION)
+    if "wind_load" in c.conflicts and height_m > catalogue.wind_rated_above_m:
+        out.append(WIND_CONDITION)
+    if "fire_access" in c.conflicts and o.kind is OpeningKind.GALLERY:
+        out.append(FIRE_ACCESS_CONDITION)
+    if "exterior_permission" in c.conflicts:
+        out.append(PERMISSION_CONDITION)
+    out.extend(c.conditions)
+    return tuple(out)
+
+
+def candidates(
+    openings: Sequence[Opening], heights_m: Sequence[float] | np.ndarray, catalogue: Catalogue
+) -> list[Candidate]:
+    """Every allowed (opening, control) pair that changes something, openings in the order given
+    and controls in catalogue order. Conflicting controls are left out; conditions attached."""
+    h = np.asarray(heights_m, dtype=float)
+    mask = _applies(openings, h, catalogue)
+    out: list[Candidate] = []
+    for i, j in zip(*np.nonzero(mask), strict=True):
+        o, c = openings[i], catalogue.controls[j]
+        modified = c.apply(o)
+        if modified == o and c.likelihood_multiplier == 1.0:
+            continue  # already in place: nothing to offer
+        out.append(
+            Candidate(
+                int(i),
+                int(j),
+                modified,
+                catalogue.cost(c, o),
+                _conditions(o, float(h[i]), c, catalogue),
+            )
+        )
+    return out
+
+
+# --- options and recommendations ---------------------------------------------------------------
+
+#: Share of an opening's risk a recommended control must remove, unless none does (see
+#: :func:`recommend`).
+MIN_SHARE = 0.9
+#: Relative tolerance under which a control is taken to remove no risk.
+_NO_GAIN_RTOL = 1e-9
+
+
+def opening_options(
+    assessment: Assessment, catalogue: Catalogue | None = None
+) -> dict[str, list[Option]]:
+    """Per opening id (building order, every opening present), the allowed options that lower its
+    risk, ranked by residual risk, then cost, then catalogue order. Conflicting controls are never
+    included."""
+    cat = load_catalogue() if catalogue is None else catalogue
+    building = assessment.building
+    openings = building.openings
+    result: dict[str, list[Option]] = {o.id: [] for o in openings}
+    cands = candidates(openings, opening_heights_m(building), cat)
+    if not cands:
+        return result
+    oi = np.array([c.opening_index for c in cands], dtype=np.intp)
+    ci = np.array([c.control_index for c in cands], dtype=np.intp)
+    mult = np.array([cat.controls[j].likelihood_multiplier for j in ci.tolist()])
+    lik = assess_likelihood([c.modified for c in cands], profile=building.cat_profile)
+    bands = np.asarray(assessment.band_probabilities, dtype=float)
+    after = np.asarray(
+        risk_score(np.asarray(lik.annual_probability) * mult, bands[oi]), dtype=float
+    )
+    before_all = np.asarray(assessment.risk, dtype=float)
+    before = before_all[oi]
+    useful = after < before * (1.0 - _NO_GAIN_RTOL)
+    cost = np.array([c.cost for c in cands], dtype=float)
+    rank = np.lexsort((ci, cost, after, oi))
+    for k in rank[useful[rank]].tolist():
+        cand, control = cands[k], cat.controls[ci[k]]
+        result[openings[cand.opening_index].id].append(
+            Option(
+                opening_id=openings[cand.opening_index].id,
+                control_id=control.id,
+                control_name=control.name,
+                cost=cand.cost,
+                risk_before=float(before[k]),
+                risk_after=float(after[k]),
+                conditions=cand.conditions,
+                hierarchy=control.hierarchy,
+                catalogue_index=int(ci[k]),
+            )
+        )
+    return result
+
+
+def recommend(
+    options: Mapping[str, Sequence[Option]], *, min_share: float = MIN_SHARE
+) -> dict[str, Option | None]:
+    """The recommended option per opening (``None`` where none is offered).
+
+    Rule: among the options that remove at least ``min_share`` of the opening's risk, the one with
+    the most risk removed per unit cost (a free option counts as best); if none removes that much,
+    the one that removes the most. Ties: lower residual risk, then cheaper, then catalogue order.
+    The share floor keeps a token measure (a leaflet) from beating a real barrier on ratio alone.
+    """
+    if not 0.0 <= min_share <= 1.0:
+        raise ValueError(f"min_share must be in [0, 1], got {min_share!r}")
+    out: dict[str, Option | None] = {}
+    for oid, opts in options.items():
+        if not opts:
+            out[oid] = None
+            continue
+        effective = [o for o in opts if o.share_removed >= min_share - 1e-12]
+        if effective:
+
+            def ratio(o: Option) -> float:
+                return math.inf if o.cost <= 0 else o.risk_removed / o.cost
+
+            out[oid] = min(
+                effective, key=lambda o: (-ratio(o), o.risk_after, o.cost, o.catalogue_index)
+            )
+        else:
+            out[oid] = min(opts, key=lambda o: (o.risk_after, o.cost, o.catalogue_index))
+    return out
+
+
+def recommendation_lines(
+    opening: Opening, option: Option | None, *, currency: str = "EUR"
+) -> list[str]:
+    """Plain-language recommendation for one opening: the control, its cost and residual risk,
+    its conditions, and why a code-compliant guard or window is not enough for a cat (with the
+    code and clause of each human rule)."""
+    lines: list[str] = []
+    if option is None:
+        lines.append(f"{opening.id}: no control in the catalogue applies or lowers the risk here.")
+    else:
+        lines.append(
+            f"{opening.id}: {option.control_name} - about {option.cost:,.0f} {currency}; risk "
+            f"{option.risk_before:.3g} -> {option.risk_after:.3g} "
+            f"({option.share_removed:.0%} less)."
+        )
+        lines.extend(f"Condition: {c}" for c in option.conditions)
+    reasons = why_code_compliant_is_not_cat_safe(opening)
+    if reasons:
+        lines.append("Why meeting the building code is not enough for a cat:")
+        lines.extend(f"- {r}" for r in reasons)
+    return lines

@@ -1,0 +1,137 @@
+"""The ``petfall-audit plan`` command and the plan exporters."""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+from pathlib import Path
+
+import pytest
+
+from petfall_audit._resources import resource_path, sample_path
+from petfall_audit.cautions import CAUTIONS
+from petfall_audit.cli import main
+from petfall_audit.io.plan_export import CSV_COLUMNS
+
+WALKUP = str(sample_path("walkup"))
+
+
+def _run(capsys: pytest.CaptureFixture[str], *argv: str) -> tuple[int, str, str]:
+    code = main(list(argv))
+    out, err = capsys.readouterr()
+    return code, out, err
+
+
+def test_json_has_the_promised_fields_and_respects_the_budget(capsys) -> None:  # type: ignore[no-untyped-def]
+    code, out, _ = _run(
+        capsys,
+        "plan",
+        WALKUP,
+        "--budget",
+        "600",
+        "--format",
+        "json",
+        "--samples",
+        "200",
+        "--seed",
+        "2",
+    )
+    assert code == 0
+    doc = json.loads(out)
+    for key in ("budget", "total_cost", "risk_before", "risk_after", "actions", "currency"):
+        assert key in doc
+    assert doc["budget"] == 600 and doc["total_cost"] <= 600
+    assert doc["risk_after"] < doc["risk_before"]
+    assert doc["actions"]
+    for action in doc["actions"]:
+        assert set(action) >= {
+            "opening",
+            "control",
+            "cost",
+            "risk_before",
+            "risk_after",
+            "conditions",
+        }
+        assert isinstance(action["conditions"], list)
+        assert all(isinstance(c, str) for c in action["conditions"])
+    assert doc["cautions"] == list(CAUTIONS)
+    assert sum(a["cost"] for a in doc["actions"]) == pytest.approx(doc["total_cost"])
+
+
+def test_table_and_csv_carry_the_cautions(capsys, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
+    code, out, _ = _run(capsys, "plan", WALKUP, "--budget", "300", "--samples", "200")
+    assert code == 0
+    assert "Fix plan: budget 300 EUR" in out
+    assert "Cautions:" in out and "veterinarian" in out
+    target = tmp_path / "plan.csv"
+    code, out, _ = _run(
+        capsys,
+        "plan",
+        WALKUP,
+        "--budget",
+        "300",
+        "--samples",
+        "200",
+        "--format",
+        "csv",
+        "-o",
+        str(target),
+    )
+    assert code == 0 and "wrote" in out
+    text = target.read_text(encoding="utf-8")
+    comments = [line for line in text.splitlines() if line.startswith("#")]
+    assert len(comments) == len(CAUTIONS)
+    rows = list(
+        csv.DictReader(
+            io.StringIO("\n".join(line for line in text.splitlines() if not line.startswith("#")))
+        )
+    )
+    assert rows and tuple(rows[0]) == CSV_COLUMNS
+    assert sum(float(r["cost"]) for r in rows) <= 300
+
+
+def test_user_catalogue_changes_currency_and_choice(capsys, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
+    doc = json.loads(resource_path("controls.json").read_text(encoding="utf-8"))
+    doc["currency"] = "GBP"
+    doc["controls"] = [c for c in doc["controls"] if c["id"] == "tenant_guidance"]
+    path = tmp_path / "controls.json"
+    path.write_text(json.dumps(doc), encoding="utf-8")
+    code, out, _ = _run(
+        capsys,
+        "plan",
+        WALKUP,
+        "--budget",
+        "1000",
+        "--format",
+        "json",
+        "--samples",
+        "100",
+        "--controls",
+        str(path),
+    )
+    assert code == 0
+    result = json.loads(out)
+    assert result["currency"] == "GBP"
+    assert {a["control"] for a in result["actions"]} == {"tenant_guidance"}
+
+
+def test_invalid_input_exits_2_with_a_located_message(capsys, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
+    code, _, err = _run(capsys, "plan", WALKUP, "--budget", "-5")
+    assert code == 2 and "--budget" in err
+    doc = json.loads(resource_path("controls.json").read_text(encoding="utf-8"))
+    doc["controls"][3]["cost"]["per_m_width"] = -1
+    bad = tmp_path / "bad.json"
+    bad.write_text(json.dumps(doc), encoding="utf-8")
+    code, _, err = _run(
+        capsys, "plan", WALKUP, "--budget", "10", "--samples", "50", "--controls", str(bad)
+    )
+    assert code == 2 and "controls[3].cost.per_m_width" in err
+    code, _, err = _run(
+        capsys, "plan", WALKUP, "--budget", "10", "--controls", str(tmp_path / "missing.json")
+    )
+    assert code == 2 and "missing.json" in err
+    code, _, err = _run(capsys, "plan", str(tmp_path / "nope.json"), "--budget", "10")
+    assert code == 2
+    code, _, _ = _run(capsys, "plan", WALKUP)  # --budget is required
+    assert code == 2
