@@ -1,16 +1,31 @@
 """petfall_audit: audit a residential building for the risk that a resident cat falls.
 
 The public API is listed in ``__all__``; everything else is private. Importing this package
-never imports Qt.
+never imports Qt, and the computation functions are loaded on first use so that
+``import petfall_audit`` stays light.
+
+Typical use::
+
+    from petfall_audit import load_building, assess, make_plan
+    building = load_building("sample_buildings/tower.json")
+    assessment = assess(building, samples=4000, seed=1)
+    plan = make_plan(assessment, budget=5000)
 """
 
 from __future__ import annotations
 
+from importlib import import_module
+from typing import Any
+
 from petfall_audit.errors import (
     BuildingFileError,
+    CatalogueError,
     FileFormatError,
     PetfallError,
+    PlanError,
     Problem,
+    ReportError,
+    ScheduleImportError,
     ValidationFailed,
 )
 from petfall_audit.model import (
@@ -28,6 +43,28 @@ from petfall_audit.model import (
 
 __version__ = "0.1.0"
 
+# Public name -> module that defines it (imported on first access).
+_LAZY: dict[str, str] = {
+    "load_building": "petfall_audit.io.building_file",
+    "save_building": "petfall_audit.io.building_file",
+    "parse_building": "petfall_audit.io.building_file",
+    "validate_building": "petfall_audit.io.building_file",
+    "air_density": "petfall_audit.physics",
+    "impact_speed": "petfall_audit.physics",
+    "fall_time": "petfall_audit.physics",
+    "fall_profile": "petfall_audit.physics",
+    "simulate_falls": "petfall_audit.physics",
+    "sample_cat_profile": "petfall_audit.sampling",
+    "BANDS": "petfall_audit.injury",
+    "assess": "petfall_audit.risk",
+    "Assessment": "petfall_audit.risk",
+    "MODEL_VERSION": "petfall_audit.risk",
+    "load_catalogue": "petfall_audit.fixes",
+    "make_plan": "petfall_audit.plan",
+    "Plan": "petfall_audit.plan",
+    "CAUTIONS": "petfall_audit.cautions",
+}
+
 __all__ = [
     "__version__",
     "Building",
@@ -42,7 +79,25 @@ __all__ = [
     "SurfaceKind",
     "PetfallError",
     "BuildingFileError",
+    "CatalogueError",
     "FileFormatError",
-    "ValidationFailed",
+    "PlanError",
     "Problem",
+    "ReportError",
+    "ScheduleImportError",
+    "ValidationFailed",
+    *_LAZY,
 ]
+
+
+def __getattr__(name: str) -> Any:
+    module = _LAZY.get(name)
+    if module is None:
+        raise AttributeError(f"module 'petfall_audit' has no attribute {name!r}")
+    value = getattr(import_module(module), name)
+    globals()[name] = value
+    return value
+
+
+def __dir__() -> list[str]:
+    return sorted(__all__)

@@ -340,7 +340,6 @@ def _cmd_report(args: argparse.Namespace) -> int:
 
 def _cmd_plan(args: argparse.Namespace) -> int:
     import math
-    import os
 
     from petfall_audit.fixes import load_catalogue
     from petfall_audit.io.atomic import atomic_write_text
@@ -366,26 +365,13 @@ def _cmd_plan(args: argparse.Namespace) -> int:
     except OSError as exc:
         print(f"petfall-audit: {args.controls}: {exc.strerror or exc}", file=sys.stderr)
         return EXIT_INVALID
-    # The solver library may print diagnostics on the process's standard output; send them to
-    # stderr so that JSON or CSV on stdout stays clean.
-    sys.stdout.flush()
-    try:
-        saved_fd: int | None = os.dup(1)
-        os.dup2(2, 1)
-    except OSError:
-        saved_fd = None
-    try:
-        assessment = assess(
-            building,
-            samples=DEFAULT_SAMPLES if args.samples is None else args.samples,
-            seed=DEFAULT_SEED if args.seed is None else args.seed,
-            progress=_stderr_progress("assessing"),
-        )
-        plan = make_plan(assessment, args.budget, catalogue=catalogue)
-    finally:
-        if saved_fd is not None:
-            os.dup2(saved_fd, 1)
-            os.close(saved_fd)
+    assessment = assess(
+        building,
+        samples=DEFAULT_SAMPLES if args.samples is None else args.samples,
+        seed=DEFAULT_SEED if args.seed is None else args.seed,
+        progress=_stderr_progress("assessing"),
+    )
+    plan = make_plan(assessment, args.budget, catalogue=catalogue)
     if args.format == "json":
         import json
 

@@ -6,6 +6,7 @@
     ├── BuildingFileError           a building file cannot be read into a model
     │   ├── FileFormatError         not a building file, or from a newer version
     │   └── ValidationFailed        a list of located problems (``.problems``)
+    ├── CatalogueError              a control catalogue cannot be read (``.problems``)
     ├── ScheduleImportError         a schedule spreadsheet cannot be imported
     ├── PlanError                   the budgeted fix plan cannot be solved
     └── ReportError                 a report or export cannot be written
@@ -22,11 +23,13 @@ __all__ = [
     "FileFormatError",
     "ValidationFailed",
     "Problem",
+    "CatalogueError",
     "ScheduleImportError",
     "PlanError",
     "ReportError",
 ]
 
+from collections.abc import Sequence
 from dataclasses import dataclass
 
 
@@ -59,6 +62,17 @@ class ValidationFailed(BuildingFileError):
     def __init__(self, problems: list[Problem]) -> None:
         self.problems = list(problems)
         super().__init__("\n".join(str(p) for p in self.problems))
+
+
+class CatalogueError(PetfallError):
+    """A control catalogue cannot be read; ``problems`` lists each located problem."""
+
+    def __init__(self, problems: Sequence[Problem], source: str = "") -> None:
+        self.problems = list(problems)
+        head = f"{source}: " if source else ""
+        super().__init__(
+            head + "invalid control catalogue:\n" + "\n".join(f"  {p}" for p in self.problems)
+        )
 
 
 class ScheduleImportError(PetfallError):

@@ -36,7 +36,7 @@ from typing import Any
 import numpy as np
 
 from petfall_audit._resources import resource_path
-from petfall_audit.errors import PetfallError, Problem
+from petfall_audit.errors import CatalogueError, Problem
 from petfall_audit.guard_rules import why_code_compliant_is_not_cat_safe
 from petfall_audit.likelihood import assess_likelihood
 from petfall_audit.model import (
@@ -110,17 +110,6 @@ _EFFECT_FIELDS: dict[str, str] = {
     "flat_rail_top": "bool",
     "climbing_aids": "bool",
 }
-
-
-class CatalogueError(PetfallError):
-    """A control catalogue cannot be read; ``problems`` lists each located problem."""
-
-    def __init__(self, problems: Sequence[Problem], source: str = "") -> None:
-        self.problems = list(problems)
-        head = f"{source}: " if source else ""
-        super().__init__(
-            head + "invalid control catalogue:\n" + "\n".join(f"  {p}" for p in self.problems)
-        )
 
 
 @dataclass(frozen=True, slots=True)

@@ -103,7 +103,11 @@ class CatsPresent(StrEnum):
 
 @dataclass(frozen=True, slots=True)
 class BuildingInfo:
-    """Who and what is audited. ``site_altitude_m`` above mean sea level; ``audit_date`` ISO 8601."""
+    """Who and what is audited.
+
+    ``site_altitude_m`` above mean sea level; ``air_temperature_c`` the design air temperature;
+    ``audit_date`` an ISO 8601 date or empty.
+    """
 
     name: str
     address: str = ""
@@ -260,7 +264,8 @@ class CatProfile:
 # - mean adult mass 4.1 kg among cats that fell: Candela Andrade et al. 2025, J Feline Med Surg;
 #   the spread (sd 1.1 kg, log-normal) is common practice, no source.
 # - tense / spread terminal speeds about 24 / 17 m/s, relaxing at about three quarters of the
-#   tense terminal speed: fact of the trade, no source. C_d·A follows from v_t = sqrt(2 m g / (rho C_d A))
+#   tense terminal speed: fact of the trade, no source. C_d·A follows from
+#   v_t = sqrt(2 m g / (rho C_d A))
 #   at 4.1 kg and rho = 1.225 kg/m³: 0.114 m² tense, 0.227 m² spread.
 # - righting time about 0.3 s: popular science, unverified (from memory).
 # - chance of relaxing and launch speeds: assumptions of this model (from memory), adjustable.

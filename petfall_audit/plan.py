@@ -25,7 +25,10 @@ gives the same plan.
 
 from __future__ import annotations
 
-from collections.abc import Mapping, Sequence
+import os
+import sys
+from collections.abc import Iterator, Mapping, Sequence
+from contextlib import contextmanager
 from dataclasses import dataclass
 
 import numpy as np
@@ -79,6 +82,27 @@ class Plan:
     def risk_removed(self) -> float:
         """Summed risk score the plan removes."""
         return self.risk_before - self.risk_after
+
+
+@contextmanager
+def _solver_chatter_to_stderr() -> Iterator[None]:
+    """Send what the compiled MILP solver prints on file descriptor 1 to stderr.
+
+    Some builds of the solver print diagnostic lines on the process's standard output, which
+    would corrupt JSON or CSV written there by the command line.
+    """
+    try:
+        sys.stdout.flush()
+        saved = os.dup(1)
+        os.dup2(2, 1)
+    except (OSError, ValueError):
+        yield
+        return
+    try:
+        yield
+    finally:
+        os.dup2(saved, 1)
+        os.close(saved)
 
 
 def _to_cents(values: np.ndarray) -> np.ndarray:
@@ -165,13 +189,14 @@ def solve_choice_knapsack(
     a = vstack([one_per_group, coo_array(c.astype(float)[None, :])]).tocsr()
     ub = np.concatenate([np.ones(groups.size), [float(budget_c)]])
     objective = -v * (_OBJECTIVE_SCALE / v.max())
-    res = milp(
-        objective,
-        integrality=np.ones(k),
-        bounds=Bounds(0.0, 1.0),
-        constraints=LinearConstraint(a, -np.inf, ub),
-        options={"mip_rel_gap": float(mip_rel_gap), "time_limit": float(time_limit_s)},
-    )
+    with _solver_chatter_to_stderr():
+        res = milp(
+            objective,
+            integrality=np.ones(k),
+            bounds=Bounds(0.0, 1.0),
+            constraints=LinearConstraint(a, -np.inf, ub),
+            options={"mip_rel_gap": float(mip_rel_gap), "time_limit": float(time_limit_s)},
+        )
     if res.status not in (0, 1) or res.x is None:
         raise PlanError(f"the fix plan could not be solved: {res.message}")
     gap = 0.0 if res.status == 0 else float(getattr(res, "mip_gap", np.nan))

@@ -43,13 +43,22 @@ def test_core_modules_do_not_import_qt() -> None:
     assert out.stdout.strip() == "", f"Qt imported outside gui/: {out.stdout.strip()}"
 
 
+_LINT = "from importlinter.cli import lint_imports_command; lint_imports_command()"
+
+
 def test_import_linter_contract_holds() -> None:
     """The same rule as an import-linter contract (pyproject.toml), which also sees lazy imports."""
     root = Path(__file__).resolve().parents[1]
     out = subprocess.run(
-        [sys.executable, "-c", "from importlinter.cli import lint_imports_command; lint_imports_command()"],
+        [sys.executable, "-c", _LINT],
         capture_output=True,
         text=True,
         cwd=root,
     )
     assert out.returncode == 0, out.stdout + out.stderr
+
+
+def test_public_api_resolves() -> None:
+    """Every name in ``__all__`` exists (the lazy ones are imported on first access)."""
+    for name in petfall_audit.__all__:
+        assert getattr(petfall_audit, name) is not None, name
