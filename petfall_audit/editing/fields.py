@@ -1,0 +1,290 @@
+"""What each editable field is, how it is shown and how typed text is read. No Qt.
+
+Forms and tables share these specs, so a value typed in either is read the same way. Lengths are
+shown in the display system (``"metric"`` or ``"imperial"``) and read with units
+(``42 in``, ``1.1 m``, ``3'6"``); a bare number takes the system's unit (m or ft for lengths,
+mm or in for gaps). Files and the model stay SI.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+from dataclasses import dataclass
+from enum import StrEnum
+from typing import Any
+
+from petfall_audit.model import (
+    CatsPresent,
+    OpenFrequency,
+    OpeningKind,
+    Screen,
+    SurfaceKind,
+)
+from petfall_audit.units import FOOT_M, INCH_M, parse_length_m
+
+__all__ = [
+    "FieldSpec",
+    "ENUM_LABELS",
+    "OPENING_FIELDS",
+    "FLOOR_FIELDS",
+    "FACADE_FIELDS",
+    "SURFACE_FIELDS",
+    "INFO_FIELDS",
+    "enum_label",
+    "field_spec",
+    "format_value",
+    "parse_value",
+    "format_speed",
+    "unit_hint",
+]
+
+ENUM_LABELS: dict[StrEnum, str] = {
+    OpeningKind.BALCONY: "Balcony",
+    OpeningKind.TERRACE: "Roof terrace",
+    OpeningKind.GALLERY: "Walkway / access gallery",
+    OpeningKind.WINDOW_CASEMENT: "Casement window",
+    OpeningKind.WINDOW_SLIDING: "Sliding window",
+    OpeningKind.WINDOW_HUNG: "Hung (sash) window",
+    OpeningKind.WINDOW_TILT_TURN: "Tilt-and-turn window",
+    OpeningKind.WINDOW_TOP_HUNG: "Top-hung (awning) window",
+    OpeningKind.FIXED: "Fixed glazing",
+    Screen.NONE: "No screen",
+    Screen.INSECT: "Insect screen",
+    Screen.PET_RESISTANT: "Pet-resistant screen",
+    OpenFrequency.NEVER: "Never",
+    OpenFrequency.RARELY: "Rarely",
+    OpenFrequency.SEASONAL: "In warm months",
+    OpenFrequency.DAILY: "Daily",
+    OpenFrequency.ALWAYS: "Always open",
+    CatsPresent.YES: "Yes",
+    CatsPresent.NO: "No",
+    CatsPresent.UNKNOWN: "Not known",
+    SurfaceKind.CONCRETE: "Concrete / paving",
+    SurfaceKind.ASPHALT: "Asphalt",
+    SurfaceKind.GRAVEL: "Gravel",
+    SurfaceKind.LAWN: "Lawn / soil",
+    SurfaceKind.PLANTING: "Planting bed / shrubs",
+    SurfaceKind.WATER: "Water",
+    SurfaceKind.ROOF: "Roof membrane",
+    SurfaceKind.DECK: "Timber deck",
+}
+
+
+def enum_label(value: StrEnum) -> str:
+    """Plain-words label of an enum member."""
+    return ENUM_LABELS.get(value, str(value.value).replace("_", " ").capitalize())
+
+
+@dataclass(frozen=True, slots=True)
+class FieldSpec:
+    """One editable field.
+
+    ``kind``: ``text`` | ``id`` | ``int`` | ``length`` (m) | ``gap`` (mm) | ``enum`` | ``bool`` |
+    ``temperature`` (°C) | ``ref`` (the id of another item, e.g. a facade). ``optional``: empty
+    text means ``None`` (a gap field: none).
+    """
+
+    name: str
+    label: str
+    kind: str
+    enum: type[StrEnum] | None = None
+    optional: bool = False
+    help: str = ""
+
+
+OPENING_FIELDS: tuple[FieldSpec, ...] = (
+    FieldSpec("id", "Id", "id", help="Unique name of the opening, e.g. S-05-2"),
+    FieldSpec("floor", "Floor", "int", help="Level number of the floor it is on"),
+    FieldSpec("facade", "Facade", "ref"),
+    FieldSpec("kind", "Kind", "enum", OpeningKind),
+    FieldSpec("x_m", "Position along facade", "length", help="Left edge, from the facade's start"),
+    FieldSpec("width_m", "Width", "length"),
+    FieldSpec("projection_m", "Projection", "length",
+              help="How far a balcony stands out from the facade (0 for windows)"),
+    FieldSpec("perch_height_m", "Rail top / sill height", "length",
+              help="Height of the rail top or sill above the floor"),
+    FieldSpec("largest_gap_mm", "Largest gap in guard", "gap", optional=True,
+              help="Widest gap in the infill; empty for solid infill"),
+    FieldSpec("bottom_gap_mm", "Gap under guard", "gap", optional=True,
+              help="Gap between the floor and the guard; empty for none"),
+    FieldSpec("climbable_infill", "Climbable infill", "bool"),
+    FieldSpec("flat_rail_top", "Flat rail top a cat can sit on", "bool"),
+    FieldSpec("climbing_aids", "Furniture or planters by the guard", "bool"),
+    FieldSpec("limiter_gap_mm", "Limiter opening", "gap", optional=True,
+              help="Opening a limiter allows; empty for no limiter"),
+    FieldSpec("screen", "Screen", "enum", Screen),
+    FieldSpec("netting_mesh_mm", "Netting mesh", "gap", optional=True,
+              help="Mesh size of fitted netting; empty for no netting"),
+    FieldSpec("open_frequency", "How often open", "enum", OpenFrequency),
+    FieldSpec("cats_present", "Cats live behind it", "enum", CatsPresent),
+    FieldSpec("escape_window", "Emergency escape window", "bool",
+              help="Never fit anything that blocks it"),
+    FieldSpec("notes", "Notes", "text", optional=True),
+)
+
+FLOOR_FIELDS: tuple[FieldSpec, ...] = (
+    FieldSpec("level", "Level", "int"),
+    FieldSpec("label", "Name", "text", optional=True),
+    FieldSpec("elevation_m", "Floor level above datum", "length"),
+)
+
+FACADE_FIELDS: tuple[FieldSpec, ...] = (
+    FieldSpec("id", "Id", "id"),
+    FieldSpec("label", "Name", "text", optional=True),
+    FieldSpec("length_m", "Length", "length"),
+)
+
+SURFACE_FIELDS: tuple[FieldSpec, ...] = (
+    FieldSpec("id", "Id", "id"),
+    FieldSpec("label", "Name", "text", optional=True),
+    FieldSpec("kind", "Surface", "enum", SurfaceKind),
+    FieldSpec("elevation_m", "Top above datum", "length"),
+    FieldSpec("facade", "In front of facade", "ref", optional=True,
+              help="Empty: in front of every facade"),
+    FieldSpec("from_facade_m", "From (out from facade)", "length"),
+    FieldSpec("to_facade_m", "To (out from facade)", "length", optional=True,
+              help="Empty: reaches on without end (the street beyond)"),
+)
+
+INFO_FIELDS: tuple[FieldSpec, ...] = (
+    FieldSpec("name", "Building", "text"),
+    FieldSpec("address", "Address", "text", optional=True),
+    FieldSpec("site_altitude_m", "Site altitude above sea level", "length"),
+    FieldSpec("air_temperature_c", "Design air temperature", "temperature"),
+    FieldSpec("auditor", "Auditor", "text", optional=True),
+    FieldSpec("audit_date", "Audit date (YYYY-MM-DD)", "text", optional=True),
+    FieldSpec("notes", "Notes", "text", optional=True),
+)
+
+
+def field_spec(fields: Sequence[FieldSpec], name: str) -> FieldSpec:
+    """The spec called ``name`` in ``fields``; ``KeyError`` if none."""
+    for spec in fields:
+        if spec.name == name:
+            return spec
+    raise KeyError(name)
+
+
+def _trim(number: float, digits: int) -> str:
+    text = f"{number:.{digits}f}"
+    if "." in text:
+        text = text.rstrip("0").rstrip(".")
+    return "0" if text in ("-0", "") else text
+
+
+def unit_hint(spec: FieldSpec, system: str) -> str:
+    """The unit a bare number takes in this field: ``m``, ``ft``, ``mm``, ``in``, ``°C``, ``°F``."""
+    imperial = system == "imperial"
+    if spec.kind == "length":
+        return "ft" if imperial else "m"
+    if spec.kind == "gap":
+        return "in" if imperial else "mm"
+    if spec.kind == "temperature":
+        return "°F" if imperial else "°C"
+    return ""
+
+
+def format_value(spec: FieldSpec, value: Any, system: str = "metric") -> str:
+    """Show ``value`` for editing, precise enough that reading it back changes nothing visible."""
+    if value is None:
+        return ""
+    imperial = system == "imperial"
+    if spec.kind == "length":
+        if not imperial:
+            return f"{_trim(float(value), 3)} m"
+        inches = abs(float(value)) / INCH_M
+        feet = math.floor(inches / 12 + 1e-9)
+        rest = inches - 12 * feet
+        if abs(rest - 12) < 0.05:
+            feet, rest = feet + 1, 0.0
+        sign = "-" if float(value) < 0 else ""
+        return f"{sign}{feet} ft {_trim(rest, 1)} in" if feet else f"{sign}{_trim(rest, 1)} in"
+    if spec.kind == "gap":
+        if imperial:
+            return f"{_trim(float(value) / 1000 / INCH_M, 2)} in"
+        return f"{_trim(float(value), 1)} mm"
+    if spec.kind == "temperature":
+        c = float(value)
+        return f"{_trim(c * 9 / 5 + 32, 1)} °F" if imperial else f"{_trim(c, 1)} °C"
+    if spec.kind == "enum":
+        return enum_label(value)
+    if spec.kind == "bool":
+        return "Yes" if value else "No"
+    return str(value)
+
+
+def _parse_temperature_c(text: str, system: str) -> float:
+    t = text.strip().replace("°", "").replace(" ", "")
+    unit = "F" if system == "imperial" else "C"
+    if t[-1:].upper() in ("C", "F"):
+        unit, t = t[-1].upper(), t[:-1]
+    try:
+        number = float(t.replace(",", "."))
+    except ValueError:
+        raise ValueError(f"cannot read '{text}' as a temperature (e.g. 15 °C or 59 °F)") from None
+    return (number - 32) * 5 / 9 if unit == "F" else number
+
+
+_NONE_WORDS = {"", "none", "no", "-", "—", "n/a"}
+
+
+def parse_value(spec: FieldSpec, text: str, system: str = "metric") -> Any:
+    """Read typed ``text`` into a model value for ``spec``.
+
+    Raises ``ValueError`` with a plain message the form shows beside the field.
+    """
+    raw = text.strip()
+    imperial = system == "imperial"
+    if spec.kind in ("length", "gap", "int", "temperature", "enum") and spec.optional and (
+        raw.lower() in _NONE_WORDS
+    ):
+        return None
+    if spec.kind == "length":
+        value = parse_length_m(raw, default_unit="ft" if imperial else "m")
+        return value
+    if spec.kind == "gap":
+        value_mm = parse_length_m(raw, default_unit="in" if imperial else "mm") * 1000.0
+        if value_mm < 0:
+            raise ValueError("a gap cannot be negative")
+        return value_mm
+    if spec.kind == "temperature":
+        return _parse_temperature_c(raw, system)
+    if spec.kind == "int":
+        try:
+            return int(raw)
+        except ValueError:
+            raise ValueError(f"'{text}' is not a whole number") from None
+    if spec.kind == "enum":
+        assert spec.enum is not None
+        lowered = raw.lower()
+        for member in spec.enum:
+            if lowered in (member.value, enum_label(member).lower()):
+                return member
+        choices = ", ".join(enum_label(m) for m in spec.enum)
+        raise ValueError(f"'{text}' is not one of: {choices}")
+    if spec.kind == "bool":
+        lowered = raw.lower()
+        if lowered in ("yes", "y", "true", "1", "x"):
+            return True
+        if lowered in ("no", "n", "false", "0", ""):
+            return False
+        raise ValueError(f"'{text}' is not yes or no")
+    if spec.kind in ("id", "ref"):
+        if not raw:
+            if spec.optional:
+                return None
+            raise ValueError(f"{spec.label} cannot be empty")
+        return raw
+    if not raw and not spec.optional:
+        raise ValueError(f"{spec.label} cannot be empty")
+    return raw if spec.kind != "text" else text.strip()
+
+
+def format_speed(speed_mps: float, system: str = "metric") -> str:
+    """A speed to 0.1 m/s (metric) or 0.1 mph (imperial)."""
+    if not math.isfinite(speed_mps):
+        return "—"
+    if system == "imperial":
+        return f"{speed_mps / (FOOT_M * 5280 / 3600):.1f} mph"
+    return f"{speed_mps:.1f} m/s"

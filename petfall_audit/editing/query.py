@@ -1,0 +1,82 @@
+"""Finding openings and making new ids and floors for the editor. No Qt."""
+
+from __future__ import annotations
+
+from collections.abc import Iterable
+
+from petfall_audit.model import Building, Floor, OpeningKind
+
+__all__ = ["select_openings", "unique_id", "next_floor", "storey_heights_m",
+           "elevations_for_storey_height"]
+
+
+def select_openings(
+    building: Building,
+    *,
+    facades: Iterable[str] | None = None,
+    kinds: Iterable[OpeningKind | str] | None = None,
+    levels: Iterable[int] | None = None,
+) -> list[str]:
+    """Ids of the openings on any of ``facades``, of any of ``kinds``, on any of ``levels``.
+
+    ``None`` for a criterion means any. E.g. every south balcony:
+    ``select_openings(b, facades=["south"], kinds=["balcony"])``.
+    """
+    facade_set = None if facades is None else set(facades)
+    kind_set = None if kinds is None else {OpeningKind(k) for k in kinds}
+    level_set = None if levels is None else set(levels)
+    return [
+        o.id
+        for o in building.openings
+        if (facade_set is None or o.facade in facade_set)
+        and (kind_set is None or o.kind in kind_set)
+        and (level_set is None or o.floor in level_set)
+    ]
+
+
+def unique_id(existing: Iterable[str], base: str) -> str:
+    """``base`` if unused, else ``base-2``, ``base-3``..."""
+    used = set(existing)
+    if base not in used:
+        return base
+    n = 2
+    while f"{base}-{n}" in used:
+        n += 1
+    return f"{base}-{n}"
+
+
+def storey_heights_m(building: Building) -> dict[int, float | None]:
+    """Height (m) from each floor to the next one up, by level; ``None`` for the top floor."""
+    floors = sorted(building.floors, key=lambda f: f.level)
+    out: dict[int, float | None] = {}
+    for lower, upper in zip(floors, [*floors[1:], None], strict=True):
+        out[lower.level] = None if upper is None else upper.elevation_m - lower.elevation_m
+    return out
+
+
+def elevations_for_storey_height(building: Building, level: int,
+                                 height_m: float) -> dict[int, float]:
+    """New elevations (m) when the floor at ``level`` gets storey height ``height_m``.
+
+    Every floor above moves by the same amount, so their own storey heights stay as they are.
+    """
+    floors = sorted(building.floors, key=lambda f: f.level)
+    index = next(i for i, f in enumerate(floors) if f.level == level)
+    if index == len(floors) - 1:
+        raise ValueError("the top floor has no storey above it")
+    delta = floors[index].elevation_m + height_m - floors[index + 1].elevation_m
+    return {f.level: f.elevation_m + delta for f in floors[index + 1:]}
+
+
+def next_floor(building: Building) -> Floor:
+    """A new floor above the top one, one storey up (the top storey's height, else 3 m).
+
+    The 3 m default only applies when the building has a single floor; the user edits it.
+    """
+    floors = sorted(building.floors, key=lambda f: f.level)
+    if not floors:
+        return Floor(level=0, label="Ground floor", elevation_m=0.0)
+    top = floors[-1]
+    storey_m = top.elevation_m - floors[-2].elevation_m if len(floors) > 1 else 3.0
+    level = top.level + 1
+    return Floor(level=level, label=f"Level {level}", elevation_m=top.elevation_m + storey_m)

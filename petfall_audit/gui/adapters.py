@@ -1,0 +1,468 @@
+"""Adapters from the Qt-free document to Qt: signals and item models.
+
+- :class:`DocumentSignals` re-emits :class:`~petfall_audit.editing.document.Document` callbacks
+  as a Qt signal.
+- :class:`ViewOptions` carries the display units and palette to every widget.
+- :class:`RecordTableModel` shows one tuple of the building (openings, floors, facades, surfaces)
+  as a table; it keeps its own copy of the rows and turns each change into
+  ``beginRemoveRows``/``beginInsertRows``/``dataChanged``. Edits typed in a cell are read by the
+  shared field specs and pushed as commands; a bad value emits ``edit_failed`` and the old value
+  stays.
+- :class:`ResultsTableModel` shows the ranked openings of an assessment.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable, Sequence
+from typing import Any
+
+from PySide6.QtCore import (
+    QAbstractTableModel,
+    QModelIndex,
+    QObject,
+    QPersistentModelIndex,
+    Qt,
+    Signal,
+)
+from PySide6.QtGui import QBrush, QColor, QFont
+
+from petfall_audit.editing.commands import Command, EditRefused
+from petfall_audit.editing.document import Document
+from petfall_audit.editing.fields import (
+    FieldSpec,
+    enum_label,
+    format_speed,
+    format_value,
+    parse_value,
+)
+from petfall_audit.editing.history import History
+from petfall_audit.injury import BANDS
+from petfall_audit.model import Building
+from petfall_audit.palette import band_style
+
+__all__ = [
+    "DocumentSignals",
+    "ViewOptions",
+    "RecordTableModel",
+    "ResultsTableModel",
+    "push_command",
+    "KEY_ROLE",
+    "SPEC_ROLE",
+]
+
+Index = QModelIndex | QPersistentModelIndex
+#: Role that gives a row's key (e.g. an opening id).
+KEY_ROLE = Qt.ItemDataRole.UserRole + 1
+#: Role that gives a column's :class:`FieldSpec`.
+SPEC_ROLE = Qt.ItemDataRole.UserRole + 2
+
+
+class DocumentSignals(QObject):
+    """``changed(kind)`` for every document change (see ``Document`` for the kinds)."""
+
+    changed = Signal(str)
+
+    def __init__(self, doc: Document, parent: QObject | None = None) -> None:
+        super().__init__(parent)
+        self._disconnect = doc.on_changed("*", self.changed.emit)
+
+    def detach(self) -> None:
+        """Stop listening to the document (before it is replaced)."""
+        self._disconnect()
+
+
+class ViewOptions(QObject):
+    """Display units (``"metric"``/``"imperial"``) and band palette; ``changed`` on a change."""
+
+    changed = Signal()
+
+    def __init__(self, units: str = "metric", palette: str = "standard",
+                 parent: QObject | None = None) -> None:
+        super().__init__(parent)
+        self._units = units
+        self._palette = palette
+
+    @property
+    def units(self) -> str:
+        return self._units
+
+    @units.setter
+    def units(self, value: str) -> None:
+        if value != self._units:
+            self._units = value
+            self.changed.emit()
+
+    @property
+    def palette(self) -> str:
+        return self._palette
+
+    @palette.setter
+    def palette(self, value: str) -> None:
+        if value != self._palette:
+            self._palette = value
+            self.changed.emit()
+
+
+def push_command(history: History, cmd: Command) -> str | None:
+    """Push ``cmd``; return ``None`` on success or the plain-words reason it was refused."""
+    try:
+        history.push(cmd)
+    except EditRefused as exc:
+        return "; ".join(p.message for p in exc.problems)
+    except ValueError as exc:
+        return str(exc)
+    return None
+
+
+class RecordTableModel(QAbstractTableModel):
+    """Rows of one part of the building, columns from field specs.
+
+    ``items(building)`` gives the rows; ``key`` names the field that identifies a row;
+    ``make_command(key, changes)`` builds the command for an edit. ``extra`` adds read-only
+    computed columns: ``(header, fn(building, item, units) -> str)``.
+    """
+
+    edit_failed = Signal(str, str, str)  # row key, field name, message
+
+    def __init__(
+        self,
+        doc: Document,
+        history: History,
+        options: ViewOptions,
+        *,
+        kind: str,
+        items: Callable[[Building], Sequence[Any]],
+        key: str,
+        fields: Sequence[FieldSpec],
+        make_command: Callable[[Any, dict[str, Any]], Command],
+        extra: Sequence[tuple[str, Callable[[Building, Any, str], str]]] = (),
+        editable_extra: Callable[[Any, int, str], Command | str | None] | None = None,
+        extra_kinds: Sequence[str] = (),
+        parent: QObject | None = None,
+    ) -> None:
+        super().__init__(parent)
+        self._doc = doc
+        self._history = history
+        self._options = options
+        self._kind = kind
+        self._items_of = items
+        self._key = key
+        self._fields = tuple(fields)
+        self._make_command = make_command
+        self._extra = tuple(extra)
+        self._editable_extra = editable_extra
+        self._rows: list[Any] = list(items(doc.building))
+        self._disconnects = [doc.on_changed(kind, self._on_changed)]
+        for other in extra_kinds:  # computed columns may read other parts of the building
+            self._disconnects.append(doc.on_changed(other, self._on_other_changed))
+        options.changed.connect(self._on_options_changed)
+
+    def detach(self) -> None:
+        for disconnect in self._disconnects:
+            disconnect()
+
+    # --- reading ---------------------------------------------------------------------------------
+
+    @property
+    def fields(self) -> tuple[FieldSpec, ...]:
+        return self._fields
+
+    def rowCount(self, parent: Index = QModelIndex()) -> int:  # noqa: B008
+        return 0 if parent.isValid() else len(self._rows)
+
+    def columnCount(self, parent: Index = QModelIndex()) -> int:  # noqa: B008
+        return 0 if parent.isValid() else len(self._fields) + len(self._extra)
+
+    def key_of_row(self, row: int) -> Any:
+        return getattr(self._rows[row], self._key)
+
+    def row_of_key(self, key: Any) -> int:
+        for i, item in enumerate(self._rows):
+            if getattr(item, self._key) == key:
+                return i
+        return -1
+
+    def column_of(self, field_name: str) -> int:
+        for i, spec in enumerate(self._fields):
+            if spec.name == field_name:
+                return i
+        raise KeyError(field_name)
+
+    def headerData(self, section: int, orientation: Qt.Orientation,
+                   role: int = Qt.ItemDataRole.DisplayRole) -> Any:
+        if orientation != Qt.Orientation.Horizontal:
+            return None
+        if section < len(self._fields):
+            spec = self._fields[section]
+            if role == Qt.ItemDataRole.DisplayRole:
+                return spec.label
+            if role == Qt.ItemDataRole.ToolTipRole:
+                return spec.help or None
+            return None
+        if role == Qt.ItemDataRole.DisplayRole:
+            return self._extra[section - len(self._fields)][0]
+        return None
+
+    def data(self, index: Index, role: int = Qt.ItemDataRole.DisplayRole) -> Any:
+        if not index.isValid():
+            return None
+        item = self._rows[index.row()]
+        col = index.column()
+        if role == KEY_ROLE:
+            return getattr(item, self._key)
+        if col >= len(self._fields):
+            if role in (Qt.ItemDataRole.DisplayRole, Qt.ItemDataRole.EditRole):
+                fn = self._extra[col - len(self._fields)][1]
+                return fn(self._doc.building, item, self._options.units)
+            return None
+        spec = self._fields[col]
+        value = getattr(item, spec.name)
+        if role == SPEC_ROLE:
+            return spec
+        if spec.kind == "bool":
+            if role == Qt.ItemDataRole.CheckStateRole:
+                return Qt.CheckState.Checked if value else Qt.CheckState.Unchecked
+            return None
+        if role in (Qt.ItemDataRole.DisplayRole, Qt.ItemDataRole.EditRole):
+            if spec.kind == "gap" and value is None and role == Qt.ItemDataRole.DisplayRole:
+                return "none"
+            return format_value(spec, value, self._options.units)
+        if role == Qt.ItemDataRole.ToolTipRole:
+            return spec.help or None
+        return None
+
+    def flags(self, index: Index) -> Qt.ItemFlag:
+        base = Qt.ItemFlag.ItemIsEnabled | Qt.ItemFlag.ItemIsSelectable
+        if not index.isValid():
+            return Qt.ItemFlag.NoItemFlags
+        col = index.column()
+        if col >= len(self._fields):
+            if self._editable_extra is not None:
+                return base | Qt.ItemFlag.ItemIsEditable
+            return base
+        if self._fields[col].kind == "bool":
+            return base | Qt.ItemFlag.ItemIsUserCheckable
+        return base | Qt.ItemFlag.ItemIsEditable
+
+    # --- editing ---------------------------------------------------------------------------------
+
+    def setData(self, index: Index, value: Any, role: int = Qt.ItemDataRole.EditRole) -> bool:
+        if not index.isValid():
+            return False
+        item = self._rows[index.row()]
+        key = getattr(item, self._key)
+        col = index.column()
+        if col >= len(self._fields):
+            if self._editable_extra is None or role != Qt.ItemDataRole.EditRole:
+                return False
+            result = self._editable_extra(item, col - len(self._fields), str(value))
+            if result is None:
+                return False
+            if isinstance(result, str):
+                self.edit_failed.emit(str(key), self._extra[col - len(self._fields)][0], result)
+                return False
+            return self._push(key, "", result)
+        spec = self._fields[col]
+        if spec.kind == "bool":
+            if role != Qt.ItemDataRole.CheckStateRole:
+                return False
+            new = Qt.CheckState(value) == Qt.CheckState.Checked if not isinstance(value, bool) \
+                else value
+        else:
+            if role != Qt.ItemDataRole.EditRole:
+                return False
+            text = str(value)
+            if text == format_value(spec, getattr(item, spec.name), self._options.units):
+                return False  # nothing changed
+            try:
+                new = parse_value(spec, text, self._options.units)
+            except ValueError as exc:
+                self.edit_failed.emit(str(key), spec.name, f"{spec.label}: {exc}")
+                return False
+        if new == getattr(item, spec.name):
+            return False
+        return self._push(key, spec.name, self._make_command(key, {spec.name: new}))
+
+    def _push(self, key: Any, field_name: str, cmd: Command) -> bool:
+        reason = push_command(self._history, cmd)
+        if reason is not None:
+            self.edit_failed.emit(str(key), field_name, reason)
+            return False
+        return True
+
+    # --- following the document ------------------------------------------------------------------
+
+    def _on_options_changed(self) -> None:
+        if self._rows:
+            self.dataChanged.emit(self.index(0, 0),
+                                  self.index(len(self._rows) - 1, self.columnCount() - 1))
+
+    def _on_other_changed(self, kind: str) -> None:
+        if kind != self._kind:
+            self._on_options_changed()
+
+    def _on_changed(self, kind: str) -> None:
+        self.sync(self._items_of(self._doc.building))
+
+    def sync(self, new_items: Sequence[Any]) -> None:
+        """Bring the rows in line with ``new_items`` using row removes, inserts and changes."""
+        new = list(new_items)
+        old_keys = [getattr(i, self._key) for i in self._rows]
+        new_keys = [getattr(i, self._key) for i in new]
+        if len(set(old_keys)) != len(old_keys) or len(set(new_keys)) != len(new_keys):
+            self.beginResetModel()
+            self._rows = new
+            self.endResetModel()
+            return
+        new_set, old_set = set(new_keys), set(old_keys)
+        # removals, last first, in runs of neighbouring rows
+        gone = [i for i, k in enumerate(old_keys) if k not in new_set]
+        for start, end in reversed(_runs(gone)):
+            self.beginRemoveRows(QModelIndex(), start, end)
+            del self._rows[start:end + 1]
+            self.endRemoveRows()
+        kept_keys = [k for k in old_keys if k in new_set]
+        if kept_keys != [k for k in new_keys if k in old_set]:  # order changed: start over
+            self.beginResetModel()
+            self._rows = new
+            self.endResetModel()
+            return
+        added = [j for j, k in enumerate(new_keys) if k not in old_set]
+        for start, end in _runs(added):
+            self.beginInsertRows(QModelIndex(), start, end)
+            self._rows[start:start] = new[start:end + 1]
+            self.endInsertRows()
+        changed = [i for i, (a, b) in enumerate(zip(self._rows, new, strict=True)) if a is not b]
+        self._rows = new
+        last_col = self.columnCount() - 1
+        for start, end in _runs(changed):
+            self.dataChanged.emit(self.index(start, 0), self.index(end, last_col))
+        if self._extra and (gone or added) and self._rows:
+            self.dataChanged.emit(self.index(0, len(self._fields)),
+                                  self.index(len(self._rows) - 1, last_col))
+
+
+def _runs(indices: list[int]) -> list[tuple[int, int]]:
+    """Sorted indices grouped into (first, last) runs of consecutive numbers."""
+    runs: list[tuple[int, int]] = []
+    for i in indices:
+        if runs and runs[-1][1] == i - 1:
+            runs[-1] = (runs[-1][0], i)
+        else:
+            runs.append((i, i))
+    return runs
+
+
+# --- results --------------------------------------------------------------------------------------
+
+
+def _one_in_n(n: float) -> str:
+    if n != n or n <= 0:  # NaN
+        return "—"
+    if n == float("inf") or n > 1e9:
+        return "never"
+    if n < 1.5:
+        return "1 in 1"
+    return f"1 in {n:,.0f}" if n < 1000 else f"1 in {n:,.3g}".replace("e+0", "e").replace(
+        "e+", "e")
+
+
+class ResultsTableModel(QAbstractTableModel):
+    """The ranked openings of an assessment (read-only). ``stale`` greys it out while a newer
+    result is computed."""
+
+    COLUMNS = ("Rank", "Opening", "Floor", "Facade", "Kind", "Expected injury band",
+               "Likelihood per year", "Impact speed (median)", "Risk score")
+
+    def __init__(self, options: ViewOptions, parent: QObject | None = None) -> None:
+        super().__init__(parent)
+        self._options = options
+        self._rows: list[Any] = []
+        self._assessment: Any = None
+        self.stale = True
+        options.changed.connect(self._on_options_changed)
+
+    @property
+    def assessment(self) -> Any:
+        return self._assessment
+
+    def set_assessment(self, assessment: Any) -> None:
+        """Show a new assessment (an object with ``ranked()``); it is current."""
+        self.beginResetModel()
+        self._assessment = assessment
+        self._rows = list(assessment.ranked()) if assessment is not None else []
+        self.stale = False
+        self.endResetModel()
+
+    def set_stale(self, stale: bool) -> None:
+        if stale != self.stale:
+            self.stale = stale
+            self._on_options_changed()
+
+    def _on_options_changed(self) -> None:
+        if self._rows:
+            self.dataChanged.emit(self.index(0, 0),
+                                  self.index(len(self._rows) - 1, len(self.COLUMNS) - 1))
+
+    def rowCount(self, parent: Index = QModelIndex()) -> int:  # noqa: B008
+        return 0 if parent.isValid() else len(self._rows)
+
+    def columnCount(self, parent: Index = QModelIndex()) -> int:  # noqa: B008
+        return 0 if parent.isValid() else len(self.COLUMNS)
+
+    def headerData(self, section: int, orientation: Qt.Orientation,
+                   role: int = Qt.ItemDataRole.DisplayRole) -> Any:
+        if role == Qt.ItemDataRole.DisplayRole and orientation == Qt.Orientation.Horizontal:
+            return self.COLUMNS[section]
+        return None
+
+    def row_result(self, row: int) -> Any:
+        return self._rows[row]
+
+    def data(self, index: Index, role: int = Qt.ItemDataRole.DisplayRole) -> Any:
+        if not index.isValid():
+            return None
+        r = self._rows[index.row()]
+        col = index.column()
+        if role == KEY_ROLE:
+            return r.id
+        if role == Qt.ItemDataRole.DisplayRole:
+            units = self._options.units
+            if col == 0:
+                return str(r.rank)
+            if col == 1:
+                return r.id
+            if col == 2:
+                return str(r.floor)
+            if col == 3:
+                return r.facade
+            if col == 4:
+                return enum_label(r.kind)
+            if col == 5:
+                style = band_style(r.expected_band, self._options.palette)
+                return f"{style.mark} {BANDS[r.expected_band]}"
+            if col == 6:
+                return _one_in_n(r.one_in_n)
+            if col == 7:
+                return format_speed(r.impact_speed_mps.p50, units)
+            if col == 8:
+                return f"{r.risk:,.0f}"
+        if role == Qt.ItemDataRole.TextAlignmentRole and col in (0, 2, 6, 7, 8):
+            return int(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
+        if role == Qt.ItemDataRole.BackgroundRole and col == 5 and not self.stale:
+            return QBrush(QColor(band_style(r.expected_band, self._options.palette).fill))
+        if role == Qt.ItemDataRole.ForegroundRole:
+            if self.stale:
+                return QBrush(QColor("#8A8A8A"))
+            if col == 5:
+                return QBrush(QColor(band_style(r.expected_band, self._options.palette).text))
+        if role == Qt.ItemDataRole.FontRole and self.stale:
+            font = QFont()
+            font.setItalic(True)
+            return font
+        if role == Qt.ItemDataRole.ToolTipRole:
+            lines = [f"{r.id}: {BANDS[r.expected_band]} expected"]
+            lines += [f"• {f}" for f in r.factors]
+            lines += [f"• {h}" for h in r.hazards]
+            return "\n".join(lines)
+        return None

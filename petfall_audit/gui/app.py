@@ -1,0 +1,59 @@
+"""Start the desktop app: ``run_app(path)`` from the command line, ``main()`` as a GUI script."""
+
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+
+from PySide6.QtCore import QTimer
+from PySide6.QtWidgets import QApplication
+
+from petfall_audit.editing.document import Document
+from petfall_audit.gui.dialogs import APP_TITLE
+from petfall_audit.gui.main_window import MainWindow, blank_building
+from petfall_audit.model import Building
+
+__all__ = ["run_app", "main", "sample_document", "create_window"]
+
+
+def _sample_building() -> Building:
+    try:
+        from petfall_audit.demo import sample_building
+
+        return sample_building("tower")
+    except (ImportError, KeyError, OSError):
+        return blank_building()
+
+
+def sample_document() -> Document:
+    """The invented sample tower, unsaved, to explore the app with."""
+    return Document(_sample_building())
+
+
+def create_window(path: Path | None = None) -> MainWindow:
+    """A main window on the file at ``path``, or on the sample building."""
+    window = MainWindow(sample_document())
+    if path is not None and not window.open_file(Path(path), confirm=False):
+        window.status_label.setText(f"Could not open {path}; showing the sample building")
+    return window
+
+
+def run_app(path: Path | None = None) -> int:
+    """Run the app on ``path`` (or the sample building) until its window closes; exit code."""
+    app = QApplication.instance() or QApplication(sys.argv[:1])
+    app.setApplicationName(APP_TITLE)
+    app.setOrganizationName("petfall-audit")
+    window = create_window(path)
+    window.show()
+    QTimer.singleShot(0, window.offer_recovery)
+    return int(app.exec())
+
+
+def main() -> int:
+    """Entry point of the ``petfall-audit-gui`` script: ``petfall-audit-gui [FILE]``."""
+    args = sys.argv[1:]
+    return run_app(Path(args[0]) if args else None)
+
+
+if __name__ == "__main__":  # pragma: no cover
+    raise SystemExit(main())

@@ -1,0 +1,380 @@
+"""Dialogs and questions to the user, gathered in :class:`Prompts` so tests can answer them.
+
+The main window asks every question through its ``prompts`` object; a test replaces it with one
+that answers at once, so no modal dialog ever blocks a test run.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+from PySide6.QtWidgets import (
+    QButtonGroup,
+    QCheckBox,
+    QComboBox,
+    QDialog,
+    QDialogButtonBox,
+    QFileDialog,
+    QFormLayout,
+    QGroupBox,
+    QHBoxLayout,
+    QLabel,
+    QLineEdit,
+    QMessageBox,
+    QRadioButton,
+    QSpinBox,
+    QTextBrowser,
+    QVBoxLayout,
+    QWidget,
+)
+
+from petfall_audit import __version__
+from petfall_audit.cautions import CAUTIONS, CAUTIONS_TITLE
+from petfall_audit.editing.autosave import Recovery
+from petfall_audit.editing.commands import DEFAULT_ID_PATTERN, EditRefused, copied_id
+from petfall_audit.editing.fields import OPENING_FIELDS, FieldSpec, enum_label, parse_value
+from petfall_audit.editing.query import select_openings
+from petfall_audit.gui.settings import CONTACT_FIELDS
+from petfall_audit.gui.widgets.field_form import ERROR_STYLE
+from petfall_audit.model import Building, OpeningKind
+
+__all__ = ["Prompts", "CopyRequest", "BulkRequest", "CautionsDialog", "CopyFloorDialog",
+           "BulkEditDialog", "ContactDialog", "FILE_FILTER", "APP_TITLE"]
+
+APP_TITLE = "Petfall Audit"
+FILE_FILTER = "Building files (*.json);;All files (*)"
+
+
+@dataclass(frozen=True, slots=True)
+class CopyRequest:
+    """Copy the openings of ``level`` to ``to_levels`` with new ids from ``id_pattern``."""
+
+    level: int
+    to_levels: tuple[int, ...]
+    id_pattern: str = DEFAULT_ID_PATTERN
+    replace_existing: bool = False
+
+
+@dataclass(frozen=True, slots=True)
+class BulkRequest:
+    """Set ``field`` to ``value`` on the openings with ``ids``."""
+
+    ids: tuple[str, ...]
+    field: str
+    value: Any
+
+
+class Prompts:
+    """Every question the window asks. Replace methods (or the whole object) in tests."""
+
+    def ask_save_changes(self, parent: QWidget, name: str) -> str:
+        """``"save"``, ``"discard"`` or ``"cancel"``."""
+        box = QMessageBox(parent)
+        box.setIcon(QMessageBox.Icon.Warning)
+        box.setWindowTitle(APP_TITLE)
+        box.setText(f"'{name}' has changes that are not saved.")
+        box.setInformativeText("Save them before closing?")
+        box.setStandardButtons(QMessageBox.StandardButton.Save
+                               | QMessageBox.StandardButton.Discard
+                               | QMessageBox.StandardButton.Cancel)
+        box.setDefaultButton(QMessageBox.StandardButton.Save)
+        answer = box.exec()
+        if answer == QMessageBox.StandardButton.Save:
+            return "save"
+        if answer == QMessageBox.StandardButton.Discard:
+            return "discard"
+        return "cancel"
+
+    def ask_recover(self, parent: QWidget, recovery: Recovery) -> bool:
+        source = recovery.source_path.name if recovery.source_path else "an unsaved building"
+        answer = QMessageBox.question(
+            parent, APP_TITLE,
+            f"Work on {source} was not saved when the app last closed "
+            f"(recovery copy from {recovery.saved_at_text}).\n\nRecover it now?",
+        )
+        return answer == QMessageBox.StandardButton.Yes
+
+    def open_path(self, parent: QWidget, folder: Path | None) -> Path | None:
+        path, _ = QFileDialog.getOpenFileName(parent, "Open building", str(folder or ""),
+                                              FILE_FILTER)
+        return Path(path) if path else None
+
+    def save_path(self, parent: QWidget, suggested: Path) -> Path | None:
+        path, _ = QFileDialog.getSaveFileName(parent, "Save building as", str(suggested),
+                                              FILE_FILTER)
+        if not path:
+            return None
+        p = Path(path)
+        return p if p.suffix else p.with_suffix(".json")
+
+    def show_error(self, parent: QWidget, title: str, text: str) -> None:
+        QMessageBox.warning(parent, title, text)
+
+    def copy_floor(self, parent: QWidget, building: Building, level: int | None
+                   ) -> CopyRequest | None:
+        dialog = CopyFloorDialog(building, level, parent)
+        return dialog.request() if dialog.exec() == QDialog.DialogCode.Accepted else None
+
+    def bulk_edit(self, parent: QWidget, building: Building, selected: list[str], units: str
+                  ) -> BulkRequest | None:
+        dialog = BulkEditDialog(building, selected, units, parent)
+        return dialog.request() if dialog.exec() == QDialog.DialogCode.Accepted else None
+
+    def edit_contact(self, parent: QWidget, values: dict[str, str]) -> dict[str, str] | None:
+        dialog = ContactDialog(values, parent)
+        return dialog.values() if dialog.exec() == QDialog.DialogCode.Accepted else None
+
+    def show_cautions(self, parent: QWidget, *, about: bool = False) -> None:
+        CautionsDialog(parent, about=about).exec()
+
+
+def cautions_html(*, about: bool = False) -> str:
+    """The cautions (and with ``about`` the app's description) as simple HTML."""
+    parts = []
+    if about:
+        parts.append(
+            f"<h2>{APP_TITLE} {__version__}</h2>"
+            "<p>Audits a residential building for the risk that a resident cat falls from a "
+            "balcony or window: it simulates falls with gravity, air drag and a change of "
+            "posture, grades the likely injury, ranks the openings and helps choose fixes "
+            "within a budget.</p>"
+            "<p>Injury grading follows published veterinary case series of cats that fell from "
+            "buildings (for example Vnuk et al. 2004; Merbl et al. 2013; Candela Andrade et al. "
+            "2025). The risk score adapts England's Housing Health and Safety Rating System; "
+            "the audit report states the method and its assumptions.</p>"
+        )
+    parts.append(f"<h3>{CAUTIONS_TITLE}</h3><ul>")
+    parts += [f"<li>{c}</li>" for c in CAUTIONS]
+    parts.append("</ul>")
+    return "".join(parts)
+
+
+class CautionsDialog(QDialog):
+    """The cautions, and with ``about`` the app's name, version and purpose."""
+
+    def __init__(self, parent: QWidget | None = None, *, about: bool = False) -> None:
+        super().__init__(parent)
+        self.setWindowTitle(f"About {APP_TITLE}" if about else CAUTIONS_TITLE)
+        text = QTextBrowser()
+        text.setObjectName("cautions_text")
+        text.setHtml(cautions_html(about=about))
+        text.setMinimumSize(520, 360)
+        buttons = QDialogButtonBox(QDialogButtonBox.StandardButton.Close)
+        buttons.rejected.connect(self.reject)
+        buttons.accepted.connect(self.accept)
+        layout = QVBoxLayout(self)
+        layout.addWidget(text)
+        layout.addWidget(buttons)
+
+
+class CopyFloorDialog(QDialog):
+    """Copy a typical floor's openings to a range of levels, with an id pattern and a preview."""
+
+    def __init__(self, building: Building, level: int | None, parent: QWidget | None = None
+                 ) -> None:
+        super().__init__(parent)
+        self.setWindowTitle("Copy a typical floor")
+        self._building = building
+        levels = [f.level for f in building.floors]
+        self.source = QComboBox()
+        for f in building.floors:
+            n = sum(o.floor == f.level for o in building.openings)
+            self.source.addItem(f"{f.level}  {f.label}  ({n} openings)", f.level)
+        if level is not None and self.source.findData(level) >= 0:
+            self.source.setCurrentIndex(self.source.findData(level))
+        lo, hi = (min(levels), max(levels)) if levels else (0, 0)
+        self.first = QSpinBox()
+        self.last = QSpinBox()
+        for box in (self.first, self.last):
+            box.setRange(lo, hi)
+        start = (level if level is not None else lo) + 1
+        self.first.setValue(min(start, hi))
+        self.last.setValue(hi)
+        self.pattern = QLineEdit(DEFAULT_ID_PATTERN)
+        self.replace = QCheckBox("Replace the openings already on those floors")
+        self.preview = QLabel()
+        self.preview.setWordWrap(True)
+        form = QFormLayout()
+        form.addRow("Copy the openings of floor", self.source)
+        span = QHBoxLayout()
+        span.addWidget(self.first)
+        span.addWidget(QLabel("to"))
+        span.addWidget(self.last)
+        span.addStretch(1)
+        form.addRow("To levels", span)
+        form.addRow("New ids", self.pattern)
+        form.addRow(QLabel("Fields: {facade}, {level} (e.g. {level:02d} for 05), {n} (number on "
+                           "the facade), {id} (the copied id), {kind}, {label}"))
+        form.addRow(self.replace)
+        form.addRow("Preview", self.preview)
+        buttons = QDialogButtonBox(QDialogButtonBox.StandardButton.Ok
+                                   | QDialogButtonBox.StandardButton.Cancel)
+        buttons.accepted.connect(self.accept)
+        buttons.rejected.connect(self.reject)
+        layout = QVBoxLayout(self)
+        layout.addLayout(form)
+        layout.addWidget(buttons)
+        for signal in (self.source.currentIndexChanged, self.first.valueChanged,
+                       self.last.valueChanged, self.pattern.textChanged):
+            signal.connect(self._update_preview)
+        self._update_preview()
+
+    def request(self) -> CopyRequest:
+        level = int(self.source.currentData())
+        first, last = sorted((self.first.value(), self.last.value()))
+        targets = tuple(f.level for f in self._building.floors
+                        if first <= f.level <= last and f.level != level)
+        return CopyRequest(level, targets, self.pattern.text(), self.replace.isChecked())
+
+    def _update_preview(self) -> None:
+        req = self.request()
+        source = [o for o in self._building.openings if o.floor == req.level]
+        if not source or not req.to_levels:
+            self.preview.setText("Nothing to copy: choose a floor with openings and other "
+                                 "levels.")
+            return
+        floor = next(f for f in self._building.floors if f.level == req.to_levels[0])
+        try:
+            first = copied_id(req.id_pattern, source[0], level=floor.level, n=1,
+                              floor_label=floor.label)
+        except EditRefused as exc:
+            self.preview.setText(f"! {exc.problems[0].message}")
+            return
+        self.preview.setText(f"{len(source)} openings × {len(req.to_levels)} floors = "
+                             f"{len(source) * len(req.to_levels)} new openings; "
+                             f"{source[0].id} becomes {first} on level {floor.level}.")
+
+
+class BulkEditDialog(QDialog):
+    """Set one field on many openings: the selected ones, or those matching a filter."""
+
+    def __init__(self, building: Building, selected: list[str], units: str,
+                 parent: QWidget | None = None) -> None:
+        super().__init__(parent)
+        self.setWindowTitle("Change many openings")
+        self._building = building
+        self._selected = list(selected)
+        self._units = units
+        self._specs = [s for s in OPENING_FIELDS if s.name != "id"]
+        self.use_selected = QRadioButton(f"The {len(selected)} selected openings")
+        self.use_filter = QRadioButton("Openings that match:")
+        group = QButtonGroup(self)
+        group.addButton(self.use_selected)
+        group.addButton(self.use_filter)
+        (self.use_selected if selected else self.use_filter).setChecked(True)
+        self.use_selected.setEnabled(bool(selected))
+        self.facade = QComboBox()
+        self.facade.addItem("any facade", None)
+        for f in building.facades:
+            self.facade.addItem(f.label or f.id, f.id)
+        self.kind = QComboBox()
+        self.kind.addItem("any kind", None)
+        for k in OpeningKind:
+            self.kind.addItem(enum_label(k), k)
+        levels = [f.level for f in building.floors] or [0]
+        self.first = QSpinBox()
+        self.last = QSpinBox()
+        for box in (self.first, self.last):
+            box.setRange(min(levels), max(levels))
+        self.first.setValue(min(levels))
+        self.last.setValue(max(levels))
+        self.field = QComboBox()
+        for spec in self._specs:
+            self.field.addItem(spec.label, spec.name)
+        self.value = QLineEdit()
+        self.value.setPlaceholderText("e.g. 30 mm, 1.2 m, 42 in, yes")
+        self.count = QLabel()
+        self.error = QLabel()
+        self.error.setStyleSheet(ERROR_STYLE)
+        self.error.setWordWrap(True)
+        filt = QGroupBox("Which openings")
+        fl = QFormLayout(filt)
+        fl.addRow(self.use_selected)
+        fl.addRow(self.use_filter)
+        fl.addRow("Facade", self.facade)
+        fl.addRow("Kind", self.kind)
+        span = QHBoxLayout()
+        span.addWidget(self.first)
+        span.addWidget(QLabel("to"))
+        span.addWidget(self.last)
+        fl.addRow("Floors", span)
+        fl.addRow(self.count)
+        what = QFormLayout()
+        what.addRow("Set", self.field)
+        what.addRow("To", self.value)
+        buttons = QDialogButtonBox(QDialogButtonBox.StandardButton.Ok
+                                   | QDialogButtonBox.StandardButton.Cancel)
+        buttons.accepted.connect(self._on_accept)
+        buttons.rejected.connect(self.reject)
+        layout = QVBoxLayout(self)
+        layout.addWidget(filt)
+        layout.addLayout(what)
+        layout.addWidget(self.error)
+        layout.addWidget(buttons)
+        for signal in (self.facade.currentIndexChanged, self.kind.currentIndexChanged,
+                       self.first.valueChanged, self.last.valueChanged, group.buttonClicked):
+            signal.connect(self._update_count)
+        self._update_count()
+        self._request: BulkRequest | None = None
+
+    def ids(self) -> list[str]:
+        if self.use_selected.isChecked():
+            return self._selected
+        facade = self.facade.currentData()
+        kind = self.kind.currentData()
+        first, last = sorted((self.first.value(), self.last.value()))
+        return select_openings(
+            self._building,
+            facades=None if facade is None else [facade],
+            kinds=None if kind is None else [kind],
+            levels=range(first, last + 1),
+        )
+
+    def _spec(self) -> FieldSpec:
+        return self._specs[self.field.currentIndex()]
+
+    def _update_count(self, *_: Any) -> None:
+        self.count.setText(f"{len(self.ids())} openings will change")
+
+    def _on_accept(self) -> None:
+        ids = self.ids()
+        if not ids:
+            self.error.setText("! No opening matches.")
+            return
+        spec = self._spec()
+        try:
+            value = parse_value(spec, self.value.text(), self._units)
+        except ValueError as exc:
+            self.error.setText(f"! {spec.label}: {exc}")
+            return
+        self._request = BulkRequest(tuple(ids), spec.name, value)
+        self.accept()
+
+    def request(self) -> BulkRequest | None:
+        return self._request
+
+
+class ContactDialog(QDialog):
+    """The contact block printed on tenant leaflets."""
+
+    def __init__(self, values: dict[str, str], parent: QWidget | None = None) -> None:
+        super().__init__(parent)
+        self.setWindowTitle("Contact details for tenant leaflets")
+        self._edits: dict[str, QLineEdit] = {}
+        form = QFormLayout()
+        for key, label in CONTACT_FIELDS:
+            edit = QLineEdit(values.get(key, ""))
+            self._edits[key] = edit
+            form.addRow(label, edit)
+        buttons = QDialogButtonBox(QDialogButtonBox.StandardButton.Ok
+                                   | QDialogButtonBox.StandardButton.Cancel)
+        buttons.accepted.connect(self.accept)
+        buttons.rejected.connect(self.reject)
+        layout = QVBoxLayout(self)
+        layout.addLayout(form)
+        layout.addWidget(buttons)
+
+    def values(self) -> dict[str, str]:
+        return {key: edit.text().strip() for key, edit in self._edits.items()}

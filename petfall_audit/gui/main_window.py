@@ -1,0 +1,535 @@
+"""The main window: editors for the building above, result views below, cautions always shown.
+
+Views are tabs in the lower area; more can be added with :meth:`MainWindow.add_view`. Every edit
+is a command on the document's history; each change of the model starts a recomputation off the
+GUI thread, marks the shown results as out of date until the new ones arrive, and schedules a
+recovery copy of the unsaved work.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import Any
+
+from PySide6.QtCore import QModelIndex, Qt, QTimer, Signal
+from PySide6.QtGui import QCloseEvent
+from PySide6.QtWidgets import (
+    QAbstractItemView,
+    QHeaderView,
+    QLabel,
+    QMainWindow,
+    QProgressBar,
+    QSplitter,
+    QTableView,
+    QTabWidget,
+    QToolBar,
+    QVBoxLayout,
+    QWidget,
+)
+
+from petfall_audit.cautions import CAUTIONS_SHORT
+from petfall_audit.editing import autosave
+from petfall_audit.editing.commands import CopyFloorOpenings, SetOpeningFields
+from petfall_audit.editing.document import MODEL_KINDS, Document
+from petfall_audit.editing.fields import OPENING_FIELDS, field_spec
+from petfall_audit.editing.history import History
+from petfall_audit.errors import BuildingFileError
+from petfall_audit.gui.actions import create_actions
+from petfall_audit.gui.adapters import ResultsTableModel, ViewOptions, push_command
+from petfall_audit.gui.dialogs import APP_TITLE, Prompts
+from petfall_audit.gui.settings import AppSettings
+from petfall_audit.gui.widgets.building import BuildingPanel
+from petfall_audit.gui.widgets.field_form import ERROR_STYLE
+from petfall_audit.gui.widgets.floors import FloorsPanel
+from petfall_audit.gui.widgets.openings import OpeningsPanel
+from petfall_audit.gui.widgets.site import SitePanel
+from petfall_audit.gui.worker import INTERACTIVE_SAMPLES, AssessFn, Recomputer
+from petfall_audit.model import (
+    Building,
+    BuildingInfo,
+    Facade,
+    Floor,
+    Surface,
+    SurfaceKind,
+)
+
+__all__ = ["MainWindow", "blank_building"]
+
+
+def blank_building() -> Building:
+    """A new building to start from: one floor, one facade, paving below."""
+    return Building(
+        info=BuildingInfo(name="New building"),
+        floors=(Floor(level=0, label="Ground floor", elevation_m=0.0),),
+        facades=(Facade(id="front", length_m=20.0, label="Front"),),
+        surfaces=(Surface(id="ground", kind=SurfaceKind.CONCRETE, elevation_m=0.0,
+                          label="Paving at ground level"),),
+    )
+
+
+class MainWindow(QMainWindow):
+    """The app's window for one document at a time.
+
+    ``prompts`` asks the user questions (replace it in tests); ``assess`` computes results
+    (default :func:`petfall_audit.risk.assess`) with ``samples`` cats per opening.
+    """
+
+    results_updated = Signal(object)  # the new assessment
+    results_failed = Signal(str)
+
+    def __init__(self, document: Document | None = None, *, settings: AppSettings | None = None,
+                 prompts: Prompts | None = None, assess: AssessFn | None = None,
+                 samples: int = INTERACTIVE_SAMPLES, autosave_delay_ms: int = 5000,
+                 parent: QWidget | None = None) -> None:
+        super().__init__(parent)
+        self.settings = settings or AppSettings(parent=self)
+        self.prompts = prompts or Prompts()
+        self.options = ViewOptions(self.settings.units, self.settings.palette, self)
+        self.recomputer = Recomputer(assess, samples=samples, parent=self)
+        self.recomputer.finished.connect(self._on_results)
+        self.recomputer.failed.connect(self._on_results_failed)
+        self.recomputer.progress.connect(self._on_progress)
+        self.last_compute_s: float | None = None
+        self._autosave_timer = QTimer(self)
+        self._autosave_timer.setSingleShot(True)
+        self._autosave_timer.setInterval(autosave_delay_ms)
+        self._autosave_timer.timeout.connect(self.autosave_now)
+        self._panels: list[Any] = []
+        self._disconnects: list[Any] = []
+        self.setObjectName("main_window")
+        self.resize(1280, 820)
+
+        self.actions_ = create_actions(self)
+        self._build_layout()
+        self.actions_.recent_menu.aboutToShow.connect(self._fill_recent_menu)
+        self.settings.changed.connect(self._on_settings_changed)
+        self._on_settings_changed("units")
+        self._on_settings_changed("palette")
+        geometry, state = self.settings.window_state()
+        if geometry is not None:
+            self.restoreGeometry(geometry)
+        if state is not None:
+            self.restoreState(state)
+        self.load_document(document or Document(blank_building()))
+
+    # --- layout ----------------------------------------------------------------------------------
+
+    def _build_layout(self) -> None:
+        a = self.actions_
+        bar = QToolBar("Main")
+        bar.setObjectName("main_toolbar")
+        bar.addActions([a.new, a.open, a.save])
+        bar.addSeparator()
+        bar.addActions([a.undo, a.redo])
+        bar.addSeparator()
+        bar.addActions([a.copy_floor, a.bulk_edit])
+        self.addToolBar(bar)
+
+        self.editor_tabs = QTabWidget()
+        self.editor_tabs.setObjectName("editor_tabs")
+        self.view_tabs = QTabWidget()
+        self.view_tabs.setObjectName("view_tabs")
+
+        self.results_model = ResultsTableModel(self.options, self)
+        self.results_table = QTableView()
+        self.results_table.setObjectName("results_table")
+        self.results_table.setModel(self.results_model)
+        self.results_table.setSelectionBehavior(QAbstractItemView.SelectionBehavior.SelectRows)
+        self.results_table.setEditTriggers(QAbstractItemView.EditTrigger.NoEditTriggers)
+        self.results_table.verticalHeader().hide()
+        self.results_table.verticalHeader().setDefaultSectionSize(22)
+        header = self.results_table.horizontalHeader()
+        header.setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
+        header.setResizeContentsPrecision(40)  # size columns from the first rows only
+        header.setStretchLastSection(True)
+        self._results_sized = False
+        self.results_table.doubleClicked.connect(self._on_result_activated)
+        self.results_state = QLabel("Computing results…")
+        self.results_state.setObjectName("results_state")
+        results = QWidget()
+        results_layout = QVBoxLayout(results)
+        results_layout.setContentsMargins(2, 2, 2, 2)
+        results_layout.addWidget(self.results_state)
+        results_layout.addWidget(self.results_table, 1)
+        self.add_view("Ranked openings", results)
+
+        splitter = QSplitter(Qt.Orientation.Vertical)
+        splitter.setObjectName("main_splitter")
+        splitter.addWidget(self.editor_tabs)
+        splitter.addWidget(self.view_tabs)
+        splitter.setStretchFactor(0, 3)
+        splitter.setStretchFactor(1, 2)
+
+        self.cautions_banner = QLabel(
+            f"<b>Caution:</b> {CAUTIONS_SHORT} <a href='#cautions'>Read the cautions</a>")
+        self.cautions_banner.setObjectName("cautions_banner")
+        self.cautions_banner.setWordWrap(True)
+        self.cautions_banner.setTextFormat(Qt.TextFormat.RichText)
+        self.cautions_banner.setStyleSheet(
+            "QLabel#cautions_banner { background: #F3F0E4; border-top: 1px solid #B3AE7E; "
+            "padding: 4px 8px; }")
+        self.cautions_banner.linkActivated.connect(lambda _link: self.show_cautions())
+
+        central = QWidget()
+        layout = QVBoxLayout(central)
+        layout.setContentsMargins(4, 4, 4, 0)
+        layout.setSpacing(2)
+        layout.addWidget(splitter, 1)
+        layout.addWidget(self.cautions_banner)
+        self.setCentralWidget(central)
+
+        self.status_label = QLabel()
+        self.progress = QProgressBar()
+        self.progress.setMaximumWidth(180)
+        self.progress.setTextVisible(False)
+        self.progress.hide()
+        self.samples_label = QLabel(
+            f"{self.recomputer.samples} simulated falls per opening while editing")
+        self.samples_label.setToolTip("The audit report recomputes with more samples.")
+        status = self.statusBar()
+        status.addWidget(self.status_label, 1)
+        status.addPermanentWidget(self.progress)
+        status.addPermanentWidget(self.samples_label)
+
+    def add_view(self, name: str, widget: QWidget) -> int:
+        """Add a result view as a tab of the lower area; returns its tab index."""
+        widget.setObjectName(widget.objectName() or f"view_{name}")
+        return self.view_tabs.addTab(widget, name)
+
+    # --- the document -----------------------------------------------------------------------------
+
+    def load_document(self, doc: Document) -> None:
+        """Show ``doc`` (its history starts empty); rebuilds the editors."""
+        for disconnect in self._disconnects:
+            disconnect()
+        for panel in self._panels:
+            panel.detach()
+        current = self.editor_tabs.currentIndex()
+        while self.editor_tabs.count():
+            w = self.editor_tabs.widget(0)
+            self.editor_tabs.removeTab(0)
+            if w is not None:
+                w.deleteLater()
+        self.document = doc
+        self.history = History(doc)
+        a = self.actions_
+        self.openings_panel = OpeningsPanel(doc, self.history, self.options,
+                                            actions=[a.bulk_edit, a.copy_floor])
+        self.floors_panel = FloorsPanel(doc, self.history, self.options, actions=[a.copy_floor])
+        self.site_panel = SitePanel(doc, self.history, self.options)
+        self.building_panel = BuildingPanel(doc, self.history, self.options)
+        self._panels = [self.openings_panel, self.floors_panel, self.site_panel,
+                        self.building_panel]
+        self.editor_tabs.addTab(self.openings_panel, "Openings")
+        self.editor_tabs.addTab(self.floors_panel, "Floors")
+        self.editor_tabs.addTab(self.site_panel, "Facades and surfaces below")
+        self.editor_tabs.addTab(self.building_panel, "Building and cats")
+        self.editor_tabs.setCurrentIndex(max(current, 0))
+        self._disconnects = [doc.on_changed("*", self._on_doc_changed),
+                             self.history.on_changed(self._update_undo_actions)]
+        self._update_title()
+        self._update_undo_actions()
+        self.recompute()
+
+    def _on_doc_changed(self, kind: str) -> None:
+        if kind in MODEL_KINDS:
+            self.recompute()
+            self._autosave_timer.start()  # the dirty flag is set just after this change
+        elif kind in ("dirty", "path"):
+            self._update_title()
+            if kind == "dirty" and not self.document.dirty:
+                self._autosave_timer.stop()
+                autosave.discard_recovery()
+
+    def _update_title(self) -> None:
+        self.setWindowTitle(f"{self.document.display_name}[*] — {APP_TITLE}")
+        self.setWindowModified(self.document.dirty)
+
+    def _update_undo_actions(self) -> None:
+        h = self.history
+        self.actions_.undo.setEnabled(h.can_undo)
+        self.actions_.redo.setEnabled(h.can_redo)
+        self.actions_.undo.setText(f"&Undo {h.undo_label}" if h.can_undo else "&Undo")
+        self.actions_.redo.setText(f"&Redo {h.redo_label}" if h.can_redo else "&Redo")
+
+    def undo(self) -> None:
+        self.history.undo()
+
+    def redo(self) -> None:
+        self.history.redo()
+
+    def push(self, cmd: Any) -> str | None:
+        """Push an edit; on refusal show why in the status bar and return the reason."""
+        reason = push_command(self.history, cmd)
+        if reason is not None:
+            self.status_label.setText(f"! Not changed: {reason}")
+            self.status_label.setStyleSheet(ERROR_STYLE)
+        else:
+            self.status_label.setStyleSheet("")
+            self.status_label.setText(cmd.label)
+        return reason
+
+    # --- recomputation ----------------------------------------------------------------------------
+
+    def recompute(self) -> None:
+        """Start computing results for the current building; the shown ones become stale."""
+        self.results_model.set_stale(True)
+        self.results_state.setText("Results are out of date: recomputing…")
+        self.progress.setRange(0, 0)
+        self.progress.show()
+        self.recomputer.request(self.document.building)
+
+    @property
+    def results_stale(self) -> bool:
+        return self.results_model.stale
+
+    def _on_progress(self, _generation: int, done: int, total: int) -> None:
+        self.progress.setRange(0, max(total, 1))
+        self.progress.setValue(done)
+
+    def _on_results(self, _generation: int, assessment: Any, seconds: float) -> None:
+        self.last_compute_s = seconds
+        self.results_model.set_assessment(assessment)
+        if not self._results_sized and self.results_model.rowCount():
+            self.results_table.resizeColumnsToContents()
+            self._results_sized = True
+        self.progress.hide()
+        n = len(getattr(assessment, "openings", ()))
+        self.results_state.setText(
+            f"{n} openings ranked, worst first (by expected injury band, then likelihood). "
+            f"Double-click a row to edit the opening.")
+        self.results_updated.emit(assessment)
+
+    def _on_results_failed(self, _generation: int, message: str) -> None:
+        self.progress.hide()
+        self.results_state.setText(f"! Results could not be computed: {message}")
+        self.results_state.setStyleSheet(ERROR_STYLE)
+        self.results_failed.emit(message)
+
+    def _on_result_activated(self, index: QModelIndex) -> None:
+        opening_id = self.results_model.row_result(index.row()).id
+        self.editor_tabs.setCurrentWidget(self.openings_panel)
+        self.openings_panel.select_ids([opening_id])
+
+    # --- files ------------------------------------------------------------------------------------
+
+    def confirm_discard(self) -> bool:
+        """True if the current work may be replaced: saved, or the user chose to save/discard."""
+        if not self.document.dirty:
+            return True
+        answer = self.prompts.ask_save_changes(self, self.document.display_name)
+        if answer == "save":
+            return self.save()
+        return answer == "discard"
+
+    def new_document(self) -> bool:
+        if not self.confirm_discard():
+            return False
+        autosave.discard_recovery()
+        self.load_document(Document(blank_building()))
+        return True
+
+    def open_dialog(self) -> bool:
+        folder = self.document.path.parent if self.document.path else None
+        if not self.confirm_discard():
+            return False
+        path = self.prompts.open_path(self, folder)
+        return self.open_file(path, confirm=False) if path else False
+
+    def open_file(self, path: Path, *, confirm: bool = True) -> bool:
+        """Open the building file at ``path``; problems are shown, the current work kept."""
+        from petfall_audit.io.building_file import load_building
+
+        if confirm and not self.confirm_discard():
+            return False
+        try:
+            building = load_building(path)
+        except BuildingFileError as exc:
+            self.prompts.show_error(self, "Cannot open the building file",
+                                    f"{Path(path).name}:\n{exc}")
+            return False
+        autosave.discard_recovery()
+        self.load_document(Document(building, Path(path)))
+        self.settings.add_recent(Path(path))
+        self.status_label.setText(f"Opened {Path(path).name}")
+        return True
+
+    def save(self) -> bool:
+        """Save to the document's file (asks for one if it has none)."""
+        from petfall_audit.io.building_file import save_building
+
+        if self.document.path is None:
+            return self.save_as()
+        path = self.document.path
+        try:
+            save_building(self.document.building, path)
+        except (OSError, ValueError) as exc:
+            self.prompts.show_error(self, "Cannot save", f"{path}:\n{exc}")
+            return False
+        self.history.set_clean()
+        autosave.discard_recovery()
+        self.settings.add_recent(path)
+        self.status_label.setStyleSheet("")
+        self.status_label.setText(f"Saved {path.name}")
+        return True
+
+    def save_as(self, path: Path | None = None) -> bool:
+        if path is None:
+            name = self.document.building.info.name or "building"
+            suggested = (self.document.path or Path.home() / f"{name}.json")
+            path = self.prompts.save_path(self, suggested)
+            if path is None:
+                return False
+        old = self.document.path
+        self.document.path = Path(path)
+        if not self.save():
+            self.document.path = old
+            return False
+        return True
+
+    def _fill_recent_menu(self) -> None:
+        menu = self.actions_.recent_menu
+        menu.clear()
+        recent = self.settings.recent_files()
+        for path in recent:
+            action = menu.addAction(str(path))
+            action.triggered.connect(lambda _c=False, p=path: self.open_file(p))
+        if not recent:
+            menu.addAction("(none yet)").setEnabled(False)
+        else:
+            menu.addSeparator()
+            menu.addAction("Clear list", self.settings.clear_recent)
+
+    # --- recovery ---------------------------------------------------------------------------------
+
+    def autosave_now(self) -> Path | None:
+        """Write the recovery copy of unsaved work now (or remove it if all is saved)."""
+        self._autosave_timer.stop()
+        if not self.document.dirty:
+            autosave.discard_recovery()
+            return None
+        try:
+            return autosave.write_recovery(self.document.building, self.document.path)
+        except (OSError, ValueError) as exc:
+            self.status_label.setText(f"! Recovery copy not written: {exc}")
+            return None
+
+    def offer_recovery(self) -> bool:
+        """If an earlier session left unsaved work, offer it; True if it was recovered."""
+        found = autosave.find_recoveries()
+        if not found:
+            return False
+        newest = found[0]
+        building = None
+        if self.prompts.ask_recover(self, newest):
+            try:
+                building = autosave.load_recovery(newest)
+            except BuildingFileError as exc:
+                self.prompts.show_error(self, "Cannot recover", str(exc))
+        for rec in found:  # offered once; older copies go too
+            autosave.discard_recovery(rec)
+        if building is None:
+            return False
+        self.load_document(Document(building, newest.source_path))
+        self.history.forget_clean()
+        self.autosave_now()  # this session's own copy, until it is saved
+        return True
+
+    # --- edits with dialogs -----------------------------------------------------------------------
+
+    def add_opening(self) -> None:
+        self.editor_tabs.setCurrentWidget(self.openings_panel)
+        self.openings_panel.add_opening()
+
+    def _current_level(self) -> int | None:
+        level = self.floors_panel.selected_level()
+        if level is None:
+            ids = self.openings_panel.selected_ids()
+            if ids:
+                level = self.document.building.opening(ids[0]).floor
+        return level
+
+    def copy_floor_dialog(self) -> None:
+        req = self.prompts.copy_floor(self, self.document.building, self._current_level())
+        if req is not None:
+            self.copy_floor(req.level, req.to_levels, id_pattern=req.id_pattern,
+                            replace_existing=req.replace_existing)
+
+    def copy_floor(self, level: int, to_levels: Any, *, id_pattern: str | None = None,
+                   replace_existing: bool = False) -> str | None:
+        """Copy the openings of floor ``level`` to ``to_levels``; the reason if refused."""
+        kwargs = {} if id_pattern is None else {"id_pattern": id_pattern}
+        try:
+            cmd = CopyFloorOpenings(level, to_levels, replace_existing=replace_existing, **kwargs)
+        except ValueError as exc:
+            reason: str | None = str(exc)
+        else:
+            reason = self.push(cmd)
+        if reason is not None:
+            self.prompts.show_error(self, "Floor not copied", reason)
+        return reason
+
+    def bulk_edit_dialog(self) -> None:
+        req = self.prompts.bulk_edit(self, self.document.building,
+                                     self.openings_panel.selected_ids(), self.options.units)
+        if req is not None:
+            self.bulk_edit(req.ids, req.field, req.value)
+
+    def bulk_edit(self, ids: Any, field: str, value: Any) -> str | None:
+        """Set ``field`` to ``value`` on the openings ``ids`` as one undo step."""
+        ids = tuple(ids)
+        label = field_spec(OPENING_FIELDS, field).label.lower()
+        try:
+            cmd = SetOpeningFields(ids, {field: value},
+                                   label=f"Set {label} on {len(ids)} openings")
+        except ValueError as exc:
+            reason: str | None = str(exc)
+        else:
+            reason = self.push(cmd)
+        if reason is not None:
+            self.prompts.show_error(self, "Openings not changed", reason)
+        else:
+            self.openings_panel.select_ids(ids)
+        return reason
+
+    # --- settings and help ------------------------------------------------------------------------
+
+    def set_units(self, units: str) -> None:
+        self.settings.units = units
+
+    def set_palette(self, name: str) -> None:
+        self.settings.palette = name
+
+    def _on_settings_changed(self, key: str) -> None:
+        if key == "units":
+            self.options.units = self.settings.units
+            self.actions_.metric.setChecked(self.settings.units == "metric")
+            self.actions_.imperial.setChecked(self.settings.units == "imperial")
+        elif key == "palette":
+            self.options.palette = self.settings.palette
+            for action in self.actions_.palette_group.actions():
+                action.setChecked(action.data() == self.settings.palette)
+
+    def edit_contact(self) -> None:
+        values = self.prompts.edit_contact(self, self.settings.contact())
+        if values is not None:
+            self.settings.set_contact(values)
+
+    def show_cautions(self) -> None:
+        self.prompts.show_cautions(self)
+
+    def show_about(self) -> None:
+        self.prompts.show_cautions(self, about=True)
+
+    # --- closing ----------------------------------------------------------------------------------
+
+    def closeEvent(self, event: QCloseEvent) -> None:
+        if not self.confirm_discard():
+            event.ignore()
+            return
+        self._autosave_timer.stop()
+        self.recomputer.shutdown()
+        autosave.discard_recovery()
+        self.settings.set_window_state(self.saveGeometry(), self.saveState())
+        self.settings.sync()
+        event.accept()

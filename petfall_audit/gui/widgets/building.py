@@ -1,0 +1,84 @@
+"""Building details and the cats at risk."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from PySide6.QtWidgets import QComboBox, QFormLayout, QGroupBox, QLabel, QVBoxLayout, QWidget
+
+from petfall_audit.editing.commands import SetBuildingInfo, SetCatProfile
+from petfall_audit.editing.document import Document
+from petfall_audit.editing.fields import INFO_FIELDS
+from petfall_audit.editing.history import History
+from petfall_audit.gui.adapters import ViewOptions, push_command
+from petfall_audit.gui.widgets.field_form import FieldForm
+from petfall_audit.model import CAT_PRESETS
+
+__all__ = ["BuildingPanel", "PRESET_LABELS"]
+
+PRESET_LABELS = {
+    "adult": "Adult cats (about 4 kg)",
+    "kitten": "Kittens and young cats",
+    "heavy_adult": "Heavy adult cats (about 6 kg)",
+}
+
+
+class BuildingPanel(QWidget):
+    """The building's details form and the cat-profile preset."""
+
+    def __init__(self, doc: Document, history: History, options: ViewOptions,
+                 parent: QWidget | None = None) -> None:
+        super().__init__(parent)
+        self._doc = doc
+        self._history = history
+        self.form = FieldForm(INFO_FIELDS, options, self._commit)
+        self.form.setObjectName("building_form")
+        details = QGroupBox("Building details")
+        QVBoxLayout(details).addWidget(self.form)
+
+        self.profile = QComboBox()
+        self.profile.setObjectName("cat_profile")
+        for key, label in PRESET_LABELS.items():
+            self.profile.addItem(label, key)
+        self.profile.activated.connect(self._on_profile_chosen)
+        self.profile_error = QLabel()
+        cats = QGroupBox("Cats at risk")
+        cats_layout = QFormLayout(cats)
+        cats_layout.addRow("Population", self.profile)
+        cats_layout.addRow(QLabel("Mass, body drag, chance of relaxing in the fall and righting "
+                                  "time are sampled from the chosen population; see the method "
+                                  "notes in the audit report."))
+        layout = QVBoxLayout(self)
+        layout.addWidget(details)
+        layout.addWidget(cats)
+        layout.addStretch(1)
+        self._disconnects = [doc.on_changed("building", self._on_building_changed),
+                             doc.on_changed("profile", self._on_profile_changed)]
+        self._on_building_changed("building")
+        self._on_profile_changed("profile")
+
+    def detach(self) -> None:
+        for disconnect in self._disconnects:
+            disconnect()
+
+    def _commit(self, name: str, value: Any) -> str | None:
+        return push_command(self._history, SetBuildingInfo({name: value}))
+
+    def _on_building_changed(self, kind: str) -> None:
+        info = self._doc.building.info
+        self.form.set_values({s.name: getattr(info, s.name) for s in INFO_FIELDS},
+                             keep_errors=True)
+
+    def _on_profile_changed(self, kind: str) -> None:
+        preset = self._doc.building.cat_profile.preset
+        i = self.profile.findData(preset)
+        if i < 0 and self.profile.findData(None) < 0:
+            self.profile.addItem("Custom (from the file)", None)
+        self.profile.setCurrentIndex(i if i >= 0 else self.profile.findData(None))
+
+    def _on_profile_chosen(self, index: int) -> None:
+        key = self.profile.itemData(index)
+        if key is None or key == self._doc.building.cat_profile.preset:
+            return
+        reason = push_command(self._history, SetCatProfile(CAT_PRESETS[key]))
+        self.profile_error.setText(reason or "")

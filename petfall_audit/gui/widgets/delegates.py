@@ -1,0 +1,54 @@
+"""Cell editors for record tables: a list for choices, a line for typed values."""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+
+from PySide6.QtCore import QAbstractItemModel, QModelIndex, QPersistentModelIndex, Qt
+from PySide6.QtWidgets import QComboBox, QStyledItemDelegate, QStyleOptionViewItem, QWidget
+
+from petfall_audit.editing.fields import FieldSpec, enum_label, format_value
+from petfall_audit.gui.adapters import SPEC_ROLE
+
+__all__ = ["FieldDelegate"]
+
+Index = QModelIndex | QPersistentModelIndex
+
+
+class FieldDelegate(QStyledItemDelegate):
+    """Combo boxes for ``enum`` and ``ref`` columns (``choices(spec)`` lists the ids); the default
+    line editor elsewhere. The model reads and checks what is typed."""
+
+    def __init__(self, choices: Callable[[FieldSpec], list[str]], parent: QWidget | None = None
+                 ) -> None:
+        super().__init__(parent)
+        self._choices = choices
+
+    def createEditor(self, parent: QWidget, option: QStyleOptionViewItem, index: Index) -> QWidget:
+        spec = index.data(SPEC_ROLE)
+        if isinstance(spec, FieldSpec) and spec.kind in ("enum", "ref"):
+            combo = QComboBox(parent)
+            if spec.kind == "enum":
+                assert spec.enum is not None
+                for member in spec.enum:
+                    combo.addItem(enum_label(member), format_value(spec, member))
+            else:
+                if spec.optional:
+                    combo.addItem("(all)", "")
+                for choice in self._choices(spec):
+                    combo.addItem(choice, choice)
+            return combo
+        return super().createEditor(parent, option, index)
+
+    def setEditorData(self, editor: QWidget, index: Index) -> None:
+        if isinstance(editor, QComboBox):
+            i = editor.findData(index.data(Qt.ItemDataRole.EditRole))
+            editor.setCurrentIndex(max(i, 0))
+            return
+        super().setEditorData(editor, index)
+
+    def setModelData(self, editor: QWidget, model: QAbstractItemModel, index: Index) -> None:
+        if isinstance(editor, QComboBox):
+            model.setData(index, editor.currentData(), Qt.ItemDataRole.EditRole)
+            return
+        super().setModelData(editor, model, index)

@@ -1,0 +1,143 @@
+"""Floors: levels, names, elevations and storey heights; add, remove, copy a typical floor."""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+from typing import Any
+
+from PySide6.QtGui import QAction
+from PySide6.QtWidgets import (
+    QAbstractItemView,
+    QLabel,
+    QPushButton,
+    QTableView,
+    QToolBar,
+    QVBoxLayout,
+    QWidget,
+)
+
+from petfall_audit.editing.commands import (
+    AddFloor,
+    Command,
+    RemoveFloor,
+    SetFloor,
+    SetFloorElevations,
+)
+from petfall_audit.editing.document import Document
+from petfall_audit.editing.fields import FLOOR_FIELDS, FieldSpec, format_value, parse_value
+from petfall_audit.editing.history import History
+from petfall_audit.editing.query import elevations_for_storey_height, next_floor, storey_heights_m
+from petfall_audit.gui.adapters import RecordTableModel, ViewOptions, push_command
+from petfall_audit.gui.widgets.delegates import FieldDelegate
+from petfall_audit.gui.widgets.field_form import ERROR_STYLE
+from petfall_audit.model import Building, Floor
+
+__all__ = ["FloorsPanel"]
+
+_LENGTH = FieldSpec("storey_m", "Storey height", "length")
+
+
+def _storey_text(building: Building, floor: Floor, units: str) -> str:
+    height = storey_heights_m(building).get(floor.level)
+    return "—" if height is None else format_value(_LENGTH, height, units)
+
+
+def _openings_text(building: Building, floor: Floor, units: str) -> str:
+    return str(sum(o.floor == floor.level for o in building.openings))
+
+
+class FloorsPanel(QWidget):
+    """The floors of ``doc``. Editing a storey height moves every floor above it."""
+
+    def __init__(self, doc: Document, history: History, options: ViewOptions, *,
+                 actions: Sequence[QAction] = (), parent: QWidget | None = None) -> None:
+        super().__init__(parent)
+        self._doc = doc
+        self._history = history
+        self._options = options
+        self.model = RecordTableModel(
+            doc, history, options, kind="floors", items=lambda b: b.floors, key="level",
+            fields=FLOOR_FIELDS,
+            make_command=lambda level, changes: SetFloor(level, changes),
+            extra=[("Storey height (to floor above)", _storey_text),
+                   ("Openings", _openings_text)],
+            editable_extra=self._edit_extra, extra_kinds=("openings",), parent=self,
+        )
+        self.table = QTableView()
+        self.table.setObjectName("floors_table")
+        self.table.setModel(self.model)
+        self.table.setItemDelegate(FieldDelegate(lambda spec: [], self.table))
+        self.table.setSelectionBehavior(QAbstractItemView.SelectionBehavior.SelectRows)
+        self.table.verticalHeader().hide()
+        self.table.verticalHeader().setDefaultSectionSize(22)
+        self.table.setWordWrap(False)
+        self.table.horizontalHeader().setResizeContentsPrecision(40)
+        self.table.resizeColumnsToContents()
+        self.table.horizontalHeader().setStretchLastSection(True)
+        self.error = QLabel()
+        self.error.setStyleSheet(ERROR_STYLE)
+        self.error.setWordWrap(True)
+        self.error.hide()
+        self.model.edit_failed.connect(self._on_edit_failed)
+
+        bar = QToolBar()
+        add = QPushButton("Add floor on top")
+        add.clicked.connect(self.add_floor)
+        remove = QPushButton("Remove selected floor")
+        remove.clicked.connect(self.remove_selected)
+        bar.addWidget(add)
+        bar.addWidget(remove)
+        for action in actions:
+            bar.addAction(action)
+        hint = QLabel("Floor levels are finished-floor heights above the building's datum. "
+                      "Changing a storey height moves every floor above it.")
+        hint.setWordWrap(True)
+        layout = QVBoxLayout(self)
+        layout.setContentsMargins(0, 0, 0, 0)
+        layout.addWidget(bar)
+        layout.addWidget(hint)
+        layout.addWidget(self.table, 1)
+        layout.addWidget(self.error)
+
+    def detach(self) -> None:
+        self.model.detach()
+
+    def selected_level(self) -> int | None:
+        rows = self.table.selectionModel().selectedRows()
+        return int(self.model.key_of_row(rows[0].row())) if rows else None
+
+    def _edit_extra(self, floor: Floor, column: int, text: str) -> Command | str | None:
+        if column != 0:
+            return None
+        units = self._options.units
+        if text == _storey_text(self._doc.building, floor, units):
+            return None
+        try:
+            height_m = parse_value(_LENGTH, text, units)
+            mapping = elevations_for_storey_height(self._doc.building, floor.level, height_m)
+        except ValueError as exc:
+            return f"storey height: {exc}"
+        if height_m <= 0:
+            return "storey height must be more than zero"
+        return SetFloorElevations(mapping, label=f"Set storey height of floor {floor.level}")
+
+    def _on_edit_failed(self, key: str, field_name: str, message: str) -> None:
+        self._show_error(f"Floor {key}: {message} (the old value is kept)")
+
+    def _show_error(self, message: str) -> None:
+        self.error.setText(f"! {message}")
+        self.error.show()
+
+    def add_floor(self) -> None:
+        self.error.hide()
+        reason = push_command(self._history, AddFloor(next_floor(self._doc.building)))
+        if reason:
+            self._show_error(reason)
+
+    def remove_selected(self) -> Any:
+        self.error.hide()
+        level = self.selected_level()
+        if level is not None:
+            reason = push_command(self._history, RemoveFloor(level))
+            if reason:
+                self._show_error(reason)

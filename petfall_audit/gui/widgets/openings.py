@@ -1,0 +1,236 @@
+"""Openings: a table and a form side by side. Selecting several rows edits them together."""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+from typing import Any
+
+from PySide6.QtCore import QItemSelectionModel, Qt
+from PySide6.QtGui import QAction
+from PySide6.QtWidgets import (
+    QAbstractItemView,
+    QHBoxLayout,
+    QLabel,
+    QPushButton,
+    QScrollArea,
+    QSplitter,
+    QTableView,
+    QToolBar,
+    QVBoxLayout,
+    QWidget,
+)
+
+from petfall_audit.editing.commands import AddOpenings, RemoveOpenings, SetOpeningFields
+from petfall_audit.editing.document import Document
+from petfall_audit.editing.fields import OPENING_FIELDS, FieldSpec
+from petfall_audit.editing.history import History
+from petfall_audit.editing.query import unique_id
+from petfall_audit.gui.adapters import RecordTableModel, ViewOptions, push_command
+from petfall_audit.gui.widgets.delegates import FieldDelegate
+from petfall_audit.gui.widgets.field_form import ERROR_STYLE, MIXED, FieldForm
+from petfall_audit.model import Opening, OpeningKind
+
+__all__ = ["OpeningsPanel", "TABLE_FIELDS"]
+
+#: Columns of the openings table (every field but the notes).
+TABLE_FIELDS: tuple[FieldSpec, ...] = tuple(s for s in OPENING_FIELDS if s.name != "notes")
+
+
+class OpeningsPanel(QWidget):
+    """The openings of ``doc``: table (multi-select) and form; edits go to ``history``."""
+
+    def __init__(self, doc: Document, history: History, options: ViewOptions, *,
+                 actions: Sequence[QAction] = (), parent: QWidget | None = None) -> None:
+        super().__init__(parent)
+        self._doc = doc
+        self._history = history
+        self._options = options
+        self.model = RecordTableModel(
+            doc, history, options, kind="openings", items=lambda b: b.openings, key="id",
+            fields=TABLE_FIELDS,
+            make_command=lambda key, changes: SetOpeningFields([key], changes), parent=self,
+        )
+        self.table = QTableView()
+        self.table.setObjectName("openings_table")
+        self.table.setModel(self.model)
+        self.table.setItemDelegate(FieldDelegate(self._choices, self.table))
+        self.table.setSelectionBehavior(QAbstractItemView.SelectionBehavior.SelectRows)
+        self.table.setSelectionMode(QAbstractItemView.SelectionMode.ExtendedSelection)
+        self.table.setEditTriggers(QAbstractItemView.EditTrigger.DoubleClicked
+                                   | QAbstractItemView.EditTrigger.EditKeyPressed
+                                   | QAbstractItemView.EditTrigger.AnyKeyPressed)
+        self.table.setAlternatingRowColors(True)
+        self.table.verticalHeader().setDefaultSectionSize(22)
+        self.table.verticalHeader().hide()
+        self.table.verticalHeader().setDefaultSectionSize(22)
+        self.table.setWordWrap(False)
+        self.table.horizontalHeader().setResizeContentsPrecision(40)
+        self.table.resizeColumnsToContents()
+        self.form = FieldForm(OPENING_FIELDS, options, self._commit_form, choices=self._choices)
+        self.form.setObjectName("opening_form")
+        self.form_title = QLabel("No opening selected")
+        self.form_title.setObjectName("form_title")
+        self.table_error = QLabel()
+        self.table_error.setObjectName("table_error")
+        self.table_error.setStyleSheet(ERROR_STYLE)
+        self.table_error.setWordWrap(True)
+        self.table_error.hide()
+
+        bar = QToolBar()
+        add = QPushButton("Add opening")
+        add.clicked.connect(self.add_opening)
+        remove = QPushButton("Remove selected")
+        remove.clicked.connect(self.remove_selected)
+        bar.addWidget(add)
+        bar.addWidget(remove)
+        for action in actions:
+            bar.addAction(action)
+        self.count_label = QLabel()
+        bar.addSeparator()
+        bar.addWidget(self.count_label)
+
+        left = QWidget()
+        left_layout = QVBoxLayout(left)
+        left_layout.setContentsMargins(0, 0, 0, 0)
+        left_layout.addWidget(bar)
+        left_layout.addWidget(self.table, 1)
+        left_layout.addWidget(self.table_error)
+        right = QWidget()
+        right_layout = QVBoxLayout(right)
+        right_layout.setContentsMargins(4, 0, 0, 0)
+        right_layout.addWidget(self.form_title)
+        scroll = QScrollArea()
+        scroll.setWidgetResizable(True)
+        scroll.setWidget(self.form)
+        right_layout.addWidget(scroll, 1)
+        splitter = QSplitter(Qt.Orientation.Horizontal)
+        splitter.addWidget(left)
+        splitter.addWidget(right)
+        splitter.setStretchFactor(0, 3)
+        splitter.setStretchFactor(1, 2)
+        layout = QHBoxLayout(self)
+        layout.setContentsMargins(0, 0, 0, 0)
+        layout.addWidget(splitter)
+
+        self.model.edit_failed.connect(self._on_edit_failed)
+        self.table.selectionModel().selectionChanged.connect(self._on_selection_changed)
+        self._disconnects = [doc.on_changed(k, self._on_doc_changed)
+                             for k in ("openings", "facades")]
+        self._refresh_count()
+
+    def detach(self) -> None:
+        self.model.detach()
+        for disconnect in self._disconnects:
+            disconnect()
+
+    # --- selection -------------------------------------------------------------------------------
+
+    def selected_ids(self) -> list[str]:
+        """Ids of the selected openings, in table order."""
+        rows = sorted({i.row() for i in self.table.selectionModel().selectedRows()})
+        return [self.model.key_of_row(r) for r in rows]
+
+    def select_ids(self, ids: Sequence[str]) -> None:
+        """Select the openings with ``ids``."""
+        sel = self.table.selectionModel()
+        sel.clearSelection()
+        flags = (QItemSelectionModel.SelectionFlag.Select
+                 | QItemSelectionModel.SelectionFlag.Rows)
+        first = None
+        for opening_id in ids:
+            row = self.model.row_of_key(opening_id)
+            if row >= 0:
+                sel.select(self.model.index(row, 0), flags)
+                first = row if first is None else first
+        if first is not None:
+            self.table.scrollTo(self.model.index(first, 0))
+
+    def _choices(self, spec: FieldSpec) -> list[str]:
+        if spec.name == "facade":
+            return [f.id for f in self._doc.building.facades]
+        return []
+
+    def _on_selection_changed(self, *_: Any) -> None:
+        self.table_error.hide()
+        self._refresh_form(keep_errors=False)
+
+    def _refresh_form(self, *, keep_errors: bool) -> None:
+        ids = self.selected_ids()
+        if not ids:
+            self.form_title.setText("No opening selected: select one or more rows")
+            self.form.set_values({}, enabled=False)
+            return
+        chosen = set(ids)
+        openings = [o for o in self._doc.building.openings if o.id in chosen]
+        values: dict[str, Any] = {}
+        for spec in OPENING_FIELDS:
+            vals = [getattr(o, spec.name) for o in openings]
+            values[spec.name] = vals[0] if all(v == vals[0] for v in vals) else MIXED
+        if len(ids) == 1:
+            self.form_title.setText(f"Opening {ids[0]}")
+        else:
+            self.form_title.setText(f"{len(ids)} openings selected: a change applies to all")
+        self.form.set_values(values, keep_errors=keep_errors,
+                             disabled_fields=("id",) if len(ids) > 1 else ())
+
+    def _on_doc_changed(self, kind: str) -> None:
+        self._refresh_count()
+        self._refresh_form(keep_errors=True)
+
+    def _refresh_count(self) -> None:
+        n = len(self._doc.building.openings)
+        self.count_label.setText(f"  {n} opening{'s' if n != 1 else ''}")
+
+    # --- edits ------------------------------------------------------------------------------------
+
+    def _commit_form(self, name: str, value: Any) -> str | None:
+        ids = self.selected_ids()
+        if not ids:
+            return "select an opening first"
+        try:
+            cmd = SetOpeningFields(ids, {name: value})
+        except ValueError as exc:
+            return str(exc)
+        reason = push_command(self._history, cmd)
+        if reason is None and name == "id":
+            self.select_ids([value])
+        return reason
+
+    def _on_edit_failed(self, key: str, field_name: str, message: str) -> None:
+        self.table_error.setText(f"! Opening {key}: {message} (the old value is kept)")
+        self.table_error.show()
+
+    def add_opening(self) -> str | None:
+        """Add an opening next to the selected one (or on the first floor and facade)."""
+        b = self._doc.building
+        ids = self.selected_ids()
+        if ids:
+            like = b.opening(ids[-1])
+            level, facade = like.floor, like.facade
+        elif b.floors and b.facades:
+            level, facade = b.floors[0].level, b.facades[0].id
+        else:
+            self.table_error.setText("! Add a floor and a facade first")
+            self.table_error.show()
+            return None
+        new_id = unique_id((o.id for o in b.openings), f"{facade}-{level:02d}-new")
+        opening = Opening(id=new_id, floor=level, facade=facade, kind=OpeningKind.BALCONY,
+                          x_m=0.0, width_m=1.0, projection_m=1.0)
+        index = None
+        if ids:
+            index = self.model.row_of_key(ids[-1]) + 1
+        reason = push_command(self._history, AddOpenings([opening], index=index))
+        if reason is not None:
+            self.table_error.setText(f"! {reason}")
+            self.table_error.show()
+            return None
+        self.select_ids([new_id])
+        return new_id
+
+    def remove_selected(self) -> None:
+        ids = self.selected_ids()
+        if ids:
+            reason = push_command(self._history, RemoveOpenings(ids))
+            if reason is not None:
+                self.table_error.setText(f"! {reason}")
+                self.table_error.show()

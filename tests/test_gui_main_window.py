@@ -1,0 +1,377 @@
+"""The main window, offscreen: edits update results, undo, copy floor, bulk edit, files,
+invalid input, recovery and closing with unsaved work."""
+
+from __future__ import annotations
+
+import dataclasses
+from pathlib import Path
+from typing import Any
+
+import pytest
+from PySide6.QtCore import Qt
+from PySide6.QtWidgets import QLabel, QLineEdit, QTextBrowser
+
+from petfall_audit.cautions import CAUTIONS, CAUTIONS_SHORT
+from petfall_audit.demo import sample_building
+from petfall_audit.editing import autosave
+from petfall_audit.editing.document import Document
+from petfall_audit.editing.query import select_openings
+from petfall_audit.gui.dialogs import BulkEditDialog, CautionsDialog, CopyFloorDialog, Prompts
+from petfall_audit.gui.main_window import MainWindow
+from petfall_audit.gui.settings import AppSettings
+from petfall_audit.io.building_file import load_building
+from petfall_audit.model import Building, Floor, OpeningKind
+
+pytestmark = pytest.mark.gui
+
+SAMPLES = 64  # few simulated falls keep these tests fast; the ranking logic is the same
+
+
+class FakePrompts(Prompts):
+    """Answers every question at once and records what was asked."""
+
+    def __init__(self) -> None:
+        self.asked: list[str] = []
+        self.save_answer = "discard"
+        self.recover_answer = True
+        self.save_to: Path | None = None
+        self.errors: list[str] = []
+
+    def ask_save_changes(self, parent: Any, name: str) -> str:
+        self.asked.append(f"save {name}")
+        return self.save_answer
+
+    def ask_recover(self, parent: Any, recovery: Any) -> bool:
+        self.asked.append("recover")
+        return self.recover_answer
+
+    def save_path(self, parent: Any, suggested: Path) -> Path | None:
+        return self.save_to
+
+    def show_error(self, parent: Any, title: str, text: str) -> None:
+        self.errors.append(text)
+
+    def show_cautions(self, parent: Any, *, about: bool = False) -> None:
+        self.asked.append("cautions")
+
+
+def make_window(qtbot, building: Building | None = None, **kwargs: Any) -> MainWindow:  # type: ignore[no-untyped-def]
+    window = MainWindow(Document(building or sample_building("walkup")), prompts=FakePrompts(),
+                        samples=SAMPLES, **kwargs)
+    qtbot.addWidget(window)
+    window.show()
+    qtbot.waitUntil(lambda: not window.results_stale, timeout=20000)
+    return window
+
+
+def result_of(window: MainWindow, opening_id: str) -> Any:
+    return window.results_model.assessment.result(opening_id)
+
+
+def test_sample_opens_and_results_fill_the_ranked_table(qtbot) -> None:  # type: ignore[no-untyped-def]
+    window = make_window(qtbot, sample_building("tower"))
+    model = window.results_model
+    assert model.rowCount() == len(window.document.building.openings) == 166
+    ranks = [int(model.data(model.index(r, 0))) for r in range(model.rowCount())]
+    assert ranks == sorted(ranks) and ranks[0] == 1
+    assert model.data(model.index(0, 6)).startswith("1 in ")
+    assert model.data(model.index(0, 7)).endswith(" m/s")
+    assert window.document.building.info.name in window.windowTitle()
+    assert not window.isWindowModified()
+
+
+def test_editing_an_opening_updates_results_and_undo_restores_exactly(qtbot) -> None:  # type: ignore[no-untyped-def]
+    window = make_window(qtbot)
+    doc = window.document
+    original = doc.building
+    worst = window.results_model.row_result(0)
+    assert worst.one_in_n < float("inf")
+    panel = window.openings_panel
+    panel.select_ids([worst.id])
+    assert panel.form_title.text() == f"Opening {worst.id}"
+    with qtbot.waitSignal(window.results_updated, timeout=20000):
+        assert panel.form.commit_text("netting_mesh_mm", "20 mm")
+    assert doc.building.opening(worst.id).netting_mesh_mm == 20.0
+    assert window.isWindowModified()
+    assert result_of(window, worst.id).annual_probability < worst.annual_probability
+    with qtbot.waitSignal(window.results_updated, timeout=20000):
+        window.actions_.undo.trigger()
+    assert doc.building is original
+    assert not window.isWindowModified()
+    assert result_of(window, worst.id).annual_probability == worst.annual_probability
+    with qtbot.waitSignal(window.results_updated, timeout=20000):
+        window.actions_.redo.trigger()
+    assert doc.building.opening(worst.id).netting_mesh_mm == 20.0
+
+
+def test_table_cell_edit_goes_through_the_history(qtbot) -> None:  # type: ignore[no-untyped-def]
+    window = make_window(qtbot)
+    model = window.openings_panel.model
+    col = model.column_of("perch_height_m")
+    first = model.key_of_row(0)
+    assert model.setData(model.index(0, col), "42 in", Qt.ItemDataRole.EditRole)
+    assert window.document.building.opening(first).perch_height_m == pytest.approx(1.0668)
+    assert "Perch height" in window.history.undo_label or "perch" in window.history.undo_label
+
+
+def test_invalid_input_shows_an_error_and_keeps_the_old_value(qtbot) -> None:  # type: ignore[no-untyped-def]
+    window = make_window(qtbot)
+    panel = window.openings_panel
+    opening_id = window.document.building.openings[0].id
+    panel.select_ids([opening_id])
+    before = window.document.building
+    form = panel.form
+    assert not form.commit_text("width_m", "wide")  # cannot be read
+    assert "wide" in form.error_text("width_m")
+    editor = form.editor("width_m")
+    assert isinstance(editor, QLineEdit) and editor.text() == "wide"  # shown where it is
+    error_label = form.findChild(QLabel, "error_width_m")
+    assert error_label is not None and error_label.isVisibleTo(form)
+    assert not form.commit_text("width_m", "-2 m")  # read, but the building refuses it
+    assert form.error_text("width_m")
+    assert window.document.building is before and not window.history.can_undo
+    assert form.commit_text("width_m", "1.5 m")  # corrected: the error goes away
+    assert form.error_text("width_m") == ""
+    # the same in a table cell: nothing changes, the reason is shown under the table
+    model = panel.model
+    assert not model.setData(model.index(0, model.column_of("width_m")), "abc")
+    assert panel.table_error.isVisibleTo(panel) and "old value is kept" in panel.table_error.text()
+
+
+def test_copy_a_typical_floor_to_ten_levels(qtbot) -> None:  # type: ignore[no-untyped-def]
+    b = sample_building("walkup")
+    floors = tuple(b.floors) + tuple(
+        Floor(lv, f"Level {lv}", b.floors[-1].elevation_m + 3.0 * (lv - b.floors[-1].level))
+        for lv in range(b.floors[-1].level + 1, b.floors[-1].level + 8))
+    tall = dataclasses.replace(b, floors=floors)
+    window = make_window(qtbot, tall)
+    source = 1
+    n_source = sum(o.floor == source for o in tall.openings)
+    targets = [f.level for f in floors if f.level > source][:10]
+    assert len(targets) == 10
+    dialog = CopyFloorDialog(window.document.building, source)
+    dialog.replace.setChecked(True)
+    dialog.last.setValue(targets[-1])
+    req = dialog.request()
+    assert req.level == source and tuple(targets) == req.to_levels
+    assert "new openings" in dialog.preview.text()
+    with qtbot.waitSignal(window.results_updated, timeout=20000):
+        assert window.copy_floor(req.level, req.to_levels, id_pattern=req.id_pattern,
+                                 replace_existing=True) is None
+    after = window.document.building
+    for level in targets:
+        assert sum(o.floor == level for o in after.openings) == n_source
+    assert window.openings_panel.model.rowCount() == len(after.openings)
+    assert window.results_model.rowCount() == len(after.openings)
+    window.undo()
+    assert window.document.building is tall
+
+
+def test_bulk_edit_netting_on_all_south_balconies(qtbot) -> None:  # type: ignore[no-untyped-def]
+    window = make_window(qtbot, sample_building("block"))
+    b = window.document.building
+    dialog = BulkEditDialog(b, [], "metric")
+    dialog.facade.setCurrentIndex(dialog.facade.findData("south"))
+    dialog.kind.setCurrentIndex(dialog.kind.findData(OpeningKind.BALCONY))
+    dialog.field.setCurrentIndex(dialog.field.findData("netting_mesh_mm"))
+    dialog.value.setText("30 mm")
+    dialog._on_accept()
+    req = dialog.request()
+    expected = select_openings(b, facades=["south"], kinds=["balcony"])
+    assert req is not None and list(req.ids) == expected and len(expected) > 3
+    with qtbot.waitSignal(window.results_updated, timeout=20000):
+        assert window.bulk_edit(req.ids, req.field, req.value) is None
+    after = window.document.building
+    assert all(after.opening(i).netting_mesh_mm == 30.0 for i in expected)
+    others = [o for o in after.openings if o.id not in expected]
+    assert all(o == b.opening(o.id) for o in others)
+    assert window.history.undo_label == f"Set netting mesh on {len(expected)} openings"
+    assert sorted(window.openings_panel.selected_ids()) == sorted(expected)
+    # a bad value in the dialog is shown there and nothing is requested
+    bad = BulkEditDialog(b, expected[:2], "metric")
+    bad.field.setCurrentIndex(bad.field.findData("width_m"))
+    bad.value.setText("lots")
+    bad._on_accept()
+    assert bad.request() is None and bad.error.text().startswith("!")
+
+
+def test_several_selected_rows_are_edited_together_in_the_form(qtbot) -> None:  # type: ignore[no-untyped-def]
+    window = make_window(qtbot)
+    panel = window.openings_panel
+    ids = [o.id for o in window.document.building.openings[:3]]
+    panel.select_ids(ids)
+    assert "3 openings" in panel.form_title.text()
+    assert not panel.form.editor("id").isEnabled()
+    assert panel.form.commit_text("limiter_gap_mm", "4 in")
+    assert all(window.document.building.opening(i).limiter_gap_mm == pytest.approx(101.6)
+               for i in ids)
+    assert len(window.history.labels()) == 1
+
+
+def test_save_reopen_equal_and_recent_files(qtbot, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
+    window = make_window(qtbot)
+    panel = window.openings_panel
+    panel.select_ids([window.document.building.openings[2].id])
+    panel.form.commit_text("notes", "planter by the rail")
+    window.prompts.save_to = tmp_path / "walkup-audit.json"
+    assert window.isWindowModified()
+    assert window.save()  # no file yet: asks where, then saves
+    assert not window.isWindowModified()
+    assert "walkup-audit.json" in window.windowTitle()
+    edited = window.document.building
+    assert load_building(tmp_path / "walkup-audit.json") == edited
+    other = make_window(qtbot)
+    assert other.open_file(tmp_path / "walkup-audit.json")
+    assert other.document.building == edited and not other.document.dirty
+    assert AppSettings().recent_files()[0] == (tmp_path / "walkup-audit.json").resolve()
+
+
+def test_a_broken_file_is_reported_and_the_work_kept(qtbot, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
+    window = make_window(qtbot)
+    before = window.document
+    bad = tmp_path / "broken.json"
+    bad.write_text("{not json", encoding="utf-8")
+    assert not window.open_file(bad)
+    assert window.document is before and window.prompts.errors
+
+
+def test_recovery_file_after_edits_is_offered_on_the_next_start(qtbot, monkeypatch) -> None:  # type: ignore[no-untyped-def]
+    window = make_window(qtbot, autosave_delay_ms=10)
+    panel = window.openings_panel
+    panel.select_ids([window.document.building.openings[0].id])
+    panel.form.commit_text("width_m", "1.3 m")
+    qtbot.waitUntil(lambda: bool(autosave.find_recoveries(include_running=True)), timeout=5000)
+    edited = window.document.building
+    # the next start after a crash: the process that wrote the file is gone
+    monkeypatch.setattr(autosave, "_alive", lambda pid: False)
+    second = make_window(qtbot)
+    assert second.offer_recovery()
+    assert second.prompts.asked == ["recover"]
+    assert second.document.building == edited
+    assert second.document.dirty and second.isWindowModified()
+    assert autosave.find_recoveries(include_running=True)  # its own copy, not the old one
+    monkeypatch.undo()
+    assert autosave.find_recoveries() == []
+    # saving or reverting to the saved state removes the recovery copy
+    window.undo()
+    assert not window.document.dirty
+
+
+def test_declined_recovery_is_discarded(qtbot, monkeypatch) -> None:  # type: ignore[no-untyped-def]
+    autosave.write_recovery(sample_building("walkup"), None, pid=2**30)
+    window = make_window(qtbot)
+    window.prompts.recover_answer = False
+    assert not window.offer_recovery()
+    assert autosave.find_recoveries() == []
+    assert not window.offer_recovery() and window.prompts.asked == ["recover"]
+
+
+def test_closing_with_unsaved_work_asks_first(qtbot) -> None:  # type: ignore[no-untyped-def]
+    window = make_window(qtbot)
+    window.close()  # nothing to save: no question
+    assert window.prompts.asked == []
+    window = make_window(qtbot)
+    panel = window.openings_panel
+    panel.select_ids([window.document.building.openings[0].id])
+    panel.form.commit_text("width_m", "1.4 m")
+    window.prompts.save_answer = "cancel"
+    assert not window.close()
+    assert window.isVisible() and len(window.prompts.asked) == 1
+    window.prompts.save_answer = "discard"
+    assert window.close()
+    assert len(window.prompts.asked) == 2
+
+
+def test_new_document_asks_and_starts_clean(qtbot) -> None:  # type: ignore[no-untyped-def]
+    window = make_window(qtbot)
+    panel = window.openings_panel
+    panel.select_ids([window.document.building.openings[0].id])
+    panel.form.commit_text("width_m", "1.4 m")
+    window.prompts.save_answer = "cancel"
+    assert not window.new_document()
+    window.prompts.save_answer = "discard"
+    assert window.new_document()
+    assert window.document.building.openings == () and not window.history.can_undo
+
+
+def test_imperial_units_show_and_read_feet_and_inches(qtbot) -> None:  # type: ignore[no-untyped-def]
+    window = make_window(qtbot)
+    window.actions_.imperial.trigger()
+    assert AppSettings().units == "imperial"  # persists
+    panel = window.openings_panel
+    opening_id = window.document.building.openings[0].id
+    panel.select_ids([opening_id])
+    editor = panel.form.editor("perch_height_m")
+    assert isinstance(editor, QLineEdit) and editor.text().endswith(" in")
+    assert panel.form.commit_text("perch_height_m", "3 ft 6 in")
+    assert window.document.building.opening(opening_id).perch_height_m == pytest.approx(1.0668)
+    assert window.results_model.data(window.results_model.index(0, 7)).endswith("mph")
+    window.set_units("metric")
+    assert panel.form.editor("perch_height_m").text() == "1.067 m"
+
+
+def test_results_are_marked_stale_and_older_runs_are_dropped(qtbot) -> None:  # type: ignore[no-untyped-def]
+    import threading
+
+    from petfall_audit.risk import assess
+
+    gate = threading.Event()
+    calls: list[str] = []
+
+    def slow_assess(building: Building, **kwargs: Any) -> Any:
+        calls.append(building.openings[0].notes)
+        if building.openings[0].notes == "first":
+            gate.wait(10)  # held until the second edit has been made
+            kwargs["progress"](0, 1)  # a newer request exists: this run stops here
+        return assess(building, **kwargs)
+
+    window = make_window(qtbot, assess=slow_assess)
+    panel = window.openings_panel
+    panel.select_ids([window.document.building.openings[0].id])
+    received: list[Any] = []
+    window.results_updated.connect(received.append)
+    panel.form.commit_text("notes", "first")
+    assert window.results_stale
+    qtbot.waitUntil(lambda: calls[-1:] == ["first"], timeout=5000)
+    panel.form.commit_text("notes", "second")
+    gate.set()
+    qtbot.waitUntil(lambda: bool(received), timeout=20000)
+    qtbot.wait(50)
+    assert len(received) == 1
+    assert received[0].building.openings[0].notes == "second"
+    assert not window.results_stale
+
+
+def test_cautions_are_in_the_window_and_in_the_dialog(qtbot) -> None:  # type: ignore[no-untyped-def]
+    window = make_window(qtbot)
+    assert CAUTIONS_SHORT in window.cautions_banner.text()
+    assert window.cautions_banner.isVisible()
+    window.cautions_banner.linkActivated.emit("#cautions")
+    assert window.prompts.asked == ["cautions"]
+    dialog = CautionsDialog(window, about=True)
+    qtbot.addWidget(dialog)
+    browser = dialog.findChild(QTextBrowser, "cautions_text")
+    assert browser is not None
+    text = browser.toPlainText()
+    for caution in CAUTIONS:
+        assert caution in text
+
+
+def test_views_can_be_added(qtbot) -> None:  # type: ignore[no-untyped-def]
+    from PySide6.QtWidgets import QWidget
+
+    window = make_window(qtbot)
+    index = window.add_view("Facade elevation", QWidget())
+    assert window.view_tabs.tabText(index) == "Facade elevation"
+    assert window.view_tabs.count() == 2
+
+
+def test_settings_persist_contact_block_and_palette(qtbot) -> None:  # type: ignore[no-untyped-def]
+    window = make_window(qtbot)
+    window.settings.set_contact({"organisation": "Riverside Cat Rescue (invented)",
+                                 "phone": "0000 000000"})
+    window.set_palette("grey")
+    window.settings.sync()
+    again = AppSettings()
+    assert again.contact()["organisation"] == "Riverside Cat Rescue (invented)"
+    assert again.palette == "grey"
