@@ -8,16 +8,25 @@ Problems go to stderr one a line; a traceback is never shown for a user's mistak
 from __future__ import annotations
 
 import argparse
+import json
+import math
 import sys
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from petfall_audit import __version__
 from petfall_audit.errors import (
     BuildingFileError,
+    CatalogueError,
     PetfallError,
+    ReportError,
     ValidationFailed,
 )
+
+if TYPE_CHECKING:
+    from petfall_audit.model import Building
+    from petfall_audit.risk import Assessment
 
 __all__ = ["main"]
 
@@ -26,7 +35,18 @@ EXIT_FAILURE = 1
 EXIT_INVALID = 2
 
 
-def _stderr_progress(label: str):  # type: ignore[no-untyped-def]
+class _Stop(Exception):
+    """Ends a subcommand with an exit code after its message went to stderr."""
+
+    def __init__(self, code: int) -> None:
+        super().__init__(code)
+        self.code = code
+
+
+# --- shared pieces of the subcommands -----------------------------------------------------------
+
+
+def _stderr_progress(label: str) -> Callable[[int, int], None]:
     """A ``progress(done, total)`` callback that draws a one-line bar on stderr when it is a tty."""
     tty = sys.stderr.isatty()
 
@@ -43,23 +63,78 @@ def _stderr_progress(label: str):  # type: ignore[no-untyped-def]
     return progress
 
 
-def _print_problems(exc: BuildingFileError, path: str) -> None:
-    if isinstance(exc, ValidationFailed):
-        print(f"{path}: {len(exc.problems)} problem(s):", file=sys.stderr)
-        for problem in exc.problems:
+def _print_problems(exc: PetfallError, path: str) -> None:
+    problems = getattr(exc, "problems", None)
+    if isinstance(exc, ValidationFailed | CatalogueError) and problems:
+        print(f"{path}: {len(problems)} problem(s):", file=sys.stderr)
+        for problem in problems:
             print(f"  {problem}", file=sys.stderr)
     else:
         print(f"{path}: {exc}", file=sys.stderr)
 
 
-def _cmd_check(args: argparse.Namespace) -> int:
+def _refuse(message: str) -> _Stop:
+    print(f"petfall-audit: {message}", file=sys.stderr)
+    return _Stop(EXIT_INVALID)
+
+
+def _require_at_least(name: str, value: float | None, low: float) -> None:
+    if value is not None and not (math.isfinite(value) and value >= low):
+        raise _refuse(f"{name} must be at least {low:g}")
+
+
+def _load(path: str) -> Building:
+    """The building in ``path``; its problems go to stderr and end the command with exit 2."""
     from petfall_audit.io.building_file import load_building
 
     try:
-        building = load_building(Path(args.file))
+        return load_building(Path(path))
     except BuildingFileError as exc:
-        _print_problems(exc, args.file)
-        return EXIT_INVALID
+        _print_problems(exc, path)
+        raise _Stop(EXIT_INVALID) from None
+
+
+def _add_sampling_options(p: argparse.ArgumentParser) -> None:
+    p.add_argument("--samples", type=int, default=None, metavar="N",
+                   help="sampled cats (default 4000)")
+    p.add_argument("--seed", type=int, default=None, metavar="S", help="random seed (default 1)")
+
+
+def _assess(args: argparse.Namespace, building: Building, *, sensitivity: bool = False,
+            label: str = "assessing") -> Assessment:
+    from petfall_audit.risk import assess
+    from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
+
+    _require_at_least("--samples", args.samples, 1)
+    return assess(
+        building,
+        samples=DEFAULT_SAMPLES if args.samples is None else args.samples,
+        seed=DEFAULT_SEED if args.seed is None else args.seed,
+        sensitivity=sensitivity,
+        progress=_stderr_progress(label),
+    )
+
+
+def _emit(text: str, output: str | None) -> None:
+    """Write ``text`` atomically to ``output``, or to standard output."""
+    if output:
+        from petfall_audit.io.atomic import atomic_write_text
+
+        atomic_write_text(output, text)
+        print(f"wrote {output}")
+    else:
+        sys.stdout.write(text)
+
+
+def _dumps(doc: object) -> str:
+    return json.dumps(doc, indent=2, ensure_ascii=False) + "\n"
+
+
+# --- subcommands --------------------------------------------------------------------------------
+
+
+def _cmd_check(args: argparse.Namespace) -> int:
+    building = _load(args.file)
     print(
         f"{args.file}: valid — {building.info.name}: {len(building.floors)} floors, "
         f"{len(building.facades)} facades, {len(building.surfaces)} surfaces, "
@@ -69,157 +144,143 @@ def _cmd_check(args: argparse.Namespace) -> int:
 
 
 def _cmd_assess(args: argparse.Namespace) -> int:
-    from petfall_audit.io.atomic import atomic_write_text
-    from petfall_audit.io.building_file import load_building
     from petfall_audit.io.results_export import (
         assessment_to_csv,
         assessment_to_dict,
         assessment_to_table,
     )
-    from petfall_audit.risk import assess
-    from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
 
-    if args.samples is not None and args.samples < 1:
-        print("petfall-audit: --samples must be at least 1", file=sys.stderr)
-        return EXIT_INVALID
-    try:
-        building = load_building(Path(args.file))
-    except BuildingFileError as exc:
-        _print_problems(exc, args.file)
-        return EXIT_INVALID
-    assessment = assess(
-        building,
-        samples=DEFAULT_SAMPLES if args.samples is None else args.samples,
-        seed=DEFAULT_SEED if args.seed is None else args.seed,
-        sensitivity=args.format == "json" and not args.no_sensitivity,
-        progress=_stderr_progress("assessing"),
+    building = _load(args.file)
+    assessment = _assess(
+        args, building, sensitivity=args.format == "json" and not args.no_sensitivity
     )
     if args.format == "json":
-        import json
-
-        text = json.dumps(assessment_to_dict(assessment), indent=2, ensure_ascii=False) + "\n"
+        text = _dumps(assessment_to_dict(assessment))
     elif args.format == "csv":
         text = assessment_to_csv(assessment)
     else:
         text = assessment_to_table(assessment, by=args.by)
-    if args.output:
-        atomic_write_text(args.output, text)
-        print(f"wrote {args.output}")
-    else:
-        sys.stdout.write(text)
+    _emit(text, args.output)
     return EXIT_OK
 
 
-def _build_parser() -> argparse.ArgumentParser:
-    parser = argparse.ArgumentParser(
-        prog="petfall-audit",
-        description=(
-            "Audit a residential building for the risk that a resident cat falls from a balcony "
-            "or window. With no command, opens the desktop app on a sample building. "
-            "Indicative model only: not a structural or code-compliance assessment."
-        ),
-    )
-    parser.add_argument("--version", action="version", version=f"petfall-audit {__version__}")
-    sub = parser.add_subparsers(dest="command", metavar="COMMAND")
+def _cmd_plan(args: argparse.Namespace) -> int:
+    from petfall_audit.fixes import load_catalogue
+    from petfall_audit.io.plan_export import plan_to_csv, plan_to_dict, plan_to_table
+    from petfall_audit.plan import make_plan
 
-    p = sub.add_parser("check", help="validate a building file")
-    p.add_argument("file", help="building file (.json)")
-    p.set_defaults(handler=_cmd_check)
+    if not math.isfinite(args.budget) or args.budget < 0:
+        raise _refuse("--budget must be an amount of 0 or more")
+    building = _load(args.file)
+    try:
+        catalogue = load_catalogue(args.controls)
+    except CatalogueError as exc:
+        _print_problems(exc, args.controls)
+        return EXIT_INVALID
+    except OSError as exc:
+        raise _refuse(f"{args.controls}: {exc.strerror or exc}") from None
+    plan = make_plan(_assess(args, building), args.budget, catalogue=catalogue)
+    if args.format == "json":
+        text = _dumps(plan_to_dict(plan))
+    elif args.format == "csv":
+        text = plan_to_csv(plan)
+    else:
+        text = plan_to_table(plan)
+    _emit(text, args.output)
+    return EXIT_OK
 
-    p = sub.add_parser(
-        "assess",
-        help="rank the openings of a building (table, JSON or CSV)",
-        description="Assess FILE and list its openings worst first. Indicative model only.",
-    )
-    p.add_argument("file", help="building file (.json)")
-    p.add_argument("--format", choices=("table", "json", "csv"), default="table",
-                   help="output format (default: table)")
-    p.add_argument("--samples", type=int, default=None, metavar="N",
-                   help="sampled cats (default 4000)")
-    p.add_argument("--seed", type=int, default=None, metavar="S", help="random seed (default 1)")
-    p.add_argument("-o", "--output", default=None, metavar="OUT",
-                   help="write to OUT instead of standard output")
-    p.add_argument("--by", choices=("band", "risk"), default="band",
-                   help="table order: expected injury band (default) or risk score")
-    p.add_argument("--no-sensitivity", action="store_true",
-                   help="leave the sensitivity summary out of the JSON (faster)")
-    p.set_defaults(handler=_cmd_assess)
 
-    p = sub.add_parser("open", help="open a building file in the desktop app")
-    p.add_argument("file", nargs="?", help="building file (.json)")
-    p.set_defaults(handler=_cmd_open)
+def _cmd_report(args: argparse.Namespace) -> int:
+    from petfall_audit.plan import make_plan
+    from petfall_audit.report import (
+        ContactBlock,
+        ReportOptions,
+        export_results,
+        write_audit,
+        write_leaflet,
+    )
 
-    p = sub.add_parser(
-        "import", help="import floors and openings from a schedule (.csv or .xlsx)"
-    )
-    p.add_argument("schedule", help="schedule spreadsheet (.csv or .xlsx)")
-    p.add_argument("--into", required=True, metavar="FILE", help="building file to update")
-    p.add_argument("--map", metavar="MAPPING.json", help="column mapping (header -> field)")
-    p.add_argument(
-        "--mode", choices=("merge", "replace"), default="merge",
-        help="merge: update matching ids and add new ones (default); replace: replace all openings",
-    )
-    p.add_argument(
-        "--accept-valid", action="store_true",
-        help="import the valid rows even when other rows have problems",
-    )
-    p.set_defaults(handler=_cmd_import)
+    suffix = Path(args.output).suffix.lower()
+    fmt = args.format or {".csv": "csv", ".json": "json"}.get(suffix, "pdf")
+    _require_at_least("--top", args.top, 0)
+    _require_at_least("--budget", args.budget, 0)
+    building = _load(args.file)
+    assessment = _assess(args, building)
+    plan = make_plan(assessment, args.budget) if args.budget is not None else None
+    contact = ContactBlock.from_text(args.contact) if args.contact else ContactBlock()
+    try:
+        if fmt == "pdf":
+            written = [write_audit(assessment, plan, args.output, top_n=args.top,
+                                   options=ReportOptions(issuer=contact))]
+        else:
+            written = export_results(assessment, plan, args.output, fmt)
+        if args.leaflet:
+            written.append(write_leaflet(assessment, plan, args.leaflet, contact=contact))
+    except ReportError as exc:
+        print(f"petfall-audit: {exc}", file=sys.stderr)
+        return EXIT_FAILURE
+    for path in written:
+        print(f"wrote {path}")
+    return EXIT_OK
 
-    p = sub.add_parser("template", help="write a blank opening schedule (.csv or .xlsx)")
-    p.add_argument("out", metavar="OUT", help="OUT.csv or OUT.xlsx")
-    p.add_argument(
-        "--units", choices=("metric", "imperial"), default="metric",
-        help="header units: metric (m, mm) or imperial (ft, in)",
-    )
-    p.set_defaults(handler=_cmd_template)
 
-    p = sub.add_parser(
-        "report",
-        help="write the PDF audit (or CSV/JSON results), optionally a tenant leaflet",
-        description="Assess FILE and write the audit report. Indicative model only.",
-    )
-    p.add_argument("file", help="building file (.json)")
-    p.add_argument("-o", "--output", required=True, help="output file (.pdf, .csv or .json)")
-    p.add_argument("--format", choices=("pdf", "csv", "json"), default=None,
-                   help="output format (default: from the output file's extension, else pdf)")
-    p.add_argument("--budget", type=float, default=None, metavar="AMOUNT",
-                   help="budget for the fix plan, in the control catalogue's currency")
-    p.add_argument("--leaflet", default=None, metavar="PDF", help="also write a tenant leaflet")
-    p.add_argument("--contact", default=None, metavar="TEXT",
-                   help="issuer's contact block: first line the organisation; separate lines "
-                   "with '|' or a newline")
-    p.add_argument("--samples", type=int, default=None, metavar="N", help="sampled cats")
-    p.add_argument("--seed", type=int, default=None, metavar="S", help="random seed")
-    p.add_argument("--top", type=int, default=5, metavar="N",
-                   help="openings with a detail page (default 5)")
-    p.set_defaults(handler=_cmd_report)
+def _cmd_batch(args: argparse.Namespace) -> int:
+    """Assess many buildings; one result file each plus a summary CSV. Bad files are listed
+    and skipped; the exit code is 2 if any file could not be assessed."""
+    import csv
+    import io
 
-    p = sub.add_parser(
-        "plan",
-        help="choose the controls that remove the most risk within a budget",
-        description="Assess FILE and choose at most one control per opening so that the most "
-        "risk is removed within AMOUNT. Indicative costs and model only.",
-    )
-    p.add_argument("file", help="building file (.json)")
-    p.add_argument("--budget", type=float, required=True, metavar="AMOUNT",
-                   help="budget in the control catalogue's currency")
-    p.add_argument("--format", choices=("table", "json", "csv"), default="table",
-                   help="output format (default: table)")
-    p.add_argument("--samples", type=int, default=None, metavar="N",
-                   help="sampled cats (default 4000)")
-    p.add_argument("--seed", type=int, default=None, metavar="S", help="random seed (default 1)")
-    p.add_argument("--controls", default=None, metavar="FILE",
-                   help="control catalogue (.json; default: the shipped catalogue)")
-    p.add_argument("-o", "--output", default=None, metavar="OUT",
-                   help="write to OUT instead of standard output")
-    p.set_defaults(handler=_cmd_plan)
+    from petfall_audit.cautions import CAUTIONS_SHORT
+    from petfall_audit.injury import BANDS
+    from petfall_audit.io.atomic import atomic_write_text
+    from petfall_audit.io.results_export import assessment_to_csv, assessment_to_dict
+    from petfall_audit.plan import make_plan
+    from petfall_audit.report import write_audit
 
-    return parser
+    _require_at_least("--budget", args.budget, 0)
+    _require_at_least("--samples", args.samples, 1)
+    out_dir = Path(args.out_dir)
+    out_dir.mkdir(parents=True, exist_ok=True)
+    rows: list[list[object]] = []
+    failed = 0
+    for n, name in enumerate(args.files, 1):
+        try:
+            building = _load(name)
+        except _Stop:
+            failed += 1
+            continue
+        assessment = _assess(args, building, label=f"[{n}/{len(args.files)}] {Path(name).stem}")
+        stem = out_dir / Path(name).stem
+        if args.format == "json":
+            atomic_write_text(stem.with_suffix(".json"), _dumps(assessment_to_dict(assessment)))
+        elif args.format == "csv":
+            atomic_write_text(stem.with_suffix(".csv"), assessment_to_csv(assessment))
+        plan = make_plan(assessment, args.budget) if args.budget is not None else None
+        if args.format == "pdf":
+            write_audit(assessment, plan, stem.with_suffix(".pdf"))
+        counts = [0] * len(BANDS)
+        for result in assessment.openings:
+            counts[result.expected_band] += 1
+        worst = assessment.ranked("risk")[0] if assessment.openings else None
+        rows.append([
+            name, building.info.name, len(building.openings), *counts,
+            worst.id if worst else "", f"{float(assessment.risk.sum()):.0f}",
+            f"{plan.total_cost:.0f}" if plan else "", f"{plan.risk_after:.0f}" if plan else "",
+        ])
+    buffer = io.StringIO()
+    buffer.write(f"# {CAUTIONS_SHORT}\n")
+    writer = csv.writer(buffer, lineterminator="\n")
+    writer.writerow(["file", "building", "openings", *(f"expected_{b}" for b in BANDS),
+                     "highest_risk_opening", "risk_total", "plan_cost", "risk_after_plan"])
+    writer.writerows(rows)
+    atomic_write_text(out_dir / "summary.csv", buffer.getvalue())
+    print(f"assessed {len(rows)} of {len(args.files)} building(s); wrote {out_dir / 'summary.csv'}")
+    return EXIT_INVALID if failed else EXIT_OK
 
 
 def _cmd_import(args: argparse.Namespace) -> int:
     from petfall_audit.cautions import CAUTIONS_SHORT
-    from petfall_audit.io.building_file import load_building, save_building, validate_building
+    from petfall_audit.io.building_file import save_building, validate_building
     from petfall_audit.io.schedule import (
         apply_import,
         combine_mapping,
@@ -230,11 +291,7 @@ def _cmd_import(args: argparse.Namespace) -> int:
         read_table,
     )
 
-    try:
-        building = load_building(Path(args.into))
-    except BuildingFileError as exc:
-        _print_problems(exc, args.into)
-        return EXIT_INVALID
+    building = _load(args.into)
     table = read_table(Path(args.schedule))
     mapping = guess_mapping(table.headers)
     units = header_units(table.headers)
@@ -256,9 +313,7 @@ def _cmd_import(args: argparse.Namespace) -> int:
             )
             print(f"{args.schedule}: nothing imported; {hint}", file=sys.stderr)
             return EXIT_INVALID
-    updated = apply_import(
-        building, preview, mode=args.mode, accept_valid_rows=args.accept_valid
-    )
+    updated = apply_import(building, preview, mode=args.mode, accept_valid_rows=args.accept_valid)
     after = validate_building(updated)
     if after:  # never write a building file that would not load again
         print(f"{args.into}: the imported building would have {len(after)} problem(s):",
@@ -288,110 +343,128 @@ def _cmd_template(args: argparse.Namespace) -> int:
     return EXIT_OK
 
 
-def _cmd_report(args: argparse.Namespace) -> int:
-    from petfall_audit.errors import ReportError
-    from petfall_audit.io.building_file import load_building
-    from petfall_audit.plan import make_plan
-    from petfall_audit.report import (
-        ContactBlock,
-        ReportOptions,
-        export_results,
-        write_audit,
-        write_leaflet,
-    )
-    from petfall_audit.risk import assess
-    from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
-
-    suffix = Path(args.output).suffix.lower()
-    fmt = args.format or {".csv": "csv", ".json": "json"}.get(suffix, "pdf")
-    for name, value, low in (("--samples", args.samples, 1), ("--top", args.top, 0),
-                             ("--budget", args.budget, 0)):
-        if value is not None and value < low:
-            print(f"petfall-audit: {name} must be at least {low}", file=sys.stderr)
-            return EXIT_INVALID
-    try:
-        building = load_building(Path(args.file))
-    except BuildingFileError as exc:
-        _print_problems(exc, args.file)
-        return EXIT_INVALID
-    assessment = assess(
-        building,
-        samples=args.samples or DEFAULT_SAMPLES,
-        seed=DEFAULT_SEED if args.seed is None else args.seed,
-        progress=_stderr_progress("assessing"),
-    )
-    plan = make_plan(assessment, args.budget) if args.budget is not None else None
-    contact = ContactBlock.from_text(args.contact) if args.contact else ContactBlock()
-    try:
-        if fmt == "pdf":
-            written = [write_audit(assessment, plan, args.output, top_n=args.top,
-                                   options=ReportOptions(issuer=contact))]
-        else:
-            written = export_results(assessment, plan, args.output, fmt)
-        if args.leaflet:
-            written.append(write_leaflet(assessment, plan, args.leaflet, contact=contact))
-    except ReportError as exc:
-        print(f"petfall-audit: {exc}", file=sys.stderr)
-        return EXIT_FAILURE
-    for path in written:
-        print(f"wrote {path}")
-    return EXIT_OK
-
-
-def _cmd_plan(args: argparse.Namespace) -> int:
-    import math
-
-    from petfall_audit.fixes import load_catalogue
-    from petfall_audit.io.atomic import atomic_write_text
-    from petfall_audit.io.building_file import load_building
-    from petfall_audit.io.plan_export import plan_to_csv, plan_to_dict, plan_to_table
-    from petfall_audit.plan import make_plan
-    from petfall_audit.risk import assess
-    from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
-
-    if not math.isfinite(args.budget) or args.budget < 0:
-        print("petfall-audit: --budget must be an amount of 0 or more", file=sys.stderr)
-        return EXIT_INVALID
-    if args.samples is not None and args.samples < 1:
-        print("petfall-audit: --samples must be at least 1", file=sys.stderr)
-        return EXIT_INVALID
-    try:
-        building = load_building(Path(args.file))
-    except BuildingFileError as exc:
-        _print_problems(exc, args.file)
-        return EXIT_INVALID
-    try:
-        catalogue = load_catalogue(args.controls)
-    except OSError as exc:
-        print(f"petfall-audit: {args.controls}: {exc.strerror or exc}", file=sys.stderr)
-        return EXIT_INVALID
-    assessment = assess(
-        building,
-        samples=DEFAULT_SAMPLES if args.samples is None else args.samples,
-        seed=DEFAULT_SEED if args.seed is None else args.seed,
-        progress=_stderr_progress("assessing"),
-    )
-    plan = make_plan(assessment, args.budget, catalogue=catalogue)
-    if args.format == "json":
-        import json
-
-        text = json.dumps(plan_to_dict(plan), indent=2, ensure_ascii=False) + "\n"
-    elif args.format == "csv":
-        text = plan_to_csv(plan)
-    else:
-        text = plan_to_table(plan)
-    if args.output:
-        atomic_write_text(args.output, text)
-        print(f"wrote {args.output}")
-    else:
-        sys.stdout.write(text)
-    return EXIT_OK
-
-
 def _cmd_open(args: argparse.Namespace) -> int:
     from petfall_audit.gui.app import run_app  # the only place the CLI reaches Qt
 
     return run_app(Path(args.file) if getattr(args, "file", None) else None)
+
+
+# --- the parser ---------------------------------------------------------------------------------
+
+
+def _build_parser() -> argparse.ArgumentParser:
+    parser = argparse.ArgumentParser(
+        prog="petfall-audit",
+        description=(
+            "Audit a residential building for the risk that a resident cat falls from a balcony "
+            "or window. With no command, opens the desktop app on a sample building. "
+            "Indicative model only: not a structural or code-compliance assessment."
+        ),
+    )
+    parser.add_argument("--version", action="version", version=f"petfall-audit {__version__}")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND")
+
+    p = sub.add_parser("check", help="validate a building file")
+    p.add_argument("file", help="building file (.json)")
+    p.set_defaults(handler=_cmd_check)
+
+    p = sub.add_parser(
+        "assess",
+        help="rank the openings of a building (table, JSON or CSV)",
+        description="Assess FILE and list its openings worst first. Indicative model only.",
+    )
+    p.add_argument("file", help="building file (.json)")
+    p.add_argument("--format", choices=("table", "json", "csv"), default="table",
+                   help="output format (default: table)")
+    _add_sampling_options(p)
+    p.add_argument("-o", "--output", default=None, metavar="OUT",
+                   help="write to OUT instead of standard output")
+    p.add_argument("--by", choices=("band", "risk"), default="band",
+                   help="table order: expected injury band (default) or risk score")
+    p.add_argument("--no-sensitivity", action="store_true",
+                   help="leave the sensitivity summary out of the JSON (faster)")
+    p.set_defaults(handler=_cmd_assess)
+
+    p = sub.add_parser(
+        "plan",
+        help="choose the controls that remove the most risk within a budget",
+        description="Assess FILE and choose at most one control per opening so that the most "
+        "risk is removed within AMOUNT. Indicative costs and model only.",
+    )
+    p.add_argument("file", help="building file (.json)")
+    p.add_argument("--budget", type=float, required=True, metavar="AMOUNT",
+                   help="budget in the control catalogue's currency")
+    p.add_argument("--format", choices=("table", "json", "csv"), default="table",
+                   help="output format (default: table)")
+    _add_sampling_options(p)
+    p.add_argument("--controls", default=None, metavar="FILE",
+                   help="control catalogue (.json; default: the shipped catalogue)")
+    p.add_argument("-o", "--output", default=None, metavar="OUT",
+                   help="write to OUT instead of standard output")
+    p.set_defaults(handler=_cmd_plan)
+
+    p = sub.add_parser(
+        "report",
+        help="write the PDF audit (or CSV/JSON results), optionally a tenant leaflet",
+        description="Assess FILE and write the audit report. Indicative model only.",
+    )
+    p.add_argument("file", help="building file (.json)")
+    p.add_argument("-o", "--output", required=True, help="output file (.pdf, .csv or .json)")
+    p.add_argument("--format", choices=("pdf", "csv", "json"), default=None,
+                   help="output format (default: from the output file's extension, else pdf)")
+    p.add_argument("--budget", type=float, default=None, metavar="AMOUNT",
+                   help="budget for the fix plan, in the control catalogue's currency")
+    p.add_argument("--leaflet", default=None, metavar="PDF", help="also write a tenant leaflet")
+    p.add_argument("--contact", default=None, metavar="TEXT",
+                   help="issuer's contact block: first line the organisation; separate lines "
+                   "with '|' or a newline")
+    _add_sampling_options(p)
+    p.add_argument("--top", type=int, default=5, metavar="N",
+                   help="openings with a detail page (default 5)")
+    p.set_defaults(handler=_cmd_report)
+
+    p = sub.add_parser(
+        "batch",
+        help="assess many building files; one result file each and a summary CSV",
+        description="Assess every FILE and write DIR/<name>.json|.csv|.pdf and DIR/summary.csv. "
+        "Files with problems are listed and skipped. Indicative model only.",
+    )
+    p.add_argument("files", nargs="+", metavar="FILE", help="building files (.json)")
+    p.add_argument("--out-dir", required=True, metavar="DIR", help="folder for the results")
+    p.add_argument("--format", choices=("json", "csv", "pdf"), default="json",
+                   help="result file per building (default: json)")
+    p.add_argument("--budget", type=float, default=None, metavar="AMOUNT",
+                   help="also plan fixes within AMOUNT per building")
+    _add_sampling_options(p)
+    p.set_defaults(handler=_cmd_batch)
+
+    p = sub.add_parser("import", help="import floors and openings from a schedule (.csv or .xlsx)")
+    p.add_argument("schedule", help="schedule spreadsheet (.csv or .xlsx)")
+    p.add_argument("--into", required=True, metavar="FILE", help="building file to update")
+    p.add_argument("--map", metavar="MAPPING.json", help="column mapping (header -> field)")
+    p.add_argument(
+        "--mode", choices=("merge", "replace"), default="merge",
+        help="merge: update matching ids and add new ones (default); replace: replace all openings",
+    )
+    p.add_argument(
+        "--accept-valid", action="store_true",
+        help="import the valid rows even when other rows have problems",
+    )
+    p.set_defaults(handler=_cmd_import)
+
+    p = sub.add_parser("template", help="write a blank opening schedule (.csv or .xlsx)")
+    p.add_argument("out", metavar="OUT", help="OUT.csv or OUT.xlsx")
+    p.add_argument(
+        "--units", choices=("metric", "imperial"), default="metric",
+        help="header units: metric (m, mm) or imperial (ft, in)",
+    )
+    p.set_defaults(handler=_cmd_template)
+
+    p = sub.add_parser("open", help="open a building file in the desktop app")
+    p.add_argument("file", nargs="?", help="building file (.json)")
+    p.set_defaults(handler=_cmd_open)
+
+    return parser
 
 
 def main(argv: Sequence[str] | None = None) -> int:
@@ -406,6 +479,8 @@ def main(argv: Sequence[str] | None = None) -> int:
         return _cmd_open(argparse.Namespace(file=None))
     try:
         return int(args.handler(args))
+    except _Stop as stop:
+        return stop.code
     except PetfallError as exc:
         print(f"petfall-audit: {exc}", file=sys.stderr)
         return EXIT_INVALID
