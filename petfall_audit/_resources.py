@@ -6,7 +6,6 @@ sub-packages ``petfall_audit.resources`` and ``petfall_audit.sample_buildings``.
 
 from __future__ import annotations
 
-from importlib import resources as _ilr
 from pathlib import Path
 
 __all__ = ["resource_path", "sample_path", "sample_names"]
@@ -18,7 +17,7 @@ def _folder(name: str) -> Path:
     checkout = _ROOT / name
     if checkout.is_dir():
         return checkout
-    return Path(str(_ilr.files(f"petfall_audit.{name}")))
+    return Path(__file__).resolve().parent / name  # installed: petfall_audit/<name>/
 
 
 def resource_path(filename: str) -> Path:

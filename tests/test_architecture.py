@@ -62,3 +62,19 @@ def test_public_api_resolves() -> None:
     """Every name in ``__all__`` exists (the lazy ones are imported on first access)."""
     for name in petfall_audit.__all__:
         assert getattr(petfall_audit, name) is not None, name
+
+
+def test_every_subpackage_is_packaged() -> None:
+    """pyproject lists the packages explicitly (resources/ and sample_buildings/ are mapped in
+    from the repository root), so a new sub-package must be added there or it would be missing
+    from an installed copy."""
+    import tomllib
+
+    root = Path(__file__).resolve().parents[1]
+    config = tomllib.loads((root / "pyproject.toml").read_text(encoding="utf-8"))
+    listed = set(config["tool"]["setuptools"]["packages"])
+    found = {
+        ".".join(p.parent.relative_to(root).parts)
+        for p in (root / "petfall_audit").rglob("__init__.py")
+    }
+    assert found <= listed, f"add to [tool.setuptools] packages: {sorted(found - listed)}"
