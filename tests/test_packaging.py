@@ -1,0 +1,36 @@
+"""An installed copy (not the checkout) carries its resources and sample buildings."""
+
+from __future__ import annotations
+
+import os
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+ROOT = Path(__file__).resolve().parents[1]
+
+
+@pytest.mark.slow
+def test_installed_copy_finds_resources_and_samples(tmp_path: Path) -> None:
+    target = tmp_path / "site"
+    subprocess.run(
+        [sys.executable, "-m", "pip", "install", "--quiet", "--no-deps",
+         "--no-compile", "--target", str(target), str(ROOT)],
+        check=True, capture_output=True, text=True, cwd=tmp_path,
+    )
+    code = (
+        "import petfall_audit, pathlib\n"
+        "from petfall_audit._resources import resource_path, sample_names\n"
+        "assert 'site' in pathlib.Path(petfall_audit.__file__).parts, petfall_audit.__file__\n"
+        "for name in ('building.schema.json', 'controls.json', 'palette.json'):\n"
+        "    assert resource_path(name).is_file(), resource_path(name)\n"
+        "assert sample_names() == ['block', 'tower', 'walkup'], sample_names()\n"
+        "from petfall_audit.demo import sample_building\n"
+        "print(sample_building('walkup').info.name)\n"
+    )
+    env = {**os.environ, "PYTHONPATH": str(target)}
+    out = subprocess.run([sys.executable, "-c", code], check=True, capture_output=True,
+                         text=True, cwd=tmp_path, env=env)
+    assert out.stdout.strip()
