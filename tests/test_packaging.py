@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import os
+import shutil
 import subprocess
 import sys
 from pathlib import Path
@@ -14,10 +15,15 @@ ROOT = Path(__file__).resolve().parents[1]
 
 @pytest.mark.slow
 def test_installed_copy_finds_resources_and_samples(tmp_path: Path) -> None:
+    source = tmp_path / "source"  # build from a copy: the build leaves files behind in its tree
+    shutil.copytree(
+        ROOT, source,
+        ignore=shutil.ignore_patterns(".git", "build", "*.egg-info", "__pycache__", "tests"),
+    )
     target = tmp_path / "site"
     subprocess.run(
         [sys.executable, "-m", "pip", "install", "--quiet", "--no-deps",
-         "--no-compile", "--target", str(target), str(ROOT)],
+         "--no-compile", "--target", str(target), str(source)],
         check=True, capture_output=True, text=True, cwd=tmp_path,
     )
     code = (
