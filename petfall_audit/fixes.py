@@ -119,6 +119,8 @@ class Control:
     ``kinds``: opening kinds it applies to; ``min_height_m`` / ``max_height_m``: floor height
     range above the datum (m, ``None`` = open). ``effect``: (field, value) pairs applied to the
     opening; ``likelihood_multiplier``: extra factor on the yearly fall probability (1 = none).
+    ``adherence``: share of the time a control that relies on people is kept to (1 = always);
+    the rest of the time the opening stays as it was.
     ``releasable``: for devices, whether a person releases it by hand without key or tool
     (``None`` for non-devices). Costs in the catalogue's currency: ``cost_fixed`` per opening,
     ``cost_per_m_width`` per metre of opening width, ``cost_per_m2`` per square metre covered.
@@ -132,6 +134,7 @@ class Control:
     kinds: frozenset[OpeningKind]
     effect: tuple[tuple[str, Any], ...] = ()
     likelihood_multiplier: float = 1.0
+    adherence: float = 1.0
     releasable: bool | None = None
     min_height_m: float | None = None
     max_height_m: float | None = None
@@ -343,6 +346,9 @@ def _control(raw: Any, where: str, problems: list[Problem]) -> Control | None:
     )
     if multiplier > 1.0:
         problems.append(Problem(f"{where}.likelihood_multiplier", "must be at most 1"))
+    adherence = _number(raw.get("adherence", 1.0), f"{where}.adherence", problems)
+    if not 0.0 < adherence <= 1.0:
+        problems.append(Problem(f"{where}.adherence", "must be more than 0 and at most 1"))
     return Control(
         id=cid,
         name=_text(raw.get("name"), f"{where}.name", problems),
@@ -353,6 +359,7 @@ def _control(raw: Any, where: str, problems: list[Problem]) -> Control | None:
         kinds=frozenset(kinds),
         effect=_effect(raw.get("effect", {}), f"{where}.effect", problems),
         likelihood_multiplier=multiplier,
+        adherence=adherence,
         releasable=releasable,
         min_height_m=limits["min_height_m"],
         max_height_m=limits["max_height_m"],
@@ -539,11 +546,13 @@ def opening_options(
     oi = np.array([c.opening_index for c in cands], dtype=np.intp)
     ci = np.array([c.control_index for c in cands], dtype=np.intp)
     mult = np.array([cat.controls[j].likelihood_multiplier for j in ci.tolist()])
+    adherence = np.array([cat.controls[j].adherence for j in ci.tolist()])
     lik = assess_likelihood([c.modified for c in cands], profile=building.cat_profile)
+    p_kept = np.asarray(lik.annual_probability) * mult
+    p_now = np.asarray(assessment.likelihood.annual_probability, dtype=float)[oi]
+    p_after = adherence * p_kept + (1.0 - adherence) * p_now
     bands = np.asarray(assessment.band_probabilities, dtype=float)
-    after = np.asarray(
-        risk_score(np.asarray(lik.annual_probability) * mult, bands[oi]), dtype=float
-    )
+    after = np.asarray(risk_score(p_after, bands[oi]), dtype=float)
     before_all = np.asarray(assessment.risk, dtype=float)
     before = before_all[oi]
     useful = after < before * (1.0 - _NO_GAIN_RTOL)

@@ -345,3 +345,33 @@ def test_recommendation_text_carries_conditions_and_reasons(walkup_assessment) -
         assert condition in text
     assert "Why meeting the building code is not enough for a cat" in text
     assert "Approved Document K" in text and "Vet Sci 2021;8:161" in text
+
+
+def test_a_rule_that_relies_on_people_removes_risk_only_while_kept() -> None:
+    """Adherence blends the opening with and without the control (docs/fixes.md): a house rule
+    kept half of the time removes half of what the same rule kept always would."""
+    import dataclasses
+
+    from petfall_audit.demo import sample_building
+    from petfall_audit.fixes import Catalogue, load_catalogue, opening_options
+    from petfall_audit.risk import assess
+
+    catalogue = load_catalogue()
+    keep = next(c for c in catalogue.controls if c.id == "keep_closed")
+    assert keep.adherence == 0.5
+    always = dataclasses.replace(keep, adherence=1.0)
+    only_always = dataclasses.replace(catalogue, controls=(always,))
+    only_half = dataclasses.replace(catalogue, controls=(keep,))
+    assert isinstance(only_half, Catalogue)
+    assessment = assess(sample_building("walkup"), samples=200, seed=3)
+    half = opening_options(assessment, only_half)
+    full = opening_options(assessment, only_always)
+    compared = 0
+    for opening_id, options in full.items():
+        if not options:
+            continue
+        removed_full = options[0].risk_before - options[0].risk_after
+        removed_half = half[opening_id][0].risk_before - half[opening_id][0].risk_after
+        assert removed_half == pytest.approx(0.5 * removed_full, rel=1e-9)
+        compared += 1
+    assert compared > 0
