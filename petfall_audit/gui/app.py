@@ -11,6 +11,7 @@ from PySide6.QtWidgets import QApplication
 from petfall_audit.editing.document import Document
 from petfall_audit.gui.dialogs import APP_TITLE
 from petfall_audit.gui.main_window import MainWindow, blank_building
+from petfall_audit.gui.views import install_views
 from petfall_audit.model import Building
 
 __all__ = ["run_app", "main", "sample_document", "create_window"]
@@ -33,6 +34,7 @@ def sample_document() -> Document:
 def create_window(path: Path | None = None) -> MainWindow:
     """A main window on the file at ``path``, or on the sample building."""
     window = MainWindow(sample_document())
+    install_views(window)
     if path is not None and not window.open_file(Path(path), confirm=False):
         window.status_label.setText(f"Could not open {path}; showing the sample building")
     return window

@@ -1,0 +1,339 @@
+"""Import a window and balcony schedule (CSV or XLSX) from the app.
+
+:class:`ImportDialog` drives the Qt-free steps of :mod:`petfall_audit.io.schedule`: the guessed
+column mapping in an editable table (one combo box per column, a unit per column), a preview that
+lists every bad cell by row and column, merge or replace, and "import the valid rows only". The
+result is applied by :func:`import_schedule` as ONE undoable command on the document's history.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Mapping
+from pathlib import Path
+from typing import Any
+
+from PySide6.QtCore import Qt
+from PySide6.QtWidgets import (
+    QAbstractItemView,
+    QButtonGroup,
+    QCheckBox,
+    QComboBox,
+    QDialog,
+    QDialogButtonBox,
+    QFileDialog,
+    QGroupBox,
+    QHBoxLayout,
+    QHeaderView,
+    QLabel,
+    QLineEdit,
+    QMessageBox,
+    QPushButton,
+    QRadioButton,
+    QSplitter,
+    QTableWidget,
+    QTableWidgetItem,
+    QVBoxLayout,
+    QWidget,
+)
+
+from petfall_audit.cautions import CAUTIONS_SHORT
+from petfall_audit.editing.commands import ReplaceBuilding
+from petfall_audit.errors import ScheduleImportError
+from petfall_audit.io.schedule import (
+    COLUMNS,
+    ImportPreview,
+    RawTable,
+    apply_import,
+    column_letter,
+    combine_mapping,
+    guess_mapping,
+    header_units,
+    load_mapping,
+    preview_import,
+    read_table,
+)
+from petfall_audit.model import Building
+
+__all__ = ["ImportDialog", "ImportPrompts", "import_schedule", "FIELD_CHOICES"]
+
+#: (field, label) of every column a schedule may hold, for the combo boxes.
+FIELD_CHOICES: tuple[tuple[str, str], ...] = tuple(
+    (c.field, c.header.split(" (")[0] + (" *" if c.required else "")) for c in COLUMNS)
+_IGNORE = "(ignore this column)"
+
+
+class ImportPrompts:
+    """File choosers and messages of the import (replace in tests)."""
+
+    def open_schedule(self, parent: QWidget | None) -> Path | None:
+        name, _ = QFileDialog.getOpenFileName(
+            parent, "Import a window and balcony schedule", "",
+            "Schedules (*.csv *.xlsx *.xlsm *.txt *.tsv);;All files (*)")
+        return Path(name) if name else None
+
+    def open_mapping(self, parent: QWidget | None) -> Path | None:
+        name, _ = QFileDialog.getOpenFileName(parent, "Load a column mapping", "",
+                                              "Mappings (*.json);;All files (*)")
+        return Path(name) if name else None
+
+    def show_error(self, parent: QWidget | None, title: str, text: str) -> None:
+        QMessageBox.warning(parent, title, text)
+
+    def run(self, dialog: ImportDialog) -> bool:
+        """Show the dialog; True if the user chose to import."""
+        return dialog.exec() == QDialog.DialogCode.Accepted
+
+
+class ImportDialog(QDialog):
+    """Map the columns of ``table``, preview the import into ``building`` and choose how to
+    apply it. After ``accept()``, :meth:`result_building` gives the new building."""
+
+    def __init__(self, building: Building, table: RawTable, *,
+                 prompts: ImportPrompts | None = None, parent: QWidget | None = None) -> None:
+        super().__init__(parent)
+        self.setObjectName("import_dialog")
+        self.setWindowTitle(f"Import schedule: {table.source or 'table'}")
+        self.building = building
+        self.table = table
+        self.prompts = prompts or ImportPrompts()
+        self.preview: ImportPreview | None = None
+        self._updating = False
+
+        intro = QLabel(
+            f"{len(table.rows)} rows and {len(table.headers)} columns read from "
+            f"<b>{table.source or 'the file'}</b>. Check what each column holds (fields marked * "
+            "are required) and the unit of bare numbers, then look at the problems below.")
+        intro.setWordWrap(True)
+        self.mapping_table = QTableWidget(len(table.headers), 4)
+        self.mapping_table.setObjectName("mapping_table")
+        self.mapping_table.setHorizontalHeaderLabels(["Column in the file", "First values",
+                                                      "Read as", "Unit of bare numbers"])
+        self.mapping_table.verticalHeader().setVisible(False)
+        self.mapping_table.setEditTriggers(QAbstractItemView.EditTrigger.NoEditTriggers)
+        header = self.mapping_table.horizontalHeader()
+        header.setSectionResizeMode(QHeaderView.ResizeMode.ResizeToContents)
+        header.setSectionResizeMode(1, QHeaderView.ResizeMode.Stretch)
+        guessed = guess_mapping(table.headers)
+        units = header_units(table.headers)
+        self.field_boxes: list[QComboBox] = []
+        self.unit_edits: list[QLineEdit] = []
+        for row, head in enumerate(table.headers):
+            letter = column_letter(row)
+            item = QTableWidgetItem(f"{letter}: {head}" if head else f"{letter}: (no header)")
+            self.mapping_table.setItem(row, 0, item)
+            sample = [cells[row] for _, cells in table.rows[:3] if row < len(cells) and cells[row]]
+            self.mapping_table.setItem(row, 1, QTableWidgetItem(", ".join(sample)))
+            box = QComboBox()
+            box.setObjectName(f"field_{row}")
+            box.addItem(_IGNORE, "")
+            for field, label in FIELD_CHOICES:
+                box.addItem(f"{label} ({field})", field)
+            box.setCurrentIndex(max(box.findData(guessed.get(head, "")), 0))
+            box.currentIndexChanged.connect(self._on_mapping_changed)
+            self.mapping_table.setCellWidget(row, 2, box)
+            self.field_boxes.append(box)
+            unit = QLineEdit(units.get(head, ""))
+            unit.setPlaceholderText("default")
+            unit.setToolTip("Unit for numbers without one, e.g. m, mm, ft, in "
+                            "(default: metres, millimetres for gaps)")
+            unit.editingFinished.connect(self._on_mapping_changed)
+            self.mapping_table.setCellWidget(row, 3, unit)
+            self.unit_edits.append(unit)
+        load = QPushButton("&Load mapping…")
+        load.setToolTip("Read a saved column mapping (JSON)")
+        load.clicked.connect(self._on_load_mapping)
+
+        self.summary = QLabel()
+        self.summary.setObjectName("import_summary")
+        self.summary.setWordWrap(True)
+        self.problems = QTableWidget(0, 3)
+        self.problems.setObjectName("problems_table")
+        self.problems.setHorizontalHeaderLabels(["Row", "Column", "Problem"])
+        self.problems.verticalHeader().setVisible(False)
+        self.problems.setEditTriggers(QAbstractItemView.EditTrigger.NoEditTriggers)
+        self.problems.horizontalHeader().setSectionResizeMode(
+            QHeaderView.ResizeMode.ResizeToContents)
+        self.problems.horizontalHeader().setStretchLastSection(True)
+
+        self.merge = QRadioButton("&Merge: update openings with the same id, add the new ones")
+        self.merge.setObjectName("merge_mode")
+        self.replace = QRadioButton("&Replace every opening of the building with the schedule's")
+        self.replace.setObjectName("replace_mode")
+        self.merge.setChecked(True)
+        group = QButtonGroup(self)
+        group.addButton(self.merge)
+        group.addButton(self.replace)
+        self.accept_valid = QCheckBox("Import the &valid rows only and skip the rows with problems")
+        self.accept_valid.setObjectName("accept_valid")
+        for w in (self.merge, self.replace, self.accept_valid):
+            w.toggled.connect(self._update_ok)
+        how = QGroupBox("How to apply it")
+        how_layout = QVBoxLayout(how)
+        how_layout.addWidget(self.merge)
+        how_layout.addWidget(self.replace)
+        how_layout.addWidget(self.accept_valid)
+
+        self.buttons = QDialogButtonBox(QDialogButtonBox.StandardButton.Cancel)
+        self.ok_button = self.buttons.addButton("&Import", QDialogButtonBox.ButtonRole.AcceptRole)
+        self.ok_button.setObjectName("import_button")
+        self.buttons.accepted.connect(self.accept)
+        self.buttons.rejected.connect(self.reject)
+        note = QLabel("The import is one step on the Edit menu: undo it with Ctrl+Z. "
+                      + CAUTIONS_SHORT)
+        note.setWordWrap(True)
+        note.setStyleSheet("color: #404040;")
+
+        top = QWidget()
+        tl = QVBoxLayout(top)
+        tl.setContentsMargins(0, 0, 0, 0)
+        intro_row = QHBoxLayout()
+        intro_row.addWidget(intro, 1)
+        intro_row.addWidget(load)
+        tl.addLayout(intro_row)
+        tl.addWidget(self.mapping_table, 1)
+        bottom = QWidget()
+        bl = QVBoxLayout(bottom)
+        bl.setContentsMargins(0, 0, 0, 0)
+        bl.addWidget(self.summary)
+        bl.addWidget(self.problems, 1)
+        splitter = QSplitter(Qt.Orientation.Vertical)
+        splitter.addWidget(top)
+        splitter.addWidget(bottom)
+        layout = QVBoxLayout(self)
+        layout.addWidget(splitter, 1)
+        layout.addWidget(how)
+        layout.addWidget(note)
+        layout.addWidget(self.buttons)
+        self.resize(860, 620)
+        self.refresh_preview()
+
+    # --- mapping ----------------------------------------------------------------------------------
+
+    def mapping(self) -> dict[str, str]:
+        """{header: field} as chosen ("" ignores a column)."""
+        return {h: str(box.currentData() or "")
+                for h, box in zip(self.table.headers, self.field_boxes, strict=True) if h}
+
+    def units(self) -> dict[str, str]:
+        """{header: unit} for the columns with a unit."""
+        return {h: e.text().strip()
+                for h, e in zip(self.table.headers, self.unit_edits, strict=True)
+                if h and e.text().strip()}
+
+    def set_field(self, header: str, field: str) -> None:
+        """Read the column ``header`` as ``field`` ("" ignores it)."""
+        box = self.field_boxes[self.table.headers.index(header)]
+        box.setCurrentIndex(max(box.findData(field), 0))
+
+    def set_unit(self, header: str, unit: str) -> None:
+        self.unit_edits[self.table.headers.index(header)].setText(unit)
+        self.refresh_preview()
+
+    def apply_mapping(self, columns: Mapping[str, str], units: Mapping[str, str]) -> None:
+        """Apply a mapping file's columns and units over the current choices."""
+        combined = combine_mapping(self.mapping(), columns)
+        self._updating = True
+        try:
+            for h, box in zip(self.table.headers, self.field_boxes, strict=True):
+                box.setCurrentIndex(max(box.findData(combined.get(h, "")), 0))
+            for h, edit in zip(self.table.headers, self.unit_edits, strict=True):
+                if h in units:
+                    edit.setText(units[h])
+        finally:
+            self._updating = False
+        self.refresh_preview()
+
+    def _on_load_mapping(self) -> None:
+        path = self.prompts.open_mapping(self)
+        if path is None:
+            return
+        try:
+            loaded = load_mapping(path)
+        except ScheduleImportError as exc:
+            self.prompts.show_error(self, "Cannot use the mapping", str(exc))
+            return
+        self.apply_mapping(loaded.columns, loaded.units)
+
+    def _on_mapping_changed(self, *_: Any) -> None:
+        if not self._updating:
+            self.refresh_preview()
+
+    # --- preview ----------------------------------------------------------------------------------
+
+    def refresh_preview(self) -> None:
+        """Parse every row with the current mapping and list the problems."""
+        self.preview = preview_import(self.table, self.mapping(), self.building,
+                                      units=self.units())
+        p = self.preview
+        self.summary.setText(
+            p.summary() + (". No problems." if not p.problems else
+                           f". {len(p.problems)} problem(s) below, by spreadsheet row "
+                           "(the header is row 1) and column."))
+        self.problems.setRowCount(len(p.problems))
+        for i, prob in enumerate(p.problems):
+            where = (f"{prob.letter} ({prob.column})" if prob.letter and prob.column
+                     else prob.letter or prob.column)
+            for col, text in enumerate((str(prob.row) if prob.row else "file", where,
+                                        prob.message)):
+                self.problems.setItem(i, col, QTableWidgetItem(text))
+        self._update_ok()
+
+    def _update_ok(self, *_: Any) -> None:
+        p = self.preview
+        ok = p is not None and bool(p.openings) and (not p.problems
+                                                     or self.accept_valid.isChecked())
+        self.ok_button.setEnabled(ok)
+        if p is not None and p.problems and not self.accept_valid.isChecked():
+            self.ok_button.setToolTip("Fix the problems in the file, or import the valid rows only")
+        else:
+            self.ok_button.setToolTip("")
+
+    @property
+    def mode(self) -> str:
+        return "replace" if self.replace.isChecked() else "merge"
+
+    def result_building(self) -> Building:
+        """The building with the schedule applied; :class:`ScheduleImportError` if it cannot be."""
+        if self.preview is None:
+            raise ScheduleImportError("nothing to import")
+        return apply_import(self.building, self.preview, mode=self.mode,  # type: ignore[arg-type]
+                            accept_valid_rows=self.accept_valid.isChecked())
+
+    def command(self) -> ReplaceBuilding:
+        """The undoable edit that applies the import."""
+        p = self.preview
+        n = len(p.openings) if p is not None else 0
+        what = "replace openings" if self.mode == "replace" else "merge"
+        return ReplaceBuilding(self.result_building(),
+                               label=f"Import {n} openings from {self.table.source} ({what})")
+
+
+def import_schedule(window: Any, path: Path | None = None, *,
+                    prompts: ImportPrompts | None = None) -> str | None:
+    """Ask for a schedule (unless ``path``), show the import dialog and apply the result as one
+    undoable step on ``window``'s history. Returns the reason nothing changed, or ``None``."""
+    prompts = prompts or ImportPrompts()
+    if path is None:
+        path = prompts.open_schedule(window)
+        if path is None:
+            return "cancelled"
+    try:
+        table = read_table(path)
+    except ScheduleImportError as exc:
+        prompts.show_error(window, "Cannot read the schedule", str(exc))
+        return str(exc)
+    dialog = ImportDialog(window.document.building, table, prompts=prompts, parent=window)
+    try:
+        if not prompts.run(dialog):
+            return "cancelled"
+        try:
+            cmd = dialog.command()
+        except ScheduleImportError as exc:
+            prompts.show_error(window, "Schedule not imported", str(exc))
+            return str(exc)
+        reason: str | None = window.push(cmd)
+        if reason is not None:
+            prompts.show_error(window, "Schedule not imported", reason)
+        return reason
+    finally:
+        dialog.deleteLater()

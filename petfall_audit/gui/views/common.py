@@ -1,0 +1,307 @@
+"""Shared pieces of the result views: the selection every view follows, a background task
+runner, display units and band styling for Qt.
+
+The views reach the window only through :class:`ViewContext`: the latest assessment, the
+selection, the history to push edits to, the options (units, palette) and the settings.
+"""
+
+from __future__ import annotations
+
+import math
+import traceback
+from collections.abc import Callable, Iterable, Sequence
+from dataclasses import dataclass
+from typing import Any
+
+from PySide6.QtCore import QObject, QRunnable, Qt, QThreadPool, Signal, Slot
+from PySide6.QtGui import QBrush, QColor, QFont
+from PySide6.QtWidgets import QLabel, QWidget
+
+from petfall_audit.palette import BandStyle, band_style
+
+__all__ = [
+    "Selection",
+    "Task",
+    "run_task",
+    "Units",
+    "units_of",
+    "band_brush",
+    "band_qstyle",
+    "StaleLabel",
+    "fmt_one_in",
+    "fmt_money",
+    "ViewContext",
+]
+
+
+class Selection(QObject):
+    """The openings selected in any view; ``changed(ids)`` with a tuple of ids, first = current."""
+
+    changed = Signal(object)
+
+    def __init__(self, parent: QObject | None = None) -> None:
+        super().__init__(parent)
+        self._ids: tuple[str, ...] = ()
+
+    @property
+    def ids(self) -> tuple[str, ...]:
+        return self._ids
+
+    @property
+    def current(self) -> str | None:
+        """The first selected opening, or ``None``."""
+        return self._ids[0] if self._ids else None
+
+    def set_ids(self, ids: Iterable[str]) -> None:
+        """Select ``ids`` (order kept, duplicates dropped); emits only on a change."""
+        new = tuple(dict.fromkeys(str(i) for i in ids))
+        if new != self._ids:
+            self._ids = new
+            self.changed.emit(new)
+
+
+# --- background work --------------------------------------------------------------------------
+
+
+class _TaskRelay(QObject):
+    done = Signal(object)
+    failed = Signal(str)
+    progress = Signal(int, int)
+
+
+class Task(QObject):
+    """One function run on a pool thread. ``finished(result)``, ``failed(message)`` and
+    ``progress(done, total)`` arrive queued in the GUI thread; ``cancel()`` drops the result."""
+
+    finished = Signal(object)
+    failed = Signal(str)
+    progress = Signal(int, int)
+
+    def __init__(self, parent: QObject | None = None) -> None:
+        super().__init__(parent)
+        self.cancelled = False
+        self.running = True
+        self._relay = _TaskRelay(self)
+        self._relay.done.connect(self._on_done)
+        self._relay.failed.connect(self._on_failed)
+        self._relay.progress.connect(self._on_progress)
+
+    def cancel(self) -> None:
+        self.cancelled = True
+
+    @Slot(object)
+    def _on_done(self, result: object) -> None:
+        self.running = False
+        if not self.cancelled:
+            self.finished.emit(result)
+
+    @Slot(str)
+    def _on_failed(self, message: str) -> None:
+        self.running = False
+        if not self.cancelled:
+            self.failed.emit(message)
+
+    @Slot(int, int)
+    def _on_progress(self, done: int, total: int) -> None:
+        if not self.cancelled:
+            self.progress.emit(done, total)
+
+
+class _Cancelled(Exception):
+    pass
+
+
+class _Runnable(QRunnable):
+    def __init__(self, task: Task, fn: Callable[..., Any], with_progress: bool) -> None:
+        super().__init__()
+        self.setAutoDelete(True)
+        self._task = task
+        self._relay = task._relay
+        self._fn = fn
+        self._with_progress = with_progress
+
+    def run(self) -> None:
+        task, relay = self._task, self._relay
+
+        def progress(done: int, total: int) -> None:
+            if task.cancelled:
+                raise _Cancelled
+            relay.progress.emit(int(done), int(total))
+
+        try:
+            try:
+                result = self._fn(progress) if self._with_progress else self._fn()
+            except _Cancelled:
+                relay.failed.emit("cancelled")
+                return
+            except Exception as exc:  # shown to the user; the window keeps working
+                relay.failed.emit(traceback.format_exception_only(type(exc), exc)[-1].strip())
+                return
+            relay.done.emit(result)
+        except RuntimeError:  # the receiver was deleted (the window closed): drop the result
+            return
+
+
+_POOL: QThreadPool | None = None
+
+
+def _pool() -> QThreadPool:
+    global _POOL
+    if _POOL is None:
+        _POOL = QThreadPool()
+        _POOL.setMaxThreadCount(1)  # one background job at a time beside the recomputer
+    return _POOL
+
+
+def run_task(fn: Callable[..., Any], *, parent: QObject | None = None,
+             with_progress: bool = False) -> Task:
+    """Run ``fn()`` (or ``fn(progress)`` with ``with_progress``) off the GUI thread.
+
+    ``fn`` must take and return plain Python objects; connect to the returned task's signals
+    before control returns to the event loop."""
+    task = Task(parent)
+    _pool().start(_Runnable(task, fn, with_progress))
+    return task
+
+
+def wait_for_tasks(msecs: int = 30000) -> bool:
+    """Block until the view tasks are done (shutdown and tests)."""
+    return _POOL is None or bool(_POOL.waitForDone(msecs))
+
+
+# --- units --------------------------------------------------------------------------------------
+
+_FOOT_M = 0.3048
+_MPH_MPS = _FOOT_M * 5280 / 3600
+
+
+@dataclass(frozen=True, slots=True)
+class Units:
+    """Display units: divide metres by ``length_m`` to get ``length`` units, m/s by
+    ``speed_mps`` to get ``speed`` units."""
+
+    system: str
+    length: str
+    length_m: float
+    speed: str
+    speed_mps: float
+
+    def fmt_length(self, x_m: float, digits: int = 1) -> str:
+        if not math.isfinite(x_m):
+            return "—"
+        return f"{x_m / self.length_m:.{digits}f} {self.length}"
+
+    def fmt_speed(self, v_mps: float) -> str:
+        if not math.isfinite(v_mps):
+            return "—"
+        return f"{v_mps / self.speed_mps:.1f} {self.speed}"
+
+
+def units_of(system: str) -> Units:
+    """:class:`Units` of ``"metric"`` or ``"imperial"``."""
+    if system == "imperial":
+        return Units("imperial", "ft", _FOOT_M, "mph", _MPH_MPS)
+    return Units("metric", "m", 1.0, "m/s", 1.0)
+
+
+# --- formatting -----------------------------------------------------------------------------------
+
+
+def fmt_one_in(n: float) -> str:
+    """Likelihood over 12 months as "1 in N"."""
+    if not math.isfinite(n) or n <= 0:
+        return "never" if n == math.inf else "—"
+    if n > 1e9:
+        return "never"
+    if n < 1.5:
+        return "1 in 1"
+    return f"1 in {n:,.0f}" if n < 1e5 else f"1 in {n:.2g}"
+
+
+def fmt_money(amount: float, currency: str) -> str:
+    """A cost to the unit: ``"1,250 EUR"``."""
+    return f"{amount:,.0f} {currency}".strip()
+
+
+# --- bands ----------------------------------------------------------------------------------------
+
+
+def band_qstyle(band: int | None, palette: str) -> BandStyle:
+    """The palette style of ``band`` (-1 or ``None``: no result)."""
+    return band_style(None if band is None or band < 0 else int(band), palette)
+
+
+def band_brush(band: int | None, palette: str, pattern: Qt.BrushStyle | None = None) -> QBrush:
+    """Solid fill of ``band``, or ``pattern`` drawn in the band's text colour."""
+    style = band_qstyle(band, palette)
+    if pattern is None:
+        return QBrush(QColor(style.fill))
+    return QBrush(QColor(style.text), pattern)
+
+
+class StaleLabel(QLabel):
+    """A one-line note over a view: what it shows, or that it is being recomputed."""
+
+    def __init__(self, text: str = "", parent: QWidget | None = None) -> None:
+        super().__init__(text, parent)
+        self.setWordWrap(True)
+        self.setTextFormat(Qt.TextFormat.PlainText)
+        self.setObjectName("view_note")
+
+    def set_stale(self, stale: bool) -> None:
+        font = QFont(self.font())
+        font.setItalic(stale)
+        self.setFont(font)
+
+
+class ViewContext(QObject):
+    """What the views share: the window, the latest assessment and the selection.
+
+    ``assessment_changed(assessment)`` after each new result; ``stale_changed(bool)`` when a
+    recomputation starts or ends. Edits go through :meth:`push` (the window's history)."""
+
+    assessment_changed = Signal(object)
+    stale_changed = Signal(bool)
+
+    def __init__(self, window: Any, parent: QObject | None = None) -> None:
+        super().__init__(parent)
+        self.window = window
+        self.selection = Selection(self)
+        self.assessment: Any = None
+        self.plan: Any = None  # the fix plan view's current plan
+        self.stale = True
+
+    @property
+    def options(self) -> Any:
+        return self.window.options
+
+    @property
+    def units(self) -> Units:
+        return units_of(self.window.options.units)
+
+    @property
+    def palette(self) -> str:
+        return str(self.window.options.palette)
+
+    def set_assessment(self, assessment: Any) -> None:
+        self.assessment = assessment
+        self.stale = False
+        self.stale_changed.emit(False)
+        self.assessment_changed.emit(assessment)
+        known = {o.id for o in assessment.openings} if assessment is not None else set()
+        kept = [i for i in self.selection.ids if i in known]
+        if len(kept) != len(self.selection.ids):
+            self.selection.set_ids(kept)
+
+    def set_stale(self) -> None:
+        if not self.stale:
+            self.stale = True
+            self.stale_changed.emit(True)
+
+    def push(self, cmd: Any) -> str | None:
+        """Push an edit to the window's history; the refusal reason or ``None``."""
+        reason: str | None = self.window.push(cmd)
+        return reason
+
+    def select(self, ids: Sequence[str]) -> None:
+        self.selection.set_ids(ids)

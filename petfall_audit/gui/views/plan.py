@@ -1,0 +1,477 @@
+"""Fix plan: the budget, the chosen set of controls with its total cost and the risk before and
+after, the risk-against-budget curve, the options for the selected opening with their residual
+risk and cost, and every condition that comes with them. "Fit this control" records its effect on
+the opening as one undoable edit.
+
+The options, the plan and the curve are computed off the GUI thread; ``plan_ready(plan)`` and
+``curve_ready((budgets, residual))`` arrive queued.
+"""
+
+from __future__ import annotations
+
+import html
+from typing import Any
+
+import numpy as np
+import pyqtgraph as pg
+from PySide6.QtCore import Qt, QTimer, Signal
+from PySide6.QtWidgets import (
+    QAbstractItemView,
+    QDoubleSpinBox,
+    QGridLayout,
+    QHBoxLayout,
+    QHeaderView,
+    QLabel,
+    QProgressBar,
+    QPushButton,
+    QSplitter,
+    QTableWidget,
+    QTableWidgetItem,
+    QTextBrowser,
+    QVBoxLayout,
+    QWidget,
+)
+
+from petfall_audit.editing.commands import SetOpeningFields
+from petfall_audit.gui.views.common import Task, ViewContext, fmt_money, run_task
+
+__all__ = ["PlanView", "fit_command"]
+
+_CURVE_POINTS = 21
+
+
+def fit_command(catalogue: Any, option: Any) -> SetOpeningFields | None:
+    """The edit that records ``option``'s control on its opening (``None`` if the control
+    changes no recorded field, e.g. tenant guidance)."""
+    control = catalogue.control(option.control_id)
+    if not control.effect:
+        return None
+    return SetOpeningFields([option.opening_id], dict(control.effect),
+                            label=f"Fit {control.name.lower()} on {option.opening_id}")
+
+
+def _compute_options(assessment: Any) -> dict[str, Any]:
+    from petfall_audit.figures_extra import budget_grid
+    from petfall_audit.fixes import load_catalogue, opening_options
+
+    catalogue = load_catalogue()
+    options = opening_options(assessment, catalogue)
+    return {"assessment": assessment, "catalogue": catalogue, "options": options,
+            "grid": budget_grid(options, _CURVE_POINTS)}
+
+
+class PlanView(QWidget):
+    """The building's fix plan within a budget."""
+
+    plan_ready = Signal(object)  # Plan
+    curve_ready = Signal(object)  # (budgets, residual risk)
+    options_ready = Signal()
+
+    def __init__(self, context: ViewContext, parent: QWidget | None = None) -> None:
+        super().__init__(parent)
+        self.setObjectName("plan_view")
+        self._ctx = context
+        self.catalogue: Any = None
+        self.options: dict[str, list[Any]] = {}
+        self.plan: Any = None
+        self.curve: tuple[np.ndarray, np.ndarray] | None = None
+        self._for: Any = None  # the assessment the options belong to
+        self._tasks: dict[str, Task] = {}
+        self._budget_set_by_user = False
+
+        self.budget = QDoubleSpinBox()
+        self.budget.setObjectName("budget")
+        self.budget.setRange(0.0, 1e9)
+        self.budget.setDecimals(0)
+        self.budget.setSingleStep(500.0)
+        self.budget.setValue(5000.0)
+        self.budget.setKeyboardTracking(False)
+        self.budget.setAccelerated(True)
+        self.budget.setToolTip("Money available for fixes, in the catalogue's currency "
+                               "(indicative costs; replace them with local prices)")
+        budget_label = QLabel("&Budget:")
+        budget_label.setBuddy(self.budget)
+        self.summary = QLabel("Computing the options…")
+        self.summary.setObjectName("plan_summary")
+        self.summary.setWordWrap(True)
+        self.progress = QProgressBar()
+        self.progress.setMaximumWidth(140)
+        self.progress.setTextVisible(False)
+        self.progress.hide()
+        top = QHBoxLayout()
+        top.setContentsMargins(0, 0, 0, 0)
+        top.addWidget(budget_label)
+        top.addWidget(self.budget)
+        top.addWidget(self.summary, 1)
+        top.addWidget(self.progress)
+
+        self.chosen = QTableWidget(0, 5)
+        self.chosen.setObjectName("plan_table")
+        self.chosen.setHorizontalHeaderLabels(["Opening", "Control", "Cost", "Risk before",
+                                               "Risk after"])
+        self.options_table = QTableWidget(0, 5)
+        self.options_table.setObjectName("options_table")
+        self.options_table.setHorizontalHeaderLabels(["Control", "Kind of control", "Cost",
+                                                      "Residual risk", "In plan"])
+        for t in (self.chosen, self.options_table):
+            t.setEditTriggers(QAbstractItemView.EditTrigger.NoEditTriggers)
+            t.setSelectionBehavior(QAbstractItemView.SelectionBehavior.SelectRows)
+            t.setSelectionMode(QAbstractItemView.SelectionMode.SingleSelection)
+            t.verticalHeader().hide()
+            t.setWordWrap(False)
+            t.horizontalHeader().setSectionResizeMode(QHeaderView.ResizeMode.ResizeToContents)
+            t.setTextElideMode(Qt.TextElideMode.ElideRight)
+        # the control's name takes what is left; long names are elided (full name in the tip)
+        self.chosen.horizontalHeader().setSectionResizeMode(1, QHeaderView.ResizeMode.Stretch)
+        self.options_table.horizontalHeader().setSectionResizeMode(
+            0, QHeaderView.ResizeMode.Stretch)
+        self.chosen.itemSelectionChanged.connect(self._on_plan_row)
+        self.options_title = QLabel("Options for the selected opening")
+        self.options_title.setWordWrap(True)
+        self.fit_button = QPushButton("&Fit this control")
+        self.fit_button.setObjectName("fit_button")
+        self.fit_button.setToolTip("Record the chosen control on the opening (undo with Ctrl+Z)")
+        self.fit_button.setEnabled(False)
+        self.fit_button.clicked.connect(self.fit_selected_option)
+        self.options_table.itemSelectionChanged.connect(self._on_option_row)
+        self.conditions = QTextBrowser()
+        self.conditions.setObjectName("plan_conditions")
+        self.curve_plot = pg.PlotWidget(background="w")
+        self.curve_plot.setTitle("Summed risk left against budget", color="#1A1A1A", size="10pt")
+        self.curve_plot.setLabel("left", "risk score left", color="#1A1A1A")
+        self.curve_plot.setMenuEnabled(False)
+        self.curve_plot.showGrid(x=True, y=True, alpha=0.25)
+        for axis in ("left", "bottom"):
+            self.curve_plot.getAxis(axis).setTextPen("#1A1A1A")
+            self.curve_plot.getAxis(axis).setPen("#606060")
+        self.curve_plot.setMinimumHeight(120)
+        self.curve_plot.setLogMode(x=True, y=False)
+        self.budget_line = pg.InfiniteLine(angle=90, movable=True,
+                                           pen=pg.mkPen("#D55E00", width=2),
+                                           hoverPen=pg.mkPen("#D55E00", width=4))
+        self.budget_line.setToolTip("Drag to change the budget (the axis is logarithmic)")
+        self.budget_line.sigPositionChangeFinished.connect(self._on_line_moved)
+
+        left = QWidget()
+        ll = QVBoxLayout(left)
+        ll.setContentsMargins(0, 0, 0, 0)
+        ll.addWidget(QLabel("Chosen fixes (at most one per opening), most risk removed first"))
+        ll.addWidget(self.chosen, 1)
+        opts = QWidget()
+        ol = QGridLayout(opts)
+        ol.setContentsMargins(0, 0, 0, 0)
+        ol.addWidget(self.options_title, 0, 0)
+        ol.addWidget(self.fit_button, 0, 1)
+        ol.addWidget(self.options_table, 1, 0, 1, 2)
+        ol.setRowStretch(1, 1)
+        conds = QWidget()
+        cl = QVBoxLayout(conds)
+        cl.setContentsMargins(0, 0, 0, 0)
+        cl.addWidget(QLabel("Conditions"))
+        cl.addWidget(self.conditions, 1)
+        middle = QSplitter(Qt.Orientation.Vertical)
+        middle.addWidget(opts)
+        middle.addWidget(conds)
+        middle.setChildrenCollapsible(False)
+        splitter = QSplitter(Qt.Orientation.Horizontal)
+        splitter.addWidget(left)
+        splitter.addWidget(middle)
+        splitter.addWidget(self.curve_plot)
+        splitter.setChildrenCollapsible(False)
+        splitter.setSizes([500, 500, 380])
+        layout = QVBoxLayout(self)
+        layout.setContentsMargins(2, 2, 2, 2)
+        layout.addLayout(top)
+        layout.addWidget(splitter, 1)
+
+        self._plan_timer = QTimer(self)
+        self._plan_timer.setSingleShot(True)
+        self._plan_timer.setInterval(150)
+        self._plan_timer.timeout.connect(self._start_plan)
+        self.budget.valueChanged.connect(self._on_budget_changed)
+        context.assessment_changed.connect(self._on_assessment)
+        context.selection.changed.connect(self._on_selection)
+        context.stale_changed.connect(self._on_stale)
+        if context.assessment is not None:
+            self._on_assessment(context.assessment)
+
+    # --- public ----------------------------------------------------------------------------------
+
+    @property
+    def currency(self) -> str:
+        return str(getattr(self.catalogue, "currency", ""))
+
+    def set_budget(self, amount: float) -> None:
+        """Set the budget (the plan follows)."""
+        self._budget_set_by_user = True
+        self.budget.setValue(float(amount))
+
+    def option_for(self, opening_id: str, control_id: str) -> Any:
+        for o in self.options.get(opening_id, []):
+            if o.control_id == control_id:
+                return o
+        raise KeyError((opening_id, control_id))
+
+    def fit_option(self, option: Any) -> str | None:
+        """Record ``option``'s control on its opening through the history; the refusal reason
+        or ``None``."""
+        cmd = fit_command(self.catalogue, option)
+        if cmd is None:
+            return "this control changes nothing recorded on the opening (e.g. guidance)"
+        return self._ctx.push(cmd)
+
+    def fit_selected_option(self) -> str | None:
+        option = self._selected_option()
+        if option is None:
+            return "select an option first"
+        return self.fit_option(option)
+
+    # --- computing -------------------------------------------------------------------------------
+
+    def _on_assessment(self, assessment: Any) -> None:
+        self._for = assessment
+        self.progress.setRange(0, 0)
+        self.progress.show()
+        self._cancel("options")
+        task = run_task(lambda: _compute_options(assessment), parent=self)
+        self._tasks["options"] = task
+        task.finished.connect(self._on_options)
+        task.failed.connect(self._on_failed)
+
+    def _on_options(self, result: dict[str, Any]) -> None:
+        if result["assessment"] is not self._ctx.assessment:
+            return  # an older result
+        self.catalogue = result["catalogue"]
+        self.options = result["options"]
+        grid = result["grid"]
+        self.budget.setSuffix(f" {self.currency}")
+        top = float(grid[-1]) if len(grid) else 0.0
+        if not self._budget_set_by_user and top > 0:
+            self._set_budget_quietly(0.05 * top)
+        self.curve_plot.setLabel("bottom", f"budget ({self.currency}, log scale)",
+                                 color="#1A1A1A")
+        self.options_ready.emit()
+        self._start_plan()
+        self._start_curve(grid, result["assessment"])
+        self._on_selection(self._ctx.selection.ids)
+
+    def _start_plan(self) -> None:
+        if not self.options or self._ctx.assessment is None:
+            return
+        from petfall_audit.plan import plan_from_options
+
+        options, budget = self.options, float(self.budget.value())
+        risk_before = float(np.sum(self._ctx.assessment.risk))
+        currency = self.currency
+        self._cancel("plan")
+        self.progress.setRange(0, 0)
+        self.progress.show()
+        task = run_task(lambda: plan_from_options(options, budget, risk_before=risk_before,
+                                                  currency=currency), parent=self)
+        self._tasks["plan"] = task
+        task.finished.connect(self._on_plan)
+        task.failed.connect(self._on_failed)
+
+    def _start_curve(self, grid: np.ndarray, assessment: Any) -> None:
+        from petfall_audit.plan import curve_from_options
+
+        options = self.options
+        risk_before = float(np.sum(assessment.risk))
+
+        def work(progress: Any) -> tuple[np.ndarray, np.ndarray]:
+            residual = np.empty(len(grid))
+            for j, b in enumerate(grid):  # one exact solve per budget, progress between
+                _, removed = curve_from_options(options, [float(b)])
+                residual[j] = risk_before - float(removed[0])
+                progress(j + 1, len(grid))
+            return np.asarray(grid, dtype=float), residual
+
+        self._cancel("curve")
+        task = run_task(work, parent=self, with_progress=True)
+        self._tasks["curve"] = task
+        task.progress.connect(self._on_curve_progress)
+        task.finished.connect(self._on_curve)
+        task.failed.connect(self._on_failed)
+
+    def _cancel(self, name: str) -> None:
+        old = self._tasks.pop(name, None)
+        if old is not None:
+            old.cancel()
+
+    def _on_failed(self, message: str) -> None:
+        if message == "cancelled":
+            return
+        self.progress.hide()
+        self.summary.setText(f"! The plan could not be computed: {message}")
+
+    def _on_curve_progress(self, done: int, total: int) -> None:
+        self.progress.setRange(0, total)
+        self.progress.setValue(done)
+        self.progress.show()
+
+    def _set_budget_quietly(self, amount: float) -> None:
+        """A default budget (rounded up to hundreds) that is not the user's choice."""
+        self.budget.blockSignals(True)
+        self.budget.setValue(float(np.ceil(amount / 100.0) * 100.0))
+        self.budget.blockSignals(False)
+        self._place_line()
+
+    def _place_line(self) -> None:
+        value = float(self.budget.value())
+        self.budget_line.blockSignals(True)
+        self.budget_line.setValue(float(np.log10(max(value, 1.0))))
+        self.budget_line.blockSignals(False)
+
+    def _on_budget_changed(self, _value: float) -> None:
+        self._budget_set_by_user = True
+        self._place_line()
+        self._plan_timer.start()
+
+    def _on_line_moved(self, line: pg.InfiniteLine) -> None:
+        value = float(10.0 ** float(line.value()))
+        self.set_budget(float(np.round(value, -1 if value >= 100 else 0)))
+
+    def _on_stale(self, stale: bool) -> None:
+        if stale:
+            self.summary.setText("Results are being recomputed; the plan follows…")
+
+    # --- showing ----------------------------------------------------------------------------------
+
+    def _on_plan(self, plan: Any) -> None:
+        self.plan = plan
+        self._ctx.plan = plan
+        self.progress.hide()
+        cur = plan.currency
+        share = plan.risk_removed / plan.risk_before if plan.risk_before > 0 else 0.0
+        self.summary.setText(
+            f"{len(plan.actions)} fixes chosen for {fmt_money(plan.total_cost, cur)} of "
+            f"{fmt_money(plan.budget, cur)}. Summed risk score {plan.risk_before:,.0f} → "
+            f"{plan.risk_after:,.0f} ({share:.0%} less). Indicative costs; a fix needs the "
+            "conditions listed and competent installers.")
+        self.chosen.setRowCount(len(plan.actions))
+        for row, o in enumerate(sorted(plan.actions, key=lambda o: -o.risk_removed)):
+            cells = [o.opening_id, o.control_name, fmt_money(o.cost, cur),
+                     f"{o.risk_before:,.0f}", f"{o.risk_after:,.0f}"]
+            for col, text in enumerate(cells):
+                item = QTableWidgetItem(text)
+                item.setData(Qt.ItemDataRole.UserRole, o.opening_id)
+                if col in (2, 3, 4):
+                    item.setTextAlignment(Qt.AlignmentFlag.AlignRight
+                                          | Qt.AlignmentFlag.AlignVCenter)
+                item.setToolTip("\n".join([o.control_name, *o.conditions]))
+                self.chosen.setItem(row, col, item)
+        self._fill_options()
+        self._show_conditions()
+        self._draw_curve()
+        self.plan_ready.emit(plan)
+
+    def _on_curve(self, curve: tuple[np.ndarray, np.ndarray]) -> None:
+        self.curve = curve
+        budgets, residual = curve
+        if not self._budget_set_by_user and residual.size > 1:
+            # the smallest budget that removes 90 % of what the catalogue can remove
+            removed = residual[0] - residual
+            enough = np.flatnonzero(removed >= 0.9 * removed.max())
+            if enough.size and budgets[enough[0]] != self.budget.value():
+                self._set_budget_quietly(float(budgets[enough[0]]))
+                self._start_plan()
+        if self.plan is not None or self._tasks.get("plan") is None:
+            self.progress.hide()
+        self._draw_curve()
+        self.curve_ready.emit(curve)
+
+    def _draw_curve(self) -> None:
+        plot = self.curve_plot
+        plot.clear()
+        if self.curve is not None:
+            budgets, residual = self.curve
+            keep = budgets > 0  # a log axis: "no budget" is the summary's "before"
+            plot.plot(budgets[keep], residual[keep], pen=pg.mkPen("#1B2C57", width=2),
+                      symbol="o", symbolSize=5, symbolBrush="#1B2C57")
+        plot.addItem(self.budget_line)
+        self._place_line()
+        if self.plan is not None and self.plan.budget > 0:
+            plot.plot([self.plan.budget], [self.plan.risk_after], pen=None, symbol="s",
+                      symbolSize=11, symbolBrush="#D55E00", symbolPen="#1A1A1A")
+
+    def _on_selection(self, _ids: Any) -> None:
+        self._fill_options()
+        self._show_conditions()
+
+    def _on_plan_row(self) -> None:
+        items = self.chosen.selectedItems()
+        if items:
+            oid = items[0].data(Qt.ItemDataRole.UserRole)
+            if oid and oid != self._ctx.selection.current:
+                self._ctx.select([oid])
+
+    def _fill_options(self) -> None:
+        current = self._ctx.selection.current
+        opts = self.options.get(current or "", [])
+        chosen = {(o.opening_id, o.control_id) for o in (self.plan.actions if self.plan else ())}
+        cur = self.currency
+        if current is None:
+            self.options_title.setText("Select an opening to see its options")
+        elif not opts:
+            self.options_title.setText(f"{current}: no control in the catalogue lowers its risk")
+        else:
+            self.options_title.setText(
+                f"{current}: {len(opts)} options, risk score now {opts[0].risk_before:,.0f}")
+        self.options_table.setRowCount(len(opts))
+        for row, o in enumerate(opts):
+            in_plan = (o.opening_id, o.control_id) in chosen
+            cells = [o.control_name, o.hierarchy, fmt_money(o.cost, cur),
+                     f"{o.risk_after:,.0f} ({o.share_removed:.0%} less)",
+                     "yes" if in_plan else ""]
+            for col, text in enumerate(cells):
+                item = QTableWidgetItem(text)
+                item.setData(Qt.ItemDataRole.UserRole, o.control_id)
+                item.setToolTip("\n".join(o.conditions) or o.control_name)
+                if col in (2, 3):
+                    item.setTextAlignment(Qt.AlignmentFlag.AlignRight
+                                          | Qt.AlignmentFlag.AlignVCenter)
+                self.options_table.setItem(row, col, item)
+        if opts:
+            self.options_table.selectRow(0)
+        self._on_option_row()
+
+    def _selected_option(self) -> Any:
+        current = self._ctx.selection.current
+        rows = self.options_table.selectionModel().selectedRows()
+        if current is None or not rows:
+            return None
+        opts = self.options.get(current, [])
+        row = rows[0].row()
+        return opts[row] if 0 <= row < len(opts) else None
+
+    def _on_option_row(self) -> None:
+        option = self._selected_option()
+        ok = option is not None and fit_command(self.catalogue, option) is not None
+        self.fit_button.setEnabled(ok)
+        if option is not None and not ok:
+            self.fit_button.setToolTip("This control changes nothing recorded on the opening")
+        self._show_conditions()
+
+    def _show_conditions(self) -> None:
+        parts: list[str] = []
+        option = self._selected_option()
+        if option is not None:
+            control = self.catalogue.control(option.control_id)
+            parts.append(f"<p><b>{html.escape(option.control_name)}</b> on "
+                         f"{html.escape(option.opening_id)}: {html.escape(control.description)}"
+                         "</p>")
+            parts.append("<ul>" + "".join(f"<li>{html.escape(c)}</li>"
+                                          for c in option.conditions) + "</ul>")
+        if self.plan is not None and self.plan.actions:
+            by: dict[str, list[str]] = {}
+            for o in self.plan.actions:
+                for c in o.conditions:
+                    by.setdefault(c, []).append(o.opening_id)
+            items = "".join(
+                f"<li>{html.escape(c)} <i>({len(ids)} fix{'es' if len(ids) != 1 else ''})</i></li>"
+                for c, ids in sorted(by.items(), key=lambda kv: -len(kv[1])))
+            parts.append(f"<p><b>Conditions of the chosen fixes</b></p><ul>{items}</ul>")
+        parts.append("<p><i>Never fit a fixed limiter or a permanent net on an emergency escape "
+                     "window: the plan never offers one. Local building and fire codes and "
+                     "licensed professionals take precedence.</i></p>")
+        self.conditions.setHtml("".join(parts))

@@ -1,0 +1,440 @@
+"""The ranked openings: sortable, filterable by floor, facade, kind and band, in expected-band
+order or risk order, with the factors behind the selected row beside the table."""
+
+from __future__ import annotations
+
+import html
+from typing import Any
+
+from PySide6.QtCore import (
+    QAbstractTableModel,
+    QItemSelection,
+    QItemSelectionModel,
+    QModelIndex,
+    QObject,
+    QPersistentModelIndex,
+    QSortFilterProxyModel,
+    Qt,
+)
+from PySide6.QtGui import QBrush, QColor, QFont
+from PySide6.QtWidgets import (
+    QAbstractItemView,
+    QComboBox,
+    QHBoxLayout,
+    QHeaderView,
+    QLabel,
+    QLineEdit,
+    QSplitter,
+    QTableView,
+    QTextBrowser,
+    QVBoxLayout,
+    QWidget,
+)
+
+from petfall_audit.editing.fields import enum_label
+from petfall_audit.gui.views.common import ViewContext, band_qstyle, fmt_one_in
+from petfall_audit.injury import BAND_DESCRIPTIONS, BANDS
+
+__all__ = ["RankedModel", "RankedFilter", "RankedView", "SORT_ROLE", "ID_ROLE"]
+
+SORT_ROLE = Qt.ItemDataRole.UserRole + 11
+ID_ROLE = Qt.ItemDataRole.UserRole + 12
+Index = QModelIndex | QPersistentModelIndex
+
+
+class RankedModel(QAbstractTableModel):
+    """Every opening of an assessment, one row each, in building order (the view sorts)."""
+
+    COLUMNS = ("Band order", "Risk order", "Opening", "Floor", "Facade", "Kind",
+               "Expected injury", "Likelihood (12 months)", "Median drop", "Impact speed (median)",
+               "Risk score", "Main factor")
+    BAND_COL = 6
+
+    def __init__(self, context: ViewContext, parent: QObject | None = None) -> None:
+        super().__init__(parent)
+        self._ctx = context
+        self._rows: list[Any] = []
+        self._floor_labels: dict[int, str] = {}
+        self.stale = True
+
+    def set_assessment(self, assessment: Any) -> None:
+        self.beginResetModel()
+        self._rows = list(assessment.openings) if assessment is not None else []
+        self._floor_labels = ({f.level: f.label for f in assessment.building.floors}
+                              if assessment is not None else {})
+        self.stale = False
+        self.endResetModel()
+
+    def set_stale(self, stale: bool) -> None:
+        self.stale = stale
+        self.refresh()
+
+    def refresh(self) -> None:
+        if self._rows:
+            self.dataChanged.emit(self.index(0, 0),
+                                  self.index(len(self._rows) - 1, len(self.COLUMNS) - 1))
+
+    def result(self, row: int) -> Any:
+        return self._rows[row]
+
+    def row_of(self, opening_id: str) -> int:
+        for i, r in enumerate(self._rows):
+            if r.id == opening_id:
+                return i
+        return -1
+
+    def rowCount(self, parent: Index = QModelIndex()) -> int:  # noqa: B008
+        return 0 if parent.isValid() else len(self._rows)
+
+    def columnCount(self, parent: Index = QModelIndex()) -> int:  # noqa: B008
+        return 0 if parent.isValid() else len(self.COLUMNS)
+
+    def headerData(self, section: int, orientation: Qt.Orientation,
+                   role: int = Qt.ItemDataRole.DisplayRole) -> Any:
+        if orientation != Qt.Orientation.Horizontal:
+            return None
+        if role == Qt.ItemDataRole.DisplayRole:
+            return self.COLUMNS[section]
+        if role == Qt.ItemDataRole.ToolTipRole:
+            return {
+                0: "Rank by expected injury band, then by likelihood (1 = worst)",
+                1: "Rank by risk score: likelihood × severity (1 = worst)",
+                6: "The worst band that at least half of the simulated falls reach",
+                7: "Chance that a cat falls from here over 12 months",
+                10: "Risk score adapted from England's HHSRS: orders openings, "
+                    "not a rating of the building",
+            }.get(section)
+        return None
+
+    def data(self, index: Index, role: int = Qt.ItemDataRole.DisplayRole) -> Any:
+        if not index.isValid():
+            return None
+        r = self._rows[index.row()]
+        col = index.column()
+        units = self._ctx.units
+        if role == ID_ROLE:
+            return r.id
+        if role == SORT_ROLE:
+            return (r.rank, r.risk_rank, r.id, r.floor, r.facade, str(r.kind),
+                    -r.expected_band * 1e6 + r.rank, -r.annual_probability, -r.drop_m.p50,
+                    -r.impact_speed_mps.p50, -r.risk, r.factors[0] if r.factors else "")[col]
+        if role == Qt.ItemDataRole.DisplayRole:
+            if col == 0:
+                return str(r.rank)
+            if col == 1:
+                return str(r.risk_rank)
+            if col == 2:
+                return r.id
+            if col == 3:
+                return self._floor_labels.get(r.floor, str(r.floor))
+            if col == 4:
+                return r.facade
+            if col == 5:
+                return enum_label(r.kind)
+            if col == 6:
+                style = band_qstyle(r.expected_band, self._ctx.palette)
+                return f"{style.mark} {BANDS[r.expected_band]}"
+            if col == 7:
+                return fmt_one_in(r.one_in_n)
+            if col == 8:
+                return units.fmt_length(r.drop_m.p50)
+            if col == 9:
+                return units.fmt_speed(r.impact_speed_mps.p50)
+            if col == 10:
+                return f"{r.risk:,.0f}"
+            if col == 11:
+                return r.factors[0] if r.factors else ""
+        if role == Qt.ItemDataRole.TextAlignmentRole and col in (0, 1, 7, 8, 9, 10):
+            return int(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
+        if role == Qt.ItemDataRole.BackgroundRole and col == self.BAND_COL and not self.stale:
+            return QBrush(QColor(band_qstyle(r.expected_band, self._ctx.palette).fill))
+        if role == Qt.ItemDataRole.ForegroundRole:
+            if self.stale:
+                return QBrush(QColor("#7A7A7A"))
+            if col == self.BAND_COL:
+                return QBrush(QColor(band_qstyle(r.expected_band, self._ctx.palette).text))
+        if role == Qt.ItemDataRole.FontRole and self.stale:
+            font = QFont()
+            font.setItalic(True)
+            return font
+        if role == Qt.ItemDataRole.ToolTipRole:
+            return "\n".join([f"{r.id}: {BANDS[r.expected_band]} expected",
+                              *(f"• {f}" for f in r.factors), *(f"• {h}" for h in r.hazards)])
+        return None
+
+
+class RankedFilter(QSortFilterProxyModel):
+    """Keeps rows whose floor, facade, kind and band match (``None`` = any) and whose id or
+    factors contain the search text."""
+
+    def __init__(self, parent: QObject | None = None) -> None:
+        super().__init__(parent)
+        self.floor: int | None = None
+        self.facade: str | None = None
+        self.kind: str | None = None
+        self.band: int | None = None
+        self.text = ""
+        self.setSortRole(SORT_ROLE)
+
+    def set_filters(self, **values: Any) -> None:
+        if hasattr(self, "beginFilterChange"):  # Qt 6.10+; invalidateFilter is deprecated
+            self.beginFilterChange()
+            for key, value in values.items():
+                setattr(self, key, value)
+            self.endFilterChange(QSortFilterProxyModel.Direction.Rows)
+        else:  # pragma: no cover - older Qt
+            for key, value in values.items():
+                setattr(self, key, value)
+            self.invalidateFilter()
+
+    def filterAcceptsRow(self, source_row: int, source_parent: Index) -> bool:
+        model = self.sourceModel()
+        assert isinstance(model, RankedModel)
+        r = model.result(source_row)
+        if self.floor is not None and r.floor != self.floor:
+            return False
+        if self.facade is not None and r.facade != self.facade:
+            return False
+        if self.kind is not None and str(r.kind) != self.kind:
+            return False
+        if self.band is not None and r.expected_band != self.band:
+            return False
+        if self.text:
+            needle = self.text.lower()
+            hay = " ".join([r.id, *r.factors, *r.hazards]).lower()
+            if needle not in hay:
+                return False
+        return True
+
+
+def _factors_html(r: Any, palette: str, units: Any) -> str:
+    style = band_qstyle(r.expected_band, palette)
+    band = BANDS[r.expected_band]
+    rows = "".join(
+        f"<tr><td>{band_qstyle(i, palette).mark} {html.escape(name)}</td>"
+        f"<td align='right'>{r.bands.get(name, 0.0):.0%}</td></tr>"
+        for i, name in enumerate(BANDS))
+    factors = "".join(f"<li>{html.escape(f)}</li>" for f in r.factors)
+    hazards = "".join(f"<li>{html.escape(h)}</li>" for h in r.hazards)
+    return (
+        f"<h3 style='margin:0'>{html.escape(r.id)}</h3>"
+        f"<p style='margin:2px 0'><span style='background:{style.fill}; color:{style.text}'>"
+        f"&nbsp;{html.escape(style.mark)} {html.escape(band)}&nbsp;</span> expected: "
+        f"{html.escape(BAND_DESCRIPTIONS.get(band, ''))}</p>"
+        f"<p style='margin:2px 0'>Rank {r.rank} by band, {r.risk_rank} by risk · likelihood "
+        f"{fmt_one_in(r.one_in_n)} over 12 months · risk score {r.risk:,.0f}</p>"
+        f"<p style='margin:2px 0'>Impact speed {units.fmt_speed(r.impact_speed_mps.p5)} to "
+        f"{units.fmt_speed(r.impact_speed_mps.p95)} (5th–95th percentile)</p>"
+        f"<table cellspacing='0' cellpadding='1'>{rows}</table>"
+        f"<p style='margin:4px 0 0 0'><b>Why it ranks here</b></p>"
+        f"<ul style='margin:0'>{factors}</ul>"
+        + (f"<p style='margin:4px 0 0 0'><b>Other hazards</b></p>"
+           f"<ul style='margin:0'>{hazards}</ul>" if hazards else "")
+    )
+
+
+class RankedView(QWidget):
+    """Filter bar, ranked table and the factors of the selected opening."""
+
+    def __init__(self, context: ViewContext, parent: QWidget | None = None) -> None:
+        super().__init__(parent)
+        self.setObjectName("ranked_view")
+        self._ctx = context
+        self._syncing = False
+        self.model = RankedModel(context, self)
+        self.proxy = RankedFilter(self)
+        self.proxy.setSourceModel(self.model)
+
+        self.order_box = QComboBox()
+        self.order_box.setObjectName("order_box")
+        self.order_box.addItem("Expected injury, then likelihood", 0)
+        self.order_box.addItem("Risk score (likelihood × severity)", 1)
+        self.floor_box = QComboBox()
+        self.facade_box = QComboBox()
+        self.kind_box = QComboBox()
+        self.band_box = QComboBox()
+        for box, name in ((self.floor_box, "floor_filter"), (self.facade_box, "facade_filter"),
+                          (self.kind_box, "kind_filter"), (self.band_box, "band_filter")):
+            box.setObjectName(name)
+            box.setSizeAdjustPolicy(QComboBox.SizeAdjustPolicy.AdjustToContents)
+            box.currentIndexChanged.connect(self._on_filter_changed)
+        self.search = QLineEdit()
+        self.search.setObjectName("ranked_search")
+        self.search.setPlaceholderText("Search id or factor…")
+        self.search.setClearButtonEnabled(True)
+        self.search.textChanged.connect(self._on_filter_changed)
+        self.count = QLabel()
+        bar = QHBoxLayout()
+        bar.setContentsMargins(0, 0, 0, 0)
+        for text, widget in (("&Order:", self.order_box), ("F&loor:", self.floor_box),
+                             ("Fa&cade:", self.facade_box), ("&Kind:", self.kind_box),
+                             ("&Band:", self.band_box)):
+            label = QLabel(text)
+            label.setBuddy(widget)
+            bar.addWidget(label)
+            bar.addWidget(widget)
+        bar.addWidget(self.search, 1)
+        bar.addWidget(self.count)
+
+        self.table = QTableView()
+        self.table.setObjectName("ranked_table")
+        self.table.setModel(self.proxy)
+        self.table.setSortingEnabled(True)
+        self.table.setSelectionBehavior(QAbstractItemView.SelectionBehavior.SelectRows)
+        self.table.setSelectionMode(QAbstractItemView.SelectionMode.ExtendedSelection)
+        self.table.setEditTriggers(QAbstractItemView.EditTrigger.NoEditTriggers)
+        self.table.setAlternatingRowColors(True)
+        self.table.setWordWrap(False)
+        self.table.verticalHeader().hide()
+        header = self.table.horizontalHeader()
+        header.setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
+        header.setStretchLastSection(True)
+        self.details = QTextBrowser()
+        self.details.setObjectName("ranked_details")
+        self.details.setOpenLinks(False)
+        self.details.setPlaceholderText("Select an opening to see the factors behind its rank.")
+        splitter = QSplitter(Qt.Orientation.Horizontal)
+        splitter.addWidget(self.table)
+        splitter.addWidget(self.details)
+        splitter.setStretchFactor(0, 3)
+        splitter.setStretchFactor(1, 1)
+        splitter.setChildrenCollapsible(False)
+        self.details.setMinimumWidth(220)
+        layout = QVBoxLayout(self)
+        layout.setContentsMargins(2, 2, 2, 2)
+        layout.addLayout(bar)
+        layout.addWidget(splitter, 1)
+        self.setFocusProxy(self.table)
+
+        self.order_box.currentIndexChanged.connect(self._on_order_changed)
+        self.table.selectionModel().selectionChanged.connect(self._on_table_selection)
+        context.assessment_changed.connect(self._on_assessment)
+        context.stale_changed.connect(self.model.set_stale)
+        context.selection.changed.connect(self._on_selection)
+        context.options.changed.connect(self._on_options)
+        self.table.sortByColumn(0, Qt.SortOrder.AscendingOrder)
+        self._fill_filters(None)
+        if context.assessment is not None:
+            self._on_assessment(context.assessment)
+
+    # --- public ----------------------------------------------------------------------------------
+
+    def visible_ids(self) -> list[str]:
+        """Opening ids in the order shown."""
+        return [self.proxy.index(r, 0).data(ID_ROLE) for r in range(self.proxy.rowCount())]
+
+    def set_order(self, by: str) -> None:
+        """``"band"`` or ``"risk"``."""
+        self.order_box.setCurrentIndex(0 if by == "band" else 1)
+
+    # --- handlers --------------------------------------------------------------------------------
+
+    def _on_assessment(self, assessment: Any) -> None:
+        self._fill_filters(assessment)
+        self.model.set_assessment(assessment)
+        self._resize_columns()
+        self._on_filter_changed()
+        self._on_selection(self._ctx.selection.ids)
+
+    def _on_options(self) -> None:
+        self.model.refresh()
+        self._show_details()
+
+    def _resize_columns(self) -> None:
+        fm = self.table.fontMetrics()
+        for col, title in enumerate(RankedModel.COLUMNS[:-1]):
+            self.table.resizeColumnToContents(col)
+            width = min(self.table.columnWidth(col), fm.horizontalAdvance("M" * 16))
+            self.table.setColumnWidth(col, max(width, fm.horizontalAdvance(title) + 24))
+
+    def _fill_filters(self, assessment: Any) -> None:
+        def fill(box: QComboBox, items: list[tuple[str, Any]]) -> None:
+            keep = box.currentData()
+            box.blockSignals(True)
+            box.clear()
+            box.addItem("All", None)
+            for text, data in items:
+                box.addItem(text, data)
+            i = box.findData(keep) if keep is not None else 0
+            box.setCurrentIndex(max(i, 0))
+            box.blockSignals(False)
+
+        if assessment is None:
+            b = None
+            floors: list[tuple[str, Any]] = []
+            facades: list[tuple[str, Any]] = []
+            kinds: list[tuple[str, Any]] = []
+        else:
+            b = assessment.building
+            floors = [(f.label or str(f.level), f.level)
+                      for f in sorted(b.floors, key=lambda f: f.level)]
+            facades = [(f.label or f.id, f.id) for f in b.facades]
+            seen = dict.fromkeys(o.kind for o in b.openings)
+            kinds = [(enum_label(k), str(k)) for k in seen]
+        fill(self.floor_box, floors)
+        fill(self.facade_box, facades)
+        fill(self.kind_box, kinds)
+        fill(self.band_box, [(f"{band_qstyle(i, self._ctx.palette).mark} {n}", i)
+                             for i, n in enumerate(BANDS)])
+        del b
+
+    def _on_filter_changed(self, *_: Any) -> None:
+        self.proxy.set_filters(floor=self.floor_box.currentData(),
+                               facade=self.facade_box.currentData(),
+                               kind=self.kind_box.currentData(),
+                               band=self.band_box.currentData(),
+                               text=self.search.text().strip())
+        self.count.setText(f"{self.proxy.rowCount()} of {self.model.rowCount()} openings")
+
+    def _on_order_changed(self, _index: int) -> None:
+        self.table.sortByColumn(int(self.order_box.currentData()), Qt.SortOrder.AscendingOrder)
+
+    def _on_table_selection(self, *_: Any) -> None:
+        if self._syncing:
+            return
+        rows = self.table.selectionModel().selectedRows()
+        current = self.table.currentIndex()
+        ids = [i.data(ID_ROLE) for i in sorted(rows, key=lambda i: i.row())]
+        if current.isValid():
+            cid = current.data(ID_ROLE)
+            if cid in ids:
+                ids.remove(cid)
+                ids.insert(0, cid)
+        self._ctx.select(ids)
+        self._show_details()
+
+    def _on_selection(self, ids: Any) -> None:
+        self._syncing = True
+        try:
+            sel = self.table.selectionModel()
+            selection = QItemSelection()
+            first: QModelIndex | None = None
+            for oid in ids:
+                row = self.model.row_of(oid)
+                if row < 0:
+                    continue
+                index = self.proxy.mapFromSource(self.model.index(row, 0))
+                if index.isValid():
+                    selection.select(index, index)
+                    first = index if first is None else first
+            sel.select(selection, QItemSelectionModel.SelectionFlag.ClearAndSelect
+                       | QItemSelectionModel.SelectionFlag.Rows)
+            if first is not None:
+                sel.setCurrentIndex(first, QItemSelectionModel.SelectionFlag.NoUpdate)
+                self.table.scrollTo(first)
+        finally:
+            self._syncing = False
+        self._show_details()
+
+    def _show_details(self) -> None:
+        a = self._ctx.assessment
+        current = self._ctx.selection.current
+        if a is None or current is None:
+            self.details.setHtml("")
+            return
+        try:
+            r = a.result(current)
+        except KeyError:
+            self.details.setHtml("")
+            return
+        self.details.setHtml(_factors_html(r, self._ctx.palette, self._ctx.units))

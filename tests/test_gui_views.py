@@ -1,0 +1,257 @@
+"""The result views, offscreen: one selection everywhere, facade fill and ranked place after a
+fix, the plan following the budget, filters, floor comparison and keyboard use."""
+
+from __future__ import annotations
+
+import dataclasses
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+import pytest
+from PySide6.QtCore import QItemSelectionModel, Qt
+
+from petfall_audit.demo import sample_building
+from petfall_audit.editing.document import Document
+from petfall_audit.figures_extra import level_summary
+from petfall_audit.gui.dialogs import Prompts
+from petfall_audit.gui.main_window import MainWindow
+from petfall_audit.gui.views import VIEW_NAMES, InstalledViews, install_views
+from petfall_audit.gui.views.common import wait_for_tasks
+from petfall_audit.gui.views.ranked import ID_ROLE
+from petfall_audit.io.building_file import save_building
+from petfall_audit.model import BALCONY_LIKE, Building
+from petfall_audit.risk import assess
+
+pytestmark = pytest.mark.gui
+
+SAMPLES = 64  # few simulated cats keep the tests fast; the logic is the same
+
+
+class QuietPrompts(Prompts):
+    """Never blocks: unsaved work is discarded when the test closes the window."""
+
+    def ask_save_changes(self, parent: Any, name: str) -> str:
+        return "discard"
+
+    def show_error(self, parent: Any, title: str, text: str) -> None:
+        raise AssertionError(f"{title}: {text}")
+
+
+@pytest.fixture
+def app_window(qtbot):  # type: ignore[no-untyped-def]
+    made: list[MainWindow] = []
+
+    def make(building: Building | None = None) -> tuple[MainWindow, InstalledViews]:
+        window = MainWindow(Document(building or sample_building("walkup")),
+                            prompts=QuietPrompts(), samples=SAMPLES)
+        qtbot.addWidget(window)
+        views = install_views(window)
+        window.resize(1366, 768)
+        window.show()
+        qtbot.waitUntil(lambda: views.context.assessment is not None
+                        and not window.results_stale, timeout=20000)
+        qtbot.waitUntil(lambda: views.plan.plan is not None, timeout=20000)
+        made.append(window)
+        return window, views
+
+    yield make
+    for window in made:
+        window.recomputer.cancel()
+        window.recomputer.wait(10000)
+    wait_for_tasks(20000)
+
+
+def _select_in_ranked(views: InstalledViews, opening_id: str) -> None:
+    table = views.ranked.table
+    proxy = views.ranked.proxy
+    row = next(r for r in range(proxy.rowCount()) if proxy.index(r, 0).data(ID_ROLE) == opening_id)
+    table.selectionModel().select(proxy.index(row, 0),
+                                  QItemSelectionModel.SelectionFlag.ClearAndSelect
+                                  | QItemSelectionModel.SelectionFlag.Rows)
+
+
+def test_views_are_installed_as_tabs_with_shortcuts(app_window) -> None:  # type: ignore[no-untyped-def]
+    window, views = app_window()
+    names = [window.view_tabs.tabText(i) for i in range(window.view_tabs.count())]
+    assert names == list(VIEW_NAMES)
+    shortcuts = {a.shortcut().toString() for a in views.view_actions}
+    assert {"Ctrl+1", "Ctrl+5", "Ctrl+0"} <= shortcuts
+    views.view_actions[3].trigger()
+    assert window.view_tabs.currentWidget() is views.profile
+
+
+def test_selecting_in_the_list_selects_in_the_facade_profile_and_editor(app_window, qtbot) -> None:  # type: ignore[no-untyped-def]
+    window, views = app_window()
+    a = views.context.assessment
+    target = a.ranked("risk")[3]
+    _select_in_ranked(views, target.id)
+    assert views.context.selection.current == target.id
+    # facade view: switched to the opening's facade, its shape outlined
+    assert views.facade.facade_id == target.facade
+    item = views.facade.opening_item(target.id)
+    assert item is not None and item.selected_
+    assert sum(i.selected_ for i in views.facade.items.values()) == 1
+    # profile: both posture paths of that opening, ending at the median drop
+    assert views.profile.opening_id == target.id
+    assert views.profile.paths
+    for path in views.profile.paths:
+        assert path.height_m[0] == pytest.approx(target.drop_m.p50, rel=1e-6)
+        assert path.height_m[-1] == pytest.approx(0.0, abs=1e-6)
+    assert target.id in views.profile.caption.text()
+    # the openings editor follows
+    assert window.openings_panel.selected_ids() == [target.id]
+
+
+def test_clicking_a_facade_shape_selects_it_everywhere(app_window, qtbot) -> None:  # type: ignore[no-untyped-def]
+    window, views = app_window()
+    window.view_tabs.setCurrentWidget(views.facade)
+    facade = views.facade
+    oid = next(iter(facade.items))
+    item = facade.items[oid]
+    facade.canvas.centerOn(item)
+    pos = facade.canvas.mapFromScene(item.sceneBoundingRect().center())
+    qtbot.mouseClick(facade.canvas.viewport(), Qt.MouseButton.LeftButton, pos=pos)
+    assert views.context.selection.ids == (oid,)
+    assert views.ranked.table.selectionModel().selectedRows()[0].data(ID_ROLE) == oid
+    assert window.openings_panel.selected_ids() == [oid]
+    assert oid in facade.info.text()
+
+
+def test_arrow_keys_move_the_selection_on_the_facade(app_window, qtbot) -> None:  # type: ignore[no-untyped-def]
+    window, views = app_window()
+    window.view_tabs.setCurrentWidget(views.facade)
+    facade = views.facade
+    facade.canvas.setFocus()
+    qtbot.keyClick(facade.canvas, Qt.Key.Key_Up)  # nothing selected: the worst one
+    first = views.context.selection.current
+    assert first in facade.items
+    centre = facade.items[first].rect().center()
+    qtbot.keyClick(facade.canvas, Qt.Key.Key_Down)
+    second = views.context.selection.current
+    assert second != first and second in facade.items
+    assert facade.items[second].rect().center().y() > centre.y()  # lower on the facade
+
+
+def test_netting_a_balcony_changes_its_fill_and_its_place(app_window, qtbot) -> None:  # type: ignore[no-untyped-def]
+    window, views = app_window()
+    a = views.context.assessment
+    building = a.building
+    balcony = next(r for r in a.ranked("risk") if r.kind in BALCONY_LIKE
+                   and building.opening(r.id).netting_mesh_mm is None)
+    views.context.select([balcony.id])
+    item = views.facade.opening_item(balcony.id)
+    assert item is not None and not item.protected
+    assert item.overlay.brush().style() == Qt.BrushStyle.NoBrush
+    before_place = views.ranked.visible_ids().index(balcony.id)
+    views.ranked.set_order("risk")
+    before_risk_place = views.ranked.visible_ids().index(balcony.id)
+    net = next(o for o in views.plan.options[balcony.id] if "net" in o.control_id)
+    with qtbot.waitSignal(window.results_updated, timeout=20000):
+        assert views.plan.fit_option(net) is None
+    assert window.document.building.opening(balcony.id).netting_mesh_mm is not None
+    item = views.facade.opening_item(balcony.id)
+    assert item is not None and item.protected
+    assert item.overlay.brush().style() == Qt.BrushStyle.DiagCrossPattern
+    after = views.context.assessment.result(balcony.id)
+    assert after.risk < balcony.risk
+    assert views.ranked.visible_ids().index(balcony.id) > before_risk_place
+    assert views.context.selection.current == balcony.id  # still selected after the update
+    # undo puts it back, in one step
+    with qtbot.waitSignal(window.results_updated, timeout=20000):
+        window.undo()
+    assert window.document.building.opening(balcony.id).netting_mesh_mm is None
+    views.ranked.set_order("band")
+    assert views.ranked.visible_ids().index(balcony.id) == before_place
+
+
+def test_changing_the_budget_changes_the_plan(app_window, qtbot) -> None:  # type: ignore[no-untyped-def]
+    window, views = app_window()
+    plan_view = views.plan
+    with qtbot.waitSignal(plan_view.plan_ready, timeout=20000) as none:
+        plan_view.set_budget(0)
+    assert none.args[0].actions == () and none.args[0].total_cost == 0
+    with qtbot.waitSignal(plan_view.plan_ready, timeout=20000) as small:
+        plan_view.set_budget(300)
+    with qtbot.waitSignal(plan_view.plan_ready, timeout=20000) as large:
+        plan_view.set_budget(20000)
+    p_small, p_large = small.args[0], large.args[0]
+    assert 0 < p_small.total_cost <= 300
+    assert p_large.total_cost <= 20000
+    assert p_large.risk_after < p_small.risk_after < p_small.risk_before
+    assert plan_view.chosen.rowCount() == len(p_large.actions)
+    assert "20,000" in plan_view.summary.text()
+    # the curve: residual risk never rises with more budget (each point an exact optimum)
+    qtbot.waitUntil(lambda: plan_view.curve is not None, timeout=20000)
+    budgets, residual = plan_view.curve
+    assert np.all(np.diff(residual) <= 1e-6 * residual[0])
+    assert residual[0] == pytest.approx(float(np.sum(views.context.assessment.risk)))
+    # no option on an escape window blocks it: nets and fixed devices are never offered there
+    building = views.context.assessment.building
+    for oid, options in plan_view.options.items():
+        if building.opening(oid).escape_window:
+            catalogue = plan_view.catalogue
+            assert all(catalogue.control(o.control_id).releasable is not False for o in options)
+
+
+def test_ranked_filters_and_orders(app_window) -> None:  # type: ignore[no-untyped-def]
+    window, views = app_window()
+    ranked = views.ranked
+    a = views.context.assessment
+    assert ranked.visible_ids() == [r.id for r in a.ranked("band")]
+    ranked.set_order("risk")
+    assert ranked.visible_ids() == [r.id for r in a.ranked("risk")]
+    facade = a.building.facades[1].id
+    ranked.facade_box.setCurrentIndex(ranked.facade_box.findData(facade))
+    shown = ranked.visible_ids()
+    assert shown and all(a.result(i).facade == facade for i in shown)
+    assert len(shown) == sum(o.facade == facade for o in a.openings)
+    ranked.band_box.setCurrentIndex(ranked.band_box.findData(a.result(shown[0]).expected_band))
+    assert all(a.result(i).expected_band == a.result(shown[0]).expected_band
+               for i in ranked.visible_ids())
+    ranked.set_order("band")
+    _select_in_ranked(views, ranked.visible_ids()[0])
+    text = ranked.details.toPlainText()
+    assert "Why it ranks here" in text
+    assert a.result(ranked.visible_ids()[0]).factors[0] in text
+
+
+def test_floor_comparison_of_two_facades_and_of_an_earlier_audit(app_window, qtbot,
+                                                                 tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
+    window, views = app_window()
+    floors = views.floors
+    a = views.context.assessment
+    fa, fb = floors.a_box.currentData(), floors.b_box.currentData()
+    assert fa != fb and fa is not None and fb is not None
+    sa, sb = floors.series
+    assert np.array_equal(sa.worst_band, level_summary(a, fa).worst_band)
+    assert np.allclose(sb.falls_per_year, level_summary(a, fb).falls_per_year)
+    # an earlier audit: the same building before a net on every balcony
+    earlier = dataclasses.replace(a.building, openings=tuple(
+        dataclasses.replace(o, netting_mesh_mm=None, climbing_aids=True)
+        if o.kind in BALCONY_LIKE else o for o in a.building.openings))
+    path = tmp_path / "last-year.json"
+    save_building(earlier, path)
+    with qtbot.waitSignal(floors.earlier_ready, timeout=20000):
+        floors.open_earlier(path)
+    assert floors.mode == "audits"
+    this, before = floors.series
+    expected = level_summary(assess(earlier, samples=SAMPLES, seed=window.recomputer.seed))
+    assert np.allclose(before.falls_per_year, expected.falls_per_year)
+    assert np.array_equal(before.worst_band, expected.worst_band)
+    assert np.allclose(this.falls_per_year, level_summary(a).falls_per_year)
+    assert "last-year.json" in floors.note.text()
+
+
+def test_views_follow_the_units_and_the_palette(app_window) -> None:  # type: ignore[no-untyped-def]
+    window, views = app_window()
+    oid = views.context.assessment.ranked()[0].id
+    views.context.select([oid])
+    window.set_units("imperial")
+    assert " ft" in views.profile.caption.text() and "mph" in views.profile.caption.text()
+    window.set_palette("grey")
+    item = views.facade.opening_item(oid)
+    assert item is not None
+    from petfall_audit.palette import band_style
+
+    assert item.fill_brush().color().name().upper() == band_style(item.band, "grey").fill.upper()
