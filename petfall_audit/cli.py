@@ -201,7 +201,7 @@ def _cmd_report(args: argparse.Namespace) -> int:
     )
 
     suffix = Path(args.output).suffix.lower()
-    fmt = args.format or {".csv": "csv", ".json": "json"}.get(suffix, "pdf")
+    fmt: str = args.format or {".csv": "csv", ".json": "json"}.get(suffix, "pdf")
     _require_at_least("--top", args.top, 0)
     _require_at_least("--budget", args.budget, 0)
     building = _load(args.file)
@@ -213,7 +213,9 @@ def _cmd_report(args: argparse.Namespace) -> int:
             written = [write_audit(assessment, plan, args.output, top_n=args.top,
                                    options=ReportOptions(issuer=contact))]
         else:
-            written = export_results(assessment, plan, args.output, fmt)
+            written = export_results(
+                assessment, plan, args.output, "csv" if fmt == "csv" else "json"
+            )
         if args.leaflet:
             written.append(write_leaflet(assessment, plan, args.leaflet, contact=contact))
     except ReportError as exc:
@@ -318,8 +320,8 @@ def _cmd_import(args: argparse.Namespace) -> int:
     if after:  # never write a building file that would not load again
         print(f"{args.into}: the imported building would have {len(after)} problem(s):",
               file=sys.stderr)
-        for problem in after:
-            print(f"  {problem}", file=sys.stderr)
+        for building_problem in after:
+            print(f"  {building_problem}", file=sys.stderr)
         print(f"{args.into}: nothing imported", file=sys.stderr)
         return EXIT_INVALID
     save_building(updated, Path(args.into))
