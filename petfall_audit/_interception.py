@@ -28,8 +28,9 @@ import numpy as np
 import numpy.typing as npt
 
 from petfall_audit import _physics_kernels as _k
+from petfall_audit._physics_kernels import G0
+from petfall_audit._physics_results import GROUND_ID, FallResults
 from petfall_audit.model import BALCONY_LIKE, Building, SurfaceKind
-from petfall_audit.physics import G0, GROUND_ID, FallResults, air_density
 from petfall_audit.sampling import CatSamples
 
 FloatArray = npt.NDArray[np.float64]
@@ -243,12 +244,13 @@ def simulate(
     building: Building,
     samples: CatSamples,
     *,
+    rho_kg_m3: float,
     progress: Callable[[int, int], None] | None = None,
 ) -> FallResults:
-    """See :func:`petfall_audit.physics.simulate_falls`."""
+    """See :func:`petfall_audit.physics.simulate_falls`; ``rho_kg_m3`` is the site's air
+    density (kg/m³)."""
     _check_samples(samples)
-    info = building.info
-    rho = float(air_density(info.site_altitude_m, info.air_temperature_c))
+    rho = float(rho_kg_m3)
     g = G0
     m = np.asarray(samples.mass_kg, dtype=float)
     b1 = _k.drag_per_mass(rho, samples.cda_tense_m2, m)

@@ -13,6 +13,9 @@ import numpy.typing as npt
 FloatArray = npt.NDArray[np.float64]
 ArrayLike = npt.ArrayLike
 
+#: Standard gravity (m/s²), ISO 2533 / ICAO.
+G0 = 9.80665
+
 
 def drag_per_mass(rho_kg_m3: ArrayLike, cda_m2: ArrayLike, mass_kg: ArrayLike) -> FloatArray:
     """``beta = rho C_d A / (2 m)`` in 1/m."""

@@ -9,7 +9,7 @@ import numpy as np
 from scipy.integrate import solve_ivp
 
 from petfall_audit import _physics_kernels as _k
-from petfall_audit.physics import FallProfile
+from petfall_audit._physics_results import FallProfile
 
 _RTOL = 1e-10
 _ATOL = 1e-10

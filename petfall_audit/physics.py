@@ -15,14 +15,16 @@ assessment.
 from __future__ import annotations
 
 from collections.abc import Callable
-from dataclasses import dataclass
 from typing import Any
 
 import numpy as np
 import numpy.typing as npt
 
 from petfall_audit import _physics_kernels as _k
-from petfall_audit.model import Building, SurfaceKind
+from petfall_audit._interception import simulate as _simulate
+from petfall_audit._physics_kernels import G0
+from petfall_audit._physics_results import GROUND_ID, FallProfile, FallResults
+from petfall_audit.model import Building
 from petfall_audit.sampling import CatSamples
 
 __all__ = [
@@ -46,12 +48,8 @@ __all__ = [
 FloatArray = npt.NDArray[np.float64]
 FloatOrArray = float | FloatArray
 
-#: Standard gravity (m/s²), ISO 2533 / ICAO.
-G0 = 9.80665
 #: Specific gas constant of dry air (J/(kg·K)), ISO 2533.
 R_AIR = 287.05287
-#: Id of the implicit ground at datum elevation 0 that catches whatever nothing else catches.
-GROUND_ID = "ground"
 
 # ISO 2533:1975 (= ICAO Doc 7488/3) troposphere
 _T0_K = 288.15
@@ -234,30 +232,6 @@ def drop_to_reach_m(
 # --- the whole building --------------------------------------------------------------------------
 
 
-@dataclass(frozen=True, slots=True)
-class FallResults:
-    """Every opening × every sampled cat.
-
-    ``opening_ids`` in building order. ``landing_ids``: every surface id (building order), then
-    every balcony/terrace/gallery opening id (they can catch), then :data:`GROUND_ID`;
-    ``landing_kinds`` per landing element (a catching balcony, terrace or gallery counts as
-    concrete, as does the implicit ground: an assumption). Arrays ``(n_openings, n_samples)``:
-    ``drop_m`` (m), ``landing`` (index into ``landing_ids``), ``impact_speed_mps`` (m/s),
-    ``fall_time_s`` (s), ``righted`` (fall time ≥ the cat's righting time). ``rho_kg_m3`` is the
-    air density used (kg/m³).
-    """
-
-    opening_ids: tuple[str, ...]
-    landing_ids: tuple[str, ...]
-    landing_kinds: tuple[SurfaceKind, ...]
-    drop_m: FloatArray
-    landing: npt.NDArray[np.intp]
-    impact_speed_mps: FloatArray
-    fall_time_s: FloatArray
-    righted: npt.NDArray[np.bool_]
-    rho_kg_m3: float
-
-
 def simulate_falls(
     building: Building,
     samples: CatSamples,
@@ -276,29 +250,12 @@ def simulate_falls(
     Elements at or above the start height never catch; the implicit ground (datum 0) catches
     the rest. ``progress(done, total)`` is called as openings are done.
     """
-    from petfall_audit._interception import simulate
-
-    return simulate(building, samples, progress=progress)
+    info = building.info
+    rho = float(air_density(info.site_altitude_m, info.air_temperature_c))
+    return _simulate(building, samples, rho_kg_m3=rho, progress=progress)
 
 
 # --- time series ---------------------------------------------------------------------------------
-
-
-@dataclass(frozen=True, slots=True)
-class FallProfile:
-    """Time series of one fall, for plots. ``t_s`` (s); ``height_m`` above the landing point (m);
-    ``speed_mps`` downward (m/s); ``accel_mps2`` downward (m/s²); ``switch_time_s`` when the cat
-    starts to spread out (``None`` if it never relaxes or lands first); ``impact_speed_mps``,
-    ``fall_time_s`` and ``drop_m`` of this fall."""
-
-    t_s: FloatArray
-    height_m: FloatArray
-    speed_mps: FloatArray
-    accel_mps2: FloatArray
-    switch_time_s: float | None
-    impact_speed_mps: float
-    fall_time_s: float
-    drop_m: float
 
 
 def fall_profile(
