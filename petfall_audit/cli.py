@@ -104,15 +104,16 @@ def _assess(args: argparse.Namespace, building: Building, *, sensitivity: bool =
             label: str = "assessing") -> Assessment:
     from petfall_audit.risk import assess
     from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
+    from petfall_audit.sensitivity import with_sensitivity
 
     _require_at_least("--samples", args.samples, 1)
-    return assess(
+    assessment = assess(
         building,
         samples=DEFAULT_SAMPLES if args.samples is None else args.samples,
         seed=DEFAULT_SEED if args.seed is None else args.seed,
-        sensitivity=sensitivity,
         progress=_stderr_progress(label),
     )
+    return with_sensitivity(assessment) if sensitivity else assessment
 
 
 def _emit(text: str, output: str | None) -> None:

@@ -110,7 +110,9 @@ class Assessment:
 
     ``band_probabilities`` ``(n_openings, 4)``; ``risk`` ``(n_openings,)``; ``severity_g``
     ``(n_openings, n_samples)`` severity index per fall (g); ``sensitivity``: a
-    :class:`petfall_audit.sensitivity.SensitivityResult` or ``None``.
+    :class:`petfall_audit.sensitivity.SensitivityResult` (added by
+    :func:`petfall_audit.sensitivity.with_sensitivity`) or ``None``. ``thresholds``, ``stops``
+    and ``cat`` are what the assessment used.
     """
 
     building: Building
@@ -126,6 +128,7 @@ class Assessment:
     severity_g: npt.NDArray[np.float64] = field(default_factory=lambda: np.zeros((0, 0)))
     thresholds: InjuryThresholds = DEFAULT_THRESHOLDS
     cat: CatSamples | None = None
+    stops: StoppingDistances = DEFAULT_STOPS
 
     def ranked(self, by: Literal["band", "risk"] = "band") -> list[OpeningResult]:
         """Openings worst first: ``"band"`` by expected band then likelihood; ``"risk"`` by
@@ -246,16 +249,15 @@ def assess(
     *,
     samples: int = DEFAULT_SAMPLES,
     seed: int = DEFAULT_SEED,
-    sensitivity: bool = False,
     progress: Callable[[int, int], None] | None = None,
     thresholds: InjuryThresholds = DEFAULT_THRESHOLDS,
     stops: StoppingDistances = DEFAULT_STOPS,
 ) -> Assessment:
     """Assess every opening of ``building`` with ``samples`` cats drawn with ``seed``.
 
-    The same samples serve every opening (common random numbers). ``sensitivity`` adds a
-    one-at-a-time sensitivity of the top risks to the cat-profile parameters (slower: two more
-    simulations per parameter). ``progress(done, total)`` is called as the simulation advances.
+    The same samples serve every opening (common random numbers). ``progress(done, total)`` is
+    called as the simulation advances. For the sensitivity of the top risks to the cat profile,
+    pass the result to :func:`petfall_audit.sensitivity.with_sensitivity`.
     Same inputs, same result.
     """
     if samples < 1:
@@ -263,8 +265,7 @@ def assess(
     cat = sample_cat_profile(building.cat_profile, samples, seed=seed)
     falls = simulate_falls(building, cat, progress=progress)
     return _assess_from_falls(
-        building, cat, falls, samples=samples, seed=seed, sensitivity=sensitivity,
-        thresholds=thresholds, stops=stops,
+        building, cat, falls, samples=samples, seed=seed, thresholds=thresholds, stops=stops,
     )
 
 
@@ -275,7 +276,6 @@ def _assess_from_falls(
     *,
     samples: int,
     seed: int,
-    sensitivity: bool,
     thresholds: InjuryThresholds,
     stops: StoppingDistances,
 ) -> Assessment:
@@ -373,16 +373,6 @@ def _assess_from_falls(
         severity_g=sev,
         thresholds=thresholds,
         cat=cat,
+        stops=stops,
     )
-    if sensitivity and n_open:
-        from dataclasses import replace
-
-        from petfall_audit.sensitivity import sensitivity_analysis
-
-        assessment = replace(
-            assessment,
-            sensitivity=sensitivity_analysis(
-                building, cat, base=assessment, thresholds=thresholds, stops=stops
-            ),
-        )
     return assessment

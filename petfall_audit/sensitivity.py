@@ -12,26 +12,17 @@ parameters here, so the swings show how the severity side of the risk moves.
 from __future__ import annotations
 
 from dataclasses import dataclass, replace
-from typing import TYPE_CHECKING
 
 import numpy as np
 
-from petfall_audit.injury import (
-    DEFAULT_STOPS,
-    DEFAULT_THRESHOLDS,
-    InjuryThresholds,
-    StoppingDistances,
-    band_probabilities,
-)
-from petfall_audit.model import Building, CatProfile, Fixed
+from petfall_audit.injury import band_probabilities
+from petfall_audit.model import CatProfile, Fixed
 from petfall_audit.physics import simulate_falls
+from petfall_audit.risk import Assessment, risk_score, severity_of_falls
 from petfall_audit.sampling import CatSamples, sample_cat_profile
 
-if TYPE_CHECKING:
-    from petfall_audit.risk import Assessment
-
 __all__ = ["TOP_OPENINGS", "PARAMETERS", "ParameterSwing", "SensitivityResult",
-           "sensitivity_analysis"]
+           "sensitivity_analysis", "with_sensitivity"]
 
 #: How many of the highest-risk openings the measure sums.
 TOP_OPENINGS = 5
@@ -89,20 +80,16 @@ def _with(profile: CatProfile, name: str, value: float) -> CatProfile:
     return replace(profile, **{name: Fixed(value)})  # type: ignore[arg-type]
 
 
-def sensitivity_analysis(
-    building: Building,
-    cat: CatSamples,
-    *,
-    base: Assessment,
-    thresholds: InjuryThresholds = DEFAULT_THRESHOLDS,
-    stops: StoppingDistances = DEFAULT_STOPS,
-    top: int = TOP_OPENINGS,
-) -> SensitivityResult:
-    """One-at-a-time swings of each cat-profile parameter on the top-risk openings of ``base``.
+def sensitivity_analysis(base: Assessment, *, top: int = TOP_OPENINGS) -> SensitivityResult:
+    """One-at-a-time swings of each cat-profile parameter on the top-risk openings of ``base``,
+    with the samples, seed, thresholds and stopping distances ``base`` used.
 
     Costs two simulations of the building per parameter."""
-    from petfall_audit.risk import risk_score, severity_of_falls
-
+    building = base.building
+    cat = base.cat if base.cat is not None else sample_cat_profile(
+        building.cat_profile, base.samples, seed=base.seed
+    )
+    thresholds, stops = base.thresholds, base.stops
     order = np.argsort(-base.risk, kind="stable")[: max(1, top)]
     ids = tuple(base.building.openings[i].id for i in order)
     lik = base.likelihood.annual_probability[order]
@@ -121,3 +108,11 @@ def sensitivity_analysis(
         swings.append(ParameterSwing(name, unit, lo, hi, risks[0], risks[1], swing))
     swings.sort(key=lambda s: (-abs(s.swing), s.parameter))
     return SensitivityResult(opening_ids=ids, base_risk=base_risk, swings=tuple(swings))
+
+
+def with_sensitivity(base: Assessment, *, top: int = TOP_OPENINGS) -> Assessment:
+    """``base`` with its :attr:`~petfall_audit.risk.Assessment.sensitivity` filled in (left
+    ``None`` for a building without openings)."""
+    if not base.openings:
+        return base
+    return replace(base, sensitivity=sensitivity_analysis(base, top=top))

@@ -32,6 +32,7 @@ from petfall_audit.model import (
 from petfall_audit.physics import fall_time, impact_speed
 from petfall_audit.risk import HHSRS_CLASS_WEIGHTS, MODEL_VERSION, assess, risk_score
 from petfall_audit.sampling import sample_cat_profile
+from petfall_audit.sensitivity import with_sensitivity
 
 N = 600  # samples: enough for stable shares, fast
 
@@ -251,7 +252,7 @@ def test_empty_building() -> None:
 
 def test_sensitivity_names_the_parameters_that_matter() -> None:
     ops = [_window(f"W{i}", i) for i in (2, 5, 9, 14, 20, 30)]
-    a = assess(_building(ops), samples=300, sensitivity=True)
+    a = with_sensitivity(assess(_building(ops), samples=300))
     s = a.sensitivity
     assert s is not None and len(s.opening_ids) == 5
     swings = [abs(w.swing) for w in s.swings]
