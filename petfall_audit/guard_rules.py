@@ -32,7 +32,7 @@ __all__ = [
 #: rigid collarbone; common practice, no source).
 CAT_CRANIAL_WIDTH_MM = 42.8
 #: Mesh regarded as holding an adult cat, mm: 30 x 30 mm is the usual pet-net mesh (common
-#: practice, no source; research-facts §6).
+#: practice, no source).
 CAT_SAFE_MESH_MM = 30.0
 
 _VERIFY = "verify the clause against the edition in force locally"

@@ -1,4 +1,4 @@
-"""The Qt boundary: nothing outside ``petfall_audit.gui`` imports Qt (conventions.md, habit 1)."""
+"""The Qt boundary: nothing outside ``petfall_audit.gui`` imports Qt (a hard boundary, so the core runs and is tested without a screen)."""
 
 from __future__ import annotations
 

@@ -117,15 +117,15 @@ def test_long_drop_gives_spread_terminal_speed() -> None:
 
 
 def test_skydiver_terminal_speed() -> None:
-    # Common practice, no source (design.md §7): a belly-down skydiver falls at about
-    # 53–56 m/s; for 80 kg that implies C_d·A 0.41–0.46 m² (research-facts §5, derived).
+    # Common practice, no source: a belly-down skydiver falls at about
+    # 53–56 m/s; for 80 kg that implies C_d·A 0.41–0.46 m² (derived: C_d·A = 2 m g / (ρ v²)).
     args = dict(mass_kg=80.0, cda_tense_m2=0.45, cda_spread_m2=0.45, relax_fraction=0.5,
                 rho_kg_m3=RHO0)
     assert 53.0 <= impact_speed(3000.0, **args) <= 56.0
 
 
 def test_commonly_quoted_cat_figures() -> None:
-    # Fact of the trade, no source (design.md §3): tense ≈ 24 m/s, spread ≈ 17 m/s, relaxing
+    # Fact of the trade, no source: tense ≈ 24 m/s, spread ≈ 17 m/s, relaxing
     # at three quarters of the tense terminal speed, after roughly 7–8 storeys of 3 m and
     # 2.2–2.6 s; it then slows down for a while; from 30 storeys it lands at about 17 m/s.
     m = 4.1
@@ -229,7 +229,7 @@ def test_density_matches_standard_atmosphere_package(altitude_m: float) -> None:
 def test_density_check_values() -> None:
     # Source: ISO 2533: 1.225 kg/m³ at 0 m and 15 °C.
     assert air_density(0.0, 15.0) == pytest.approx(1.225, abs=5e-5)
-    # Derived (research-facts §5 check value 6): dry air, 101 325 Pa, 30 °C: 1.1644 kg/m³.
+    # Derived (ideal gas, ρ = p / (R T), R = 287.05 J/(kg·K)): dry air, 101 325 Pa, 30 °C: 1.1644 kg/m³.
     assert air_density(0.0, 30.0) == pytest.approx(1.1644, abs=5e-5)
     dens = air_density(np.array([0.0, 500.0, 1500.0]), 15.0)
     assert np.all(np.diff(dens) < 0)

@@ -41,7 +41,7 @@ def test_money_to_the_unit_with_currency() -> None:
 
 
 def test_one_in_n_two_significant_figures() -> None:
-    # HHSRS writes likelihood as "1 in N over 12 months" (research-facts §8).
+    # HHSRS writes likelihood as "1 in N over 12 months" (Housing Health and Safety Rating System, England, Housing Act 2004).
     assert rc.fmt_one_in(1234.0) == "1 in 1,200"
     assert rc.fmt_one_in(56.0) == "1 in 56"
     assert rc.fmt_one_in(3.0) == "1 in 3"

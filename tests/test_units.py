@@ -38,7 +38,7 @@ def test_exact_definitions_match_the_1959_agreement_and_pint() -> None:
 @pytest.mark.parametrize(
     ("text", "expected_m"),
     [
-        ("42 in", 42 * IN_M),  # IBC guard height 42 in = 1067 mm (research-facts check value 8)
+        ("42 in", 42 * IN_M),  # IBC guard height 42 in = 1067 mm (IBC §1015.3)
         ("3'6\"", 42 * IN_M),
         ("3' 6\"", 42 * IN_M),
         ("3'-6\"", 42 * IN_M),  # architects' notation
