@@ -100,6 +100,13 @@ def _add_sampling_options(p: argparse.ArgumentParser) -> None:
     p.add_argument("--seed", type=int, default=None, metavar="S", help="random seed (default 1)")
 
 
+def _add_table_output_options(p: argparse.ArgumentParser) -> None:
+    p.add_argument("--format", choices=("table", "json", "csv"), default="table",
+                   help="output format (default: table)")
+    p.add_argument("-o", "--output", default=None, metavar="OUT",
+                   help="write to OUT instead of standard output")
+
+
 def _assess(args: argparse.Namespace, building: Building, *, sensitivity: bool = False,
             label: str = "assessing") -> Assessment:
     from petfall_audit.risk import assess
@@ -377,11 +384,8 @@ def _build_parser() -> argparse.ArgumentParser:
         description="Assess FILE and list its openings worst first. Indicative model only.",
     )
     p.add_argument("file", help="building file (.json)")
-    p.add_argument("--format", choices=("table", "json", "csv"), default="table",
-                   help="output format (default: table)")
+    _add_table_output_options(p)
     _add_sampling_options(p)
-    p.add_argument("-o", "--output", default=None, metavar="OUT",
-                   help="write to OUT instead of standard output")
     p.add_argument("--by", choices=("band", "risk"), default="band",
                    help="table order: expected injury band (default) or risk score")
     p.add_argument("--no-sensitivity", action="store_true",
@@ -397,13 +401,10 @@ def _build_parser() -> argparse.ArgumentParser:
     p.add_argument("file", help="building file (.json)")
     p.add_argument("--budget", type=float, required=True, metavar="AMOUNT",
                    help="budget in the control catalogue's currency")
-    p.add_argument("--format", choices=("table", "json", "csv"), default="table",
-                   help="output format (default: table)")
+    _add_table_output_options(p)
     _add_sampling_options(p)
     p.add_argument("--controls", default=None, metavar="FILE",
                    help="control catalogue (.json; default: the shipped catalogue)")
-    p.add_argument("-o", "--output", default=None, metavar="OUT",
-                   help="write to OUT instead of standard output")
     p.set_defaults(handler=_cmd_plan)
 
     p = sub.add_parser(
