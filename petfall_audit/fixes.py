@@ -493,6 +493,11 @@ def _conditions(o: Opening, height_m: float, c: Control, catalogue: Catalogue) -
     if "exterior_permission" in c.conflicts:
         out.append(PERMISSION_CONDITION)
     out.extend(c.conditions)
+    if c.adherence < 1.0:
+        out.append(
+            f"Counted as kept {c.adherence:.0%} of the time: a rule that relies on people "
+            "removes less risk than a fitting."
+        )
     return tuple(out)
 
 

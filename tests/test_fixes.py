@@ -375,3 +375,12 @@ def test_a_rule_that_relies_on_people_removes_risk_only_while_kept() -> None:
         assert removed_half == pytest.approx(0.5 * removed_full, rel=1e-9)
         compared += 1
     assert compared > 0
+
+
+def test_the_adherence_assumption_is_stated_with_the_option() -> None:
+    from petfall_audit.fixes import load_catalogue, opening_options
+    from petfall_audit.risk import assess
+
+    options = opening_options(assess(sample_building("walkup"), samples=100), load_catalogue())
+    keep = [o for opts in options.values() for o in opts if o.control_id == "keep_closed"]
+    assert keep and all(any("kept 50% of the time" in c for c in o.conditions) for o in keep)
