@@ -27,6 +27,7 @@ from __future__ import annotations
 
 import os
 import sys
+import threading
 from collections.abc import Iterator, Mapping, Sequence
 from contextlib import contextmanager
 from dataclasses import dataclass
@@ -84,25 +85,51 @@ class Plan:
         return self.risk_before - self.risk_after
 
 
+def _flush_c_stdout() -> None:
+    """Flush the C library's stdout buffer, where compiled solvers print."""
+    try:
+        import ctypes
+
+        ctypes.CDLL(None).fflush(None)
+    except (OSError, AttributeError, TypeError):  # no C library handle on this platform
+        pass
+
+
+_redirect_lock = threading.Lock()
+_redirect_depth = 0
+_saved_stdout_fd: int | None = None
+
+
 @contextmanager
 def _solver_chatter_to_stderr() -> Iterator[None]:
     """Send what the compiled MILP solver prints on file descriptor 1 to stderr.
 
     Some builds of the solver print diagnostic lines on the process's standard output, which
-    would corrupt JSON or CSV written there by the command line.
+    would corrupt JSON or CSV written there by the command line. The C buffer is flushed before
+    the descriptor is restored, so buffered lines cannot leak out later. Solves may run in
+    several threads at once (the app): the first one in redirects, the last one out restores.
     """
-    try:
-        sys.stdout.flush()
-        saved = os.dup(1)
-        os.dup2(2, 1)
-    except (OSError, ValueError):
-        yield
-        return
+    global _redirect_depth, _saved_stdout_fd
+    with _redirect_lock:
+        if _redirect_depth == 0:
+            try:
+                sys.stdout.flush()
+                _flush_c_stdout()
+                _saved_stdout_fd = os.dup(1)
+                os.dup2(2, 1)
+            except (OSError, ValueError):
+                _saved_stdout_fd = None
+        _redirect_depth += 1
     try:
         yield
     finally:
-        os.dup2(saved, 1)
-        os.close(saved)
+        with _redirect_lock:
+            _redirect_depth -= 1
+            if _redirect_depth == 0 and _saved_stdout_fd is not None:
+                _flush_c_stdout()
+                os.dup2(_saved_stdout_fd, 1)
+                os.close(_saved_stdout_fd)
+                _saved_stdout_fd = None
 
 
 def _to_cents(values: np.ndarray) -> np.ndarray:
