@@ -1,4 +1,5 @@
-"""The Qt boundary: nothing outside ``petfall_audit.gui`` imports Qt (a hard boundary, so the core runs and is tested without a screen)."""
+"""The Qt boundary: nothing outside ``petfall_audit.gui`` imports Qt, so the core runs and is
+tested without a screen; and the package is laid out so that an install carries all of it."""
 
 from __future__ import annotations
 

@@ -45,7 +45,8 @@ class SaveTo(ExportPrompts):
 
 @pytest.fixture
 def window(qtbot):  # type: ignore[no-untyped-def]
-    w = MainWindow(Document(sample_building("walkup")), prompts=QuietPrompts(), samples=SAMPLES)
+    w = MainWindow(Document(sample_building("walkup")), prompts=QuietPrompts(), samples=SAMPLES,
+                   refine_samples=0)
     qtbot.addWidget(w)
     views = install_views(w)
     views.exports.samples = SAMPLES  # the export's own full recomputation, kept small here

@@ -115,7 +115,8 @@ def test_editing_the_mapping_updates_the_preview(qtbot) -> None:  # type: ignore
 
 
 def test_import_is_one_undoable_step_merge_or_replace(qtbot) -> None:  # type: ignore[no-untyped-def]
-    window = MainWindow(Document(_building()), prompts=QuietPrompts(), samples=32)
+    window = MainWindow(Document(_building()), prompts=QuietPrompts(), samples=32,
+                        refine_samples=0)
     qtbot.addWidget(window)
     before = window.document.building
     answers = Answers()

@@ -56,6 +56,7 @@ class FakePrompts(Prompts):
 
 
 def make_window(qtbot, building: Building | None = None, **kwargs: Any) -> MainWindow:  # type: ignore[no-untyped-def]
+    kwargs.setdefault("refine_samples", 0)  # one set of results per edit, unless a test asks
     window = MainWindow(Document(building or sample_building("walkup")), prompts=FakePrompts(),
                         samples=SAMPLES, **kwargs)
     qtbot.addWidget(window)
@@ -375,3 +376,104 @@ def test_settings_persist_contact_block_and_palette(qtbot) -> None:  # type: ign
     again = AppSettings()
     assert again.contact()["organisation"] == "Riverside Cat Rescue (invented)"
     assert again.palette == "grey"
+
+
+# --- progressive refinement ------------------------------------------------------------------
+
+
+def _same_results(shown: Any, expected: Any, ids: list[str]) -> None:
+    for opening_id in ids:
+        got, want = shown.result(opening_id), expected.result(opening_id)
+        assert (got.rank, got.risk_rank, got.expected_band) == (
+            want.rank, want.risk_rank, want.expected_band), opening_id
+        assert got.risk == want.risk, opening_id
+
+
+def test_quick_results_are_refined_to_the_full_assessment(qtbot) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.risk import assess
+
+    window = make_window(qtbot, refine_samples=4000, refine_delay_ms=0)
+    qtbot.waitUntil(lambda: window.results_samples == 4000, timeout=20000)
+    first = window.document.building.openings[0].id
+    notes: list[str] = []
+    window.recomputer.refining.connect(lambda _g: notes.append(window.samples_label.text()))
+    with qtbot.waitSignal(window.results_updated, timeout=20000):
+        window.bulk_edit([first], "netting_mesh_mm", 20.0)
+    assert window.results_samples == SAMPLES
+    assert "(quick)" in window.samples_label.text()
+    with qtbot.waitSignal(window.results_refined, timeout=20000) as refined:
+        pass
+    assert notes and notes[-1].endswith("refining…")
+    assert window.samples_label.text() == "4000 simulated falls per opening"
+    assert window.results_samples == 4000 and not window.results_stale
+    shown = refined.args[0]
+    assert shown is window.results_model.assessment
+    # the same numbers as the command line and the report: assess(samples=4000, seed=1)
+    expected = assess(window.document.building, samples=4000, seed=1)
+    ids = [r.id for r in expected.ranked()[:5]] + [first]
+    _same_results(shown, expected, ids)
+    assert shown.samples == 4000
+
+
+def test_a_newer_edit_discards_the_running_refinement(qtbot) -> None:  # type: ignore[no-untyped-def]
+    import time
+
+    from petfall_audit.risk import assess
+
+    def slow_refinement(building: Building, **kwargs: Any) -> Any:
+        if kwargs["samples"] > SAMPLES:
+            time.sleep(0.3)  # the next edit arrives meanwhile
+        return assess(building, **kwargs)
+
+    window = make_window(qtbot, assess=slow_refinement, refine_samples=2000, refine_delay_ms=0)
+    qtbot.waitUntil(lambda: window.results_samples == 2000, timeout=20000)
+    refined: list[Any] = []
+    window.results_refined.connect(refined.append)
+    first = window.document.building.openings[0].id
+    with qtbot.waitSignal(window.recomputer.refining, timeout=20000):
+        window.bulk_edit([first], "netting_mesh_mm", 20.0)
+    with qtbot.waitSignal(window.results_updated, timeout=20000):
+        window.bulk_edit([first], "netting_mesh_mm", 30.0)  # the refinement above is now stale
+    assert window.results_samples == SAMPLES
+    qtbot.waitUntil(lambda: bool(refined), timeout=20000)
+    qtbot.wait(400)
+    assert len(refined) == 1
+    assert refined[0].building.opening(first).netting_mesh_mm == 30.0
+    assert refined[0].building is window.document.building
+
+
+# --- room for the results, closing -------------------------------------------------------------
+
+
+def test_the_views_get_most_of_the_height_and_the_split_is_remembered(qtbot) -> None:  # type: ignore[no-untyped-def]
+    window = make_window(qtbot, sample_building("tower"))
+    window.resize(1366, 768)
+    qtbot.wait(50)
+    # every editor tab can shrink (the panels scroll), so the views can take the room
+    assert window.editor_tabs.minimumSizeHint().height() < 120
+    editors, views = window.splitter.sizes()
+    assert views > editors > 150
+    window.splitter.setSizes([120, editors + views - 120])
+    window.close()
+    again = MainWindow(Document(sample_building("walkup")), prompts=FakePrompts(),
+                       samples=SAMPLES, refine_samples=0)
+    qtbot.addWidget(again)
+    again.resize(1366, 768)
+    again.show()
+    qtbot.wait(50)
+    assert again.splitter.sizes()[0] == 120
+    again.close()
+
+
+def test_closing_stops_the_background_work(qtbot) -> None:  # type: ignore[no-untyped-def]
+    import threading
+
+    window = make_window(qtbot, refine_samples=4000, refine_delay_ms=0)
+    window.bulk_edit([window.document.building.openings[0].id], "netting_mesh_mm", 20.0)
+    window.document.dirty = False
+    window.close()
+    assert not window.recomputer.running and not window.recomputer.refining_now
+    alive = [t.name for t in threading.enumerate() if t.name.startswith("petfall-")]
+    assert alive == []
+    window.recomputer.request(window.document.building)  # ignored once closed
+    assert not window.recomputer.running

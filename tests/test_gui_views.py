@@ -13,7 +13,7 @@ from PySide6.QtCore import QItemSelectionModel, Qt
 
 from petfall_audit.demo import sample_building
 from petfall_audit.editing.document import Document
-from petfall_audit.figures_extra import level_summary
+from petfall_audit.figures import level_summary
 from petfall_audit.gui.dialogs import Prompts
 from petfall_audit.gui.main_window import MainWindow
 from petfall_audit.gui.views import VIEW_NAMES, InstalledViews, install_views
@@ -44,7 +44,8 @@ def app_window(qtbot):  # type: ignore[no-untyped-def]
 
     def make(building: Building | None = None) -> tuple[MainWindow, InstalledViews]:
         window = MainWindow(Document(building or sample_building("walkup")),
-                            prompts=QuietPrompts(), samples=SAMPLES)
+                            prompts=QuietPrompts(), samples=SAMPLES,
+                            refine_samples=0)  # one set of results per edit
         qtbot.addWidget(window)
         views = install_views(window)
         window.resize(1366, 768)
@@ -116,6 +117,21 @@ def test_clicking_a_facade_shape_selects_it_everywhere(app_window, qtbot) -> Non
     assert views.ranked.table.selectionModel().selectedRows()[0].data(ID_ROLE) == oid
     assert window.openings_panel.selected_ids() == [oid]
     assert oid in facade.info.text()
+
+
+def test_another_facade_can_be_shown_while_an_opening_is_selected(app_window) -> None:  # type: ignore[no-untyped-def]
+    window, views = app_window()
+    window.view_tabs.setCurrentWidget(views.facade)
+    facade = views.facade
+    worst = views.context.assessment.ranked()[0]
+    views.context.select([worst.id])
+    assert facade.facade_id == worst.facade  # a new selection brings its facade
+    other = next(facade.facade_box.itemData(i) for i in range(facade.facade_box.count())
+                 if facade.facade_box.itemData(i) != worst.facade)
+    facade.set_facade(other)
+    assert facade.facade_id == other  # and the user's choice of facade then stays
+    assert worst.id not in facade.items and facade.items
+    assert views.context.selection.ids == (worst.id,)
 
 
 def test_arrow_keys_move_the_selection_on_the_facade(app_window, qtbot) -> None:  # type: ignore[no-untyped-def]

@@ -229,7 +229,8 @@ def test_density_matches_standard_atmosphere_package(altitude_m: float) -> None:
 def test_density_check_values() -> None:
     # Source: ISO 2533: 1.225 kg/m³ at 0 m and 15 °C.
     assert air_density(0.0, 15.0) == pytest.approx(1.225, abs=5e-5)
-    # Derived (ideal gas, ρ = p / (R T), R = 287.05 J/(kg·K)): dry air, 101 325 Pa, 30 °C: 1.1644 kg/m³.
+    # Derived (ideal gas, ρ = p / (R T), R = 287.05 J/(kg·K)): dry air, 101 325 Pa, 30 °C:
+    # 1.1644 kg/m³.
     assert air_density(0.0, 30.0) == pytest.approx(1.1644, abs=5e-5)
     dens = air_density(np.array([0.0, 500.0, 1500.0]), 15.0)
     assert np.all(np.diff(dens) < 0)

@@ -41,7 +41,8 @@ def test_money_to_the_unit_with_currency() -> None:
 
 
 def test_one_in_n_two_significant_figures() -> None:
-    # HHSRS writes likelihood as "1 in N over 12 months" (Housing Health and Safety Rating System, England, Housing Act 2004).
+    # HHSRS writes likelihood as "1 in N over 12 months" (Housing Health and Safety Rating
+    # System, England, Housing Act 2004).
     assert rc.fmt_one_in(1234.0) == "1 in 1,200"
     assert rc.fmt_one_in(56.0) == "1 in 56"
     assert rc.fmt_one_in(3.0) == "1 in 3"
@@ -240,3 +241,34 @@ def test_a_failed_layout_leaves_no_file(walkup, tmp_path, monkeypatch) -> None: 
     with pytest.raises(ReportError):
         write_audit(walkup[0], walkup[1], target)
     assert not target.exists() and not list(tmp_path.iterdir())
+
+
+def test_floor_labels_fit_their_column_and_keep_the_level_number() -> None:
+    from reportlab.pdfbase.pdfmetrics import stringWidth
+
+    from petfall_audit.report.charts import fit_label, label_column_width
+
+    labels = ("Ground (lobby)", "Level 31 (penthouses)")
+    col = label_column_width(labels, 6.0, gap=8.0, max_width=300.0)
+    assert col == pytest.approx(stringWidth("Level 31 (penthouses)", fonts().regular, 6.0) + 8)
+    assert fit_label("Level 31 (penthouses)", 31, col - 8.0, 6.0) == "Level 31 (penthouses)"
+    for width in (60.0, 40.0, 25.0, 10.0):
+        text = fit_label("Level 31 (penthouses)", 31, width, 6.0)
+        assert "31" in text
+        assert stringWidth(text, fonts().regular, 6.0) <= width or text == "L31"
+    assert fit_label("Ground (lobby)", 0, 25.0, 6.0) == "Ground"
+
+
+def test_plan_lists_each_condition_once_and_rows_refer_to_it() -> None:
+    from petfall_audit.demo import sample_building
+    from petfall_audit.plan import make_plan
+    from petfall_audit.risk import assess
+
+    a = assess(sample_building("walkup"), samples=64, seed=1)
+    ctx = rc.build_audit_context(a, make_plan(a, 5000.0))
+    assert len(set(ctx.plan_notes)) == len(ctx.plan_notes)
+    for row in ctx.plan_rows:
+        assert tuple(ctx.plan_notes[n - 1] for n in row.notes) == tuple(
+            sorted(set(row.conditions), key=ctx.plan_notes.index))
+    assert sum(int(c.openings) for c in ctx.plan_controls) == len(ctx.plan_rows)
+    assert "control(s)" not in " ".join(ctx.plan_summary)

@@ -7,7 +7,8 @@ Usage::
 Without a building file the invented sample tower is used. Writes ``main-window.png`` and one
 ``view-<name>.png`` per view (the window at the given size with that view's tab shown and the
 editors hidden, as with View > Show results only; the facade view once per facade), and prints
-the paths. ``--scale 2`` renders as on a high-DPI screen.
+the paths. The pictures show the full assessment (the quick one is refined first). ``--scale 2``
+renders as on a high-DPI screen.
 """
 
 from __future__ import annotations
@@ -42,7 +43,7 @@ def main(argv: list[str] | None = None) -> int:
     from PySide6.QtWidgets import QApplication
 
     from petfall_audit.editing.document import Document
-    from petfall_audit.gui.app import sample_document
+    from petfall_audit.gui.app import close_window, sample_document
     from petfall_audit.gui.main_window import MainWindow
     from petfall_audit.gui.views import VIEW_NAMES, install_views
     from petfall_audit.gui.views.common import wait_for_tasks
@@ -66,9 +67,10 @@ def main(argv: list[str] | None = None) -> int:
         QTimer.singleShot(ms, loop.quit)
         loop.exec()
 
-    for _ in range(200):  # wait for the results (at most about 30 s)
+    for _ in range(200):  # wait for the full results (at most about 30 s)
         pump(150)
-        if not window.results_stale and views.context.assessment is not None:
+        if (not window.results_stale and views.context.assessment is not None
+                and window.results_samples == window.recomputer.final_samples):
             break
     a = views.context.assessment
     if a is None:
@@ -109,12 +111,10 @@ def main(argv: list[str] | None = None) -> int:
             grab(f"view-{_slug(name)}")
     for path in written:
         print(path)
-    window.document.dirty = False
+    window.document.dirty = False  # nothing to save: close without asking
     window.close()
-    wait_for_tasks(5000)
-    sys.stdout.flush()
-    sys.stderr.flush()
-    os._exit(0)  # skip interpreter teardown of the Qt objects (nothing is left to save)
+    close_window(window)
+    return 0
 
 
 if __name__ == "__main__":

@@ -24,21 +24,17 @@ from PySide6.QtCore import (
     Qt,
     Signal,
 )
-from PySide6.QtGui import QBrush, QColor, QFont
 
 from petfall_audit.editing.commands import Command, EditRefused
 from petfall_audit.editing.document import Document
 from petfall_audit.editing.fields import (
     FieldSpec,
-    enum_label,
-    format_speed,
     format_value,
     parse_value,
 )
 from petfall_audit.editing.history import History
-from petfall_audit.injury import BANDS
+from petfall_audit.gui.result_cells import result_style, result_text, units_of
 from petfall_audit.model import Building
-from petfall_audit.palette import band_style
 
 __all__ = [
     "DocumentSignals",
@@ -356,23 +352,13 @@ def _runs(indices: list[int]) -> list[tuple[int, int]]:
 # --- results --------------------------------------------------------------------------------------
 
 
-def _one_in_n(n: float) -> str:
-    if n != n or n <= 0:  # NaN
-        return "—"
-    if n == float("inf") or n > 1e9:
-        return "never"
-    if n < 1.5:
-        return "1 in 1"
-    return f"1 in {n:,.0f}" if n < 1000 else f"1 in {n:,.3g}".replace("e+0", "e").replace(
-        "e+", "e")
-
-
 class ResultsTableModel(QAbstractTableModel):
     """The ranked openings of an assessment (read-only). ``stale`` greys it out while a newer
     result is computed."""
 
     COLUMNS = ("Rank", "Opening", "Floor", "Facade", "Kind", "Expected injury band",
                "Likelihood per year", "Impact speed (median)", "Risk score")
+    KEYS = ("rank", "id", "floor", "facade", "kind", "band", "likelihood", "speed", "risk")
 
     def __init__(self, options: ViewOptions, parent: QObject | None = None) -> None:
         super().__init__(parent)
@@ -423,46 +409,9 @@ class ResultsTableModel(QAbstractTableModel):
         if not index.isValid():
             return None
         r = self._rows[index.row()]
-        col = index.column()
+        column = self.KEYS[index.column()]
         if role == KEY_ROLE:
             return r.id
         if role == Qt.ItemDataRole.DisplayRole:
-            units = self._options.units
-            if col == 0:
-                return str(r.rank)
-            if col == 1:
-                return r.id
-            if col == 2:
-                return str(r.floor)
-            if col == 3:
-                return r.facade
-            if col == 4:
-                return enum_label(r.kind)
-            if col == 5:
-                style = band_style(r.expected_band, self._options.palette)
-                return f"{style.mark} {BANDS[r.expected_band]}"
-            if col == 6:
-                return _one_in_n(r.one_in_n)
-            if col == 7:
-                return format_speed(r.impact_speed_mps.p50, units)
-            if col == 8:
-                return f"{r.risk:,.0f}"
-        if role == Qt.ItemDataRole.TextAlignmentRole and col in (0, 2, 6, 7, 8):
-            return int(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
-        if role == Qt.ItemDataRole.BackgroundRole and col == 5 and not self.stale:
-            return QBrush(QColor(band_style(r.expected_band, self._options.palette).fill))
-        if role == Qt.ItemDataRole.ForegroundRole:
-            if self.stale:
-                return QBrush(QColor("#8A8A8A"))
-            if col == 5:
-                return QBrush(QColor(band_style(r.expected_band, self._options.palette).text))
-        if role == Qt.ItemDataRole.FontRole and self.stale:
-            font = QFont()
-            font.setItalic(True)
-            return font
-        if role == Qt.ItemDataRole.ToolTipRole:
-            lines = [f"{r.id}: {BANDS[r.expected_band]} expected"]
-            lines += [f"• {f}" for f in r.factors]
-            lines += [f"• {h}" for h in r.hazards]
-            return "\n".join(lines)
-        return None
+            return result_text(r, column, units_of(self._options.units), self._options.palette)
+        return result_style(r, column, role, stale=self.stale, palette=self._options.palette)

@@ -5,16 +5,17 @@ from __future__ import annotations
 import sys
 from pathlib import Path
 
-from PySide6.QtCore import QTimer
+from PySide6.QtCore import QCoreApplication, QEvent, QTimer
 from PySide6.QtWidgets import QApplication
 
 from petfall_audit.editing.document import Document
 from petfall_audit.gui.dialogs import APP_TITLE
 from petfall_audit.gui.main_window import MainWindow, blank_building
 from petfall_audit.gui.views import install_views
+from petfall_audit.gui.views.common import stop_tasks
 from petfall_audit.model import Building
 
-__all__ = ["run_app", "main", "sample_document", "create_window"]
+__all__ = ["run_app", "main", "sample_document", "create_window", "close_window"]
 
 
 def _sample_building() -> Building:
@@ -40,6 +41,20 @@ def create_window(path: Path | None = None) -> MainWindow:
     return window
 
 
+def close_window(window: MainWindow) -> None:
+    """Close ``window`` for good: its background work stopped and waited for (closing does
+    that), then the window and its views deleted while the application still exists, so that
+    nothing of Qt is left for the interpreter to tear down at exit."""
+    if window.isVisible():  # the application quit without the window closing
+        window.autosave_now()  # unsaved work stays recoverable
+        window.hide()
+    window.recomputer.shutdown()
+    stop_tasks()
+    window.deleteLater()
+    QCoreApplication.sendPostedEvents(None, QEvent.Type.DeferredDelete)
+    QCoreApplication.processEvents()
+
+
 def run_app(path: Path | None = None) -> int:
     """Run the app on ``path`` (or the sample building) until its window closes; exit code."""
     app = QApplication.instance() or QApplication(sys.argv[:1])
@@ -48,7 +63,9 @@ def run_app(path: Path | None = None) -> int:
     window = create_window(path)
     window.show()
     QTimer.singleShot(0, window.offer_recovery)
-    return int(app.exec())
+    code = int(app.exec())
+    close_window(window)
+    return code
 
 
 def main() -> int:

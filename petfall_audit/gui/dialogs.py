@@ -6,6 +6,7 @@ that answers at once, so no modal dialog ever blocks a test run.
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
@@ -21,6 +22,7 @@ from PySide6.QtWidgets import (
     QGroupBox,
     QHBoxLayout,
     QLabel,
+    QLayout,
     QLineEdit,
     QMessageBox,
     QRadioButton,
@@ -151,6 +153,32 @@ def cautions_html(*, about: bool = False) -> str:
     return "".join(parts)
 
 
+def _span(first: QSpinBox, last: QSpinBox) -> QHBoxLayout:
+    """Two level boxes side by side: "first to last"."""
+    span = QHBoxLayout()
+    span.addWidget(first)
+    span.addWidget(QLabel("to"))
+    span.addWidget(last)
+    span.addStretch(1)
+    return span
+
+
+def _dialog_layout(dialog: QDialog, parts: list[QWidget | QLayout], *,
+                   on_ok: Callable[[], None] | None = None) -> None:
+    """Stack ``parts`` in ``dialog`` above OK and Cancel; OK calls ``on_ok`` (default: accept)."""
+    buttons = QDialogButtonBox(QDialogButtonBox.StandardButton.Ok
+                               | QDialogButtonBox.StandardButton.Cancel)
+    buttons.accepted.connect(on_ok or dialog.accept)
+    buttons.rejected.connect(dialog.reject)
+    layout = QVBoxLayout(dialog)
+    for part in parts:
+        if isinstance(part, QLayout):
+            layout.addLayout(part)
+        else:
+            layout.addWidget(part)
+    layout.addWidget(buttons)
+
+
 class CautionsDialog(QDialog):
     """The cautions, and with ``about`` the app's name, version and purpose."""
 
@@ -198,24 +226,13 @@ class CopyFloorDialog(QDialog):
         self.preview.setWordWrap(True)
         form = QFormLayout()
         form.addRow("Copy the openings of floor", self.source)
-        span = QHBoxLayout()
-        span.addWidget(self.first)
-        span.addWidget(QLabel("to"))
-        span.addWidget(self.last)
-        span.addStretch(1)
-        form.addRow("To levels", span)
+        form.addRow("To levels", _span(self.first, self.last))
         form.addRow("New ids", self.pattern)
         form.addRow(QLabel("Fields: {facade}, {level} (e.g. {level:02d} for 05), {n} (number on "
                            "the facade), {id} (the copied id), {kind}, {label}"))
         form.addRow(self.replace)
         form.addRow("Preview", self.preview)
-        buttons = QDialogButtonBox(QDialogButtonBox.StandardButton.Ok
-                                   | QDialogButtonBox.StandardButton.Cancel)
-        buttons.accepted.connect(self.accept)
-        buttons.rejected.connect(self.reject)
-        layout = QVBoxLayout(self)
-        layout.addLayout(form)
-        layout.addWidget(buttons)
+        _dialog_layout(self, [form])
         for signal in (self.source.currentIndexChanged, self.first.valueChanged,
                        self.last.valueChanged, self.pattern.textChanged):
             signal.connect(self._update_preview)
@@ -295,24 +312,12 @@ class BulkEditDialog(QDialog):
         fl.addRow(self.use_filter)
         fl.addRow("Facade", self.facade)
         fl.addRow("Kind", self.kind)
-        span = QHBoxLayout()
-        span.addWidget(self.first)
-        span.addWidget(QLabel("to"))
-        span.addWidget(self.last)
-        fl.addRow("Floors", span)
+        fl.addRow("Floors", _span(self.first, self.last))
         fl.addRow(self.count)
         what = QFormLayout()
         what.addRow("Set", self.field)
         what.addRow("To", self.value)
-        buttons = QDialogButtonBox(QDialogButtonBox.StandardButton.Ok
-                                   | QDialogButtonBox.StandardButton.Cancel)
-        buttons.accepted.connect(self._on_accept)
-        buttons.rejected.connect(self.reject)
-        layout = QVBoxLayout(self)
-        layout.addWidget(filt)
-        layout.addLayout(what)
-        layout.addWidget(self.error)
-        layout.addWidget(buttons)
+        _dialog_layout(self, [filt, what, self.error], on_ok=self._on_accept)
         for signal in (self.facade.currentIndexChanged, self.kind.currentIndexChanged,
                        self.first.valueChanged, self.last.valueChanged, group.buttonClicked):
             signal.connect(self._update_count)
@@ -368,13 +373,7 @@ class ContactDialog(QDialog):
             edit = QLineEdit(values.get(key, ""))
             self._edits[key] = edit
             form.addRow(label, edit)
-        buttons = QDialogButtonBox(QDialogButtonBox.StandardButton.Ok
-                                   | QDialogButtonBox.StandardButton.Cancel)
-        buttons.accepted.connect(self.accept)
-        buttons.rejected.connect(self.reject)
-        layout = QVBoxLayout(self)
-        layout.addLayout(form)
-        layout.addWidget(buttons)
+        _dialog_layout(self, [form])
 
     def values(self) -> dict[str, str]:
         return {key: edit.text().strip() for key, edit in self._edits.items()}

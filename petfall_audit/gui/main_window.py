@@ -3,7 +3,11 @@
 Views are tabs in the lower area; more can be added with :meth:`MainWindow.add_view`. Every edit
 is a command on the document's history; each change of the model starts a recomputation off the
 GUI thread, marks the shown results as out of date until the new ones arrive, and schedules a
-recovery copy of the unsaved work.
+recovery copy of the unsaved work. Quick results (few simulated falls per opening) come first;
+the full assessment replaces them when the user pauses (see :mod:`petfall_audit.gui.worker`).
+
+The editors sit in scroll areas, so the splitter between them and the views can give the views
+most of the height; the user's split is remembered.
 """
 
 from __future__ import annotations
@@ -12,13 +16,15 @@ from pathlib import Path
 from typing import Any
 
 from PySide6.QtCore import QModelIndex, Qt, QTimer, Signal
-from PySide6.QtGui import QCloseEvent
+from PySide6.QtGui import QCloseEvent, QShowEvent
 from PySide6.QtWidgets import (
     QAbstractItemView,
+    QFrame,
     QHeaderView,
     QLabel,
     QMainWindow,
     QProgressBar,
+    QScrollArea,
     QSplitter,
     QTableView,
     QTabWidget,
@@ -43,7 +49,13 @@ from petfall_audit.gui.widgets.field_form import ERROR_STYLE
 from petfall_audit.gui.widgets.floors import FloorsPanel
 from petfall_audit.gui.widgets.openings import OpeningsPanel
 from petfall_audit.gui.widgets.site import SitePanel
-from petfall_audit.gui.worker import INTERACTIVE_SAMPLES, AssessFn, Recomputer
+from petfall_audit.gui.worker import (
+    INTERACTIVE_SAMPLES,
+    REFINE_DELAY_MS,
+    REFINED_SAMPLES,
+    AssessFn,
+    Recomputer,
+)
 from petfall_audit.model import (
     Building,
     BuildingInfo,
@@ -53,7 +65,11 @@ from petfall_audit.model import (
     SurfaceKind,
 )
 
-__all__ = ["MainWindow", "blank_building"]
+__all__ = ["MainWindow", "blank_building", "EDITOR_SHARE"]
+
+#: Share of the splitter's height given to the editors by default (the views get the rest):
+#: at 1366×768 about 230 px, the openings table shows six rows and the views about 410 px.
+EDITOR_SHARE = 0.36
 
 
 def blank_building() -> Building:
@@ -71,30 +87,43 @@ class MainWindow(QMainWindow):
     """The app's window for one document at a time.
 
     ``prompts`` asks the user questions (replace it in tests); ``assess`` computes results
-    (default :func:`petfall_audit.risk.assess`) with ``samples`` cats per opening.
+    (default :func:`petfall_audit.risk.assess`) with ``samples`` cats per opening, then again
+    with ``refine_samples`` once the user pauses for ``refine_delay_ms`` (a count at or below
+    ``samples`` turns this off).
     """
 
-    results_updated = Signal(object)  # the new assessment
+    results_updated = Signal(object)  # the new assessment (quick or refined)
+    results_refined = Signal(object)  # the full assessment, after results_updated
     results_failed = Signal(str)
 
     def __init__(self, document: Document | None = None, *, settings: AppSettings | None = None,
                  prompts: Prompts | None = None, assess: AssessFn | None = None,
-                 samples: int = INTERACTIVE_SAMPLES, autosave_delay_ms: int = 5000,
+                 samples: int = INTERACTIVE_SAMPLES, refine_samples: int = REFINED_SAMPLES,
+                 refine_delay_ms: int = REFINE_DELAY_MS, autosave_delay_ms: int = 5000,
                  parent: QWidget | None = None) -> None:
         super().__init__(parent)
         self.settings = settings or AppSettings(parent=self)
         self.prompts = prompts or Prompts()
         self.options = ViewOptions(self.settings.units, self.settings.palette, self)
-        self.recomputer = Recomputer(assess, samples=samples, parent=self)
+        self.recomputer = Recomputer(assess, samples=samples, refine_samples=refine_samples,
+                                     refine_delay_ms=refine_delay_ms, parent=self)
         self.recomputer.finished.connect(self._on_results)
         self.recomputer.failed.connect(self._on_results_failed)
         self.recomputer.progress.connect(self._on_progress)
+        self.recomputer.refining.connect(self._on_refining)
+        self.recomputer.refined.connect(self._on_refined)
         self.last_compute_s: float | None = None
+        #: Simulated falls per opening behind the shown results (``None`` before the first).
+        self.results_samples: int | None = None
+        self._split_restored = False
         self._autosave_timer = QTimer(self)
         self._autosave_timer.setSingleShot(True)
         self._autosave_timer.setInterval(autosave_delay_ms)
         self._autosave_timer.timeout.connect(self.autosave_now)
         self._panels: list[Any] = []
+        #: Called when the window closes, after the recomputation has stopped (the views stop
+        #: their own background work here).
+        self.on_close: list[Any] = []
         self._disconnects: list[Any] = []
         self.setObjectName("main_window")
         self.resize(1280, 820)
@@ -110,6 +139,9 @@ class MainWindow(QMainWindow):
             self.restoreGeometry(geometry)
         if state is not None:
             self.restoreState(state)
+        split = self.settings.splitter_state()
+        if split is not None and self.splitter.restoreState(split):
+            self._split_restored = True
         self.load_document(document or Document(blank_building()))
 
     # --- layout ----------------------------------------------------------------------------------
@@ -155,10 +187,12 @@ class MainWindow(QMainWindow):
 
         splitter = QSplitter(Qt.Orientation.Vertical)
         splitter.setObjectName("main_splitter")
+        splitter.setChildrenCollapsible(False)
         splitter.addWidget(self.editor_tabs)
         splitter.addWidget(self.view_tabs)
-        splitter.setStretchFactor(0, 3)
-        splitter.setStretchFactor(1, 2)
+        splitter.setStretchFactor(0, 0)  # a taller window grows the views
+        splitter.setStretchFactor(1, 1)
+        self.splitter = splitter
 
         self.cautions_banner = QLabel(
             f"<b>Caution:</b> {CAUTIONS_SHORT} <a href='#cautions'>Read the cautions</a>")
@@ -183,13 +217,25 @@ class MainWindow(QMainWindow):
         self.progress.setMaximumWidth(180)
         self.progress.setTextVisible(False)
         self.progress.hide()
-        self.samples_label = QLabel(
-            f"{self.recomputer.samples} simulated falls per opening while editing")
-        self.samples_label.setToolTip("The audit report recomputes with more samples.")
+        self.samples_label = QLabel()
+        self.samples_label.setObjectName("samples_label")
         status = self.statusBar()
         status.addWidget(self.status_label, 1)
         status.addPermanentWidget(self.progress)
         status.addPermanentWidget(self.samples_label)
+
+    def showEvent(self, event: QShowEvent) -> None:
+        super().showEvent(event)
+        if not self._split_restored:  # the first time: the default share, once laid out
+            self._split_restored = True
+            self.set_editor_share(EDITOR_SHARE)
+            QTimer.singleShot(0, lambda: self.set_editor_share(EDITOR_SHARE))
+
+    def set_editor_share(self, share: float) -> None:
+        """Give the editors ``share`` (0–1) of the splitter's height, the views the rest."""
+        total = sum(self.splitter.sizes()) or max(self.splitter.height(), 600)
+        editors = int(round(share * total))
+        self.splitter.setSizes([editors, total - editors])
 
     def add_view(self, name: str, widget: QWidget) -> int:
         """Add a result view as a tab of the lower area; returns its tab index."""
@@ -213,23 +259,30 @@ class MainWindow(QMainWindow):
         self.document = doc
         self.history = History(doc)
         a = self.actions_
-        self.openings_panel = OpeningsPanel(doc, self.history, self.options,
-                                            actions=[a.bulk_edit, a.copy_floor])
+        self.openings_panel = OpeningsPanel(doc, self.history, self.options)
         self.floors_panel = FloorsPanel(doc, self.history, self.options, actions=[a.copy_floor])
         self.site_panel = SitePanel(doc, self.history, self.options)
         self.building_panel = BuildingPanel(doc, self.history, self.options)
         self._panels = [self.openings_panel, self.floors_panel, self.site_panel,
                         self.building_panel]
-        self.editor_tabs.addTab(self.openings_panel, "Openings")
-        self.editor_tabs.addTab(self.floors_panel, "Floors")
-        self.editor_tabs.addTab(self.site_panel, "Facades and surfaces below")
-        self.editor_tabs.addTab(self.building_panel, "Building and cats")
+        for panel, name in ((self.openings_panel, "Openings"), (self.floors_panel, "Floors"),
+                            (self.site_panel, "Facades and surfaces below"),
+                            (self.building_panel, "Building and cats")):
+            self.editor_tabs.addTab(_scrolled(panel), name)
         self.editor_tabs.setCurrentIndex(max(current, 0))
         self._disconnects = [doc.on_changed("*", self._on_doc_changed),
                              self.history.on_changed(self._update_undo_actions)]
         self._update_title()
         self._update_undo_actions()
         self.recompute()
+
+    def show_editor(self, panel: QWidget) -> None:
+        """Bring the editor tab that holds ``panel`` to the front."""
+        for i in range(self.editor_tabs.count()):
+            page = self.editor_tabs.widget(i)
+            if page is panel or (isinstance(page, QScrollArea) and page.widget() is panel):
+                self.editor_tabs.setCurrentIndex(i)
+                return
 
     def _on_doc_changed(self, kind: str) -> None:
         if kind in MODEL_KINDS:
@@ -287,8 +340,30 @@ class MainWindow(QMainWindow):
         self.progress.setRange(0, max(total, 1))
         self.progress.setValue(done)
 
+    def _show_samples(self, state: str) -> None:
+        """The status-bar note on the simulated falls behind the results: ``state`` is
+        ``"quick"``, ``"refining"`` or ``"final"``."""
+        r = self.recomputer
+        full = r.final_samples
+        if state == "final":
+            n = self.results_samples or full
+            self.samples_label.setText(f"{n} simulated falls per opening")
+            self.samples_label.setToolTip("As many as the command line and the audit report use."
+                                          if n >= REFINED_SAMPLES else
+                                          "The audit report recomputes with more.")
+        elif state == "refining":
+            self.samples_label.setText(f"{r.samples} simulated falls per opening: refining…")
+            self.samples_label.setToolTip(f"Recomputing with {full} simulated falls per opening; "
+                                          "the results are replaced when done.")
+        else:
+            self.samples_label.setText(f"{r.samples} simulated falls per opening (quick)")
+            self.samples_label.setToolTip(f"Pause editing and the results are recomputed with "
+                                          f"{full} simulated falls per opening.")
+
     def _on_results(self, _generation: int, assessment: Any, seconds: float) -> None:
         self.last_compute_s = seconds
+        self.results_samples = self.recomputer.samples
+        self._show_samples("quick" if self.recomputer.refines else "final")
         self.results_model.set_assessment(assessment)
         if not self._results_sized and self.results_model.rowCount():
             self.results_table.resizeColumnsToContents()
@@ -300,6 +375,19 @@ class MainWindow(QMainWindow):
             f"Double-click a row to edit the opening.")
         self.results_updated.emit(assessment)
 
+    def _on_refining(self, _generation: int) -> None:
+        self._show_samples("refining")
+        self.progress.setRange(0, 0)
+        self.progress.show()
+
+    def _on_refined(self, _generation: int, assessment: Any, _seconds: float) -> None:
+        self.results_samples = self.recomputer.refine_samples
+        self._show_samples("final")
+        self.progress.hide()
+        self.results_model.set_assessment(assessment)
+        self.results_updated.emit(assessment)
+        self.results_refined.emit(assessment)
+
     def _on_results_failed(self, _generation: int, message: str) -> None:
         self.progress.hide()
         self.results_state.setText(f"! Results could not be computed: {message}")
@@ -308,7 +396,7 @@ class MainWindow(QMainWindow):
 
     def _on_result_activated(self, index: QModelIndex) -> None:
         opening_id = self.results_model.row_result(index.row()).id
-        self.editor_tabs.setCurrentWidget(self.openings_panel)
+        self.show_editor(self.openings_panel)
         self.openings_panel.select_ids([opening_id])
 
     # --- files ------------------------------------------------------------------------------------
@@ -438,7 +526,7 @@ class MainWindow(QMainWindow):
     # --- edits with dialogs -----------------------------------------------------------------------
 
     def add_opening(self) -> None:
-        self.editor_tabs.setCurrentWidget(self.openings_panel)
+        self.show_editor(self.openings_panel)
         self.openings_panel.add_opening()
 
     def _current_level(self) -> int | None:
@@ -528,8 +616,20 @@ class MainWindow(QMainWindow):
             event.ignore()
             return
         self._autosave_timer.stop()
-        self.recomputer.shutdown()
+        self.recomputer.shutdown()  # waits for the worker threads to end
+        for stop in self.on_close:
+            stop()
         autosave.discard_recovery()
         self.settings.set_window_state(self.saveGeometry(), self.saveState())
+        self.settings.set_splitter_state(self.splitter.saveState())
         self.settings.sync()
         event.accept()
+
+
+def _scrolled(panel: QWidget) -> QScrollArea:
+    """``panel`` in a frameless scroll area, so that the editors can shrink below its size."""
+    area = QScrollArea()
+    area.setWidgetResizable(True)
+    area.setFrameShape(QFrame.Shape.NoFrame)
+    area.setWidget(panel)
+    return area

@@ -117,3 +117,11 @@ class AppSettings(QObject):
     def set_window_state(self, geometry: QByteArray, state: QByteArray) -> None:
         self._q.setValue("window/geometry", geometry)
         self._q.setValue("window/state", state)
+
+    def splitter_state(self) -> QByteArray | None:
+        """The saved split between the editors and the result views, if any."""
+        value = self._q.value("window/splitter")
+        return value if isinstance(value, QByteArray) else None
+
+    def set_splitter_state(self, state: QByteArray) -> None:
+        self._q.setValue("window/splitter", state)

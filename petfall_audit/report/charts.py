@@ -10,6 +10,7 @@ import math
 import numpy as np
 from reportlab.graphics.shapes import Drawing, Line, PolyLine, Rect, String
 from reportlab.lib import colors
+from reportlab.pdfbase.pdfmetrics import stringWidth
 
 from petfall_audit.figures import FacadeElevation, FallProfileFigure, FloorComparison
 from petfall_audit.palette import band_style, band_styles, rgb
@@ -23,6 +24,8 @@ __all__ = [
     "fall_profile_drawing",
     "band_legend",
     "colour",
+    "fit_label",
+    "label_column_width",
 ]
 
 
@@ -49,6 +52,39 @@ def _text(x: float, y: float, text: str, size: float = 7, *, anchor: str = "star
                   fillColor=colour_, textAnchor=anchor)
 
 
+def _width(text: str, size: float) -> float:
+    return float(stringWidth(plain(text), fonts().regular, size))
+
+
+def fit_label(label: str, level: int, max_width: float, size: float) -> str:
+    """``label`` as drawn at ``size`` pt in at most ``max_width`` pt: whole if it fits, else with
+    its parenthesised note shortened ("Level 31 (pent…)") or dropped ("Level 31"); a label
+    without its level number may be cut short ("Raised gro…"); last the level number alone
+    ("L31"). A label that shows its level number never loses it."""
+    text = plain(label)
+    if _width(text, size) <= max_width:
+        return text
+    head, sep, note = text.partition(" (")
+    note = note.rstrip(")")
+    candidates = [f"{head} ({note[:k]}…)" for k in range(len(note) - 1, 2, -1)] if sep else []
+    candidates.append(head)
+    if str(level) not in text:  # no number to lose: cut the words short
+        candidates += [f"{text[:k].rstrip()}…" for k in range(len(text) - 1, 3, -1)]
+    candidates += [f"Level {level}", f"L{level}"]
+    for c in candidates:
+        if _width(c, size) <= max_width and (str(level) in c or str(level) not in text):
+            return c
+    return f"L{level}"
+
+
+def label_column_width(labels: tuple[str, ...], size: float, *, gap: float,
+                       max_width: float) -> float:
+    """Width (pt) of a label column: the widest label at ``size`` pt plus ``gap``, at most
+    ``max_width`` (longer labels are then shortened by :func:`fit_label`)."""
+    widest = max((_width(t, size) for t in labels), default=0.0)
+    return min(widest + gap, max_width)
+
+
 def band_legend(band_names: tuple[str, ...], width: float, palette: str = "standard") -> Drawing:
     """One row: a swatch with its mark and the band name for every band."""
     d = Drawing(width, 16)
@@ -62,7 +98,15 @@ def band_legend(band_names: tuple[str, ...], width: float, palette: str = "stand
     return d
 
 
-_FACADE_LABEL_W, _FACADE_PAD = 46.0, 6.0
+_FACADE_PAD = 6.0
+_LABEL_PT = 6.0  # floor labels on elevations and the floor chart
+_LABEL_GAP = 8.0  # between a floor label and the drawing
+_LABEL_SHARE = 0.3  # floor labels take at most this share of the drawing's width
+
+
+def _facade_label_w(elev: FacadeElevation, width: float) -> float:
+    return label_column_width(elev.floor_labels, _LABEL_PT, gap=_LABEL_GAP,
+                              max_width=_LABEL_SHARE * width)
 
 
 def _facade_span(elev: FacadeElevation) -> tuple[float, float]:
@@ -75,7 +119,7 @@ def facade_scales(elev: FacadeElevation, width: float, max_height: float) -> tup
     building is not blown up; a tall, narrow facade is stretched sideways up to 4× so its
     openings stay legible (the caption says so)."""
     span_x, span_y = _facade_span(elev)
-    fit_x = (width - _FACADE_LABEL_W - _FACADE_PAD) / span_x
+    fit_x = (width - _facade_label_w(elev, width) - _FACADE_PAD) / span_x
     sy = min(fit_x, (max_height - 2 * _FACADE_PAD) / span_y, 20.0)
     sx = max(min(fit_x, 4.0 * sy), sy) if sy < 20.0 else sy
     return sy, sx
@@ -85,7 +129,7 @@ def facade_drawing(elev: FacadeElevation, width: float, max_height: float,
                    palette: str = "standard", label_ranks_upto: int = 10) -> Drawing:
     """Elevation of one facade: floors, every opening filled and marked by its band; the worst
     ``label_ranks_upto`` openings carry their rank number."""
-    label_w, pad = _FACADE_LABEL_W, _FACADE_PAD
+    label_w, pad = _facade_label_w(elev, width), _FACADE_PAD
     span_x, span_y = _facade_span(elev)
     scale, sx = facade_scales(elev, width, max_height)
     h = span_y * scale + 2 * pad
@@ -107,11 +151,14 @@ def facade_drawing(elev: FacadeElevation, width: float, max_height: float,
     # floor lines and labels, thinned so labels never overlap
     every = max(1, math.ceil(9.0 / max(scale * float(np.median(np.diff(elev.floor_elevation_m)))
                                         if elev.floor_elevation_m.size > 1 else 9.0, 1e-6)))
-    for i, (lab, ym) in enumerate(zip(elev.floor_labels, elev.floor_elevation_m, strict=True)):
+    rows = zip(elev.floor_levels.tolist(), elev.floor_labels, elev.floor_elevation_m, strict=True)
+    for i, (level, lab, ym) in enumerate(rows):
         d.add(Line(x_of(0), y_of(ym), x_of(elev.length_m), y_of(ym), strokeColor=RULE,
                    strokeWidth=0.3))
         if i % every == 0:
-            d.add(_text(label_w - 6, y_of(ym) + 1, lab[:10], 6, anchor="end", colour_=MUTED))
+            text = fit_label(lab, level, label_w - _LABEL_GAP, _LABEL_PT)
+            d.add(_text(label_w - 6, y_of(ym) + 1, text, _LABEL_PT, anchor="end",
+                        colour_=MUTED))
     # openings
     styles = band_styles(palette)
     none = band_style(None, palette)
@@ -141,7 +188,10 @@ def floor_chart(fc: FloorComparison, width: float, max_height: float,
     """Per floor (top floor at the top): openings stacked by expected band, and the floor's
     highest median impact speed at the right."""
     n = len(fc.levels)
-    label_w, right_w, top_pad, bottom_pad = 48.0, 70.0, 14.0, 22.0
+    label_size = 6.5
+    label_w = label_column_width(fc.labels, label_size, gap=_LABEL_GAP,
+                                 max_width=_LABEL_SHARE * width)
+    right_w, top_pad, bottom_pad = 70.0, 14.0, 22.0
     row = max(4.0, min(14.0, (max_height - top_pad - bottom_pad) / max(n, 1)))
     h = n * row + top_pad + bottom_pad
     d = Drawing(width, h)
@@ -177,7 +227,8 @@ def floor_chart(fc: FloorComparison, width: float, max_height: float,
                             colour_=colour(st.text), bold=True))
             x += w
         if i % every == 0 or i == n - 1:
-            d.add(_text(label_w - 4, y + row / 2 - 2.2, fc.labels[i][:10], 6.5, anchor="end",
+            text = fit_label(fc.labels[i], int(fc.levels[i]), label_w - _LABEL_GAP, label_size)
+            d.add(_text(label_w - 4, y + row / 2 - 2.2, text, label_size, anchor="end",
                         colour_=MUTED))
             v = float(fc.max_impact_p50_mps[i])
             if math.isfinite(v):

@@ -25,6 +25,7 @@ __all__ = [
     "ReportOptions",
     "RankedRow",
     "PlanRow",
+    "PlanControlRow",
     "DetailContext",
     "AuditContext",
     "LeafletContext",
@@ -208,12 +209,28 @@ class RankedRow:
 
 @dataclass(frozen=True, slots=True)
 class PlanRow:
+    """One action of the plan; ``notes``: 1-based numbers of its ``conditions`` in
+    :attr:`AuditContext.plan_notes`."""
+
     opening_id: str
     control: str
     cost: str
     risk_before: str
     risk_after: str
     conditions: tuple[str, ...]
+    notes: tuple[int, ...] = ()
+
+
+@dataclass(frozen=True, slots=True)
+class PlanControlRow:
+    """The plan's actions of one control together: how many openings, their total cost, the
+    risk score they remove and the numbers of the control's conditions."""
+
+    control: str
+    openings: str
+    cost: str
+    risk_removed: str
+    notes: tuple[int, ...]
 
 
 @dataclass(frozen=True, slots=True)
@@ -258,6 +275,8 @@ class AuditContext:
     details: tuple[DetailContext, ...]
     plan_summary: tuple[str, ...]
     plan_rows: tuple[PlanRow, ...]
+    plan_controls: tuple[PlanControlRow, ...]
+    plan_notes: tuple[str, ...]
     cautions: tuple[str, ...]
     limits: tuple[str, ...]
     signoff: tuple[str, ...]
@@ -317,18 +336,27 @@ def _ranked_rows(assessment: Assessment, plan: Plan | None, bands: tuple[str, ..
                 band_name=bands[int(o.expected_band)] if 0 <= o.expected_band < len(bands) else "",
                 likelihood=fmt_one_in(float(o.one_in_n)),
                 risk=fmt_risk(float(o.risk)),
-                control=act.control_name if act is not None else "",
-                cost=fmt_money(float(act.cost), currency) if act is not None else "",
+                control=act.control_name if act is not None else "–",
+                cost=fmt_money(float(act.cost), currency) if act is not None else "–",
             )
         )
     return tuple(rows)
 
 
-def _landing_text(landing: dict[str, float]) -> str:
+def _landing_names(assessment: Assessment) -> dict[str, str]:
+    """Plain names of the places a cat can land: surface labels, "balcony S03-T1"."""
+    b = assessment.building
+    names = {o.id: f"{kind_label(o.kind).lower()} {o.id}" for o in b.openings}
+    names.update({s.id: s.label or s.id for s in b.surfaces})
+    return names
+
+
+def _landing_text(landing: dict[str, float], names: dict[str, str] | None = None) -> str:
     """Landing elements with their share of the falls, most likely first."""
     if not landing:
         return "–"
-    return ", ".join(f"{name} {fmt_percent(float(p))}" for name, p in landing.items())
+    names = names or {}
+    return ", ".join(f"{names.get(k, k)} {fmt_percent(float(p))}" for k, p in landing.items())
 
 
 def _code_notes(assessment: Assessment, opening_id: str) -> tuple[str, ...]:
@@ -344,13 +372,15 @@ def _details(assessment: Assessment, plan: Plan | None, top_n: int, bands: tuple
     actions = _plan_by_opening(plan)
     currency = getattr(plan, "currency", "") if plan is not None else ""
     labels = _floor_labels(assessment)
+    landing_names = _landing_names(assessment)
+    facade_names = {f.id: f.label or f.id for f in assessment.building.facades}
     out = []
     for o in assessment.ranked("risk")[: max(top_n, 0)]:
         op = assessment.building.opening(o.id)
         act = actions.get(o.id)
         facts = (
             ("Floor", labels.get(o.floor, str(o.floor))),
-            ("Facade", str(o.facade)),
+            ("Facade", facade_names.get(str(o.facade), str(o.facade))),
             ("Kind", kind_label(o.kind)),
             ("Rail top or sill above floor", f"{fmt_length(op.perch_height_m)} m"),
             ("Drop p5 / p50 / p95", f"{fmt_length(o.drop_m.p5)} / {fmt_length(o.drop_m.p50)} / "
@@ -358,7 +388,7 @@ def _details(assessment: Assessment, plan: Plan | None, top_n: int, bands: tuple
             ("Impact speed p5 / p50 / p95",
              f"{fmt_speed(o.impact_speed_mps.p5)} / {fmt_speed(o.impact_speed_mps.p50)} / "
              f"{fmt_speed(o.impact_speed_mps.p95)} m/s"),
-            ("Landing", _landing_text(dict(o.landing))),
+            ("Landing", _landing_text(dict(o.landing), landing_names)),
             ("Likelihood of a fall (12 months)",
              f"{fmt_one_in(float(o.one_in_n))} ({fmt_percent(float(o.annual_probability))})"),
             ("Risk score (rank)", f"{fmt_risk(float(o.risk))} (#{o.risk_rank})"),
@@ -387,6 +417,10 @@ def _details(assessment: Assessment, plan: Plan | None, top_n: int, bands: tuple
     return tuple(out)
 
 
+def _plural(n: int, word: str) -> str:
+    return f"{n} {word}" if n == 1 else f"{n} {word}s"
+
+
 def _plan_parts(plan: Plan | None) -> tuple[tuple[str, ...], tuple[PlanRow, ...]]:
     if plan is None:
         return (("No budget was given, so no fix plan was made.",), ())
@@ -395,10 +429,13 @@ def _plan_parts(plan: Plan | None) -> tuple[tuple[str, ...], tuple[PlanRow, ...]
     cut = (1 - after / before) if before > 0 else 0.0
     summary = (
         f"Budget {fmt_money(float(plan.budget), cur)}; the plan spends "
-        f"{fmt_money(float(plan.total_cost), cur)} on {len(plan.actions)} control(s).",
+        f"{fmt_money(float(plan.total_cost), cur)} on "
+        f"{_plural(len(plan.actions), 'control')}.",
         f"Total risk score {fmt_risk(before)} before and {fmt_risk(after)} after "
         f"({fmt_percent(cut)} lower).",
     )
+    notes = _plan_notes(plan)
+    number = {c: i + 1 for i, c in enumerate(notes)}
     rows = tuple(
         PlanRow(
             opening_id=a.opening_id,
@@ -407,10 +444,39 @@ def _plan_parts(plan: Plan | None) -> tuple[tuple[str, ...], tuple[PlanRow, ...]
             risk_before=fmt_risk(float(a.risk_before)),
             risk_after=fmt_risk(float(a.risk_after)),
             conditions=tuple(str(c) for c in a.conditions),
+            notes=tuple(sorted({number[str(c)] for c in a.conditions})),
         )
         for a in plan.actions
     )
     return summary, rows
+
+
+def _plan_notes(plan: Plan | None) -> tuple[str, ...]:
+    """Every distinct condition of the plan once, in the order the plan first meets them."""
+    if plan is None:
+        return ()
+    return tuple(dict.fromkeys(str(c) for a in plan.actions for c in a.conditions))
+
+
+def _plan_controls(plan: Plan | None, rows: tuple[PlanRow, ...]) -> tuple[PlanControlRow, ...]:
+    """One row per control in the plan, the costliest first."""
+    if plan is None:
+        return ()
+    groups: dict[str, list[int]] = {}
+    for i, a in enumerate(plan.actions):
+        groups.setdefault(a.control_name, []).append(i)
+    out = []
+    for name, idx in groups.items():
+        acts = [plan.actions[i] for i in idx]
+        cost = sum(float(a.cost) for a in acts)
+        out.append((cost, PlanControlRow(
+            control=name,
+            openings=str(len(acts)),
+            cost=fmt_money(cost, plan.currency),
+            risk_removed=fmt_risk(sum(float(a.risk_before - a.risk_after) for a in acts)),
+            notes=tuple(sorted({n for i in idx for n in rows[i].notes})),
+        )))
+    return tuple(r for _, r in sorted(out, key=lambda t: -t[0]))
 
 
 def _method(assessment: Assessment) -> tuple[tuple[str, str], ...]:
@@ -568,6 +634,8 @@ def build_audit_context(assessment: Assessment, plan: Plan | None, *,
         details=_details(assessment, plan, opts.top_n, bands),
         plan_summary=plan_summary,
         plan_rows=plan_rows,
+        plan_controls=_plan_controls(plan, plan_rows),
+        plan_notes=_plan_notes(plan),
         cautions=CAUTIONS,
         limits=LIMITS,
         signoff=("Audited by", "Signature", "Date", "Reviewed by", "Signature", "Date"),
@@ -613,7 +681,10 @@ def _sentence_case(name: str) -> str:
 
 
 def _join(items: Sequence[str]) -> str:
+    """"a, b and c"; semicolons when an item has a comma of its own ("net, 30 mm mesh")."""
     items = list(items)
     if len(items) <= 1:
         return "".join(items)
-    return ", ".join(items[:-1]) + " and " + items[-1]
+    sep = "; " if any("," in i for i in items) else ", "
+    last = "; and " if sep == "; " else " and "
+    return sep.join(items[:-1]) + last + items[-1]

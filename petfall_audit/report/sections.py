@@ -204,7 +204,9 @@ def build_ranked_table(ctx: AuditContext, st: Styles, width: float, palette: str
     id_w = max([text_w(r.opening_id) for r in ctx.ranked] + [12 * mm]) + 8
     floor_w = min(max([text_w(r.floor) for r in ctx.ranked] + [10 * mm]) + 8, 30 * mm)
     kind_w = max([text_w(r.kind) for r in ctx.ranked] + [14 * mm]) + 8
-    cols = [16 * mm, floor_w, id_w, kind_w, 10 * mm, 9 * mm, 9 * mm, 9 * mm, *band_w,
+    marks = [f"{r.rank}  {band_style(r.band, palette).mark}" for r in ctx.ranked]
+    rank_w = max([text_w(m) for m in marks] + [12 * mm]) + 8
+    cols = [rank_w, floor_w, id_w, kind_w, 10 * mm, 9 * mm, 9 * mm, 9 * mm, *band_w,
             18 * mm, 12 * mm, 0.0, 17 * mm]
     cols[-2] = max(width - sum(cols), 30 * mm)
 
@@ -219,7 +221,7 @@ def build_ranked_table(ctx: AuditContext, st: Styles, width: float, palette: str
     for r, row in enumerate(ctx.ranked, start=1):
         bs = band_style(row.band, palette)
         data.append([
-            f"{row.rank}  {bs.mark}", cell(row.floor, cols[1]), cell(row.opening_id, cols[2]),
+            marks[r - 1], cell(row.floor, cols[1]), cell(row.opening_id, cols[2]),
             row.kind, row.drop_m, row.v_p5, row.v_p50, row.v_p95, *row.band_probs,
             row.likelihood, row.risk, cell(row.control, cols[-2]) if row.control else "",
             row.cost,
@@ -233,7 +235,8 @@ def build_ranked_table(ctx: AuditContext, st: Styles, width: float, palette: str
         _p("All openings by risk score, highest first. v = impact speed (m/s) at the 5th, 50th "
            "and 95th percentile of the sampled cats; drop = median drop; P = probability of each "
            "injury band; the mark in the first column is the expected band. Control and cost "
-           "come from the fix plan (empty when no budget was given).", st.small),
+           "come from the fix plan (– when the plan does not treat the opening or no budget was "
+           "given).", st.small),
         t, NextPageTemplate("page"),
     ]
 
@@ -270,20 +273,38 @@ def build_details(ctx: AuditContext, profiles: dict[str, FallProfileFigure], st:
     return out
 
 
+def _refs(notes: Sequence[int]) -> str:
+    return ", ".join(str(n) for n in notes) if notes else "–"
+
+
 def build_plan(ctx: AuditContext, st: Styles, width: float) -> list[Flowable]:
-    """The budgeted plan: summary lines and one row per action."""
+    """The budgeted plan: summary lines, the controls with their counts and costs, each condition
+    once as a numbered note, then one row per action that refers to the notes by number."""
     out: list[Flowable] = [PageBreak(), _p("Fix plan", st.h1), *_bullets(ctx.plan_summary, st)]
-    if ctx.plan_rows:
-        head = ["Opening", "Control", "Cost", "Risk before", "Risk after", "Conditions"]
-        data: list[list[object]] = [[_p(h, st.cell_bold) for h in head]]
-        for r in ctx.plan_rows:
-            data.append([_p(r.opening_id, st.cell), _p(r.control, st.cell), _p(r.cost, st.cell),
-                         _p(r.risk_before, st.cell), _p(r.risk_after, st.cell),
-                         _p("; ".join(r.conditions), st.cell)])
-        t = Table(data, colWidths=[width * f for f in (0.14, 0.22, 0.1, 0.1, 0.1, 0.34)],
-                  repeatRows=1)
-        t.setStyle(TableStyle([*_GRID, ("BACKGROUND", (0, 0), (-1, 0), HEADER_FILL)]))
-        out.append(t)
+    if not ctx.plan_rows:
+        return out
+    head = ["Control", "Openings", "Cost", "Risk removed", "Conditions (see below)"]
+    data: list[list[object]] = [[_p(h, st.cell_bold) for h in head]]
+    for c in ctx.plan_controls:
+        data.append([_p(c.control, st.cell), _p(c.openings, st.cell), _p(c.cost, st.cell),
+                     _p(c.risk_removed, st.cell), _p(_refs(c.notes), st.cell)])
+    t = Table(data, colWidths=[width * f for f in (0.4, 0.12, 0.14, 0.14, 0.2)], repeatRows=1)
+    t.setStyle(TableStyle([*_GRID, ("BACKGROUND", (0, 0), (-1, 0), HEADER_FILL)]))
+    out += [_p("Controls in the plan", st.h2), t]
+    if ctx.plan_notes:
+        out.append(_p("Conditions", st.h2))
+        out += [Paragraph(markup(n), st.bullet, bulletText=f"{i}.")
+                for i, n in enumerate(ctx.plan_notes, start=1)]
+    head = ["Opening", "Control", "Cost", "Risk before", "Risk after", "Conditions"]
+    data = [[_p(h, st.cell_bold) for h in head]]
+    for r in ctx.plan_rows:
+        data.append([_p(r.opening_id, st.cell), _p(r.control, st.cell), _p(r.cost, st.cell),
+                     _p(r.risk_before, st.cell), _p(r.risk_after, st.cell),
+                     _p(_refs(r.notes), st.cell)])
+    t = Table(data, colWidths=[width * f for f in (0.14, 0.38, 0.12, 0.12, 0.12, 0.12)],
+              repeatRows=1)
+    t.setStyle(TableStyle([*_GRID, ("BACKGROUND", (0, 0), (-1, 0), HEADER_FILL)]))
+    out += [_p("Actions by opening", st.h2), t]
     return out
 
 

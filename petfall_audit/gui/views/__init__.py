@@ -12,11 +12,10 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Any
 
-from PySide6.QtCore import QTimer
 from PySide6.QtGui import QAction, QKeySequence
-from PySide6.QtWidgets import QMenu, QSplitter
+from PySide6.QtWidgets import QMenu
 
-from petfall_audit.gui.views.common import ViewContext
+from petfall_audit.gui.views.common import ViewContext, stop_tasks
 from petfall_audit.gui.views.facade import FacadeView
 from petfall_audit.gui.views.floors import FloorsView
 from petfall_audit.gui.views.plan import PlanView
@@ -192,17 +191,9 @@ def install_views(window: Any, *, export_prompts: Any = None, import_prompts: An
     if view_menu is not None:
         view_menu.addAction(results_only)
     view_actions.append(results_only)
-    splitter = window.findChild(QSplitter, "main_splitter")
-    if splitter is not None:  # the views need more room than a plain table
-        splitter.setStretchFactor(0, 2)
-        splitter.setStretchFactor(1, 3)
-
-        def share() -> None:
-            total = sum(splitter.sizes()) or 1000
-            splitter.setSizes([int(0.42 * total), total - int(0.42 * total)])
-
-        share()
-        QTimer.singleShot(0, share)  # again once the window is laid out
+    on_close = getattr(window, "on_close", None)
+    if on_close is not None:  # closing the window stops the views' background work
+        on_close.append(stop_tasks)
     tabs.setCurrentWidget(ranked)
 
     views = InstalledViews(context=context, ranked=ranked, facade=facade, floors=floors,

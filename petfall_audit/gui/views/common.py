@@ -7,22 +7,23 @@ selection, the history to push edits to, the options (units, palette) and the se
 
 from __future__ import annotations
 
-import math
 import traceback
 from collections.abc import Callable, Iterable, Sequence
-from dataclasses import dataclass
 from typing import Any
 
 from PySide6.QtCore import QObject, QRunnable, Qt, QThreadPool, Signal, Slot
 from PySide6.QtGui import QBrush, QColor, QFont
 from PySide6.QtWidgets import QLabel, QWidget
 
+from petfall_audit.gui.result_cells import Units, fmt_one_in, units_of
 from petfall_audit.palette import BandStyle, band_style
 
 __all__ = [
     "Selection",
     "Task",
     "run_task",
+    "wait_for_tasks",
+    "stop_tasks",
     "Units",
     "units_of",
     "band_brush",
@@ -92,12 +93,14 @@ class Task(QObject):
     @Slot(object)
     def _on_done(self, result: object) -> None:
         self.running = False
+        _LIVE.discard(self)
         if not self.cancelled:
             self.finished.emit(result)
 
     @Slot(str)
     def _on_failed(self, message: str) -> None:
         self.running = False
+        _LIVE.discard(self)
         if not self.cancelled:
             self.failed.emit(message)
 
@@ -143,6 +146,7 @@ class _Runnable(QRunnable):
 
 
 _POOL: QThreadPool | None = None
+_LIVE: set[Task] = set()  # started and not yet reported back
 
 
 def _pool() -> QThreadPool:
@@ -160,6 +164,7 @@ def run_task(fn: Callable[..., Any], *, parent: QObject | None = None,
     ``fn`` must take and return plain Python objects; connect to the returned task's signals
     before control returns to the event loop."""
     task = Task(parent)
+    _LIVE.add(task)
     _pool().start(_Runnable(task, fn, with_progress))
     return task
 
@@ -169,53 +174,19 @@ def wait_for_tasks(msecs: int = 30000) -> bool:
     return _POOL is None or bool(_POOL.waitForDone(msecs))
 
 
-# --- units --------------------------------------------------------------------------------------
-
-_FOOT_M = 0.3048
-_MPH_MPS = _FOOT_M * 5280 / 3600
-
-
-@dataclass(frozen=True, slots=True)
-class Units:
-    """Display units: divide metres by ``length_m`` to get ``length`` units, m/s by
-    ``speed_mps`` to get ``speed`` units."""
-
-    system: str
-    length: str
-    length_m: float
-    speed: str
-    speed_mps: float
-
-    def fmt_length(self, x_m: float, digits: int = 1) -> str:
-        if not math.isfinite(x_m):
-            return "—"
-        return f"{x_m / self.length_m:.{digits}f} {self.length}"
-
-    def fmt_speed(self, v_mps: float) -> str:
-        if not math.isfinite(v_mps):
-            return "—"
-        return f"{v_mps / self.speed_mps:.1f} {self.speed}"
-
-
-def units_of(system: str) -> Units:
-    """:class:`Units` of ``"metric"`` or ``"imperial"``."""
-    if system == "imperial":
-        return Units("imperial", "ft", _FOOT_M, "mph", _MPH_MPS)
-    return Units("metric", "m", 1.0, "m/s", 1.0)
+def stop_tasks(msecs: int = 30000) -> bool:
+    """Cancel every view task (those that report progress stop at the next report) and wait
+    for the pool thread to end them; True if it did within ``msecs`` (the window is closing)."""
+    for task in list(_LIVE):
+        task.cancel()
+    _LIVE.clear()
+    if _POOL is None:
+        return True
+    _POOL.clear()  # tasks not started yet never start
+    return bool(_POOL.waitForDone(msecs))
 
 
 # --- formatting -----------------------------------------------------------------------------------
-
-
-def fmt_one_in(n: float) -> str:
-    """Likelihood over 12 months as "1 in N"."""
-    if not math.isfinite(n) or n <= 0:
-        return "never" if n == math.inf else "—"
-    if n > 1e9:
-        return "never"
-    if n < 1.5:
-        return "1 in 1"
-    return f"1 in {n:,.0f}" if n < 1e5 else f"1 in {n:.2g}"
 
 
 def fmt_money(amount: float, currency: str) -> str:

@@ -43,8 +43,7 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from petfall_audit.figures import FacadeElevation, facade_elevations
-from petfall_audit.figures_extra import facade_context
+from petfall_audit.figures import FacadeElevation, facade_context, facade_elevations
 from petfall_audit.gui.views.common import ViewContext, band_qstyle, fmt_one_in
 from petfall_audit.injury import BANDS
 from petfall_audit.model import BALCONY_LIKE, Opening, Screen
@@ -466,7 +465,7 @@ class FacadeView(QWidget):
         margin = 0.08 * width + 2.0
         self.scene.setSceneRect(QRectF(-margin, y(top) - 0.12 * (top - ground) - 3.0,
                                        width + 2.5 * margin, (top - ground) * 1.2 + 9.0))
-        self._on_selection(self._ctx.selection.ids)
+        self._show_selection(self._ctx.selection.ids)  # the chosen facade stays shown
         self._on_stale(self._ctx.stale)
         self.fit_if_auto()
 
@@ -498,19 +497,25 @@ class FacadeView(QWidget):
     # --- selection, hover, keys -------------------------------------------------------------------
 
     def _on_selection(self, ids: Any) -> None:
-        chosen = set(ids)
-        for oid, item in self.items.items():
-            item.set_selected(oid in chosen)
+        """A new selection: show the facade of its current opening."""
         current = self._ctx.selection.current
         a = self._ctx.assessment
         if current is not None and current not in self.items and a is not None:
             try:
                 facade = a.result(current).facade
             except KeyError:
-                return
+                facade = None
             if facade != self._facade_id and facade in self._elevations:
                 self.set_facade(facade)  # rebuilds and selects
                 return
+        self._show_selection(ids)
+
+    def _show_selection(self, ids: Any) -> None:
+        """Mark the selected openings drawn on this facade."""
+        chosen = set(ids)
+        for oid, item in self.items.items():
+            item.set_selected(oid in chosen)
+        current = self._ctx.selection.current
         if current in self.items:
             self.canvas.ensureVisible(self.items[current], 20, 20)
             self.info.setText(self.items[current].tooltip_text.replace("\n", " · "))

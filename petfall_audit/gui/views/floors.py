@@ -22,7 +22,7 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from petfall_audit.figures_extra import LevelSummary, align_levels, level_summary
+from petfall_audit.figures import LevelSummary, align_levels, level_summary
 from petfall_audit.gui.views.common import Task, ViewContext, band_qstyle, run_task
 from petfall_audit.injury import BANDS
 
@@ -153,8 +153,8 @@ class FloorsView(QWidget):
         self.mode_box.setCurrentIndex(max(self.mode_box.findData(mode), 0))
 
     def open_earlier(self, path: Path | None = None) -> Task | None:
-        """Load and assess an earlier building file off the GUI thread (same samples and seed
-        as this audit); ``earlier_ready`` when done."""
+        """Load and assess an earlier building file off the GUI thread (the seed and the full
+        count of simulated falls of this audit's results); ``earlier_ready`` when done."""
         from petfall_audit.errors import BuildingFileError
         from petfall_audit.io.building_file import load_building
 
@@ -168,7 +168,8 @@ class FloorsView(QWidget):
             self.note.setText(f"! Cannot open {Path(path).name}: {exc}")
             return None
         recomputer = self._ctx.window.recomputer
-        assess_fn, samples, seed = recomputer.assess, recomputer.samples, recomputer.seed
+        assess_fn, seed = recomputer.assess, recomputer.seed
+        samples = recomputer.final_samples
         self.note.setText(f"Assessing {Path(path).name}…")
         if self._task is not None:
             self._task.cancel()

@@ -51,7 +51,7 @@ def fit_command(catalogue: Any, option: Any) -> SetOpeningFields | None:
 
 
 def _compute_options(assessment: Any) -> dict[str, Any]:
-    from petfall_audit.figures_extra import budget_grid
+    from petfall_audit.figures import budget_grid
     from petfall_audit.fixes import load_catalogue, opening_options
 
     catalogue = load_catalogue()

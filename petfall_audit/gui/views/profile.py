@@ -12,7 +12,7 @@ from PySide6.QtCore import Qt
 from PySide6.QtGui import QColor, QPen
 from PySide6.QtWidgets import QHBoxLayout, QLabel, QSplitter, QVBoxLayout, QWidget
 
-from petfall_audit.figures_extra import ImpactCurve, PosturePath, impact_speed_curve, posture_paths
+from petfall_audit.figures import ImpactCurve, PosturePath, impact_speed_curve, posture_paths
 from petfall_audit.gui.views.common import ViewContext, band_qstyle
 
 __all__ = ["ProfileView", "PATH_STYLES"]

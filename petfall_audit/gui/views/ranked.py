@@ -16,7 +16,6 @@ from PySide6.QtCore import (
     QSortFilterProxyModel,
     Qt,
 )
-from PySide6.QtGui import QBrush, QColor, QFont
 from PySide6.QtWidgets import (
     QAbstractItemView,
     QComboBox,
@@ -24,6 +23,7 @@ from PySide6.QtWidgets import (
     QHeaderView,
     QLabel,
     QLineEdit,
+    QSizePolicy,
     QSplitter,
     QTableView,
     QTextBrowser,
@@ -32,7 +32,8 @@ from PySide6.QtWidgets import (
 )
 
 from petfall_audit.editing.fields import enum_label
-from petfall_audit.gui.views.common import ViewContext, band_qstyle, fmt_one_in
+from petfall_audit.gui.result_cells import fmt_one_in, result_style, result_text
+from petfall_audit.gui.views.common import ViewContext, band_qstyle
 from petfall_audit.injury import BAND_DESCRIPTIONS, BANDS
 
 __all__ = ["RankedModel", "RankedFilter", "RankedView", "SORT_ROLE", "ID_ROLE"]
@@ -48,6 +49,8 @@ class RankedModel(QAbstractTableModel):
     COLUMNS = ("Band order", "Risk order", "Opening", "Floor", "Facade", "Kind",
                "Expected injury", "Likelihood (12 months)", "Median drop", "Impact speed (median)",
                "Risk score", "Main factor")
+    KEYS = ("rank", "risk_rank", "id", "floor", "facade", "kind", "band", "likelihood", "drop",
+            "speed", "risk", "factor")
     BAND_COL = 6
 
     def __init__(self, context: ViewContext, parent: QObject | None = None) -> None:
@@ -119,48 +122,8 @@ class RankedModel(QAbstractTableModel):
                     -r.expected_band * 1e6 + r.rank, -r.annual_probability, -r.drop_m.p50,
                     -r.impact_speed_mps.p50, -r.risk, r.factors[0] if r.factors else "")[col]
         if role == Qt.ItemDataRole.DisplayRole:
-            if col == 0:
-                return str(r.rank)
-            if col == 1:
-                return str(r.risk_rank)
-            if col == 2:
-                return r.id
-            if col == 3:
-                return self._floor_labels.get(r.floor, str(r.floor))
-            if col == 4:
-                return r.facade
-            if col == 5:
-                return enum_label(r.kind)
-            if col == 6:
-                style = band_qstyle(r.expected_band, self._ctx.palette)
-                return f"{style.mark} {BANDS[r.expected_band]}"
-            if col == 7:
-                return fmt_one_in(r.one_in_n)
-            if col == 8:
-                return units.fmt_length(r.drop_m.p50)
-            if col == 9:
-                return units.fmt_speed(r.impact_speed_mps.p50)
-            if col == 10:
-                return f"{r.risk:,.0f}"
-            if col == 11:
-                return r.factors[0] if r.factors else ""
-        if role == Qt.ItemDataRole.TextAlignmentRole and col in (0, 1, 7, 8, 9, 10):
-            return int(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
-        if role == Qt.ItemDataRole.BackgroundRole and col == self.BAND_COL and not self.stale:
-            return QBrush(QColor(band_qstyle(r.expected_band, self._ctx.palette).fill))
-        if role == Qt.ItemDataRole.ForegroundRole:
-            if self.stale:
-                return QBrush(QColor("#7A7A7A"))
-            if col == self.BAND_COL:
-                return QBrush(QColor(band_qstyle(r.expected_band, self._ctx.palette).text))
-        if role == Qt.ItemDataRole.FontRole and self.stale:
-            font = QFont()
-            font.setItalic(True)
-            return font
-        if role == Qt.ItemDataRole.ToolTipRole:
-            return "\n".join([f"{r.id}: {BANDS[r.expected_band]} expected",
-                              *(f"• {f}" for f in r.factors), *(f"• {h}" for h in r.hazards)])
-        return None
+            return result_text(r, self.KEYS[col], units, self._ctx.palette, self._floor_labels)
+        return result_style(r, self.KEYS[col], role, stale=self.stale, palette=self._ctx.palette)
 
 
 class RankedFilter(QSortFilterProxyModel):
@@ -257,11 +220,13 @@ class RankedView(QWidget):
                           (self.kind_box, "kind_filter"), (self.band_box, "band_filter")):
             box.setObjectName(name)
             box.setSizeAdjustPolicy(QComboBox.SizeAdjustPolicy.AdjustToContents)
+            box.setSizePolicy(QSizePolicy.Policy.Maximum, QSizePolicy.Policy.Fixed)
             box.currentIndexChanged.connect(self._on_filter_changed)
         self.search = QLineEdit()
         self.search.setObjectName("ranked_search")
         self.search.setPlaceholderText("Search id or factor…")
         self.search.setClearButtonEnabled(True)
+        self.search.setMinimumWidth(170)  # the placeholder stays readable
         self.search.textChanged.connect(self._on_filter_changed)
         self.count = QLabel()
         bar = QHBoxLayout()
@@ -286,6 +251,7 @@ class RankedView(QWidget):
         self.table.setAlternatingRowColors(True)
         self.table.setWordWrap(False)
         self.table.verticalHeader().hide()
+        self.table.verticalHeader().setDefaultSectionSize(22)  # as compact as the editors
         header = self.table.horizontalHeader()
         header.setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
         header.setStretchLastSection(True)

@@ -7,10 +7,8 @@ from typing import Any
 
 from PySide6.QtGui import QAction
 from PySide6.QtWidgets import (
-    QAbstractItemView,
     QLabel,
     QPushButton,
-    QTableView,
     QToolBar,
     QVBoxLayout,
     QWidget,
@@ -28,8 +26,7 @@ from petfall_audit.editing.fields import FLOOR_FIELDS, FieldSpec, format_value, 
 from petfall_audit.editing.history import History
 from petfall_audit.editing.query import elevations_for_storey_height, next_floor, storey_heights_m
 from petfall_audit.gui.adapters import RecordTableModel, ViewOptions, push_command
-from petfall_audit.gui.widgets.delegates import FieldDelegate
-from petfall_audit.gui.widgets.field_form import ERROR_STYLE
+from petfall_audit.gui.widgets.tables import error_label, record_table
 from petfall_audit.model import Building, Floor
 
 __all__ = ["FloorsPanel"]
@@ -63,21 +60,8 @@ class FloorsPanel(QWidget):
                    ("Openings", _openings_text)],
             editable_extra=self._edit_extra, extra_kinds=("openings",), parent=self,
         )
-        self.table = QTableView()
-        self.table.setObjectName("floors_table")
-        self.table.setModel(self.model)
-        self.table.setItemDelegate(FieldDelegate(lambda spec: [], self.table))
-        self.table.setSelectionBehavior(QAbstractItemView.SelectionBehavior.SelectRows)
-        self.table.verticalHeader().hide()
-        self.table.verticalHeader().setDefaultSectionSize(22)
-        self.table.setWordWrap(False)
-        self.table.horizontalHeader().setResizeContentsPrecision(40)
-        self.table.resizeColumnsToContents()
-        self.table.horizontalHeader().setStretchLastSection(True)
-        self.error = QLabel()
-        self.error.setStyleSheet(ERROR_STYLE)
-        self.error.setWordWrap(True)
-        self.error.hide()
+        self.table = record_table(self.model, "floors_table", lambda spec: [])
+        self.error = error_label()
         self.model.edit_failed.connect(self._on_edit_failed)
 
         bar = QToolBar()

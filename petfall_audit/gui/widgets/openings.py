@@ -14,7 +14,6 @@ from PySide6.QtWidgets import (
     QPushButton,
     QScrollArea,
     QSplitter,
-    QTableView,
     QToolBar,
     QVBoxLayout,
     QWidget,
@@ -26,8 +25,8 @@ from petfall_audit.editing.fields import OPENING_FIELDS, FieldSpec
 from petfall_audit.editing.history import History
 from petfall_audit.editing.query import unique_id
 from petfall_audit.gui.adapters import RecordTableModel, ViewOptions, push_command
-from petfall_audit.gui.widgets.delegates import FieldDelegate
-from petfall_audit.gui.widgets.field_form import ERROR_STYLE, MIXED, FieldForm
+from petfall_audit.gui.widgets.field_form import MIXED, FieldForm
+from petfall_audit.gui.widgets.tables import error_label, record_table
 from petfall_audit.model import Opening, OpeningKind
 
 __all__ = ["OpeningsPanel", "TABLE_FIELDS"]
@@ -50,31 +49,17 @@ class OpeningsPanel(QWidget):
             fields=TABLE_FIELDS,
             make_command=lambda key, changes: SetOpeningFields([key], changes), parent=self,
         )
-        self.table = QTableView()
-        self.table.setObjectName("openings_table")
-        self.table.setModel(self.model)
-        self.table.setItemDelegate(FieldDelegate(self._choices, self.table))
-        self.table.setSelectionBehavior(QAbstractItemView.SelectionBehavior.SelectRows)
-        self.table.setSelectionMode(QAbstractItemView.SelectionMode.ExtendedSelection)
+        self.table = record_table(self.model, "openings_table", self._choices, multi=True,
+                                  stretch_last=False)
         self.table.setEditTriggers(QAbstractItemView.EditTrigger.DoubleClicked
                                    | QAbstractItemView.EditTrigger.EditKeyPressed
                                    | QAbstractItemView.EditTrigger.AnyKeyPressed)
         self.table.setAlternatingRowColors(True)
-        self.table.verticalHeader().setDefaultSectionSize(22)
-        self.table.verticalHeader().hide()
-        self.table.verticalHeader().setDefaultSectionSize(22)
-        self.table.setWordWrap(False)
-        self.table.horizontalHeader().setResizeContentsPrecision(40)
-        self.table.resizeColumnsToContents()
         self.form = FieldForm(OPENING_FIELDS, options, self._commit_form, choices=self._choices)
         self.form.setObjectName("opening_form")
         self.form_title = QLabel("No opening selected")
         self.form_title.setObjectName("form_title")
-        self.table_error = QLabel()
-        self.table_error.setObjectName("table_error")
-        self.table_error.setStyleSheet(ERROR_STYLE)
-        self.table_error.setWordWrap(True)
-        self.table_error.hide()
+        self.table_error = error_label("table_error")
 
         bar = QToolBar()
         add = QPushButton("Add opening")
@@ -108,6 +93,7 @@ class OpeningsPanel(QWidget):
         splitter.addWidget(right)
         splitter.setStretchFactor(0, 3)
         splitter.setStretchFactor(1, 2)
+        splitter.setSizes([640, 360])  # the table first; the form scrolls
         layout = QHBoxLayout(self)
         layout.setContentsMargins(0, 0, 0, 0)
         layout.addWidget(splitter)

@@ -4,7 +4,6 @@ from __future__ import annotations
 
 from PySide6.QtCore import Qt
 from PySide6.QtWidgets import (
-    QAbstractItemView,
     QGroupBox,
     QHBoxLayout,
     QLabel,
@@ -28,8 +27,7 @@ from petfall_audit.editing.fields import FACADE_FIELDS, SURFACE_FIELDS, FieldSpe
 from petfall_audit.editing.history import History
 from petfall_audit.editing.query import unique_id
 from petfall_audit.gui.adapters import RecordTableModel, ViewOptions, push_command
-from petfall_audit.gui.widgets.delegates import FieldDelegate
-from petfall_audit.gui.widgets.field_form import ERROR_STYLE
+from petfall_audit.gui.widgets.tables import error_label, record_table
 from petfall_audit.model import Facade, Surface, SurfaceKind
 
 __all__ = ["SitePanel"]
@@ -49,12 +47,9 @@ class SitePanel(QWidget):
         self.surfaces_model = RecordTableModel(
             doc, history, options, kind="surfaces", items=lambda b: b.surfaces, key="id",
             fields=SURFACE_FIELDS, make_command=lambda key, ch: SetSurface(key, ch), parent=self)
-        self.facades_table = self._table(self.facades_model, "facades_table")
-        self.surfaces_table = self._table(self.surfaces_model, "surfaces_table")
-        self.error = QLabel()
-        self.error.setStyleSheet(ERROR_STYLE)
-        self.error.setWordWrap(True)
-        self.error.hide()
+        self.facades_table = record_table(self.facades_model, "facades_table", self._choices)
+        self.surfaces_table = record_table(self.surfaces_model, "surfaces_table", self._choices)
+        self.error = error_label()
         for model in (self.facades_model, self.surfaces_model):
             model.edit_failed.connect(
                 lambda key, _f, msg: self._show_error(f"{key}: {msg} (the old value is kept)"))
@@ -81,20 +76,6 @@ class SitePanel(QWidget):
 
     def _choices(self, spec: FieldSpec) -> list[str]:
         return [f.id for f in self._doc.building.facades] if spec.kind == "ref" else []
-
-    def _table(self, model: RecordTableModel, name: str) -> QTableView:
-        table = QTableView()
-        table.setObjectName(name)
-        table.setModel(model)
-        table.setItemDelegate(FieldDelegate(self._choices, table))
-        table.setSelectionBehavior(QAbstractItemView.SelectionBehavior.SelectRows)
-        table.setSelectionMode(QAbstractItemView.SelectionMode.SingleSelection)
-        table.verticalHeader().hide()
-        table.setWordWrap(False)
-        table.horizontalHeader().setStretchLastSection(True)
-        table.horizontalHeader().setResizeContentsPrecision(40)
-        table.resizeColumnsToContents()
-        return table
 
     def _group(self, title: str, table: QTableView, add, remove, hint: str) -> QGroupBox:  # type: ignore[no-untyped-def]
         box = QGroupBox(title)

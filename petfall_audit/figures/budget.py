@@ -1,0 +1,41 @@
+"""Budgets at which to draw the risk-against-budget curve (the catalogue's currency)."""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Mapping, Sequence
+from typing import TYPE_CHECKING
+
+import numpy as np
+from numpy.typing import NDArray
+
+if TYPE_CHECKING:
+    from petfall_audit.fixes import Option
+
+__all__ = ["budget_grid", "knee_budget"]
+
+
+def knee_budget(options: Mapping[str, Sequence[Option]]) -> float:
+    """Cost of the recommended option (:func:`petfall_audit.fixes.recommend`) of every opening
+    together: about where the risk-against-budget curve flattens (catalogue's currency)."""
+    from petfall_audit.fixes import recommend
+
+    return float(sum(o.cost for o in recommend(options).values() if o is not None))
+
+
+def budget_grid(options: Mapping[str, Sequence[Option]], n_points: int = 25) -> NDArray[np.float64]:
+    """``n_points`` budgets for the risk-against-budget curve: 0, then geometrically spaced from
+    the cheapest option to a little beyond the cost at which every opening has its most effective
+    option (more money removes no more risk), so the bend of the curve is resolved on a log axis;
+    the catalogue's currency."""
+    top = 0.0
+    cheapest = math.inf
+    for opts in options.values():
+        if opts:
+            best = min(opts, key=lambda o: (-o.risk_removed, o.cost))
+            top += float(best.cost)
+            cheapest = min(cheapest, min(float(o.cost) for o in opts))
+    if top <= 0:
+        return np.zeros(1)
+    low = max(cheapest, top * 1e-5, 1.0)
+    return np.concatenate([[0.0], np.geomspace(low, 1.1 * top, max(int(n_points) - 1, 2))])
