@@ -11,7 +11,7 @@ import argparse
 import json
 import math
 import sys
-from collections.abc import Callable, Sequence
+from collections.abc import Callable, Sequence, Sized
 from pathlib import Path
 from typing import TYPE_CHECKING
 
@@ -83,6 +83,19 @@ def _require_at_least(name: str, value: float | None, low: float) -> None:
         raise _refuse(f"{name} must be at least {low:g}")
 
 
+def _check_output(path: str | Path | None) -> None:
+    """Refuse (exit 2) before any work an output path whose folder is missing or that is a
+    folder, so a long computation never ends in "cannot write"."""
+    if not path:
+        return
+    from petfall_audit.io.atomic import check_writable_path
+
+    try:
+        check_writable_path(path)
+    except OSError as exc:
+        raise _refuse(f"{path}: {exc.strerror}") from None
+
+
 def _load(path: str) -> Building:
     """The building in ``path``; its problems go to stderr and end the command with exit 2."""
     from petfall_audit.io.building_file import load_building
@@ -113,7 +126,7 @@ def _assess(args: argparse.Namespace, building: Building, *, sensitivity: bool =
     from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
     from petfall_audit.sensitivity import with_sensitivity
 
-    _require_at_least("--samples", args.samples, 1)
+    _check_sampling(args, building)
     assessment = assess(
         building,
         samples=DEFAULT_SAMPLES if args.samples is None else args.samples,
@@ -121,6 +134,23 @@ def _assess(args: argparse.Namespace, building: Building, *, sensitivity: bool =
         progress=_stderr_progress(label),
     )
     return with_sensitivity(assessment) if sensitivity else assessment
+
+
+def _check_sampling(args: argparse.Namespace, building: Building | None = None) -> None:
+    """Refuse a negative seed, fewer than one sample, or more samples than fit in memory."""
+    from petfall_audit.risk import MAX_FALLS, max_samples
+
+    _require_at_least("--samples", args.samples, 1)
+    _require_at_least("--seed", args.seed, 0)
+    if building is not None and args.samples is not None:
+        n_open = len(building.openings)
+        most = max_samples(n_open)
+        if args.samples > most:
+            raise _refuse(
+                f"--samples {args.samples} is too many for {n_open} opening(s): at most "
+                f"{MAX_FALLS:,} simulated falls fit in memory at once; use --samples {most} "
+                "or fewer"
+            )
 
 
 def _emit(text: str, output: str | None) -> None:
@@ -134,6 +164,11 @@ def _emit(text: str, output: str | None) -> None:
         sys.stdout.write(text)
 
 
+def _count(items: Sized, noun: str) -> str:
+    """``"1 floor"``, ``"3 floors"``."""
+    return f"{len(items)} {noun}{'' if len(items) == 1 else 's'}"
+
+
 def _dumps(doc: object) -> str:
     return json.dumps(doc, indent=2, ensure_ascii=False) + "\n"
 
@@ -144,9 +179,9 @@ def _dumps(doc: object) -> str:
 def _cmd_check(args: argparse.Namespace) -> int:
     building = _load(args.file)
     print(
-        f"{args.file}: valid — {building.info.name}: {len(building.floors)} floors, "
-        f"{len(building.facades)} facades, {len(building.surfaces)} surfaces, "
-        f"{len(building.openings)} openings"
+        f"{args.file}: valid — {building.info.name}: {_count(building.floors, 'floor')}, "
+        f"{_count(building.facades, 'facade')}, {_count(building.surfaces, 'surface')}, "
+        f"{_count(building.openings, 'opening')}"
     )
     return EXIT_OK
 
@@ -158,6 +193,8 @@ def _cmd_assess(args: argparse.Namespace) -> int:
         assessment_to_table,
     )
 
+    _check_output(args.output)
+    _check_sampling(args)
     building = _load(args.file)
     assessment = _assess(
         args, building, sensitivity=args.format == "json" and not args.no_sensitivity
@@ -179,6 +216,8 @@ def _cmd_plan(args: argparse.Namespace) -> int:
 
     if not math.isfinite(args.budget) or args.budget < 0:
         raise _refuse("--budget must be an amount of 0 or more")
+    _check_output(args.output)
+    _check_sampling(args)
     building = _load(args.file)
     try:
         catalogue = load_catalogue(args.controls)
@@ -212,6 +251,9 @@ def _cmd_report(args: argparse.Namespace) -> int:
     fmt: str = args.format or {".csv": "csv", ".json": "json"}.get(suffix, "pdf")
     _require_at_least("--top", args.top, 0)
     _require_at_least("--budget", args.budget, 0)
+    _check_sampling(args)
+    _check_output(args.output)
+    _check_output(args.leaflet)
     building = _load(args.file)
     assessment = _assess(args, building)
     plan = make_plan(assessment, args.budget) if args.budget is not None else None
@@ -236,7 +278,8 @@ def _cmd_report(args: argparse.Namespace) -> int:
 
 def _cmd_batch(args: argparse.Namespace) -> int:
     """Assess many buildings; one result file each plus a summary CSV. Bad files are listed
-    and skipped; the exit code is 2 if any file could not be assessed."""
+    and skipped; the exit code is 2 if any file could not be assessed. Two files with the same
+    name get ``name.json`` and ``name-2.json``; the summary names each result file."""
     import csv
     import io
 
@@ -248,26 +291,31 @@ def _cmd_batch(args: argparse.Namespace) -> int:
     from petfall_audit.report import write_audit
 
     _require_at_least("--budget", args.budget, 0)
-    _require_at_least("--samples", args.samples, 1)
+    _check_sampling(args)
     out_dir = Path(args.out_dir)
+    if out_dir.exists() and not out_dir.is_dir():
+        raise _refuse(f"--out-dir {out_dir}: is a file, not a folder")
     out_dir.mkdir(parents=True, exist_ok=True)
     rows: list[list[object]] = []
     failed = 0
+    taken = {"summary"}  # result names in use (case-insensitive, as on some file systems)
     for n, name in enumerate(args.files, 1):
         try:
             building = _load(name)
+            assessment = _assess(args, building,
+                                 label=f"[{n}/{len(args.files)}] {Path(name).stem}")
         except _Stop:
             failed += 1
             continue
-        assessment = _assess(args, building, label=f"[{n}/{len(args.files)}] {Path(name).stem}")
-        stem = out_dir / Path(name).stem
+        stem = _unique_stem(Path(name).stem, taken)
+        result_path = out_dir / f"{stem}.{args.format}"
         if args.format == "json":
-            atomic_write_text(stem.with_suffix(".json"), _dumps(assessment_to_dict(assessment)))
+            atomic_write_text(result_path, _dumps(assessment_to_dict(assessment)))
         elif args.format == "csv":
-            atomic_write_text(stem.with_suffix(".csv"), assessment_to_csv(assessment))
+            atomic_write_text(result_path, assessment_to_csv(assessment))
         plan = make_plan(assessment, args.budget) if args.budget is not None else None
         if args.format == "pdf":
-            write_audit(assessment, plan, stem.with_suffix(".pdf"))
+            write_audit(assessment, plan, result_path)
         counts = [0] * len(BANDS)
         for result in assessment.openings:
             counts[result.expected_band] += 1
@@ -276,16 +324,29 @@ def _cmd_batch(args: argparse.Namespace) -> int:
             name, building.info.name, len(building.openings), *counts,
             worst.id if worst else "", f"{float(assessment.risk.sum()):.0f}",
             f"{plan.total_cost:.0f}" if plan else "", f"{plan.risk_after:.0f}" if plan else "",
+            result_path.name,
         ])
     buffer = io.StringIO()
     buffer.write(f"# {CAUTIONS_SHORT}\n")
     writer = csv.writer(buffer, lineterminator="\n")
     writer.writerow(["file", "building", "openings", *(f"expected_{b}" for b in BANDS),
-                     "highest_risk_opening", "risk_total", "plan_cost", "risk_after_plan"])
+                     "highest_risk_opening", "risk_total", "plan_cost", "risk_after_plan",
+                     "result_file"])
     writer.writerows(rows)
     atomic_write_text(out_dir / "summary.csv", buffer.getvalue())
     print(f"assessed {len(rows)} of {len(args.files)} building(s); wrote {out_dir / 'summary.csv'}")
     return EXIT_INVALID if failed else EXIT_OK
+
+
+def _unique_stem(stem: str, taken: set[str]) -> str:
+    """``stem``, or ``stem-2``, ``stem-3``... when a result of that name (any case) is already
+    written, so two buildings never overwrite each other's results; adds it to ``taken``."""
+    candidate, k = stem, 1
+    while candidate.casefold() in taken:
+        k += 1
+        candidate = f"{stem}-{k}"
+    taken.add(candidate.casefold())
+    return candidate
 
 
 def _cmd_import(args: argparse.Namespace) -> int:
@@ -335,8 +396,8 @@ def _cmd_import(args: argparse.Namespace) -> int:
     save_building(updated, Path(args.into))
     print(f"{args.schedule} -> {args.into} ({args.mode}): {preview.summary()}")
     print(
-        f"{args.into}: {len(updated.floors)} floors, {len(updated.facades)} facades, "
-        f"{len(updated.openings)} openings"
+        f"{args.into}: {_count(updated.floors, 'floor')}, {_count(updated.facades, 'facade')}, "
+        f"{_count(updated.openings, 'opening')}"
     )
     print(CAUTIONS_SHORT)
     return EXIT_OK
@@ -345,6 +406,7 @@ def _cmd_import(args: argparse.Namespace) -> int:
 def _cmd_template(args: argparse.Namespace) -> int:
     from petfall_audit.io.template import template_headers, write_template
 
+    _check_output(args.out)
     write_template(Path(args.out), system=args.units)
     print(
         f"{args.out}: blank {args.units} schedule, {len(template_headers(args.units))} columns "
@@ -430,8 +492,9 @@ def _build_parser() -> argparse.ArgumentParser:
     p = sub.add_parser(
         "batch",
         help="assess many building files; one result file each and a summary CSV",
-        description="Assess every FILE and write DIR/<name>.json|.csv|.pdf and DIR/summary.csv. "
-        "Files with problems are listed and skipped. Indicative model only.",
+        description="Assess every FILE and write DIR/<name>.json|.csv|.pdf and DIR/summary.csv "
+        "(<name>-2... when two files share a name). Files with problems are listed and skipped. "
+        "Indicative model only.",
     )
     p.add_argument("files", nargs="+", metavar="FILE", help="building files (.json)")
     p.add_argument("--out-dir", required=True, metavar="DIR", help="folder for the results")
@@ -489,8 +552,12 @@ def main(argv: Sequence[str] | None = None) -> int:
         print(f"petfall-audit: {exc}", file=sys.stderr)
         return EXIT_INVALID
     except OSError as exc:
-        print(f"petfall-audit: {exc.strerror or exc}: {exc.filename or ''}", file=sys.stderr)
+        where = f"{exc.filename}: " if exc.filename else ""
+        print(f"petfall-audit: {where}{exc.strerror or exc}", file=sys.stderr)
         return EXIT_FAILURE
+    except KeyboardInterrupt:
+        print("\npetfall-audit: interrupted; no output was left half-written", file=sys.stderr)
+        return 130
 
 
 if __name__ == "__main__":  # pragma: no cover

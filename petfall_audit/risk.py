@@ -48,6 +48,8 @@ __all__ = [
     "percentiles",
     "severity_of_falls",
     "assess",
+    "MAX_FALLS",
+    "max_samples",
 ]
 
 #: Version of the injury, likelihood and risk model; changes whenever a default changes.
@@ -55,6 +57,16 @@ MODEL_VERSION = "risk-model 1.0"
 
 #: HHSRS harm-class weights for our bands, mildest first (classes IV, III, II, I).
 HHSRS_CLASS_WEIGHTS: npt.NDArray[np.float64] = np.array([10.0, 300.0, 1000.0, 10000.0])
+
+#: Most simulated falls (openings × samples) in one assessment: about 0.6 GB of memory, 1.2 GB
+#: with the sensitivity summary.
+MAX_FALLS = 10_000_000
+
+
+def max_samples(n_openings: int) -> int:
+    """The most samples :func:`assess` takes for a building with ``n_openings`` openings."""
+    return MAX_FALLS // max(1, n_openings)
+
 
 _MOSTLY_UNRIGHTED = 0.10  # share of unrighted landings worth a factor line
 
@@ -258,10 +270,16 @@ def assess(
     The same samples serve every opening (common random numbers). ``progress(done, total)`` is
     called as the simulation advances. For the sensitivity of the top risks to the cat profile,
     pass the result to :func:`petfall_audit.sensitivity.with_sensitivity`.
-    Same inputs, same result.
+    Same inputs, same result. ``samples`` may be at most :func:`max_samples` (memory).
     """
     if samples < 1:
         raise ValueError(f"samples must be at least 1, got {samples}")
+    if samples > max_samples(len(building.openings)):
+        raise ValueError(
+            f"samples must be at most {max_samples(len(building.openings))} for "
+            f"{len(building.openings)} openings (at most {MAX_FALLS:,} simulated falls), "
+            f"got {samples}"
+        )
     cat = sample_cat_profile(building.cat_profile, samples, seed=seed)
     falls = simulate_falls(building, cat, progress=progress)
     return _assess_from_falls(

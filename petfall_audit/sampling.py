@@ -154,9 +154,12 @@ def sample_cat_profile(
     """Draw ``n`` cats from ``profile`` with generator seed ``seed`` (same seed, same cats).
 
     See the module docstring for the sampling scheme. Raises ``ValueError`` naming the parameter
-    when a distribution is invalid (e.g. a fixed mass of 0 or a relax fraction of 1)."""
+    when a distribution is invalid (e.g. a fixed mass of 0 or a relax fraction of 1), and for a
+    negative or non-integer ``seed``."""
     if isinstance(n, bool) or not isinstance(n, int | np.integer) or n < 1:
         raise ValueError(f"n must be a positive integer, got {n!r}")
+    if isinstance(seed, bool) or not isinstance(seed, int | np.integer) or seed < 0:
+        raise ValueError(f"seed must be a whole number of 0 or more, got {seed!r}")
     p = profile.relax_probability
     if not (isinstance(p, int | float) and 0.0 <= p <= 1.0):
         raise ValueError(f"relax_probability must lie in [0, 1], got {p!r}")

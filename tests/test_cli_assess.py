@@ -149,3 +149,66 @@ def test_table_percentages_add_up() -> None:
     assert sum(got) == 100 and all(abs(g - 100 * s) < 1 for g, s in zip(got, shares, strict=True))
     assert _whole_percents([0.0, 0.0, 0.014, 0.986]) == [0, 0, 1, 99]
     assert sum(_whole_percents([1 / 3, 1 / 3, 1 / 3, 0.0])) == 100
+
+
+# --- regressions found by exercising the command as a user --------------------------------------
+
+
+def test_missing_output_folder_is_refused_before_work_naming_the_file(
+    building_file: Path, tmp_path: Path, capsys: pytest.CaptureFixture[str]
+) -> None:
+    out = tmp_path / "no-such-folder" / "a.json"
+    assert main(["assess", str(building_file), "--format", "json", "-o", str(out)]) == 2
+    err = capsys.readouterr().err
+    assert str(out) in err and "does not exist" in err
+    assert ".tmp" not in err and "Traceback" not in err  # never the hidden temporary file
+
+
+def test_output_that_is_a_folder_is_refused(
+    building_file: Path, tmp_path: Path, capsys: pytest.CaptureFixture[str]
+) -> None:
+    assert main(["assess", str(building_file), "-o", str(tmp_path)]) == 2
+    err = capsys.readouterr().err
+    assert "is a folder" in err and ".tmp" not in err
+
+
+@pytest.mark.parametrize("seed", ["-1", "-99999999999999999999999"])
+def test_negative_seed_is_refused_without_a_traceback(
+    building_file: Path, seed: str, capsys: pytest.CaptureFixture[str]
+) -> None:
+    assert main(["assess", str(building_file), "--samples", "50", "--seed", seed]) == 2
+    err = capsys.readouterr().err
+    assert "--seed" in err and "Traceback" not in err
+
+
+def test_huge_seed_is_fine(building_file: Path, capsys: pytest.CaptureFixture[str]) -> None:
+    assert main(["assess", str(building_file), "--samples", "50",
+                 "--seed", "99999999999999999999999"]) == 0
+    assert "99999999999999999999999" in capsys.readouterr().out
+
+
+def test_more_samples_than_fit_in_memory_are_refused_with_the_most_allowed(
+    building_file: Path, capsys: pytest.CaptureFixture[str]
+) -> None:
+    from petfall_audit.risk import max_samples
+
+    most = max_samples(16)  # the building has 16 openings
+    assert main(["assess", str(building_file), "--samples", str(most + 1)]) == 2
+    err = capsys.readouterr().err
+    assert f"--samples {most} or fewer" in err
+
+
+def test_table_prose_fits_an_80_column_terminal() -> None:
+    a = assess(_building(), samples=100, seed=1)
+    table = assessment_to_table(a)
+    prose = table.split("Other hazards:")[1] if "Other hazards:" in table else ""
+    tail = table[table.index("Speed and drop are medians"):]
+    assert prose.strip() and all(len(line) <= 80 for line in (prose + tail).splitlines())
+    assert "veterinarian" in tail
+
+
+def test_table_of_a_building_without_openings_says_so() -> None:
+    empty = Building(info=BuildingInfo(name="Bare Hall"), floors=(Floor(0, "G", 0.0),),
+                     facades=(Facade("south", 10.0),))
+    table = assessment_to_table(assess(empty, samples=10, seed=1))
+    assert "no openings recorded" in table and "Indicative model" in table

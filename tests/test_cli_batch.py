@@ -52,3 +52,28 @@ def test_batch_skips_a_broken_file_and_exits_2(tmp_path: Path,
     rows = _summary(out)
     assert [Path(r["file"]).stem for r in rows] == ["walkup"]
     assert (out / "walkup.csv").exists() and not (out / "broken.csv").exists()
+
+
+def test_batch_never_overwrites_results_of_files_with_the_same_name(tmp_path: Path) -> None:
+    a, b = tmp_path / "a", tmp_path / "b"
+    a.mkdir()
+    b.mkdir()
+    (a / "summary.json").write_bytes(sample_path("walkup").read_bytes())
+    (b / "summary.json").write_bytes(sample_path("block").read_bytes())
+    out = tmp_path / "out"
+    assert main(["batch", str(a / "summary.json"), str(b / "summary.json"),
+                 "--out-dir", str(out), "--samples", "100", "--format", "csv"]) == 0
+    rows = _summary(out)  # the summary itself is not overwritten by a building's result
+    assert [r["result_file"] for r in rows] == ["summary-2.csv", "summary-3.csv"]
+    assert [r["building"] for r in rows] == [sample_building("walkup").info.name,
+                                             sample_building("block").info.name]
+    for row in rows:
+        assert (out / row["result_file"]).read_text("utf-8").startswith("# ")
+
+
+def test_batch_out_dir_that_is_a_file_is_refused(tmp_path: Path,
+                                                  capsys: pytest.CaptureFixture[str]) -> None:
+    file = tmp_path / "results"
+    file.write_text("x", "utf-8")
+    assert main(["batch", str(sample_path("walkup")), "--out-dir", str(file)]) == 2
+    assert "not a folder" in capsys.readouterr().err

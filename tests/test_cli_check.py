@@ -63,3 +63,13 @@ def test_check_on_a_missing_file_exits_2(
 ) -> None:
     assert main(["check", str(tmp_path / "none.json")]) == 2
     assert "cannot read the file" in capsys.readouterr().err
+
+
+def test_check_counts_read_as_english(tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
+    doc = {"format": "petfall-audit-building", "version": 1, "building": {"name": "One Room"},
+           "floors": [{"level": 0, "label": "G", "elevation_m": 0.0}],
+           "facades": [{"id": "front", "length_m": 5.0}]}
+    path = tmp_path / "one.json"
+    path.write_text(json.dumps(doc), "utf-8")
+    assert main(["check", str(path)]) == 0
+    assert "1 floor, 1 facade, 0 surfaces, 0 openings" in capsys.readouterr().out

@@ -135,3 +135,11 @@ def test_invalid_input_exits_2_with_a_located_message(capsys, tmp_path: Path) ->
     assert code == 2
     code, _, _ = _run(capsys, "plan", WALKUP)  # --budget is required
     assert code == 2
+
+
+def test_table_fits_an_80_column_terminal(capsys) -> None:  # type: ignore[no-untyped-def]
+    # The tower's plan has long control names and conditions; every line once ran past 200.
+    code, out, _ = _run(capsys, "plan", str(sample_path("tower")), "--budget", "3000",
+                        "--samples", "200")
+    assert code == 0 and "condition:" in out
+    assert max(len(line) for line in out.splitlines()) <= 80

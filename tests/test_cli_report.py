@@ -60,3 +60,29 @@ def test_report_bad_input_exit_2(tmp_path: Path, capsys: pytest.CaptureFixture[s
     assert main(["report", str(sample_path("walkup")), "-o", str(tmp_path / "a.pdf"),
                  "--format", "xml"]) == 2
     assert not (tmp_path / "a.pdf").exists()
+
+
+def test_leaflet_to_a_missing_folder_is_refused_before_the_audit_is_written(
+    tmp_path: Path, capsys: pytest.CaptureFixture[str]
+) -> None:
+    out = tmp_path / "audit.pdf"
+    code = main(["report", str(sample_path("walkup")), "-o", str(out),
+                 "--leaflet", str(tmp_path / "missing" / "leaflet.pdf"), *FAST])
+    assert code == 2
+    assert not out.exists()  # nothing half-done: the audit is not written either
+    err = capsys.readouterr().err
+    assert "leaflet.pdf" in err and ".tmp" not in err
+
+
+def test_report_of_a_building_without_openings_says_so(tmp_path: Path) -> None:
+    from petfall_audit.io.building_file import save_building
+    from petfall_audit.model import Building, BuildingInfo, Facade, Floor
+
+    path = tmp_path / "bare.json"
+    save_building(Building(info=BuildingInfo(name="Bare Hall"), floors=(Floor(0, "G", 0.0),),
+                           facades=(Facade("south", 10.0),)), path)
+    out = tmp_path / "bare.pdf"
+    assert main(["report", str(path), "-o", str(out), "--budget", "100", *FAST]) == 0
+    text = _text(out)
+    assert "No openings are recorded" in text
+    assert "()" not in text  # the scope once listed the opening kinds as "()"

@@ -301,3 +301,12 @@ def test_percentiles_match_numpy() -> None:
             [o.impact_speed_mps.p5, o.impact_speed_mps.p50, o.impact_speed_mps.p95], ref_v,
             rtol=1e-12)
     np.testing.assert_allclose(percentiles(np.arange(101.0)), [5.0, 50.0, 95.0])
+
+
+def test_more_samples_than_fit_in_memory_are_refused() -> None:
+    from petfall_audit.risk import MAX_FALLS, max_samples
+
+    b = _building([_window("W1", 2), _window("W2", 3)])
+    assert max_samples(2) == MAX_FALLS // 2 and max_samples(0) == MAX_FALLS
+    with pytest.raises(ValueError, match="at most"):
+        assess(b, samples=max_samples(2) + 1, seed=1)

@@ -141,3 +141,9 @@ def test_invalid_probability_and_count() -> None:
 def test_normal_relax_fraction_truncated_inside_unit_interval() -> None:
     s = sample_cat_profile(dataclasses.replace(ADULT, relax_fraction=Normal(0.9, 0.2)), 5000)
     assert np.all((s.relax_fraction > 0) & (s.relax_fraction < 1))
+
+
+@pytest.mark.parametrize("seed", [-1, 1.5, "1", True])
+def test_invalid_seed_is_a_clear_value_error(seed: object) -> None:
+    with pytest.raises(ValueError, match="seed must be a whole number"):
+        sample_cat_profile(CAT_PRESETS["adult"], 10, seed=seed)  # type: ignore[arg-type]

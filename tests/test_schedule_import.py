@@ -513,3 +513,18 @@ def test_building_checks_land_on_the_row_that_caused_them(tmp_path: Path) -> Non
     assert set(found) == {(2, "C"), (3, "G")}
     assert "not above level 3" in found[(2, "C")]
     assert [o.id for o in preview.openings] == ["A3"]
+
+
+@pytest.mark.parametrize("name", ["missing.csv", "missing.xlsx", "folder.csv"])
+def test_unreadable_schedule_is_a_schedule_import_error(tmp_path: Path, name: str) -> None:
+    (tmp_path / "folder.csv").mkdir()
+    with pytest.raises(ScheduleImportError, match="cannot read the file"):
+        read_table(tmp_path / name)
+
+
+def test_cli_import_of_a_missing_schedule_exits_2(tmp_path: Path,
+                                                   capsys: pytest.CaptureFixture[str]) -> None:
+    into = tmp_path / "b.json"
+    save_building(_building(), into)
+    assert main(["import", str(tmp_path / "missing.csv"), "--into", str(into)]) == 2
+    assert "cannot read the file" in capsys.readouterr().err

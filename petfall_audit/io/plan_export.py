@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import csv
 import io
+import textwrap
 from typing import Any
 
 from petfall_audit.cautions import CAUTIONS
@@ -35,6 +36,8 @@ CSV_COLUMNS = (
     "risk_after",
     "conditions",
 )
+#: Conditions and cautions in the terminal table are wrapped to this many columns.
+TEXT_WIDTH = 80
 #: Separator of several conditions in one CSV cell.
 CONDITION_SEPARATOR = " | "
 
@@ -94,7 +97,7 @@ def plan_to_csv(plan: Plan) -> str:
 
 def plan_to_table(plan: Plan) -> str:
     """A plain-text table for a terminal: summary, one line per action with its conditions
-    below it, then the cautions."""
+    below it, then the cautions; prose wrapped to :data:`TEXT_WIDTH` columns."""
     cur = plan.currency
     share = plan.risk_removed / plan.risk_before if plan.risk_before > 0 else 0.0
     lines = [
@@ -111,19 +114,25 @@ def plan_to_table(plan: Plan) -> str:
     if plan.actions:
         w_open = max(len("Opening"), *(len(a.opening_id) for a in plan.actions))
         w_ctrl = max(len("Control"), *(len(a.control_name) for a in plan.actions))
+        w_cost = max(len("Cost"), *(len(f"{a.cost:,.0f}") for a in plan.actions))
+        w_risk = max(len("Risk before"), *(len(f"{a.risk_before:,.1f}") for a in plan.actions))
         lines.append(
-            f"{'Opening':<{w_open}}  {'Control':<{w_ctrl}}  {'Cost':>10}  "
-            f"{'Risk before':>12}  {'Risk after':>12}"
+            f"{'Opening':<{w_open}}  {'Control':<{w_ctrl}}  {'Cost':>{w_cost}}  "
+            f"{'Risk before':>{w_risk}}  {'Risk after':>{w_risk}}"
         )
         for a in plan.actions:
             lines.append(
-                f"{a.opening_id:<{w_open}}  {a.control_name:<{w_ctrl}}  {a.cost:>10,.0f}  "
-                f"{a.risk_before:>12,.1f}  {a.risk_after:>12,.1f}"
+                f"{a.opening_id:<{w_open}}  {a.control_name:<{w_ctrl}}  {a.cost:>{w_cost},.0f}  "
+                f"{a.risk_before:>{w_risk},.1f}  {a.risk_after:>{w_risk},.1f}"
             )
-            lines.extend(f"{'':<{w_open}}    condition: {c}" for c in a.conditions)
+            for c in a.conditions:
+                lines += textwrap.wrap(f"condition: {c}", TEXT_WIDTH,
+                                       initial_indent=" " * (w_open + 4),
+                                       subsequent_indent=" " * (w_open + 6))
     else:
         lines.append("No action fits the budget or lowers the risk.")
     lines.append("")
     lines.append("Cautions:")
-    lines.extend(f"- {c}" for c in CAUTIONS)
+    for c in CAUTIONS:
+        lines += textwrap.wrap(c, TEXT_WIDTH, initial_indent="- ", subsequent_indent="  ")
     return "\n".join(lines) + "\n"

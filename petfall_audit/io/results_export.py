@@ -10,6 +10,7 @@ from __future__ import annotations
 import csv
 import io
 import math
+import textwrap
 from typing import Any
 
 from petfall_audit import __version__
@@ -27,6 +28,8 @@ __all__ = [
 ]
 
 SIGNIFICANT_DIGITS = 4
+#: Prose under the terminal table (hazards, cautions) is wrapped to this many columns.
+TEXT_WIDTH = 80
 
 
 def _r(x: float) -> float | None:
@@ -197,7 +200,8 @@ def _one_in(n: float) -> str:
 
 def assessment_to_table(a: Assessment, *, by: str = "band", limit: int | None = None) -> str:
     """A readable fixed-width table, worst first (``by`` ``"band"`` or ``"risk"``), with the
-    hazards and the cautions below it. ``limit`` shows only the first rows."""
+    hazards and the cautions below it, wrapped to :data:`TEXT_WIDTH` columns. ``limit`` shows
+    only the first rows."""
     rows = a.ranked("risk" if by == "risk" else "band")
     shown = rows if limit is None else rows[:limit]
     head = ("Rank", "Opening", "Floor", "Facade", "Expected band", "Min/Mod/Ser/Life %",
@@ -231,9 +235,13 @@ def assessment_to_table(a: Assessment, *, by: str = "band", limit: int | None = 
     if limit is not None and len(rows) > limit:
         lines.append(f"... {len(rows) - limit} more openings")
     hazards = [(o.id, h) for o in shown for h in o.hazards]
+    if not rows:
+        lines.append("(no openings recorded: nothing to assess)")
     if hazards:
         lines += ["", "Other hazards:"]
-        lines += [f"  {oid}: {h}" for oid, h in hazards]
+        for oid, h in hazards:
+            lines += textwrap.wrap(f"{oid}: {h}", TEXT_WIDTH, initial_indent="  ",
+                                   subsequent_indent="    ")
     lines += ["", "Speed and drop are medians; 'Per year' is the chance of a fall in 12 months.",
-              "", CAUTIONS_SHORT, ""]
+              "", *textwrap.wrap(CAUTIONS_SHORT, TEXT_WIDTH), ""]
     return "\n".join(lines)

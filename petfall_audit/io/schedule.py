@@ -534,7 +534,11 @@ def _decode(data: bytes) -> str:
 
 
 def _read_csv(path: Path) -> list[list[str]]:
-    text = _decode(path.read_bytes())
+    try:
+        data = path.read_bytes()
+    except OSError as exc:
+        raise ScheduleImportError(f"{path}: cannot read the file: {exc.strerror or exc}") from None
+    text = _decode(data)
     if not text.strip():
         raise ScheduleImportError(f"{path.name}: the file is empty")
     delimiter = _sniff_delimiter(text)
@@ -572,6 +576,9 @@ def _cell_text(value: Any) -> str:
 def _read_xlsx(path: Path) -> list[list[str]]:
     import openpyxl
 
+    if not path.is_file():
+        what = "is a folder" if path.is_dir() else "no such file"
+        raise ScheduleImportError(f"{path}: cannot read the file: {what}")
     try:
         workbook = openpyxl.load_workbook(path, read_only=True, data_only=True)
     except Exception as exc:  # openpyxl raises many kinds for a damaged or foreign file

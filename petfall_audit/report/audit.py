@@ -41,8 +41,9 @@ def audit_story(assessment: Assessment, plan: Plan | None, ctx: AuditContext,
     story += sec.build_summary(ctx, st, width, pal)
     story += sec.build_method(ctx, st, width)
     story += sec.build_facades(facade_elevations(assessment), ctx, st, width, height, pal)
-    story += sec.build_floor_chart(floor_comparison(assessment, ctx.band_names), ctx, st, width,
-                                   height, pal)
+    if assessment.openings:  # an empty chart says nothing
+        story += sec.build_floor_chart(floor_comparison(assessment, ctx.band_names), ctx, st,
+                                       width, height, pal)
     story += sec.build_ranked_table(ctx, st, wide_width or width, pal)
     story += sec.build_details(ctx, profiles, st, width, pal)
     story += sec.build_plan(ctx, st, width)

@@ -563,11 +563,15 @@ LIMITS: tuple[str, ...] = (
 def _default_scope(assessment: Assessment) -> str:
     b = assessment.building
     kinds = sorted({kind_label(o.kind).lower() for o in b.openings})
+    outside = ("Common areas, roofs without access and the building's structure are outside "
+               "this audit.")
+    if not b.openings:
+        return (f"No openings are recorded for this building ({len(b.floors)} floor(s), "
+                f"{len(b.facades)} facade(s)), so no fall was assessed. {outside}")
     return (
-        f"All {len(b.openings)} recorded openings ({', '.join(kinds)}) on {len(b.floors)} floors "
-        f"and {len(b.facades)} facade(s), assessed for the risk that a resident cat falls from "
-        f"them. Common areas, roofs without access and the building's structure are outside "
-        f"this audit."
+        f"All {len(b.openings)} recorded opening(s) ({', '.join(kinds)}) on {len(b.floors)} "
+        f"floor(s) and {len(b.facades)} facade(s), assessed for the risk that a resident cat "
+        f"falls from them. {outside}"
     )
 
 

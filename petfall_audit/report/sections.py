@@ -61,6 +61,10 @@ _GRID = [
 ]
 
 
+#: Said instead of an empty table when the building has no openings.
+NO_OPENINGS = "No openings are recorded for this building: there is nothing to rank."
+
+
 def _p(text: str, style: object) -> Paragraph:
     """A paragraph of literal (user or generated) text."""
     return Paragraph(markup(text), style)
@@ -126,6 +130,9 @@ def build_summary(ctx: AuditContext, st: Styles, width: float, palette: str) -> 
     t = Table(rows, colWidths=[55 * mm, 25 * mm], hAlign="LEFT")
     t.setStyle(TableStyle([*_GRID, ("BACKGROUND", (0, 0), (-1, 0), HEADER_FILL)]))
     out += [t, _p("Highest risks", st.h2)]
+    if not ctx.top_risks:
+        out.append(_p(NO_OPENINGS, st.body))
+        return out
     rows = [[_p(h, st.cell_bold) for h in ("Opening", "Kind", "Expected band", "Risk score")]]
     rows += [[_p(a, st.cell), _p(b, st.cell), _p(c, st.cell), _p(d, st.cell)]
              for a, b, c, d in ctx.top_risks]
@@ -191,6 +198,8 @@ def build_ranked_table(ctx: AuditContext, st: Styles, width: float, palette: str
     Cells are plain strings where possible: a tower has thousands of them."""
     from reportlab.pdfbase.pdfmetrics import stringWidth
 
+    if not ctx.ranked:
+        return [_p("Ranked openings", st.h1), _p(NO_OPENINGS, st.body)]
     bands = ctx.band_names
     font, size = st.cell.fontName, st.cell.fontSize
 
