@@ -109,8 +109,24 @@ def _length_factor_m(word: str) -> float | None:
     return float(quantity.to("meter").magnitude)
 
 
+#: The units people type most, by their exact definitions (1 in = 25.4 mm and 1 ft = 0.3048 m,
+#: international yard and pound agreement, 1959), so that a bare number or a common unit does not
+#: wait for the units library to load; tests check them against the library's own values.
+_COMMON_M: dict[str, float] = {
+    "m": 1.0, "metre": 1.0, "metres": 1.0, "meter": 1.0, "meters": 1.0,
+    "mm": 0.001, "millimetre": 0.001, "millimetres": 0.001, "millimeter": 0.001,
+    "millimeters": 0.001, "cm": 0.01, "centimetre": 0.01, "centimetres": 0.01,
+    "centimeter": 0.01, "centimeters": 0.01,
+    "ft": 0.3048, "foot": 0.3048, "feet": 0.3048,
+    "in": 0.0254, "inch": 0.0254, "inches": 0.0254,
+}
+
+
 def _unit_m(word: str) -> float:
     """Metres per unit ``word``; ``ValueError`` for unknown, ambiguous or non-length units."""
+    common = _COMMON_M.get(word)
+    if common is not None:
+        return common
     exact = _length_factor_m(word)
     lower = word.lower()
     if lower != word:
@@ -233,7 +249,7 @@ def parse_length_m(text: str | float, *, default_unit: str = "m") -> float:
         s = s[1:].lstrip()
     terms = _terms(text, s)
     if len(terms) == 1 and terms[0][1] is None:
-        total = float(terms[0][0]) * default_m
+        total = _as_float(terms[0][0], text) * default_m
     else:
         total = 0.0
         previous_m = math.inf
@@ -252,11 +268,18 @@ def parse_length_m(text: str | float, *, default_unit: str = "m") -> float:
                     "(e.g. 3 ft 6 in)"
                 )
             previous_m = unit_m
-            total += float(value) * unit_m
+            total += _as_float(value, text) * unit_m
     result = _tidy(sign * total)
     if not math.isfinite(result):
         raise ValueError(f"not a finite length: '{text}'")
     return result
+
+
+def _as_float(value: Any, text: str) -> float:
+    try:
+        return float(value)
+    except OverflowError:
+        raise ValueError(f"number too large: '{text}'") from None
 
 
 def _tidy(value_m: float) -> float:

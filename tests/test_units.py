@@ -170,3 +170,20 @@ def test_display_conversions() -> None:
     assert from_display(to_display(7.3, "imperial"), "imperial") == pytest.approx(7.3)
     with pytest.raises(ValueError):
         to_display(1.0, "furlongs")
+
+
+def test_common_units_match_the_units_library() -> None:
+    """The built-in factors for common units equal pint's own definitions (and the exact
+    1 in = 25.4 mm of the 1959 international yard and pound agreement)."""
+    from petfall_audit.units import _COMMON_M, _length_factor_m
+
+    for word, factor_m in _COMMON_M.items():
+        assert _length_factor_m(word) == pytest.approx(factor_m, rel=1e-15), word
+    assert _COMMON_M["in"] == 25.4 / 1000
+
+
+def test_a_number_too_large_for_a_float_is_a_plain_error() -> None:
+    with pytest.raises(ValueError, match="too large"):
+        parse_length_m("1e400")
+    with pytest.raises(ValueError, match="too large"):
+        parse_length_m("1e400 ft")
