@@ -101,11 +101,12 @@ _saved_stdout_fd: int | None = None
 
 
 @contextmanager
-def _solver_chatter_to_stderr() -> Iterator[None]:
-    """Send what the compiled MILP solver prints on file descriptor 1 to stderr.
+def _solver_chatter_discarded() -> Iterator[None]:
+    """Discard what the compiled MILP solver prints on file descriptor 1.
 
-    Some builds of the solver print diagnostic lines on the process's standard output, which
-    would corrupt JSON or CSV written there by the command line. The C buffer is flushed before
+    Some builds of the solver print internal diagnostic lines on the process's standard output,
+    which would corrupt JSON or CSV written there by the command line and mean nothing to a
+    user (the solver's status comes back in its result). The C buffer is flushed before
     the descriptor is restored, so buffered lines cannot leak out later. Solves may run in
     several threads at once (the app): the first one in redirects, the last one out restores.
     """
@@ -116,7 +117,9 @@ def _solver_chatter_to_stderr() -> Iterator[None]:
                 sys.stdout.flush()
                 _flush_c_stdout()
                 _saved_stdout_fd = os.dup(1)
-                os.dup2(2, 1)
+                devnull = os.open(os.devnull, os.O_WRONLY)
+                os.dup2(devnull, 1)
+                os.close(devnull)
             except (OSError, ValueError):
                 _saved_stdout_fd = None
         _redirect_depth += 1
@@ -216,7 +219,7 @@ def solve_choice_knapsack(
     a = vstack([one_per_group, coo_array(c.astype(float)[None, :])]).tocsr()
     ub = np.concatenate([np.ones(groups.size), [float(budget_c)]])
     objective = -v * (_OBJECTIVE_SCALE / v.max())
-    with _solver_chatter_to_stderr():
+    with _solver_chatter_discarded():
         res = milp(
             objective,
             integrality=np.ones(k),
