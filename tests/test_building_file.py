@@ -237,7 +237,7 @@ def _set(doc: dict[str, Any], path: str, value: Any) -> dict[str, Any]:
         (
             "surfaces[0].to_facade_m",
             0,
-            "surfaces[0].to_facade_m: must be greater than from_facade_m",
+            "surfaces[0].to_facade_m: the outer edge must lie further out than the inner edge",
         ),
         (
             "openings[1].x_m",

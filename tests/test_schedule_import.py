@@ -528,3 +528,20 @@ def test_cli_import_of_a_missing_schedule_exits_2(tmp_path: Path,
     save_building(_building(), into)
     assert main(["import", str(tmp_path / "missing.csv"), "--into", str(into)]) == 2
     assert "cannot read the file" in capsys.readouterr().err
+
+
+def test_a_facade_the_building_lacks_is_named_as_the_cause(tmp_path: Path) -> None:
+    """A row on a facade the building does not have would create it with nothing below: the
+    problem names the facade as the cause, on the facade cell."""
+    path = tmp_path / "s.csv"
+    path.write_text(
+        "id,floor,facade,kind,x_m,width_m\nZZ-1,1,nowhere,window_casement,1,1\n", encoding="utf-8"
+    )
+    table = read_table(path)
+    from petfall_audit.demo import sample_building
+
+    building = sample_building("walkup")  # every surface belongs to one facade
+    preview = preview_import(table, guess_mapping(table.headers), building)
+    [problem] = preview.problems
+    assert (problem.row, problem.column) == (2, "facade")
+    assert "facade 'nowhere' is not in the building" in problem.message

@@ -272,8 +272,9 @@ def _check_surfaces(
             problems.append(
                 Problem(
                     at("to_facade_m"),
-                    f"must be greater than from_facade_m ({s.from_facade_m:g} m), got "
-                    f"{s.to_facade_m:g} m (use null for a surface that runs on without end)",
+                    f"the outer edge must lie further out than the inner edge "
+                    f"({s.from_facade_m:g} m), got {s.to_facade_m:g} m; leave it empty "
+                    f"(to_facade_m null) for a surface that runs on without end",
                 )
             )
         if s.facade is not None and "facades" not in incomplete and s.facade not in facade_ids:
@@ -322,7 +323,7 @@ def _check_openings(
                 problems.append(
                     Problem(
                         at("projection_m"),
-                        f"a {o.kind.value.replace('_', ' ')} sits in the wall: projection_m "
+                        f"a {o.kind.value.replace('_', ' ')} sits in the wall: its projection "
                         f"must be 0, got {o.projection_m:g} m",
                     )
                 )
@@ -412,8 +413,8 @@ def _check_landing(
                 Problem(
                     places.at("facades", k),
                     f"nothing lies below the openings on facade {facade.id!r} {extent} (lowest "
-                    f"opening floor at {lowest:g} m): add a surface there, e.g. the ground with "
-                    f"to_facade_m null",
+                    f"opening floor at {lowest:g} m): add a surface there, e.g. the ground "
+                    f"running on without end (outer edge empty, to_facade_m null)",
                 )
             )
 

@@ -1093,6 +1093,12 @@ def _check_merged(
             field_name = "facade"
         col = header_of.get(field_name)
         message = problem.message if col else f"{field_name or 'row'}: {problem.message}"
+        if section == "facades" and trial.facades[index].id in new_facades:
+            message = (
+                f"facade {trial.facades[index].id!r} is not in the building, so this import "
+                f"would create it with nothing below it ({problem.message}); check the name, or "
+                "add the facade and what lies below it first"
+            )
         for row in rows:
             problems_of[row].append(
                 ImportProblem(
