@@ -25,6 +25,7 @@ from petfall_audit.editing.commands import (
 )
 from petfall_audit.editing.document import Document
 from petfall_audit.editing.query import (
+    applicable_openings,
     elevations_for_storey_height,
     next_floor,
     select_openings,
@@ -218,3 +219,65 @@ def test_select_openings_and_unique_id() -> None:
     assert len(south_balconies) == 2 * 5
     assert select_openings(b, levels=[3]) == ["south-03-1", "south-03-2", "north-03-1"]
     assert unique_id(["a", "a-2"], "a") == "a-3" and unique_id([], "a") == "a"
+
+
+def test_copying_onto_a_floor_with_openings_in_the_way_is_refused_unless_replacing() -> None:
+    b = tower()
+    occupied = dataclasses.replace(
+        b, openings=(*b.openings,
+                     Opening("S-2A", 2, "south", OpeningKind.BALCONY, 1.5, 2.0, projection_m=1.5)))
+    doc = Document(occupied)
+    # the default ids (south-02-1...) do not clash, but the copies would sit over S-2A
+    with pytest.raises(EditRefused, match="floor 2 already has openings where the copies"):
+        CopyFloorOpenings(1, [2, 3]).do(doc)
+    assert doc.building is occupied
+    CopyFloorOpenings(1, [2, 3], replace_existing=True).do(doc)
+    ids = {o.id for o in doc.building.openings}
+    assert "S-2A" not in ids and {"south-02-1", "south-03-2"} <= ids
+    # a floor whose openings sit elsewhere on the facade takes the copies beside them
+    beside = dataclasses.replace(
+        b, openings=(*b.openings,
+                     Opening("S-2Z", 2, "south", OpeningKind.BALCONY, 15.0, 2.0,
+                             projection_m=1.5)))
+    doc = Document(beside)
+    CopyFloorOpenings(1, [2]).do(doc)
+    assert {"S-2Z", "south-02-1"} <= {o.id for o in doc.building.openings}
+
+
+def test_removing_a_floor_names_the_openings_that_go_with_it() -> None:
+    cmd = RemoveFloor(1)
+    doc, before = run(cmd)
+    assert cmd.label == "Remove floor 1 and its 3 openings"
+    assert set(cmd.removed_openings) == {o.id for o in before.openings}
+    cmd.undo(doc)
+    assert doc.building is before
+    empty = RemoveFloor(5)
+    run(empty)
+    assert empty.label == "Remove floor 5" and empty.removed_openings == ()
+
+
+def test_a_refusal_states_each_reason_once_and_at_most_three() -> None:
+    from petfall_audit.editing.commands import refusal_text
+    from petfall_audit.errors import Problem
+
+    problems = [Problem(f"openings[{i}].x_m", f"runs past the end ({i} m)") for i in range(6)]
+    problems += [Problem("openings[9].x_m", "runs past the end (0 m)")]  # the same message again
+    text = refusal_text(problems)
+    assert text.count("runs past the end") == 3
+    assert text.endswith("(and 3 more problems like these)")
+    assert refusal_text(problems[:1]) == "runs past the end (0 m)"
+
+
+def test_applicable_openings_skips_kinds_a_value_does_not_fit() -> None:
+    b = tower()
+    ids = [o.id for o in b.openings]
+    # a limiter restricts how far a window opens: the model applies it to opening windows only
+    fits, skipped, why = applicable_openings(b, ids, "limiter_gap_mm", 100.0)
+    assert fits == ["north-01-1"] and skipped == ["south-01-1", "south-01-2"]
+    assert "window" in why
+    assert applicable_openings(b, ids, "limiter_gap_mm", None) == (ids, [], "")  # clearing
+    fits, skipped, _ = applicable_openings(b, ids, "escape_window", True)
+    assert fits == ["north-01-1"]
+    fits, skipped, _ = applicable_openings(b, ids, "projection_m", 1.2)
+    assert skipped == ["north-01-1"]
+    assert applicable_openings(b, ids, "netting_mesh_mm", 30.0) == (ids, [], "")

@@ -84,3 +84,17 @@ def test_speeds() -> None:
     # 26.8224 m/s = 60 mph (1 mile = 1609.344 m exactly)
     assert format_speed(26.8224, "imperial") == "60.0 mph"
     assert format_speed(15.54) == "15.5 m/s"
+
+
+@pytest.mark.parametrize("name", ["width_m", "largest_gap_mm"])
+def test_a_number_too_large_for_a_float_is_a_plain_error(name: str) -> None:
+    # 1e400 overflows a double (IEEE 754 binary64 tops out near 1.8e308): a ValueError the form
+    # can show, never an OverflowError that escapes the editor.
+    with pytest.raises(ValueError, match="too large"):
+        parse_value(field_spec(OPENING_FIELDS, name), "1e400")
+
+
+@pytest.mark.parametrize("text", ["nan", "inf", "-inf °C"])
+def test_a_temperature_must_be_a_finite_number(text: str) -> None:
+    with pytest.raises(ValueError, match="temperature"):
+        parse_value(field_spec(INFO_FIELDS, "air_temperature_c"), text)

@@ -32,6 +32,7 @@ from petfall_audit.model import (
 
 __all__ = [
     "EditRefused",
+    "refusal_text",
     "Command",
     "BuildingCommand",
     "SetOpeningFields",
@@ -67,6 +68,16 @@ class EditRefused(PetfallError, ValueError):
     def __init__(self, problems: Sequence[Problem]) -> None:
         self.problems = list(problems)
         super().__init__("\n".join(str(p) for p in self.problems) or "edit refused")
+
+
+def refusal_text(problems: Sequence[Problem], *, limit: int = 3) -> str:
+    """The reasons of a refusal in plain words: each message once, at most ``limit`` of them."""
+    messages = list(dict.fromkeys(p.message for p in problems))
+    text = "; ".join(messages[:limit])
+    if len(messages) > limit:
+        more = len(messages) - limit
+        text += f" (and {more} more problem{'s' if more != 1 else ''} like these)"
+    return text or "edit refused"
 
 
 def _refuse(where: str, message: str) -> EditRefused:
@@ -284,15 +295,24 @@ class AddFloor(BuildingCommand):
 
 
 class RemoveFloor(BuildingCommand):
-    """Remove the floor at ``level`` and every opening on it."""
+    """Remove the floor at ``level`` and every opening on it (undo brings them back).
+
+    After :meth:`do`, ``removed_openings`` holds the ids of the openings that went with it and
+    the default label names how many."""
 
     def __init__(self, level: int, *, label: str | None = None) -> None:
         self.level = level
+        self.removed_openings: tuple[str, ...] = ()
+        self._default_label = label is None
         super().__init__(label or f"Remove floor {level}")
 
     def apply(self, building: Building) -> Building:
         if not any(f.level == self.level for f in building.floors):
             raise _refuse("floors", f"there is no floor at level {self.level}")
+        self.removed_openings = tuple(o.id for o in building.openings if o.floor == self.level)
+        if self._default_label and self.removed_openings:
+            self.label = (f"Remove floor {self.level} and its "
+                          f"{_plural(len(self.removed_openings), 'opening')}")
         return dataclasses.replace(
             building,
             floors=tuple(f for f in building.floors if f.level != self.level),
@@ -360,11 +380,34 @@ def copied_id(pattern: str, opening: Opening, *, level: int, n: int, floor_label
         ) from None
 
 
+def _overlaps(a: Opening, b: Opening) -> bool:
+    """True when two openings on one facade share part of their width (1 mm tolerance)."""
+    return (a.facade == b.facade and a.x_m < b.x_m + b.width_m - 1e-3
+            and b.x_m < a.x_m + a.width_m - 1e-3)
+
+
+def _refuse_overlaps(building: Building, source: Sequence[Opening],
+                     levels: Sequence[int]) -> None:
+    """Refuse a copy whose openings would sit over openings already on a target floor."""
+    for lv in levels:
+        present = [o for o in building.openings if o.floor == lv]
+        for copy in source:
+            hit = next((o for o in present if _overlaps(o, copy)), None)
+            if hit is not None:
+                raise _refuse(
+                    "levels",
+                    f"floor {lv} already has openings where the copies would go ({hit.id} on "
+                    f"facade {hit.facade!r} is where the copy of {copy.id} would be); tick "
+                    "'replace the openings already on those floors' or copy to other floors",
+                )
+
+
 class CopyFloorOpenings(BuildingCommand):
     """Copy the openings of the floor at ``level`` to each of ``to_levels`` (a typical floor).
 
     New ids come from ``id_pattern``. With ``replace_existing`` the openings already on the target
-    floors are removed first; otherwise a clash of ids refuses the edit.
+    floors are removed first; otherwise a clash of ids, or a copy that would sit over an opening
+    already on its floor and facade, refuses the edit.
     """
 
     def __init__(self, level: int, to_levels: Iterable[int], *,
@@ -407,10 +450,13 @@ class CopyFloorOpenings(BuildingCommand):
                         "id pattern",
                         f"the copy of {o.id} on floor {lv} would be {new_id!r}, an id already used"
                         + ("" if self.replace_existing else
-                           "; tick 'replace existing openings' or change the pattern"),
+                           "; tick 'replace the openings already on those floors' or change "
+                           "the pattern"),
                     )
                 used.add(new_id)
                 copies.append(dataclasses.replace(o, id=new_id, floor=lv))
+        if not self.replace_existing:
+            _refuse_overlaps(building, source, sorted(targets))
         return dataclasses.replace(building, openings=(*kept, *copies))
 
 

@@ -222,11 +222,24 @@ def _parse_temperature_c(text: str, system: str) -> float:
     try:
         number = float(t.replace(",", "."))
     except ValueError:
-        raise ValueError(f"cannot read '{text}' as a temperature (e.g. 15 °C or 59 °F)") from None
+        number = math.nan
+    if not math.isfinite(number):
+        raise ValueError(f"cannot read '{text}' as a temperature (e.g. 15 °C or 59 °F)")
     return (number - 32) * 5 / 9 if unit == "F" else number
 
 
 _NONE_WORDS = {"", "none", "no", "-", "—", "n/a"}
+
+
+def _length_m(text: str, default_unit: str) -> float:
+    """A typed length in metres; ``ValueError`` (never ``OverflowError``) for what is not one."""
+    try:
+        value = parse_length_m(text, default_unit=default_unit)
+    except OverflowError:
+        value = math.inf
+    if not math.isfinite(value):
+        raise ValueError(f"'{text}' is too large to be a length")
+    return value
 
 
 def parse_value(spec: FieldSpec, text: str, system: str = "metric") -> Any:
@@ -241,10 +254,9 @@ def parse_value(spec: FieldSpec, text: str, system: str = "metric") -> Any:
     ):
         return None
     if spec.kind == "length":
-        value = parse_length_m(raw, default_unit="ft" if imperial else "m")
-        return value
+        return _length_m(raw, "ft" if imperial else "m")
     if spec.kind == "gap":
-        value_mm = parse_length_m(raw, default_unit="in" if imperial else "mm") * 1000.0
+        value_mm = _length_m(raw, "in" if imperial else "mm") * 1000.0
         if value_mm < 0:
             raise ValueError("a gap cannot be negative")
         return value_mm

@@ -3,11 +3,40 @@
 from __future__ import annotations
 
 from collections.abc import Iterable
+from typing import Any
 
-from petfall_audit.model import Building, Floor, OpeningKind
+from petfall_audit.model import BALCONY_LIKE, WINDOW_KINDS, Building, Floor, OpeningKind
 
 __all__ = ["select_openings", "unique_id", "next_floor", "storey_heights_m",
-           "elevations_for_storey_height"]
+           "elevations_for_storey_height", "applicable_openings"]
+
+_OPENING_WINDOWS = WINDOW_KINDS - {OpeningKind.FIXED}
+
+#: field -> (kinds a set value fits, when the value counts as set, why the others are skipped)
+_FITS: dict[str, tuple[frozenset[OpeningKind], Any, str]] = {
+    "limiter_gap_mm": (_OPENING_WINDOWS, lambda v: v is not None,
+                       "a limiter fits opening windows only"),
+    "escape_window": (_OPENING_WINDOWS, bool,
+                      "only an opening window can be an emergency escape window"),
+    "projection_m": (BALCONY_LIKE, lambda v: v is not None and v > 0,
+                     "only balconies, terraces and galleries stand out from the facade"),
+}
+
+
+def applicable_openings(building: Building, ids: Iterable[str], field: str,
+                        value: Any) -> tuple[list[str], list[str], str]:
+    """Split ``ids`` into the openings that setting ``field`` to ``value`` fits and those it
+    does not (e.g. a limiter on a balcony); returns ``(fits, skipped, why)``. Clearing a value
+    fits every opening."""
+    ids = list(ids)
+    rule = _FITS.get(field)
+    if rule is None or not rule[1](value):
+        return ids, [], ""
+    kinds, _is_set, why = rule
+    kind_of = {o.id: o.kind for o in building.openings}
+    fits = [i for i in ids if kind_of.get(i) in kinds or i not in kind_of]
+    chosen = set(fits)
+    return fits, [i for i in ids if i not in chosen], why
 
 
 def select_openings(

@@ -25,7 +25,7 @@ from PySide6.QtCore import (
     Signal,
 )
 
-from petfall_audit.editing.commands import Command, EditRefused
+from petfall_audit.editing.commands import Command, EditRefused, refusal_text
 from petfall_audit.editing.document import Document
 from petfall_audit.editing.fields import (
     FieldSpec,
@@ -104,7 +104,7 @@ def push_command(history: History, cmd: Command) -> str | None:
     try:
         history.push(cmd)
     except EditRefused as exc:
-        return "; ".join(p.message for p in exc.problems)
+        return refusal_text(exc.problems)
     except ValueError as exc:
         return str(exc)
     return None
@@ -119,6 +119,7 @@ class RecordTableModel(QAbstractTableModel):
     """
 
     edit_failed = Signal(str, str, str)  # row key, field name, message
+    edited = Signal(str, str)  # row key, field name: an edit typed in a cell was applied
 
     def __init__(
         self,
@@ -148,6 +149,7 @@ class RecordTableModel(QAbstractTableModel):
         self._extra = tuple(extra)
         self._editable_extra = editable_extra
         self._rows: list[Any] = list(items(doc.building))
+        self._row_index: tuple[list[Any], dict[Any, int]] | None = None
         self._disconnects = [doc.on_changed(kind, self._on_changed)]
         for other in extra_kinds:  # computed columns may read other parts of the building
             self._disconnects.append(doc.on_changed(other, self._on_other_changed))
@@ -173,10 +175,16 @@ class RecordTableModel(QAbstractTableModel):
         return getattr(self._rows[row], self._key)
 
     def row_of_key(self, key: Any) -> int:
-        for i, item in enumerate(self._rows):
-            if getattr(item, self._key) == key:
-                return i
-        return -1
+        return self.rows_by_key().get(key, -1)
+
+    def rows_by_key(self) -> dict[Any, int]:
+        """Row of each key (built once per change of the rows)."""
+        if self._row_index is None or self._row_index[0] is not self._rows:
+            index: dict[Any, int] = {}
+            for i, item in enumerate(self._rows):
+                index.setdefault(getattr(item, self._key), i)
+            self._row_index = (self._rows, index)
+        return self._row_index[1]
 
     def column_of(self, field_name: str) -> int:
         for i, spec in enumerate(self._fields):
@@ -284,6 +292,7 @@ class RecordTableModel(QAbstractTableModel):
         if reason is not None:
             self.edit_failed.emit(str(key), field_name, reason)
             return False
+        self.edited.emit(str(key), field_name)
         return True
 
     # --- following the document ------------------------------------------------------------------
@@ -316,6 +325,7 @@ class RecordTableModel(QAbstractTableModel):
         for start, end in reversed(_runs(gone)):
             self.beginRemoveRows(QModelIndex(), start, end)
             del self._rows[start:end + 1]
+            self._row_index = None
             self.endRemoveRows()
         kept_keys = [k for k in old_keys if k in new_set]
         if kept_keys != [k for k in new_keys if k in old_set]:  # order changed: start over
@@ -327,6 +337,7 @@ class RecordTableModel(QAbstractTableModel):
         for start, end in _runs(added):
             self.beginInsertRows(QModelIndex(), start, end)
             self._rows[start:start] = new[start:end + 1]
+            self._row_index = None
             self.endInsertRows()
         changed = [i for i, (a, b) in enumerate(zip(self._rows, new, strict=True)) if a is not b]
         self._rows = new

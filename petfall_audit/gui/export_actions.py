@@ -11,6 +11,7 @@ progress, then calls the Qt-free writers: :func:`petfall_audit.report.write_audi
 from __future__ import annotations
 
 import json
+import re
 from collections.abc import Callable
 from pathlib import Path
 from typing import Any
@@ -91,6 +92,25 @@ def _write(kind: str, assessment: Any, plan: Any, path: Path, contact: dict[str,
     raise ValueError(f"unknown export {kind!r}")
 
 
+def _write_error(path: Path, exc: OSError) -> str:
+    """Why ``path`` could not be written, in plain words (no temporary file names)."""
+    if isinstance(exc, FileNotFoundError) or not path.parent.is_dir():
+        why = "the folder does not exist"
+    elif isinstance(exc, PermissionError):
+        why = "permission denied (the folder or the file is read-only, or the file is open in "\
+              "another program)"
+    elif isinstance(exc, IsADirectoryError) or path.is_dir():
+        why = "a folder of that name is in the way"
+    else:
+        why = exc.strerror or str(exc)
+    return f"cannot write {path.name} in {path.parent}: {why}. Nothing was written."
+
+
+def _plain(message: str) -> str:
+    """A worker's failure without the exception class name in front."""
+    return re.sub(r"^(?:[\w.]+(?:Error|Exception)): ", "", message)
+
+
 class ExportActions(QObject):
     """The export actions of ``window`` and the File ▸ Export menu that holds them.
 
@@ -147,6 +167,8 @@ class ExportActions(QObject):
                                           suggested, file_filter)
             if path is None:
                 return None
+            if not Path(path).suffix:  # "audit" typed without an extension
+                path = Path(path).with_suffix(suffix)
         path = Path(path)
         budget = self._budget()
         if kind.startswith("plan") and budget is None:
@@ -160,7 +182,10 @@ class ExportActions(QObject):
         def work(progress: Callable[[int, int], None]) -> list[Path]:
             assessment, plan = report_inputs(building, samples=samples, seed=seed,
                                              budget=budget, progress=progress)
-            return _write(kind, assessment, plan, path, contact)
+            try:
+                return _write(kind, assessment, plan, path, contact)
+            except OSError as exc:  # the writers leave no partial file behind
+                raise OSError(_write_error(path, exc)) from None
 
         self.task = run_task(work, parent=self, with_progress=True)
         self.task.finished.connect(self._on_finished)
@@ -204,6 +229,7 @@ class ExportActions(QObject):
         if self.task is not None and self.task.cancelled:
             self.window.status_label.setText("Export cancelled")
         else:
+            message = _plain(message)
             self.window.status_label.setText(f"! Export failed: {message}")
             self.prompts.show_error(self.window, "Export failed", message)
         self.failed.emit(message)

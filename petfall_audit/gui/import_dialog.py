@@ -322,7 +322,12 @@ def import_schedule(window: Any, path: Path | None = None, *,
     except ScheduleImportError as exc:
         prompts.show_error(window, "Cannot read the schedule", str(exc))
         return str(exc)
-    dialog = ImportDialog(window.document.building, table, prompts=prompts, parent=window)
+    try:
+        dialog = ImportDialog(window.document.building, table, prompts=prompts, parent=window)
+    except (ArithmeticError, ValueError) as exc:  # a cell no reader expected: say so, go on
+        message = f"{Path(path).name}: a cell could not be read ({exc}); nothing was changed"
+        prompts.show_error(window, "Cannot read the schedule", message)
+        return message
     try:
         if not prompts.run(dialog):
             return "cancelled"

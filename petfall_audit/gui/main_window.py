@@ -12,6 +12,7 @@ most of the height; the user's split is remembered.
 
 from __future__ import annotations
 
+import threading
 from pathlib import Path
 from typing import Any
 
@@ -39,6 +40,7 @@ from petfall_audit.editing.commands import CopyFloorOpenings, SetOpeningFields
 from petfall_audit.editing.document import MODEL_KINDS, Document
 from petfall_audit.editing.fields import OPENING_FIELDS, field_spec
 from petfall_audit.editing.history import History
+from petfall_audit.editing.query import applicable_openings
 from petfall_audit.errors import BuildingFileError
 from petfall_audit.gui.actions import create_actions
 from petfall_audit.gui.adapters import ResultsTableModel, ViewOptions, push_command
@@ -143,6 +145,7 @@ class MainWindow(QMainWindow):
         if split is not None and self.splitter.restoreState(split):
             self._split_restored = True
         self.load_document(document or Document(blank_building()))
+        QTimer.singleShot(WARM_UP_DELAY_MS, _warm_up_unit_parser)
 
     # --- layout ----------------------------------------------------------------------------------
 
@@ -369,6 +372,7 @@ class MainWindow(QMainWindow):
             self.results_table.resizeColumnsToContents()
             self._results_sized = True
         self.progress.hide()
+        self.results_state.setStyleSheet("")  # a failure shown before is over
         n = len(getattr(assessment, "openings", ()))
         self.results_state.setText(
             f"{n} openings ranked, worst first (by expected injury band, then likelihood). "
@@ -513,7 +517,10 @@ class MainWindow(QMainWindow):
             try:
                 building = autosave.load_recovery(newest)
             except BuildingFileError as exc:
-                self.prompts.show_error(self, "Cannot recover", str(exc))
+                self.prompts.show_error(
+                    self, "Cannot recover",
+                    f"The recovery copy from {newest.saved_at_text} is damaged and cannot be "
+                    f"opened; it has been discarded.\n\n{exc}")
         for rec in found:  # offered once; older copies go too
             autosave.discard_recovery(rec)
         if building is None:
@@ -564,21 +571,33 @@ class MainWindow(QMainWindow):
             self.bulk_edit(req.ids, req.field, req.value)
 
     def bulk_edit(self, ids: Any, field: str, value: Any) -> str | None:
-        """Set ``field`` to ``value`` on the openings ``ids`` as one undo step."""
+        """Set ``field`` to ``value`` on the openings ``ids`` as one undo step.
+
+        Openings the value does not fit (a limiter on a balcony) are left as they are and the
+        status bar says so; if it fits none of them, nothing changes."""
         ids = tuple(ids)
         label = field_spec(OPENING_FIELDS, field).label.lower()
-        try:
-            cmd = SetOpeningFields(ids, {field: value},
-                                   label=f"Set {label} on {len(ids)} openings")
-        except ValueError as exc:
-            reason: str | None = str(exc)
+        fits, skipped, why = applicable_openings(self.document.building, ids, field, value)
+        reason: str | None
+        if ids and not fits:
+            reason = f"{why}: none of the {len(ids)} chosen openings is one; nothing was changed"
         else:
-            reason = self.push(cmd)
+            try:
+                cmd = SetOpeningFields(fits, {field: value},
+                                       label=f"Set {label} on {len(fits)} openings")
+            except ValueError as exc:
+                reason = str(exc)
+            else:
+                reason = self.push(cmd)
         if reason is not None:
             self.prompts.show_error(self, "Openings not changed", reason)
-        else:
-            self.openings_panel.select_ids(ids)
-        return reason
+            return reason
+        if skipped:
+            self.status_label.setText(
+                f"Set {label} on {len(fits)} openings; {len(skipped)} left as they were "
+                f"({why})")
+        self.openings_panel.select_ids(ids)
+        return None
 
     # --- settings and help ------------------------------------------------------------------------
 
@@ -624,6 +643,27 @@ class MainWindow(QMainWindow):
         self.settings.set_splitter_state(self.splitter.saveState())
         self.settings.sync()
         event.accept()
+
+
+#: Pause after the window opens before the unit parser loads its tables in the background.
+WARM_UP_DELAY_MS = 1500
+_warmed_up = threading.Event()
+
+
+def _warm_up_unit_parser() -> None:
+    """Load the unit parser's tables on a background thread, once per process, so that the first
+    length typed does not stall the window for about a second."""
+    if _warmed_up.is_set():
+        return
+    _warmed_up.set()
+
+    def load() -> None:
+        from petfall_audit.units import parse_length_m
+
+        for text in ("1 m", "1 mm", "1 ft", "1 in"):
+            parse_length_m(text)
+
+    threading.Thread(target=load, name="petfall-units-warm-up", daemon=True).start()
 
 
 def _scrolled(panel: QWidget) -> QScrollArea:

@@ -146,8 +146,9 @@ def install_views(window: Any, *, export_prompts: Any = None, import_prompts: An
         context.set_assessment(current)
 
     # menus: File ▸ Import schedule…, File ▸ Export ▸ …; View ▸ one shortcut per view
-    exports = ExportActions(window, prompts=export_prompts,
-                            budget=lambda: float(plan.budget.value()) if plan.options else None)
+    exports = ExportActions(
+        window, prompts=export_prompts,
+        budget=lambda: float(plan.budget.value()) if plan.catalogue is not None else None)
     import_action = QAction("&Import schedule (CSV, XLSX)…", window)
     import_action.setObjectName("import_schedule")
     import_action.setShortcut(QKeySequence("Ctrl+I"))

@@ -256,8 +256,8 @@ class PlanView(QWidget):
         self._on_selection(self._ctx.selection.ids)
 
     def _start_plan(self) -> None:
-        if not self.options or self._ctx.assessment is None:
-            return
+        if self.catalogue is None or self._ctx.assessment is None:
+            return  # the options are not computed yet (none at all is a plan too: empty)
         from petfall_audit.plan import plan_from_options
 
         options, budget = self.options, float(self.budget.value())
@@ -343,11 +343,17 @@ class PlanView(QWidget):
         self.progress.hide()
         cur = plan.currency
         share = plan.risk_removed / plan.risk_before if plan.risk_before > 0 else 0.0
-        self.summary.setText(
-            f"{len(plan.actions)} fixes chosen for {fmt_money(plan.total_cost, cur)} of "
-            f"{fmt_money(plan.budget, cur)}. Summed risk score {plan.risk_before:,.0f} → "
-            f"{plan.risk_after:,.0f} ({share:.0%} less). Indicative costs; a fix needs the "
-            "conditions listed and competent installers.")
+        if not self.options:
+            self.summary.setText(
+                "No fix to plan: the building has no openings yet." if not
+                len(getattr(self._ctx.assessment, "openings", ())) else
+                "No control in the catalogue lowers the risk of these openings.")
+        else:
+            self.summary.setText(
+                f"{len(plan.actions)} fixes chosen for {fmt_money(plan.total_cost, cur)} of "
+                f"{fmt_money(plan.budget, cur)}. Summed risk score {plan.risk_before:,.0f} → "
+                f"{plan.risk_after:,.0f} ({share:.0%} less). Indicative costs; a fix needs the "
+                "conditions listed and competent installers.")
         self.chosen.setRowCount(len(plan.actions))
         for row, o in enumerate(sorted(plan.actions, key=lambda o: -o.risk_removed)):
             cells = [o.opening_id, o.control_name, fmt_money(o.cost, cur),

@@ -3,7 +3,6 @@
 from __future__ import annotations
 
 from collections.abc import Sequence
-from typing import Any
 
 from PySide6.QtGui import QAction
 from PySide6.QtWidgets import (
@@ -62,7 +61,12 @@ class FloorsPanel(QWidget):
         )
         self.table = record_table(self.model, "floors_table", lambda spec: [])
         self.error = error_label()
+        self.note = QLabel()
+        self.note.setObjectName("floors_note")
+        self.note.setWordWrap(True)
+        self.note.hide()
         self.model.edit_failed.connect(self._on_edit_failed)
+        self.model.edited.connect(lambda *_: self._clear_messages())
 
         bar = QToolBar()
         add = QPushButton("Add floor on top")
@@ -82,6 +86,7 @@ class FloorsPanel(QWidget):
         layout.addWidget(hint)
         layout.addWidget(self.table, 1)
         layout.addWidget(self.error)
+        layout.addWidget(self.note)
 
     def detach(self) -> None:
         self.model.detach()
@@ -109,19 +114,35 @@ class FloorsPanel(QWidget):
         self._show_error(f"Floor {key}: {message} (the old value is kept)")
 
     def _show_error(self, message: str) -> None:
+        self.note.hide()
         self.error.setText(f"! {message}")
         self.error.show()
 
-    def add_floor(self) -> None:
+    def _clear_messages(self) -> None:
         self.error.hide()
+        self.note.hide()
+
+    def add_floor(self) -> None:
+        self._clear_messages()
         reason = push_command(self._history, AddFloor(next_floor(self._doc.building)))
         if reason:
             self._show_error(reason)
 
-    def remove_selected(self) -> Any:
-        self.error.hide()
+    def remove_selected(self) -> str | None:
+        """Remove the selected floor and its openings; the reason if refused."""
+        self._clear_messages()
         level = self.selected_level()
-        if level is not None:
-            reason = push_command(self._history, RemoveFloor(level))
-            if reason:
-                self._show_error(reason)
+        if level is None:
+            self._show_error("select a floor first")
+            return "select a floor first"
+        cmd = RemoveFloor(level)
+        reason = push_command(self._history, cmd)
+        if reason:
+            self._show_error(reason)
+            return reason
+        n = len(cmd.removed_openings)
+        if n:
+            self.note.setText(f"Removed floor {level} and the {n} opening{'s' if n != 1 else ''} "
+                              "on it. Undo (Ctrl+Z) brings them back.")
+            self.note.show()
+        return None

@@ -5,7 +5,7 @@ from __future__ import annotations
 from collections.abc import Sequence
 from typing import Any
 
-from PySide6.QtCore import QItemSelectionModel, Qt
+from PySide6.QtCore import QItemSelection, QItemSelectionModel, Qt
 from PySide6.QtGui import QAction
 from PySide6.QtWidgets import (
     QAbstractItemView,
@@ -23,8 +23,8 @@ from petfall_audit.editing.commands import AddOpenings, RemoveOpenings, SetOpeni
 from petfall_audit.editing.document import Document
 from petfall_audit.editing.fields import OPENING_FIELDS, FieldSpec
 from petfall_audit.editing.history import History
-from petfall_audit.editing.query import unique_id
-from petfall_audit.gui.adapters import RecordTableModel, ViewOptions, push_command
+from petfall_audit.editing.query import applicable_openings, unique_id
+from petfall_audit.gui.adapters import RecordTableModel, ViewOptions, _runs, push_command
 from petfall_audit.gui.widgets.field_form import MIXED, FieldForm
 from petfall_audit.gui.widgets.tables import error_label, record_table
 from petfall_audit.model import Opening, OpeningKind
@@ -99,6 +99,7 @@ class OpeningsPanel(QWidget):
         layout.addWidget(splitter)
 
         self.model.edit_failed.connect(self._on_edit_failed)
+        self.model.edited.connect(lambda *_: self.table_error.hide())
         self.table.selectionModel().selectionChanged.connect(self._on_selection_changed)
         self._disconnects = [doc.on_changed(k, self._on_doc_changed)
                              for k in ("openings", "facades")]
@@ -113,23 +114,26 @@ class OpeningsPanel(QWidget):
 
     def selected_ids(self) -> list[str]:
         """Ids of the selected openings, in table order."""
-        rows = sorted({i.row() for i in self.table.selectionModel().selectedRows()})
-        return [self.model.key_of_row(r) for r in rows]
+        rows: set[int] = set()
+        selection = self.table.selectionModel().selection()
+        for k in range(selection.count()):  # whole rows are selected: read the row spans
+            span = selection.at(k)
+            rows.update(range(span.top(), span.bottom() + 1))
+        return [self.model.key_of_row(r) for r in sorted(rows) if r < self.model.rowCount()]
 
     def select_ids(self, ids: Sequence[str]) -> None:
-        """Select the openings with ``ids``."""
-        sel = self.table.selectionModel()
-        sel.clearSelection()
-        flags = (QItemSelectionModel.SelectionFlag.Select
-                 | QItemSelectionModel.SelectionFlag.Rows)
-        first = None
-        for opening_id in ids:
-            row = self.model.row_of_key(opening_id)
-            if row >= 0:
-                sel.select(self.model.index(row, 0), flags)
-                first = row if first is None else first
-        if first is not None:
-            self.table.scrollTo(self.model.index(first, 0))
+        """Select the openings with ``ids`` in one step (one selection change, however many)."""
+        row_of = self.model.rows_by_key()
+        rows = [row_of[i] for i in ids if i in row_of]
+        selection = QItemSelection()
+        last_col = self.model.columnCount() - 1
+        for start, end in _runs(sorted(set(rows))):
+            selection.select(self.model.index(start, 0), self.model.index(end, last_col))
+        self.table.selectionModel().select(
+            selection, QItemSelectionModel.SelectionFlag.ClearAndSelect
+            | QItemSelectionModel.SelectionFlag.Rows)
+        if rows:
+            self.table.scrollTo(self.model.index(rows[0], 0))
 
     def _choices(self, spec: FieldSpec) -> list[str]:
         if spec.name == "facade":
@@ -173,11 +177,18 @@ class OpeningsPanel(QWidget):
         ids = self.selected_ids()
         if not ids:
             return "select an opening first"
+        fits, skipped, why = applicable_openings(self._doc.building, ids, name, value)
+        if not fits:
+            return why
         try:
-            cmd = SetOpeningFields(ids, {name: value})
+            cmd = SetOpeningFields(fits, {name: value})
         except ValueError as exc:
             return str(exc)
         reason = push_command(self._history, cmd)
+        if reason is None and skipped:
+            self.table_error.setText(f"! {len(skipped)} of the selected openings left as they "
+                                     f"were: {why}")
+            self.table_error.show()
         if reason is None and name == "id":
             self.select_ids([value])
         return reason

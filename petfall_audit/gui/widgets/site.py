@@ -51,6 +51,7 @@ class SitePanel(QWidget):
         self.surfaces_table = record_table(self.surfaces_model, "surfaces_table", self._choices)
         self.error = error_label()
         for model in (self.facades_model, self.surfaces_model):
+            model.edited.connect(lambda *_: self.error.hide())
             model.edit_failed.connect(
                 lambda key, _f, msg: self._show_error(f"{key}: {msg} (the old value is kept)"))
 
