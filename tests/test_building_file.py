@@ -347,6 +347,16 @@ def _set(doc: dict[str, Any], path: str, value: Any) -> dict[str, Any]:
             "cat_profile.mass_kg: expected a number or a distribution",
         ),
         ("cat_profile", {"colour": "ginger"}, "cat_profile.colour: unknown field 'colour'"),
+        (  # lighter than a newborn kitten (about 100 g; common practice, no source)
+            "cat_profile",
+            {"mass_kg": 0.001},
+            "cat_profile.mass_kg: must be at least 0.1 kg, got 0.001 kg",
+        ),
+        (
+            "cat_profile",
+            {"mass_kg": {"lognormal": {"mean": 4.1, "sd": 1e6}}},
+            "cat_profile.mass_kg.lognormal.sd: must be at most 30 kg",
+        ),
     ],
 )
 def test_each_problem_is_located_in_plain_words(path: str, value: Any, expected: str) -> None:

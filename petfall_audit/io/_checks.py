@@ -433,9 +433,10 @@ def _first_gap(spans: Sequence[tuple[float, float]]) -> tuple[float, float] | No
 
 # (lower bound, lower bound open, upper bound, upper bound open, why the upper bound)
 _PARAM_LIMITS: dict[str, tuple[float, bool, float, bool, str]] = {
-    "mass_kg": (0.0, True, LIMITS.mass_max_kg, False, "far heavier than any cat"),
-    "cda_tense_m2": (0.0, True, LIMITS.cda_max_m2, False, "far larger than any cat"),
-    "cda_spread_m2": (0.0, True, LIMITS.cda_max_m2, False, "far larger than any cat"),
+    "mass_kg": (LIMITS.mass_min_kg, False, LIMITS.mass_max_kg, False, "far heavier than any cat"),
+    "cda_tense_m2": (LIMITS.cda_min_m2, False, LIMITS.cda_max_m2, False, "far larger than any cat"),
+    "cda_spread_m2": (LIMITS.cda_min_m2, False, LIMITS.cda_max_m2, False,
+                      "far larger than any cat"),
     "relax_fraction": (0.0, True, 1.0, True, "a fraction of the terminal speed"),
     "righting_time_s": (0.0, True, LIMITS.righting_time_max_s, False, "far slower than a cat"),
     "launch_speed_mps": (0.0, False, LIMITS.launch_speed_max_mps, False, "far faster than a cat"),
@@ -476,7 +477,7 @@ def _check_profile(problems: list[Problem], p: CatProfile, *, compare: bool = Tr
             value(at, d.value)
         elif isinstance(d, Normal):
             value(f"{at}.mean", d.mean)
-            _range(problems, f"{at}.sd", d.sd, unit, 0.0)
+            _range(problems, f"{at}.sd", d.sd, unit, 0.0, hi, why=why)
         elif isinstance(d, Uniform):
             value(f"{at}.min", d.min)
             value(f"{at}.max", d.max)
@@ -486,7 +487,7 @@ def _check_profile(problems: list[Problem], p: CatProfile, *, compare: bool = Tr
                 )
         elif isinstance(d, LogNormal):
             value(f"{at}.lognormal.mean", d.mean)
-            _range(problems, f"{at}.lognormal.sd", d.sd, unit, 0.0)
+            _range(problems, f"{at}.lognormal.sd", d.sd, unit, 0.0, hi, why=why)
         else:
             problems.append(Problem(at, DISTRIBUTION_WORDS))
         fine = fine and len(problems) == before

@@ -88,7 +88,9 @@ class Limits:
     mesh_max_mm: float = 500.0
     facade_tolerance_m: float = 0.01  # x_m + width_m may pass the facade end by this much
     catch_reach_m: float = 5.0  # beyond its projection, how far out an opening's fall may land
+    mass_min_kg: float = 0.1  # a newborn kitten weighs about 100 g (common practice, no source)
     mass_max_kg: float = 30.0
+    cda_min_m2: float = 0.005  # C_d·A of a newborn kitten scaled from an adult's (m^(2/3))
     cda_max_m2: float = 2.0
     righting_time_max_s: float = 5.0
     launch_speed_max_mps: float = 20.0
