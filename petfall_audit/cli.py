@@ -261,7 +261,8 @@ def _cmd_report(args: argparse.Namespace) -> int:
     try:
         if fmt == "pdf":
             written = [write_audit(assessment, plan, args.output, top_n=args.top,
-                                   options=ReportOptions(issuer=contact))]
+                                   options=ReportOptions(issuer=contact),
+                                   photo_root=Path(args.file).parent)]
         else:
             written = export_results(
                 assessment, plan, args.output, "csv" if fmt == "csv" else "json"
@@ -315,7 +316,7 @@ def _cmd_batch(args: argparse.Namespace) -> int:
             atomic_write_text(result_path, assessment_to_csv(assessment))
         plan = make_plan(assessment, args.budget) if args.budget is not None else None
         if args.format == "pdf":
-            write_audit(assessment, plan, result_path)
+            write_audit(assessment, plan, result_path, photo_root=Path(name).parent)
         counts = [0] * len(BANDS)
         for result in assessment.openings:
             counts[result.expected_band] += 1
@@ -472,7 +473,8 @@ def _build_parser() -> argparse.ArgumentParser:
     p = sub.add_parser(
         "report",
         help="write the PDF audit (or CSV/JSON results), optionally a tenant leaflet",
-        description="Assess FILE and write the audit report. Indicative model only.",
+        description="Assess FILE and write the audit report. The openings' photos are read "
+                    "from FILE's folder. Indicative model only.",
     )
     p.add_argument("file", help="building file (.json)")
     p.add_argument("-o", "--output", required=True, help="output file (.pdf, .csv or .json)")

@@ -232,3 +232,90 @@ def test_budget_grid_reaches_the_flat_end_of_the_curve(tower) -> None:  # type: 
     assert grid[0] == 0 and np.all(np.diff(grid) > 0) and grid.size == 15
     _, removed = curve_from_options(options, [grid[-1], 10 * grid[-1]])
     assert removed[0] == pytest.approx(removed[1], rel=1e-9)  # more money removes no more
+
+
+# --- sensitivity to the cat profile -------------------------------------------------------------
+
+
+@pytest.fixture(scope="module")
+def swings(assessment):  # type: ignore[no-untyped-def]
+    from petfall_audit.figures import sensitivity_figure
+
+    return sensitivity_figure(assessment)
+
+
+def test_sensitivity_bars_are_sorted_and_cover_every_parameter(swings) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.figures import PARAMETER_LABELS
+    from petfall_audit.sensitivity import PARAMETERS
+
+    assert set(swings.parameters) == {name for name, _ in PARAMETERS}
+    assert swings.labels == tuple(PARAMETER_LABELS[p] for p in swings.parameters)
+    mags = np.abs(swings.swing_pct)
+    assert np.all(np.diff(mags) <= 1e-12)  # largest absolute swing first
+    assert len(swings.opening_ids) == 5 and swings.base_risk > 0
+    assert swings.samples == swings.assessment_samples == 400 and not swings.reduced
+
+
+def test_sensitivity_signs_follow_the_terminal_speed(swings) -> None:  # type: ignore[no-untyped-def]
+    # Terminal speed v_t = sqrt(2 m g / (rho C_d A)) (Taylor, Classical Mechanics, 2005, §2.4):
+    # a heavier cat falls faster, a larger drag area slower; the injury index rises with the
+    # impact speed, so the top risk rises with mass and falls with the tense drag area.
+    swing = dict(zip(swings.parameters, swings.swing_pct, strict=True))
+    assert swing["mass_kg"] > 5.0
+    assert swing["cda_tense_m2"] < -1.0
+    assert swings.parameters[0] == "mass_kg"
+    i = swings.parameters.index("mass_kg")
+    assert swings.low_pct[i] < 0 < swings.high_pct[i]
+
+
+def test_sensitivity_percentages_are_of_the_base_risk(assessment, swings) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.sensitivity import sensitivity_analysis
+
+    res = sensitivity_analysis(assessment)
+    by_name = {s.parameter: s for s in res.swings}
+    for k, name in enumerate(swings.parameters):
+        s = by_name[name]
+        assert swings.swing_pct[k] == pytest.approx(100.0 * s.swing, abs=1e-9)
+        assert swings.low_pct[k] == pytest.approx(100.0 * (s.risk_low / res.base_risk - 1))
+        assert swings.high_pct[k] - swings.low_pct[k] == pytest.approx(swings.swing_pct[k])
+        assert swings.low_value[k] < swings.high_value[k]
+    # units: SI values, the mass range between the adult preset's 10th and 90th percentiles
+    i = swings.parameters.index("mass_kg")
+    assert swings.units[i] == "kg" and swings.range_text[i].endswith(" kg")
+    assert 2.0 < swings.low_value[i] < 4.1 < swings.high_value[i] < 7.0
+    j = swings.parameters.index("relax_probability")
+    assert swings.high_value[j] - swings.low_value[j] == pytest.approx(0.4)  # ±0.2
+    assert swings.range_text[j] == "50–90%"
+
+
+def test_sensitivity_reuses_a_filled_in_analysis_and_can_use_fewer_cats(assessment) -> None:  # type: ignore[no-untyped-def]
+    from dataclasses import replace
+
+    from petfall_audit.figures import sensitivity_figure
+    from petfall_audit.sensitivity import ParameterSwing, SensitivityResult, with_sensitivity
+
+    filled = with_sensitivity(assessment)
+    fig = sensitivity_figure(filled)
+    assert fig is not None
+    assert fig.swing_pct == pytest.approx([100.0 * s.swing for s in filled.sensitivity.swings])
+    # an analysis already filled in is drawn as it is, not run again
+    made_up = SensitivityResult(("N3-B",), 200.0, (ParameterSwing("mass_kg", "kg", 3.0, 5.0,
+                                                                   150.0, 250.0, 0.5),))
+    fig = sensitivity_figure(replace(assessment, sensitivity=made_up))
+    assert fig is not None and fig.parameters == ("mass_kg",)
+    assert fig.low_pct.tolist() == [-25.0] and fig.high_pct.tolist() == [25.0]
+    assert fig.range_text == ("3.0–5.0 kg",) and fig.span_pct == 25.0
+    fewer = sensitivity_figure(assessment, max_samples=100)
+    assert fewer is not None and fewer.samples == 100 and fewer.reduced
+    assert sensitivity_figure(assessment, cancelled=lambda: True) is None
+
+
+def test_sensitivity_of_a_building_without_openings_is_none() -> None:
+    from dataclasses import replace
+
+    from petfall_audit.figures import fmt_change_pct, sensitivity_figure
+
+    empty = assess(replace(small_building(), openings=()), samples=10, seed=1)
+    assert sensitivity_figure(empty) is None
+    assert [fmt_change_pct(v) for v in (43.2, -4.94, 0.01, 9.96)] == ["+43%", "-4.9%", "0%",
+                                                                         "+10%"]

@@ -278,3 +278,47 @@ def test_views_follow_the_units_and_the_palette(app_window) -> None:  # type: ig
     from petfall_audit.palette import band_style
 
     assert item.fill_brush().color().name().upper() == band_style(item.band, "grey").fill.upper()
+
+
+def test_cat_assumptions_panel_fills_after_the_results(app_window, qtbot) -> None:  # type: ignore[no-untyped-def]
+    window, views = app_window()
+    panel = views.sensitivity
+    show = next(a for a in views.view_actions if a.shortcut().toString() == "Ctrl+6")
+    show.trigger()
+    assert window.view_tabs.currentWidget() is panel
+    qtbot.waitUntil(lambda: panel.section is not None, timeout=20000)
+    a = views.context.assessment
+    assert panel.section_for is a
+    fig = panel.section.figure
+    assert fig.samples == a.samples == SAMPLES and len(fig.opening_ids) == 5
+    ticks = panel.plot.getAxis("left")._tickLevels[0]
+    assert [t[1].split(" (")[0] for t in ticks] == list(fig.labels)  # largest swing on top
+    assert ticks[0][1].endswith(f"swing {panel.section.values[0]}")
+    assert panel.note.text() == panel.section.lead and "depends most on" in panel.section.lead
+    assert panel.plot.isEnabled() and panel.plot.isVisible()
+
+
+def test_cat_assumptions_wait_for_the_full_results(qtbot, monkeypatch) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.gui.views import sensitivity as view_module
+
+    seen: list[int] = []
+    real = view_module.compute_sensitivity
+
+    def spy(assessment: Any, is_current: Any = None) -> Any:
+        seen.append(int(assessment.samples))
+        return real(assessment, is_current)
+
+    monkeypatch.setattr(view_module, "compute_sensitivity", spy)
+    window = MainWindow(Document(sample_building("walkup")), prompts=QuietPrompts(),
+                        samples=32, refine_samples=SAMPLES, refine_delay_ms=50)
+    qtbot.addWidget(window)
+    views = install_views(window)
+    window.show()
+    try:
+        qtbot.waitUntil(lambda: views.sensitivity.section is not None, timeout=30000)
+        assert views.sensitivity.section.figure.samples == SAMPLES
+        assert seen and set(seen) == {SAMPLES}  # never run on the quick 32-cat results
+    finally:
+        window.recomputer.cancel()
+        window.recomputer.wait(10000)
+        wait_for_tasks(20000)

@@ -272,3 +272,42 @@ def test_plan_lists_each_condition_once_and_rows_refer_to_it() -> None:
             sorted(set(row.conditions), key=ctx.plan_notes.index))
     assert sum(int(c.openings) for c in ctx.plan_controls) == len(ctx.plan_rows)
     assert "control(s)" not in " ".join(ctx.plan_summary)
+
+
+# --- how much the result depends on the cat ------------------------------------------------------
+
+
+def test_audit_shows_how_much_the_result_depends_on_the_cat(audit_text) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.figures import PARAMETER_LABELS
+
+    squashed = _squash(audit_text)
+    assert _squash(rc.SENSITIVITY_TITLE) in squashed
+    for label in PARAMETER_LABELS.values():  # every bar is named on the chart
+        assert _squash(label) in squashed, label
+    assert "The result depends most on the" in audit_text
+    assert _squash("its 10th and 90th percentile among the sampled cats") in squashed
+
+
+def test_sensitivity_section_has_the_numbers_of_the_assess_json(walkup) -> None:  # type: ignore[no-untyped-def]
+    # `petfall-audit assess --format json` exports with_sensitivity(); the report's swings
+    # (same samples and seed) must be those numbers, in % of the base risk.
+    from petfall_audit.sensitivity import with_sensitivity
+
+    a, _ = walkup
+    sens = rc.build_sensitivity_context(a)
+    assert sens is not None
+    exported = with_sensitivity(a).sensitivity
+    assert sens.figure.parameters == tuple(s.parameter for s in exported.swings)
+    assert sens.figure.swing_pct == pytest.approx([100 * s.swing for s in exported.swings])
+    top = exported.swings[0]
+    assert sens.values[0] == f"{100 * top.swing:+.0f}%"  # walk-up: the largest swing is >= 10 %
+    assert "the 5 highest-risk openings" in sens.lead
+
+
+def test_sensitivity_section_with_fewer_cats_says_so_and_can_be_left_out(walkup) -> None:  # type: ignore[no-untyped-def]
+    a, plan = walkup
+    sens = rc.build_sensitivity_context(a, max_samples=100)
+    assert sens is not None and sens.figure.samples == 100
+    assert "instead of 600" in sens.caption
+    off = rc.build_audit_context(a, plan, options=rc.ReportOptions(sensitivity_samples=0))
+    assert off.sensitivity is None

@@ -12,6 +12,8 @@ times in s, likelihoods as yearly probabilities (0..1), costs in the catalogue's
   :func:`fall_profile_figure`, :func:`posture_paths`, :func:`impact_speed_curve`).
 - :mod:`.budget`: budgets for the risk-against-budget curve (:func:`budget_grid`,
   :func:`knee_budget`).
+- :mod:`.sensitivity`: how much the top risks rest on the cat profile
+  (:func:`sensitivity_figure`).
 """
 
 from __future__ import annotations
@@ -47,6 +49,14 @@ from petfall_audit.figures.floors import (
     floors_by_elevation,
     level_summary,
 )
+from petfall_audit.figures.sensitivity import (
+    PARAMETER_LABELS,
+    SWING_DEFINITION,
+    SensitivityFigure,
+    fmt_change_pct,
+    sensitivity_figure,
+    sensitivity_figure_from_result,
+)
 
 __all__ = [
     "HEAD_HEIGHT_M",
@@ -59,8 +69,11 @@ __all__ = [
     "FloorSummary",
     "ImpactCurve",
     "LevelSummary",
+    "PARAMETER_LABELS",
     "PosturePath",
     "RepresentativeCat",
+    "SWING_DEFINITION",
+    "SensitivityFigure",
     "SurfaceBand",
     "align_levels",
     "budget_grid",
@@ -69,10 +82,13 @@ __all__ = [
     "fall_profile_figure",
     "floor_comparison",
     "floors_by_elevation",
+    "fmt_change_pct",
     "impact_speed_curve",
     "knee_budget",
     "level_summary",
     "posture_paths",
     "representative_cat",
+    "sensitivity_figure",
+    "sensitivity_figure_from_result",
     "storey_heights_m",
 ]

@@ -40,6 +40,7 @@ from petfall_audit.editing.fields import OPENING_FIELDS, FieldSpec, enum_label, 
 from petfall_audit.editing.query import select_openings
 from petfall_audit.gui.settings import CONTACT_FIELDS
 from petfall_audit.gui.widgets.field_form import ERROR_STYLE
+from petfall_audit.gui.widgets.photos import PHOTO_FILTER, PhotoDialog
 from petfall_audit.model import Building, OpeningKind
 
 __all__ = ["Prompts", "CopyRequest", "BulkRequest", "CautionsDialog", "CopyFloorDialog",
@@ -130,6 +131,24 @@ class Prompts:
 
     def show_cautions(self, parent: QWidget, *, about: bool = False) -> None:
         CautionsDialog(parent, about=about).exec()
+
+    def choose_photos(self, parent: QWidget, folder: Path | None) -> list[Path]:
+        """Photo files (JPEG or PNG) to add to an opening; empty if none were chosen."""
+        names, _ = QFileDialog.getOpenFileNames(parent, "Add photos", str(folder or ""),
+                                                PHOTO_FILTER)
+        return [Path(n) for n in names]
+
+    def ask_save_for_photos(self, parent: QWidget) -> bool:
+        """True if the user agrees to save the (never saved) building before adding photos."""
+        answer = QMessageBox.question(
+            parent, APP_TITLE,
+            "Photos are kept in a 'photos' folder beside the building file, so the building "
+            "has to be saved first.\n\nSave it now?")
+        return answer == QMessageBox.StandardButton.Yes
+
+    def show_photo(self, parent: QWidget, path: Path, caption: str) -> None:
+        """Show the photo at ``path`` larger."""
+        PhotoDialog(path, caption, parent).exec()
 
 
 def cautions_html(*, about: bool = False) -> str:

@@ -61,14 +61,14 @@ def report_inputs(building: Building, *, samples: int, seed: int, budget: float 
     return assessment, plan
 
 
-def _write(kind: str, assessment: Any, plan: Any, path: Path, contact: dict[str, str]
-           ) -> list[Path]:
+def _write(kind: str, assessment: Any, plan: Any, path: Path, contact: dict[str, str],
+           photo_root: Path | None = None) -> list[Path]:
     from petfall_audit.io.atomic import atomic_write_text
 
     if kind == "audit_pdf":
         from petfall_audit.report import write_audit
 
-        return [write_audit(assessment, plan, path)]
+        return [write_audit(assessment, plan, path, photo_root=photo_root)]
     if kind == "leaflet_pdf":
         from petfall_audit.report import ContactBlock, write_leaflet
 
@@ -177,13 +177,14 @@ class ExportActions(QObject):
         building = doc.building
         samples, seed = self.samples, self.window.recomputer.seed
         contact = dict(self.window.settings.contact())
+        photo_root = doc.path.parent if doc.path is not None else None  # photos are beside it
         pdf = kind.endswith("_pdf")
 
         def work(progress: Callable[[int, int], None]) -> list[Path]:
             assessment, plan = report_inputs(building, samples=samples, seed=seed,
                                              budget=budget, progress=progress)
             try:
-                return _write(kind, assessment, plan, path, contact)
+                return _write(kind, assessment, plan, path, contact, photo_root)
             except OSError as exc:  # the writers leave no partial file behind
                 raise OSError(_write_error(path, exc)) from None
 

@@ -262,7 +262,7 @@ class MainWindow(QMainWindow):
         self.document = doc
         self.history = History(doc)
         a = self.actions_
-        self.openings_panel = OpeningsPanel(doc, self.history, self.options)
+        self.openings_panel = OpeningsPanel(doc, self.history, self.options, host=self)
         self.floors_panel = FloorsPanel(doc, self.history, self.options, actions=[a.copy_floor])
         self.site_panel = SitePanel(doc, self.history, self.options)
         self.building_panel = BuildingPanel(doc, self.history, self.options)

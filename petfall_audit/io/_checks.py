@@ -341,6 +341,8 @@ def _check_openings(
                     f"{o.kind.value.replace('_', ' ')}",
                 )
             )
+        # Only the form of a photo path is checked here: a missing photo file never stops a
+        # building from loading; the app and the report say so where they show the photo.
         for k, photo in enumerate(o.photos):
             if not photo or photo.startswith(("/", "\\")) or re.match(r"^[A-Za-z]:", photo):
                 problems.append(

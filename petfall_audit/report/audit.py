@@ -53,12 +53,17 @@ def audit_story(assessment: Assessment, plan: Plan | None, ctx: AuditContext,
 
 
 def write_audit(assessment: Assessment, plan: Plan | None, path: str | Path, *, top_n: int = 5,
-                options: ReportOptions | None = None) -> Path:
+                options: ReportOptions | None = None, photo_root: str | Path | None = None
+                ) -> Path:
     """Write the audit PDF to ``path`` and return it. ``top_n`` openings get a detail page
-    (overrides ``options.top_n``); ``plan`` may be ``None`` (no budget given)."""
+    (overrides ``options.top_n``); ``plan`` may be ``None`` (no budget given). ``photo_root``:
+    the building file's folder, where the openings' photos are (overrides
+    ``options.photo_root`` when given)."""
     from dataclasses import replace
 
     opts = replace(options or ReportOptions(), top_n=top_n)
+    if photo_root is not None:
+        opts = replace(opts, photo_root=Path(photo_root))
     ctx = build_audit_context(assessment, plan, options=opts)
 
     def make_doc(out: BinaryIO) -> AuditDocTemplate:

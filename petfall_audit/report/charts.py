@@ -12,7 +12,12 @@ from reportlab.graphics.shapes import Drawing, Line, PolyLine, Rect, String
 from reportlab.lib import colors
 from reportlab.pdfbase.pdfmetrics import stringWidth
 
-from petfall_audit.figures import FacadeElevation, FallProfileFigure, FloorComparison
+from petfall_audit.figures import (
+    FacadeElevation,
+    FallProfileFigure,
+    FloorComparison,
+    SensitivityFigure,
+)
 from petfall_audit.palette import band_style, band_styles, rgb
 from petfall_audit.report.fonts import fonts, plain
 from petfall_audit.report.styles import INK, MUTED, RULE
@@ -22,6 +27,9 @@ __all__ = [
     "facade_scales",
     "floor_chart",
     "fall_profile_drawing",
+    "sensitivity_drawing",
+    "SENSITIVITY_LOW_FILL",
+    "SENSITIVITY_HIGH_FILL",
     "band_legend",
     "colour",
     "fit_label",
@@ -282,4 +290,67 @@ def fall_profile_drawing(fig: FallProfileFigure, width: float, height: float = 1
     _panel(d, 2 * left + w + gap, 26, w, height - 40, t[idx], np.asarray(fig.height_m)[idx],
            xlabel="time since leaving the perch (s)", ylabel="height above landing (m)",
            marker_t=fig.switch_time_s)
+    return d
+
+
+#: Bar fills of the sensitivity chart: the low value light, the high value dark (Okabe-Ito blue),
+#: far apart in grey too; both outlined in ink.
+SENSITIVITY_LOW_FILL = "#C6DBEF"
+SENSITIVITY_HIGH_FILL = "#0072B2"
+
+
+def sensitivity_drawing(fig: SensitivityFigure, labels: tuple[str, ...],
+                        ranges: tuple[str, ...], values: tuple[str, ...], width: float) -> Drawing:
+    """Tornado of the one-at-a-time swings: per parameter (largest first, at the top) a light
+    bar for the change of the top risk at its low value and a dark one at its high value (% of
+    the base risk), its name and value range at the left and the swing at the right."""
+    n = len(fig.parameters)
+    row, top_pad, bottom_pad = 19.0, 16.0, 22.0
+    label_w = min(max([_width(t, 7) for t in labels + ranges] + [40.0]) + 8, 0.35 * width)
+    right_w = 36.0
+    plot_w = width - label_w - right_w
+    h = n * row + top_pad + bottom_pad
+    d = Drawing(width, h)
+    lo_pct, hi_pct = np.asarray(fig.low_pct, float), np.asarray(fig.high_pct, float)
+    span = max(fig.span_pct, 1.0)
+    step = _nice_step(span, 3)
+    vmin = min(0.0, math.floor(min(float(lo_pct.min(initial=0)), float(hi_pct.min(initial=0)))
+                               / step) * step)
+    vmax = max(0.0, math.ceil(max(float(lo_pct.max(initial=0)), float(hi_pct.max(initial=0)))
+                              / step) * step)
+    if vmax - vmin <= 0:
+        vmin, vmax = -step, step
+
+    def x_of(v: float) -> float:
+        return label_w + (v - vmin) / (vmax - vmin) * plot_w
+
+    y_plot_top = bottom_pad + n * row
+    for t in np.arange(vmin, vmax + step / 2, step):
+        x = x_of(float(t))
+        d.add(Line(x, bottom_pad, x, y_plot_top, strokeColor=RULE, strokeWidth=0.3))
+        d.add(_text(x, bottom_pad - 9, f"{t:+g}%" if t else "0", 6.5, anchor="middle",
+                    colour_=MUTED))
+    d.add(_text(label_w + plot_w / 2, 2, "change of the top openings' summed risk score "
+                "(% of its value)", 7, anchor="middle", colour_=MUTED))
+    # legend above the bars
+    lx = label_w
+    for fill, text in ((SENSITIVITY_LOW_FILL, "low value (10th percentile)"),
+                       (SENSITIVITY_HIGH_FILL, "high value (90th percentile)")):
+        d.add(Rect(lx, h - 10, 14, 7, fillColor=colour(fill), strokeColor=INK, strokeWidth=0.4))
+        d.add(_text(lx + 18, h - 9.5, text, 6.5))
+        lx += 26 + _width(text, 6.5)
+    d.add(_text(width - 2, h - 9.5, "swing", 6.5, anchor="end", colour_=MUTED))
+    zero = x_of(0.0)
+    for i in range(n):
+        y = bottom_pad + (n - 1 - i) * row  # largest swing at the top
+        half = row * 0.36
+        for v, fill, y0 in ((float(lo_pct[i]), SENSITIVITY_LOW_FILL, y + row / 2),
+                            (float(hi_pct[i]), SENSITIVITY_HIGH_FILL, y + row / 2 - half)):
+            x0, x1 = sorted((zero, x_of(v)))
+            d.add(Rect(x0, y0, max(x1 - x0, 0.6), half, fillColor=colour(fill),
+                       strokeColor=INK, strokeWidth=0.35))
+        d.add(_text(label_w - 6, y + row / 2 + 1, labels[i], 7, anchor="end", bold=i == 0))
+        d.add(_text(label_w - 6, y + row / 2 - 7, ranges[i], 6, anchor="end", colour_=MUTED))
+        d.add(_text(width - 2, y + row / 2 - 2.5, values[i], 7, anchor="end", bold=i == 0))
+    d.add(Line(zero, bottom_pad, zero, y_plot_top, strokeColor=INK, strokeWidth=0.7))
     return d

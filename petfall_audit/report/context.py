@@ -11,9 +11,11 @@ import datetime as _dt
 import math
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
+from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 from petfall_audit.cautions import CAUTIONS, CAUTIONS_SHORT
+from petfall_audit.io.photos import photo_file, photo_name
 from petfall_audit.model import CatProfile, Distribution, Fixed, LogNormal, Normal, Uniform
 
 if TYPE_CHECKING:
@@ -27,8 +29,11 @@ __all__ = [
     "PlanRow",
     "PlanControlRow",
     "DetailContext",
+    "PhotoRef",
     "AuditContext",
     "LeafletContext",
+    "SensitivityContext",
+    "build_sensitivity_context",
     "build_audit_context",
     "build_leaflet_context",
     "fmt_speed",
@@ -99,13 +104,19 @@ class ContactBlock:
 @dataclass(frozen=True, slots=True)
 class ReportOptions:
     """Options of the audit report. ``generated_on``: ISO date, default today. ``scope``: free
-    text; a default scope sentence is written when empty."""
+    text; a default scope sentence is written when empty. ``photo_root``: see below."""
 
     top_n: int = 5
     scope: str = ""
     palette: str = "standard"
     generated_on: str = ""
     issuer: ContactBlock = field(default_factory=ContactBlock)
+    #: Folder of the building file: the openings' photo paths are relative to it. ``None``
+    #: (not known): each photo is listed as not found.
+    photo_root: Path | None = None
+    #: At most this many cats per simulation of the sensitivity section (``None``: as many as
+    #: the assessment); ``0`` leaves the section out.
+    sensitivity_samples: int | None = None
 
 
 # --- formatting ---------------------------------------------------------------------------------
@@ -234,6 +245,15 @@ class PlanControlRow:
 
 
 @dataclass(frozen=True, slots=True)
+class PhotoRef:
+    """A photo of an opening: ``name`` (the caption: its file name) and ``path``, the file to
+    print (``None`` when the building file's folder is not known). The file may be missing."""
+
+    name: str
+    path: Path | None
+
+
+@dataclass(frozen=True, slots=True)
 class DetailContext:
     """One top opening's detail page. ``facts``: (label, value) pairs."""
 
@@ -247,6 +267,7 @@ class DetailContext:
     code_notes: tuple[str, ...]
     control: str
     notes: str
+    photos: tuple[PhotoRef, ...] = ()
 
 
 @dataclass(frozen=True, slots=True)
@@ -282,6 +303,7 @@ class AuditContext:
     signoff: tuple[str, ...]
     issuer: tuple[str, ...]
     font_note: str
+    sensitivity: SensitivityContext | None = None
 
 
 @dataclass(frozen=True, slots=True)
@@ -367,8 +389,8 @@ def _code_notes(assessment: Assessment, opening_id: str) -> tuple[str, ...]:
     return tuple(why_code_compliant_is_not_cat_safe(assessment.building.opening(opening_id)))
 
 
-def _details(assessment: Assessment, plan: Plan | None, top_n: int, bands: tuple[str, ...]
-             ) -> tuple[DetailContext, ...]:
+def _details(assessment: Assessment, plan: Plan | None, top_n: int, bands: tuple[str, ...],
+             photo_root: Path | None = None) -> tuple[DetailContext, ...]:
     actions = _plan_by_opening(plan)
     currency = getattr(plan, "currency", "") if plan is not None else ""
     labels = _floor_labels(assessment)
@@ -412,6 +434,8 @@ def _details(assessment: Assessment, plan: Plan | None, top_n: int, bands: tuple
                 code_notes=_code_notes(assessment, o.id),
                 control=control,
                 notes=op.notes,
+                photos=tuple(PhotoRef(photo_name(p), photo_file(photo_root, p))
+                             for p in op.photos),
             )
         )
     return tuple(out)
@@ -635,7 +659,7 @@ def build_audit_context(assessment: Assessment, plan: Plan | None, *,
         assumptions=_assumptions(assessment.building.cat_profile, assessment),
         sources=SOURCES,
         ranked=ranked,
-        details=_details(assessment, plan, opts.top_n, bands),
+        details=_details(assessment, plan, opts.top_n, bands, opts.photo_root),
         plan_summary=plan_summary,
         plan_rows=plan_rows,
         plan_controls=_plan_controls(plan, plan_rows),
@@ -645,6 +669,8 @@ def build_audit_context(assessment: Assessment, plan: Plan | None, *,
         signoff=("Audited by", "Signature", "Date", "Reviewed by", "Signature", "Date"),
         issuer=opts.issuer.lines(),
         font_note=fonts().note,
+        sensitivity=(build_sensitivity_context(assessment, max_samples=opts.sensitivity_samples)
+                     if opts.sensitivity_samples != 0 else None),
     )
 
 
@@ -692,3 +718,97 @@ def _join(items: Sequence[str]) -> str:
     sep = "; " if any("," in i for i in items) else ", "
     last = "; and " if sep == "; " else " and "
     return sep.join(items[:-1]) + last + items[-1]
+
+
+# --- sensitivity to the cat profile ---------------------------------------------------------------
+
+
+@dataclass(frozen=True, slots=True)
+class SensitivityContext:
+    """The "how much the result depends on the cat" section: the ``figure`` the chart draws,
+    its bar labels (``labels``: parameter; ``ranges``: low–high value; ``values``: signed swing)
+    and the text around it."""
+
+    title: str
+    lead: str
+    definition: str
+    caption: str
+    figure: Any  # petfall_audit.figures.SensitivityFigure
+    labels: tuple[str, ...]
+    ranges: tuple[str, ...]
+    values: tuple[str, ...]
+
+
+#: Title of the sensitivity section.
+SENSITIVITY_TITLE = "How much the result depends on the cat"
+#: Below this largest swing (%) the result is said to rest little on the cat assumptions.
+_SMALL_SWING_PCT = 5.0
+
+
+def _mid_sentence(label: str) -> str:
+    """"Body mass" → "body mass"; "C_d·A tense" stays."""
+    return label[0].lower() + label[1:] if len(label) > 1 and label[1].islower() else label
+
+
+def _versus_base(pct: float, base: str) -> str:
+    """A change in % against ``base``: "28% below it", "2% above it", "about it"."""
+    if abs(pct) < 0.5:
+        return f"about {base}"
+    return f"{abs(pct):.0f}% {'above' if pct > 0 else 'below'} {base}"
+
+
+def build_sensitivity_context(assessment: Assessment, *, max_samples: int | None = None
+                              ) -> SensitivityContext | None:
+    """The sensitivity section of ``assessment`` (``None`` without openings). Runs the
+    one-at-a-time analysis unless ``assessment.sensitivity`` is filled in; ``max_samples``
+    caps the cats per simulation (the caption then says so)."""
+    from petfall_audit.figures.sensitivity import (
+        SWING_DEFINITION,
+        fmt_change_pct,
+        sensitivity_figure,
+    )
+
+    fig = sensitivity_figure(assessment, max_samples=max_samples)
+    if fig is None or not fig.parameters:
+        return None
+    k = len(fig.opening_ids)
+    tops = f"the {k} highest-risk openings" if k > 1 else "the highest-risk opening"
+    big = float(fig.swing_pct[0])
+    if fig.base_risk <= 0:
+        lead = ("No opening carries a risk score above zero, so the cat profile has nothing "
+                "to move.")
+    elif abs(big) < _SMALL_SWING_PCT:
+        lead = (f"No parameter of the cat profile moves the summed risk score of {tops} by "
+                f"{_SMALL_SWING_PCT:.0f}% or more: the result rests little on the cat "
+                "assumptions.")
+    else:
+        how = ("0.2 below and above the profile's value"
+               if fig.parameters[0] == "relax_probability"
+               else "the 10th to the 90th percentile of the sampled cats")
+        start = _versus_base(float(fig.low_pct[0]), "its value with the profile as set")
+        end = _versus_base(float(fig.high_pct[0]), "it")
+        lead = (f"The result depends most on the {_mid_sentence(fig.labels[0])}: from "
+                f"{fig.low_text[0]} to {fig.high_text[0]} ({how}) the summed risk score of "
+                f"{tops} goes from {start} to {end}, a swing of {abs(big):.0f}% "
+                f"of that value. Check this part of the cat profile "
+                "against the cats that live in the building before relying on the ranking.")
+    caption = (
+        f"Change of the summed risk score of {tops} ({', '.join(fig.opening_ids)}; "
+        f"{fmt_risk(fig.base_risk)} with the profile as set) with each parameter at its low "
+        "value (light bar) and its high value (dark bar), largest swing first, each with its "
+        f"swing (high minus low). {fig.samples:,} sampled cats per simulation, with the "
+        "assessment's seed.")
+    if fig.reduced:
+        caption += (f" To keep the report quick the analysis used {fig.samples:,} instead of "
+                    f"{fig.assessment_samples:,} cats, so its top openings can differ slightly "
+                    "from the ranked table.")
+    return SensitivityContext(
+        title=SENSITIVITY_TITLE,
+        lead=lead,
+        definition=SWING_DEFINITION,
+        caption=caption,
+        figure=fig,
+        labels=fig.labels,
+        ranges=fig.range_text,
+        values=tuple(fmt_change_pct(float(v)) for v in fig.swing_pct),
+    )

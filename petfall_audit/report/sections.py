@@ -33,15 +33,18 @@ from petfall_audit.report.charts import (
     facade_scales,
     fall_profile_drawing,
     floor_chart,
+    sensitivity_drawing,
 )
 from petfall_audit.report.context import AuditContext
 from petfall_audit.report.fonts import markup
+from petfall_audit.report.photos import build_photos
 from petfall_audit.report.styles import HEADER_FILL, INK, RULE, Styles
 
 __all__ = [
     "build_cover",
     "build_summary",
     "build_method",
+    "build_sensitivity",
     "build_facades",
     "build_floor_chart",
     "build_ranked_table",
@@ -146,9 +149,21 @@ def build_method(ctx: AuditContext, st: Styles, width: float) -> list[Flowable]:
     """Method, assumptions and sources."""
     out: list[Flowable] = [CondPageBreak(90 * mm), _p("Method and assumptions", st.h1),
                            _kv_table(ctx.method, st, width, 0.2), _p("Assumptions", st.h2),
-                           _kv_table(ctx.assumptions, st, width, 0.38), _p("Sources", st.h2)]
+                           _kv_table(ctx.assumptions, st, width, 0.38),
+                           *build_sensitivity(ctx, st, width), _p("Sources", st.h2)]
     out += _bullets(ctx.sources, st)
     return out
+
+
+def build_sensitivity(ctx: AuditContext, st: Styles, width: float) -> list[Flowable]:
+    """How much the result depends on the cat: the lead sentence, the swing chart with its
+    caption, and what the analysis measures (nothing without a sensitivity context)."""
+    sens = ctx.sensitivity
+    if sens is None:
+        return []
+    chart = sensitivity_drawing(sens.figure, sens.labels, sens.ranges, sens.values, width)
+    return [CondPageBreak(chart.height + 40 * mm), _p(sens.title, st.h2), _p(sens.lead, st.body),
+            KeepTogether([chart, _p(sens.caption, st.caption)]), _p(sens.definition, st.small)]
 
 
 def build_facades(elevations: Sequence[FacadeElevation], ctx: AuditContext, st: Styles,
@@ -265,6 +280,8 @@ def build_details(ctx: AuditContext, profiles: dict[str, FallProfileFigure], st:
         probs.setStyle(TableStyle([*_GRID, ("BACKGROUND", (0, 0), (-1, 0), HEADER_FILL)]))
         out += [_kv_table(det.facts, st, width, 0.36), Spacer(1, 2 * mm),
                 _p(f"Injury band probabilities (expected band marked {bs.mark}):", st.small), probs]
+        if det.photos:
+            out += [_p("Photos", st.h2), *build_photos(det.photos, st, width)]
         fig = profiles.get(det.opening_id)
         if fig is not None:
             out += [Spacer(1, 3 * mm), KeepTogether([

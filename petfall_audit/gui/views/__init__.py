@@ -1,5 +1,5 @@
 """The result views of the main window: ranked openings, facade elevations, floor comparison,
-fall profile and fix plan, plus File ▸ Import schedule and File ▸ Export.
+fall profile, fix plan and the cat assumptions, plus File ▸ Import schedule and File ▸ Export.
 
 :func:`install_views` adds them to a :class:`~petfall_audit.gui.main_window.MainWindow` through
 its public parts (``add_view``, ``view_tabs``, its menus, ``results_updated`` and the
@@ -21,12 +21,13 @@ from petfall_audit.gui.views.floors import FloorsView
 from petfall_audit.gui.views.plan import PlanView
 from petfall_audit.gui.views.profile import ProfileView
 from petfall_audit.gui.views.ranked import RankedView
+from petfall_audit.gui.views.sensitivity import SensitivityView
 
 __all__ = ["InstalledViews", "install_views", "VIEW_NAMES"]
 
 #: Tab names of the views, in order.
 VIEW_NAMES: tuple[str, ...] = ("Ranked openings", "Facade elevation", "Floor comparison",
-                               "Fall profile", "Fix plan")
+                               "Fall profile", "Fix plan", "Cat assumptions")
 
 
 @dataclass
@@ -39,6 +40,7 @@ class InstalledViews:
     floors: FloorsView
     profile: ProfileView
     plan: PlanView
+    sensitivity: SensitivityView
     exports: Any
     import_action: QAction
     view_actions: list[QAction]
@@ -46,7 +48,7 @@ class InstalledViews:
     def widget(self, name: str) -> Any:
         return {"Ranked openings": self.ranked, "Facade elevation": self.facade,
                 "Floor comparison": self.floors, "Fall profile": self.profile,
-                "Fix plan": self.plan}[name]
+                "Fix plan": self.plan, "Cat assumptions": self.sensitivity}[name]
 
 
 class _EditorSync:
@@ -130,8 +132,10 @@ def install_views(window: Any, *, export_prompts: Any = None, import_prompts: An
     floors = FloorsView(context)
     profile = ProfileView(context)
     plan = PlanView(context)
+    sensitivity = SensitivityView(context)
     _replace_ranked_tab(window, ranked)
-    for name, widget in zip(VIEW_NAMES[1:], (facade, floors, profile, plan), strict=True):
+    for name, widget in zip(VIEW_NAMES[1:], (facade, floors, profile, plan, sensitivity),
+                            strict=True):
         window.add_view(name, widget)
     sync = _EditorSync(window, context)
 
@@ -173,7 +177,7 @@ def install_views(window: Any, *, export_prompts: Any = None, import_prompts: An
         view_menu.addSeparator()
     tabs = window.view_tabs
     for n, name in enumerate(VIEW_NAMES, start=1):
-        widget = {1: ranked, 2: facade, 3: floors, 4: profile, 5: plan}[n]
+        widget = {1: ranked, 2: facade, 3: floors, 4: profile, 5: plan, 6: sensitivity}[n]
         action = QAction(f"Show {name.lower()}", window)
         action.setShortcut(QKeySequence(f"Ctrl+{n}"))
         action.triggered.connect(lambda _c=False, w=widget: (tabs.setCurrentWidget(w),
@@ -198,7 +202,7 @@ def install_views(window: Any, *, export_prompts: Any = None, import_prompts: An
     tabs.setCurrentWidget(ranked)
 
     views = InstalledViews(context=context, ranked=ranked, facade=facade, floors=floors,
-                           profile=profile, plan=plan, exports=exports,
+                           profile=profile, plan=plan, sensitivity=sensitivity, exports=exports,
                            import_action=import_action, view_actions=view_actions)
     window.views = views
     return views

@@ -1,4 +1,5 @@
-"""Openings: a table and a form side by side. Selecting several rows edits them together."""
+"""Openings: a table and a form side by side. Selecting several rows edits them together; the
+form ends with the selected opening's photos."""
 
 from __future__ import annotations
 
@@ -9,6 +10,7 @@ from PySide6.QtCore import QItemSelection, QItemSelectionModel, Qt
 from PySide6.QtGui import QAction
 from PySide6.QtWidgets import (
     QAbstractItemView,
+    QFormLayout,
     QHBoxLayout,
     QLabel,
     QPushButton,
@@ -26,6 +28,7 @@ from petfall_audit.editing.history import History
 from petfall_audit.editing.query import applicable_openings, unique_id
 from petfall_audit.gui.adapters import RecordTableModel, ViewOptions, _runs, push_command
 from petfall_audit.gui.widgets.field_form import MIXED, FieldForm
+from petfall_audit.gui.widgets.photos import PhotoHost, PhotoStrip
 from petfall_audit.gui.widgets.tables import error_label, record_table
 from petfall_audit.model import Opening, OpeningKind
 
@@ -39,7 +42,8 @@ class OpeningsPanel(QWidget):
     """The openings of ``doc``: table (multi-select) and form; edits go to ``history``."""
 
     def __init__(self, doc: Document, history: History, options: ViewOptions, *,
-                 actions: Sequence[QAction] = (), parent: QWidget | None = None) -> None:
+                 actions: Sequence[QAction] = (), host: PhotoHost | None = None,
+                 parent: QWidget | None = None) -> None:
         super().__init__(parent)
         self._doc = doc
         self._history = history
@@ -57,6 +61,10 @@ class OpeningsPanel(QWidget):
         self.table.setAlternatingRowColors(True)
         self.form = FieldForm(OPENING_FIELDS, options, self._commit_form, choices=self._choices)
         self.form.setObjectName("opening_form")
+        self.photos = PhotoStrip(doc, history, host=host)
+        form_layout = self.form.layout()
+        assert isinstance(form_layout, QFormLayout)
+        form_layout.addRow("Photos", self.photos)
         self.form_title = QLabel("No opening selected")
         self.form_title.setObjectName("form_title")
         self.table_error = error_label("table_error")
@@ -107,6 +115,7 @@ class OpeningsPanel(QWidget):
 
     def detach(self) -> None:
         self.model.detach()
+        self.photos.detach()
         for disconnect in self._disconnects:
             disconnect()
 
@@ -146,6 +155,7 @@ class OpeningsPanel(QWidget):
 
     def _refresh_form(self, *, keep_errors: bool) -> None:
         ids = self.selected_ids()
+        self.photos.set_opening(ids[0] if len(ids) == 1 else None, several=len(ids) > 1)
         if not ids:
             self.form_title.setText("No opening selected: select one or more rows")
             self.form.set_values({}, enabled=False)
