@@ -10,8 +10,10 @@ from __future__ import annotations
 import argparse
 import json
 import math
+import os
 import sys
-from collections.abc import Callable, Sequence, Sized
+from collections.abc import Callable, Iterator, Sequence, Sized
+from contextlib import contextmanager
 from pathlib import Path
 from typing import TYPE_CHECKING
 
@@ -171,6 +173,53 @@ def _count(items: Sized, noun: str) -> str:
 
 def _dumps(doc: object) -> str:
     return json.dumps(doc, indent=2, ensure_ascii=False) + "\n"
+
+
+def _flush_c_stdout() -> None:
+    """Flush the C library's stdout buffer, where compiled libraries print."""
+    try:
+        import ctypes
+
+        ctypes.CDLL(None).fflush(None)
+    except (OSError, AttributeError, TypeError):  # no C library handle on this platform
+        pass
+
+
+@contextmanager
+def _library_chatter_to_stderr() -> Iterator[None]:
+    """While a command runs, what compiled libraries print on file descriptor 1 goes to stderr,
+    and Python's ``sys.stdout`` still writes to the real standard output.
+
+    Some builds of the MILP solver print internal diagnostic lines on descriptor 1; they would
+    corrupt JSON or CSV that a command writes to standard output. Only the command line does
+    this (a process-wide change): the library itself never touches descriptors. Skipped when
+    ``sys.stdout`` is not the process's own (captured, redirected in Python).
+    """
+    original = sys.stdout
+    own = sys.__stdout__
+    if own is None or original is not own:
+        yield
+        return
+    try:
+        original.flush()
+        _flush_c_stdout()
+        real_fd = os.dup(1)
+        os.dup2(2, 1)
+    except (OSError, ValueError):
+        yield
+        return
+    sys.stdout = open(  # closed in the finally below
+        real_fd, "w", buffering=1, encoding=own.encoding, errors=own.errors, closefd=False,
+    )
+    try:
+        yield
+    finally:
+        sys.stdout.flush()
+        sys.stdout.close()
+        sys.stdout = original
+        _flush_c_stdout()
+        os.dup2(real_fd, 1)
+        os.close(real_fd)
 
 
 # --- subcommands --------------------------------------------------------------------------------
@@ -547,7 +596,10 @@ def main(argv: Sequence[str] | None = None) -> int:
     if args.command is None:
         return _cmd_open(argparse.Namespace(file=None))
     try:
-        return int(args.handler(args))
+        if args.handler is _cmd_open:
+            return int(args.handler(args))
+        with _library_chatter_to_stderr():
+            return int(args.handler(args))
     except _Stop as stop:
         return stop.code
     except PetfallError as exc:

@@ -25,11 +25,7 @@ gives the same plan.
 
 from __future__ import annotations
 
-import os
-import sys
-import threading
-from collections.abc import Iterator, Mapping, Sequence
-from contextlib import contextmanager
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
 import numpy as np
@@ -83,56 +79,6 @@ class Plan:
     def risk_removed(self) -> float:
         """Summed risk score the plan removes."""
         return self.risk_before - self.risk_after
-
-
-def _flush_c_stdout() -> None:
-    """Flush the C library's stdout buffer, where compiled solvers print."""
-    try:
-        import ctypes
-
-        ctypes.CDLL(None).fflush(None)
-    except (OSError, AttributeError, TypeError):  # no C library handle on this platform
-        pass
-
-
-_redirect_lock = threading.Lock()
-_redirect_depth = 0
-_saved_stdout_fd: int | None = None
-
-
-@contextmanager
-def _solver_chatter_discarded() -> Iterator[None]:
-    """Discard what the compiled MILP solver prints on file descriptor 1.
-
-    Some builds of the solver print internal diagnostic lines on the process's standard output,
-    which would corrupt JSON or CSV written there by the command line and mean nothing to a
-    user (the solver's status comes back in its result). The C buffer is flushed before
-    the descriptor is restored, so buffered lines cannot leak out later. Solves may run in
-    several threads at once (the app): the first one in redirects, the last one out restores.
-    """
-    global _redirect_depth, _saved_stdout_fd
-    with _redirect_lock:
-        if _redirect_depth == 0:
-            try:
-                sys.stdout.flush()
-                _flush_c_stdout()
-                _saved_stdout_fd = os.dup(1)
-                devnull = os.open(os.devnull, os.O_WRONLY)
-                os.dup2(devnull, 1)
-                os.close(devnull)
-            except (OSError, ValueError):
-                _saved_stdout_fd = None
-        _redirect_depth += 1
-    try:
-        yield
-    finally:
-        with _redirect_lock:
-            _redirect_depth -= 1
-            if _redirect_depth == 0 and _saved_stdout_fd is not None:
-                _flush_c_stdout()
-                os.dup2(_saved_stdout_fd, 1)
-                os.close(_saved_stdout_fd)
-                _saved_stdout_fd = None
 
 
 def _to_cents(values: np.ndarray) -> np.ndarray:
@@ -219,14 +165,13 @@ def solve_choice_knapsack(
     a = vstack([one_per_group, coo_array(c.astype(float)[None, :])]).tocsr()
     ub = np.concatenate([np.ones(groups.size), [float(budget_c)]])
     objective = -v * (_OBJECTIVE_SCALE / v.max())
-    with _solver_chatter_discarded():
-        res = milp(
-            objective,
-            integrality=np.ones(k),
-            bounds=Bounds(0.0, 1.0),
-            constraints=LinearConstraint(a, -np.inf, ub),
-            options={"mip_rel_gap": float(mip_rel_gap), "time_limit": float(time_limit_s)},
-        )
+    res = milp(
+        objective,
+        integrality=np.ones(k),
+        bounds=Bounds(0.0, 1.0),
+        constraints=LinearConstraint(a, -np.inf, ub),
+        options={"mip_rel_gap": float(mip_rel_gap), "time_limit": float(time_limit_s)},
+    )
     if res.status not in (0, 1) or res.x is None:
         raise PlanError(f"the fix plan could not be solved: {res.message}")
     gap = 0.0 if res.status == 0 else float(getattr(res, "mip_gap", np.nan))

@@ -188,32 +188,3 @@ def test_large_tower_plans_quickly() -> None:
 def test_option_dataclass_fields_for_consumers() -> None:
     o = Option("A", "net", "Net", 10.0, 5.0, 1.0, ("c",))
     assert o.risk_removed == 4.0 and o.share_removed == 0.8
-
-
-def test_solves_in_several_threads_leave_standard_output_where_it_was() -> None:
-    """The solver's stdout chatter is discarded during a solve; overlapping solves in worker
-    threads (as in the app) must restore file descriptor 1 to what it was."""
-    import os
-    import threading
-
-    from petfall_audit.plan import _solver_chatter_discarded
-
-    before = os.fstat(1)
-    entered = threading.Barrier(3)
-
-    def solve() -> None:
-        with _solver_chatter_discarded():
-            entered.wait(timeout=5)
-            entered.wait(timeout=5)
-
-    threads = [threading.Thread(target=solve) for _ in range(2)]
-    for t in threads:
-        t.start()
-    entered.wait(timeout=5)  # both inside: fd 1 now points at the null device
-    null = os.stat(os.devnull)
-    assert (os.fstat(1).st_dev, os.fstat(1).st_ino) == (null.st_dev, null.st_ino)
-    entered.wait(timeout=5)
-    for t in threads:
-        t.join(timeout=5)
-    after = os.fstat(1)
-    assert (after.st_dev, after.st_ino) == (before.st_dev, before.st_ino)
