@@ -108,6 +108,12 @@ def main(argv: list[str] | None = None) -> int:
                 views.facade.fit_if_auto()
                 grab(f"view-facade-{_slug(str(views.facade.facade_box.itemData(i)))}")
         else:
+            if widget is views.sensitivity and a.openings:
+                # it computes once it is shown (large buildings) and after the other views' work
+                for _ in range(300):
+                    pump(100)
+                    if views.sensitivity.section is not None:
+                        break
             grab(f"view-{_slug(name)}")
     for path in written:
         print(path)
