@@ -465,7 +465,26 @@ def _cmd_template(args: argparse.Namespace) -> int:
     return EXIT_OK
 
 
+def _no_screen() -> bool:
+    """True on Linux without a display server and without a Qt platform chosen by hand."""
+    env = os.environ
+    return (
+        sys.platform.startswith("linux")
+        and not env.get("DISPLAY")
+        and not env.get("WAYLAND_DISPLAY")
+        and not env.get("QT_QPA_PLATFORM")
+    )
+
+
 def _cmd_open(args: argparse.Namespace) -> int:
+    if _no_screen():
+        print(
+            "petfall-audit: there is no screen to show the app on (neither DISPLAY nor "
+            "WAYLAND_DISPLAY is set). Start it from a desktop session, or use the commands "
+            "that need no screen: petfall-audit --help",
+            file=sys.stderr,
+        )
+        return EXIT_FAILURE
     from petfall_audit.gui.app import run_app  # the only place the CLI reaches Qt
 
     return run_app(Path(args.file) if getattr(args, "file", None) else None)

@@ -73,3 +73,17 @@ def test_check_counts_read_as_english(tmp_path: Path, capsys: pytest.CaptureFixt
     path.write_text(json.dumps(doc), "utf-8")
     assert main(["check", str(path)]) == 0
     assert "1 floor, 1 facade, 0 surfaces, 0 openings" in capsys.readouterr().out
+
+
+def test_the_app_without_a_screen_says_so_instead_of_crashing(
+    monkeypatch: pytest.MonkeyPatch, capsys: pytest.CaptureFixture[str]
+) -> None:
+    import sys
+
+    from petfall_audit.cli import main
+
+    for name in ("DISPLAY", "WAYLAND_DISPLAY", "QT_QPA_PLATFORM"):
+        monkeypatch.delenv(name, raising=False)
+    monkeypatch.setattr(sys, "platform", "linux")
+    assert main([]) == 1
+    assert "no screen" in capsys.readouterr().err
