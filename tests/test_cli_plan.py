@@ -143,3 +143,18 @@ def test_table_fits_an_80_column_terminal(capsys) -> None:  # type: ignore[no-un
                         "--samples", "200")
     assert code == 0 and "condition:" in out
     assert max(len(line) for line in out.splitlines()) <= 80
+
+
+def test_plan_json_rounds_risks_like_the_results_json(tmp_path: Path) -> None:
+    """Plan JSON carries model numbers to 4 significant digits, as the assess JSON does."""
+    import json
+
+    from petfall_audit._resources import sample_path
+
+    out = tmp_path / "plan.json"
+    assert main(["plan", str(sample_path("walkup")), "--budget", "800", "--samples", "200",
+                 "--format", "json", "-o", str(out)]) == 0
+    doc = json.loads(out.read_text(encoding="utf-8"))
+    numbers = [doc["risk_before"], doc["risk_after"]]
+    numbers += [a[k] for a in doc["actions"] for k in ("risk_before", "risk_after")]
+    assert numbers and all(float(f"{x:.4g}") == x for x in numbers)

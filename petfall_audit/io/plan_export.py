@@ -14,6 +14,7 @@ import textwrap
 from typing import Any
 
 from petfall_audit.cautions import CAUTIONS
+from petfall_audit.io.results_export import round_significant as _r
 from petfall_audit.plan import Plan
 
 __all__ = [
@@ -52,9 +53,9 @@ def plan_to_dict(plan: Plan) -> dict[str, Any]:
         "budget": round(plan.budget, 2),
         "currency": plan.currency,
         "total_cost": round(plan.total_cost, 2),
-        "risk_before": plan.risk_before,
-        "risk_after": plan.risk_after,
-        "risk_removed": plan.risk_removed,
+        "risk_before": _r(plan.risk_before),
+        "risk_after": _r(plan.risk_after),
+        "risk_removed": _r(plan.risk_removed),
         "gap": plan.gap,
         "actions": [
             {
@@ -62,8 +63,8 @@ def plan_to_dict(plan: Plan) -> dict[str, Any]:
                 "control": a.control_id,
                 "control_name": a.control_name,
                 "cost": round(a.cost, 2),
-                "risk_before": a.risk_before,
-                "risk_after": a.risk_after,
+                "risk_before": _r(a.risk_before),
+                "risk_after": _r(a.risk_after),
                 "conditions": list(a.conditions),
             }
             for a in plan.actions

@@ -21,6 +21,7 @@ from petfall_audit.risk import Assessment, OpeningResult, Percentiles
 
 __all__ = [
     "SIGNIFICANT_DIGITS",
+    "round_significant",
     "assessment_to_dict",
     "assessment_to_csv",
     "assessment_to_table",
@@ -32,13 +33,18 @@ SIGNIFICANT_DIGITS = 4
 TEXT_WIDTH = 80
 
 
-def _r(x: float) -> float | None:
-    """Round to :data:`SIGNIFICANT_DIGITS` significant digits; ``None`` for NaN or infinity."""
+def round_significant(x: float) -> float | None:
+    """Round to :data:`SIGNIFICANT_DIGITS` significant digits; ``None`` for NaN or infinity.
+    Every JSON export rounds model numbers this way: the model is not more precise than that,
+    and rounded numbers keep the files stable and readable."""
     x = float(x)
     if not math.isfinite(x):
         return None
     r = float(f"{x:.{SIGNIFICANT_DIGITS}g}")
     return 0.0 if r == 0 else r  # no "-0.0"
+
+
+_r = round_significant
 
 
 def _pct(p: Percentiles) -> dict[str, float | None]:
