@@ -256,10 +256,16 @@ def why_code_compliant_is_not_cat_safe(opening: Opening) -> list[str]:
                 f"100 mm in UK practice (common practice, no source); {_CAT_HEAD}, so a child "
                 "limit is no cat limit, and this window has no limiter at all."
             )
-        else:
+        elif gap < rule("astm_f2090").value_mm:
             reasons.append(
                 f"This limiter's {gap:.0f} mm gap meets the child limit of under 4 in / 102 mm "
                 f"({_cite('astm_f2090')}; {_cite('ibc_window_sill')}), but {_CAT_HEAD}."
+            )
+        else:
+            reasons.append(
+                f"This limiter's {gap:.0f} mm gap is wider than even the child limit of under "
+                f"4 in / 102 mm ({_cite('astm_f2090')}; {_cite('ibc_window_sill')}), and "
+                f"{_CAT_HEAD}."
             )
         if opening.screen is Screen.INSECT:
             reasons.append(

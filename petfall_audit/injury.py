@@ -60,9 +60,9 @@ BAND_DESCRIPTIONS: Mapping[str, str] = MappingProxyType(
 )
 
 #: Stopping distance a landing surface adds, m (design assumptions, from memory; there are no
-#: published cat-specific surface factors). Hard surfaces add next to nothing;
-#: grass, soil and shrubs roughly halve the deceleration of a righted cat (about one band lower),
-#: water is softer still but carries a drowning hazard reported separately.
+#: published cat-specific surface factors). Hard surfaces add next to nothing; lawn or soil cuts
+#: the deceleration of a righted cat by about 40 % and a planting bed by about half (often one
+#: band lower); water is softer still but carries a drowning hazard reported separately.
 SURFACE_STOP_M: Mapping[SurfaceKind, float] = MappingProxyType(
     {
         SurfaceKind.CONCRETE: 0.0,

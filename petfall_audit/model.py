@@ -267,7 +267,11 @@ class CatProfile:
 #   tense terminal speed: fact of the trade, no source. C_d·A follows from
 #   v_t = sqrt(2 m g / (rho C_d A))
 #   at 4.1 kg and rho = 1.225 kg/m³: 0.114 m² tense, 0.227 m² spread.
-# - righting time about 0.3 s: popular science, unverified (from memory).
+# - kitten and heavy-adult masses: assumptions (a kitten weighs about 1 kg at three months, common
+#   practice, no source; 6.0 kg is near the 6.1 kg ideal-weight mean of males of the heaviest
+#   breed class, Kienzle & Moik 2011, Br J Nutr); their C_d·A scale with mass^(2/3) (isometric).
+# - righting time about 0.3 s: popular science, unverified (from memory); the kitten's longer
+#   righting time is an assumption.
 # - chance of relaxing and launch speeds: assumptions of this model (from memory), adjustable.
 CAT_PRESETS: dict[str, CatProfile] = {
     "adult": CatProfile(

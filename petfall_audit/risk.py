@@ -347,7 +347,8 @@ def _assess_from_falls(
                 )
         factors.append(f"Median impact speed {speed_pct[i, 1]:.1f} m/s")
         factors.append(
-            f"At least half of the falls from here are {BANDS[int(exp_band[i])]} or worse"
+            f"At least half of the falls from here are {BANDS[int(exp_band[i])]}"
+            + (" or worse" if exp_band[i] < len(BANDS) - 1 else "")
         )
         if exp_band[i] < 3 and life_share[i] >= 0.05:
             factors.append(f"{life_share[i]:.0%} of falls are life-threatening")

@@ -5,8 +5,9 @@ sampled values (common random numbers: the sampler draws each parameter from its
 the same seed). Low and high are the 10th and 90th percentiles of that parameter's samples;
 the chance of relaxing, a single probability, swings by ±0.2 (clipped to 0..1). The measure is
 the summed risk score of the building's :data:`TOP_OPENINGS` highest-risk openings, and the
-swing is ``(risk_high − risk_low) / risk_base``. The likelihood does not depend on these
-parameters here, so the swings show how the severity side of the risk moves.
+swing is ``(risk_high − risk_low) / risk_base``. The likelihood is kept as assessed (although
+body mass also decides which gaps a cat passes), so the swings show how the severity side of
+the risk moves.
 """
 
 from __future__ import annotations

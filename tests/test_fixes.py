@@ -331,6 +331,14 @@ def test_reasons_name_the_code_clause_and_the_cat_source() -> None:
     assert why_code_compliant_is_not_cat_safe(_window(screen=Screen.PET_RESISTANT)) == []
 
 
+def test_limiter_wider_than_the_child_limit_is_not_said_to_meet_it() -> None:
+    # ASTM F2090: child devices keep the opening under 4 in (102 mm); a 150 mm gap does not
+    wide = " ".join(why_code_compliant_is_not_cat_safe(_window(limiter_gap_mm=150.0)))
+    assert "wider than even the child limit" in wide and "meets the child limit" not in wide
+    narrow = " ".join(why_code_compliant_is_not_cat_safe(_window(limiter_gap_mm=100.0)))
+    assert "meets the child limit" in narrow
+
+
 def test_recommendation_text_carries_conditions_and_reasons(walkup_assessment) -> None:  # type: ignore[no-untyped-def]
     a = walkup_assessment
     options = opening_options(a, CAT)

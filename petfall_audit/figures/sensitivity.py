@@ -47,8 +47,8 @@ SWING_DEFINITION = (
     "while every other parameter keeps the values the same sampled cats had. The bars show how "
     "the summed risk score of the highest-risk openings changes, as a percentage of its value "
     "with the profile as set; the swing is the change from the low to the high value. The "
-    "likelihood of a fall does not depend on these parameters, so the swings show the severity "
-    "side of the risk."
+    "likelihood of a fall is kept as assessed (although body mass also decides which gaps a cat "
+    "gets through), so the swings show the severity side of the risk."
 )
 
 

@@ -161,10 +161,11 @@ def cautions_html(*, about: bool = False) -> str:
             "balcony or window: it simulates falls with gravity, air drag and a change of "
             "posture, grades the likely injury, ranks the openings and helps choose fixes "
             "within a budget.</p>"
-            "<p>Injury grading follows published veterinary case series of cats that fell from "
-            "buildings (for example Vnuk et al. 2004; Merbl et al. 2013; Candela Andrade et al. "
-            "2025). The risk score adapts England's Housing Health and Safety Rating System; "
-            "the audit report states the method and its assumptions.</p>"
+            "<p>Injury grading uses a physical severity index whose bands were checked against "
+            "published veterinary case series of cats that fell from buildings (for example "
+            "Vnuk et al. 2004; Merbl et al. 2013; Candela Andrade et al. 2025); many of its "
+            "values are stated assumptions. The risk score adapts England's Housing Health and "
+            "Safety Rating System; the audit report states the method and its assumptions.</p>"
         )
     parts.append(f"<h3>{CAUTIONS_TITLE}</h3><ul>")
     parts += [f"<li>{c}</li>" for c in CAUTIONS]

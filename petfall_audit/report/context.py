@@ -520,7 +520,9 @@ def _method(assessment: Assessment) -> tuple[tuple[str, str], ...]:
          "Severity follows the mean deceleration v²/(2s), with the stopping distance s set by the "
          "landing surface and whether the cat has turned feet-down. Band thresholds borrow the "
          "playground-surfacing limits (EN 1177, ASTM F1292: 200 g with a 4.6 kg headform, close "
-         "to a cat's mass) as an analogy. Severity never falls with height."),
+         "to a cat's mass) as an analogy. The index has no term of its own that lowers it with "
+         "height; with the default cat profile it does not fall with height, so a higher floor "
+         "is never shown as safer."),
         ("Likelihood",
          "Annual chance that a resident cat gets out and falls, from access (cats present, how "
          "often open), the barrier's effect on a cat rather than a child, perch invitations and "

@@ -22,9 +22,12 @@ __all__ = ["write_leaflet", "CHECKS", "AFTER_A_FALL"]
 
 CHECKS: tuple[str, ...] = (
     "Open windows only if a cat-proof screen or a limiter keeps the gap too small for a cat's "
-    "head. Child window guards are not enough: a cat fits through much smaller gaps.",
+    "head. Child window guards are not enough: a cat fits through much smaller gaps. On a "
+    "window you may need to escape through, use only a screen or limiter you can open by hand, "
+    "without a key or tool.",
     "Never leave a tilt-and-turn window tilted while your cat is alone: cats get stuck in the gap.",
-    "On a balcony, a cat net with a small mesh is the safe choice. Ask first: see below.",
+    "On a balcony, a cat net with a small mesh (3 cm or less) gives good protection. Keep "
+    "it tight and check it often: cats climb and bite nets. Ask first: see below.",
     "Move chairs, planters and bins away from the balcony rail, so your cat cannot climb up.",
     "Do not leave your cat alone on a balcony. Young cats and cats that chase birds are most at "
     "risk, especially on warm evenings and at night.",
