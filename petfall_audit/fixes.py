@@ -12,7 +12,8 @@ The conflict rules live here in code, named by id in the data:
     one is offered with :data:`ESCAPE_CONDITION`.
 ``wind_load``
     On a floor higher than the catalogue's ``wind_rated_above_m`` (default 18 m): condition
-    :data:`WIND_CONDITION`.
+    :data:`WIND_CONDITION`; on the lower floors of a building with a storey that high:
+    :data:`TALL_BUILDING_CONDITION` (the fire rule covers attachments on every floor).
 ``exterior_permission``
     Every change to the exterior: condition :data:`PERMISSION_CONDITION`.
 ``fire_access``
@@ -41,6 +42,7 @@ from petfall_audit.guard_rules import why_code_compliant_is_not_cat_safe
 from petfall_audit.likelihood import assess_likelihood
 from petfall_audit.model import (
     BALCONY_LIKE,
+    WINDOW_KINDS,
     Building,
     OpenFrequency,
     Opening,
@@ -56,6 +58,7 @@ __all__ = [
     "RULES",
     "ESCAPE_CONDITION",
     "WIND_CONDITION",
+    "TALL_BUILDING_CONDITION",
     "PERMISSION_CONDITION",
     "FIRE_ACCESS_CONDITION",
     "CatalogueError",
@@ -87,6 +90,11 @@ WIND_CONDITION = (
     "for attachments on tall buildings (England: Building Regulations 2010 reg. 7(2), storeys at "
     "18 m or more)."
 )
+TALL_BUILDING_CONDITION = (
+    "Tall building (a storey 18 m or more above ground): check the fire-safety rules for anything "
+    "attached outside, nets included, on every floor (England: Building Regulations 2010 "
+    "reg. 7(2))."
+)
 PERMISSION_CONDITION = (
     "Permission from the owner or the building's governing body (landlord, owners' association, "
     "strata body) before changing the exterior."
@@ -97,6 +105,11 @@ FIRE_ACCESS_CONDITION = (
 )
 #: Conflict and condition rules that a control may name in ``conflicts``.
 RULES: tuple[str, ...] = ("escape_window", "wind_load", "exterior_permission", "fire_access")
+
+#: Opening fields whose change can stand in the way of escaping through a window: a limiter, a
+#: screen or a net. A control that sets one is never offered on an emergency escape window
+#: unless it is releasable by hand, whatever its catalogue entry says.
+BLOCKING_FIELDS: frozenset[str] = frozenset({"limiter_gap_mm", "screen", "netting_mesh_mm"})
 
 #: Opening fields a control may change, with the kind of value each takes.
 _EFFECT_FIELDS: dict[str, str] = {
@@ -336,6 +349,21 @@ def _control(raw: Any, where: str, problems: list[Problem]) -> Control | None:
         problems.append(
             Problem(f"{where}.releasable", "required (true or false) with the escape_window rule")
         )
+    effect_raw = raw.get("effect", {})
+    touches = set(effect_raw) & BLOCKING_FIELDS if isinstance(effect_raw, Mapping) else set()
+    if touches and "escape_window" not in conflicts and isinstance(raw.get("applies_to"), Mapping):
+        kinds_raw = raw["applies_to"].get("kinds", [])
+        if isinstance(kinds_raw, list) and set(map(str, kinds_raw)) & {
+            k.value for k in WINDOW_KINDS
+        }:
+            problems.append(
+                Problem(
+                    f"{where}.conflicts",
+                    f"a control that sets {', '.join(sorted(touches))} on windows must name the "
+                    "escape_window rule, so that it is never fitted as a fixed device on an "
+                    "emergency escape window",
+                )
+            )
     conditions = raw.get("conditions", [])
     if not isinstance(conditions, list):
         problems.append(Problem(f"{where}.conditions", "expected a list of texts"))
@@ -476,18 +504,29 @@ def _applies(
             col &= h >= c.min_height_m
         if c.max_height_m is not None:
             col &= h <= c.max_height_m
-        if "escape_window" in c.conflicts and c.releasable is False:
-            col &= ~escape  # never a fixed device or permanent net on an escape window
+        # never a fixed device or permanent net on an escape window: by the catalogue's rule,
+        # and for any limiter, screen or net that is not releasable by hand, rule or not
+        blocks_escape = "escape_window" in c.conflicts and c.releasable is False
+        blocks_escape |= c.releasable is not True and any(
+            name in BLOCKING_FIELDS for name, _ in c.effect
+        )
+        if blocks_escape:
+            col &= ~escape
         mask[:, j] = col
     return mask
 
 
-def _conditions(o: Opening, height_m: float, c: Control, catalogue: Catalogue) -> tuple[str, ...]:
+def _conditions(
+    o: Opening, height_m: float, c: Control, catalogue: Catalogue, *, tall_building: bool
+) -> tuple[str, ...]:
     out: list[str] = []
     if "escape_window" in c.conflicts and o.escape_window:
         out.append(ESCAPE_CONDITION)
-    if "wind_load" in c.conflicts and height_m > catalogue.wind_rated_above_m:
-        out.append(WIND_CONDITION)
+    if "wind_load" in c.conflicts:
+        if height_m > catalogue.wind_rated_above_m:
+            out.append(WIND_CONDITION)
+        elif tall_building:
+            out.append(TALL_BUILDING_CONDITION)
     if "fire_access" in c.conflicts and o.kind is OpeningKind.GALLERY:
         out.append(FIRE_ACCESS_CONDITION)
     if "exterior_permission" in c.conflicts:
@@ -502,11 +541,19 @@ def _conditions(o: Opening, height_m: float, c: Control, catalogue: Catalogue) -
 
 
 def candidates(
-    openings: Sequence[Opening], heights_m: Sequence[float] | np.ndarray, catalogue: Catalogue
+    openings: Sequence[Opening],
+    heights_m: Sequence[float] | np.ndarray,
+    catalogue: Catalogue,
+    *,
+    tall_building: bool | None = None,
 ) -> list[Candidate]:
     """Every allowed (opening, control) pair that changes something, openings in the order given
-    and controls in catalogue order. Conflicting controls are left out; conditions attached."""
+    and controls in catalogue order. Conflicting controls are left out; conditions attached.
+    ``tall_building``: the building has a storey above ``wind_rated_above_m`` (default: judged
+    from ``heights_m``)."""
     h = np.asarray(heights_m, dtype=float)
+    if tall_building is None:
+        tall_building = bool(h.size) and float(h.max()) > catalogue.wind_rated_above_m
     mask = _applies(openings, h, catalogue)
     out: list[Candidate] = []
     for i, j in zip(*np.nonzero(mask), strict=True):
@@ -520,7 +567,7 @@ def candidates(
                 int(j),
                 modified,
                 catalogue.cost(c, o),
-                _conditions(o, float(h[i]), c, catalogue),
+                _conditions(o, float(h[i]), c, catalogue, tall_building=tall_building),
             )
         )
     return out
@@ -545,7 +592,8 @@ def opening_options(
     building = assessment.building
     openings = building.openings
     result: dict[str, list[Option]] = {o.id: [] for o in openings}
-    cands = candidates(openings, opening_heights_m(building), cat)
+    tall = any(f.elevation_m > cat.wind_rated_above_m for f in building.floors)
+    cands = candidates(openings, opening_heights_m(building), cat, tall_building=tall)
     if not cands:
         return result
     oi = np.array([c.opening_index for c in cands], dtype=np.intp)

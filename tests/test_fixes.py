@@ -392,3 +392,54 @@ def test_the_adherence_assumption_is_stated_with_the_option() -> None:
     options = opening_options(assess(sample_building("walkup"), samples=100), load_catalogue())
     keep = [o for opts in options.values() for o in opts if o.control_id == "keep_closed"]
     assert keep and all(any("kept 50% of the time" in c for c in o.conditions) for o in keep)
+
+
+def test_an_edited_catalogue_cannot_put_a_fixed_limiter_on_an_escape_window() -> None:
+    """A user's catalogue that forgets the escape_window rule on a window limiter is refused at
+    load time, and even a control built without it is never offered on an escape window unless
+    it releases by hand (IRC R310.4; Approved Document B: escape openings must open without a key
+    or tool)."""
+    import dataclasses
+
+    from petfall_audit.errors import CatalogueError
+    from petfall_audit.fixes import BLOCKING_FIELDS, candidates, opening_heights_m, parse_catalogue
+
+    doc = json.loads(resource_path("controls.json").read_text(encoding="utf-8"))
+    limiter = next(c for c in doc["controls"] if c["id"] == "limiter_fixed_40")
+    limiter["conflicts"] = [r for r in limiter["conflicts"] if r != "escape_window"]
+    with pytest.raises(CatalogueError, match="must name the escape_window rule"):
+        parse_catalogue(doc)
+
+    catalogue = load_catalogue()
+    for control in catalogue.controls:
+        if not any(name in BLOCKING_FIELDS for name, _ in control.effect):
+            continue
+        stripped = dataclasses.replace(
+            control,
+            conflicts=tuple(r for r in control.conflicts if r != "escape_window"),
+            releasable=None if control.releasable is False else control.releasable,
+        )
+        building = sample_building("walkup")
+        where = [i for i, o in enumerate(building.openings) if o.escape_window]
+        assert where, "the walk-up sample has escape windows"
+        escape = [building.openings[i] for i in where]
+        heights = np.asarray(opening_heights_m(building))[where]
+        one = dataclasses.replace(catalogue, controls=(stripped,))
+        offered = candidates(escape, heights, one)
+        if stripped.releasable is not True:
+            assert offered == [], control.id
+
+
+def test_nets_low_down_on_a_tall_building_carry_the_fire_rule_for_attachments() -> None:
+    """England, Building Regulations 2010 reg. 7(2): in a building with a storey at 18 m or more,
+    attachments on every floor fall under the fire rule, not only those high up."""
+    from petfall_audit.fixes import TALL_BUILDING_CONDITION
+
+    low_in_tall = {CAT.controls[c.control_index].id: c
+                   for c in candidates([_balcony()], [9.0], CAT, tall_building=True)}
+    low_in_short = {CAT.controls[c.control_index].id: c
+                    for c in candidates([_balcony()], [9.0], CAT, tall_building=False)}
+    assert TALL_BUILDING_CONDITION in low_in_tall["net_anchored_30"].conditions
+    assert TALL_BUILDING_CONDITION not in low_in_short["net_anchored_30"].conditions
+    assert WIND_CONDITION not in low_in_tall["net_anchored_30"].conditions
+    assert "reg. 7(2)" in TALL_BUILDING_CONDITION
