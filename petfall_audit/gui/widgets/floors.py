@@ -7,8 +7,6 @@ from collections.abc import Sequence
 from PySide6.QtGui import QAction
 from PySide6.QtWidgets import (
     QLabel,
-    QPushButton,
-    QToolBar,
     QVBoxLayout,
     QWidget,
 )
@@ -25,7 +23,7 @@ from petfall_audit.editing.fields import FLOOR_FIELDS, FieldSpec, format_value, 
 from petfall_audit.editing.history import History
 from petfall_audit.editing.query import elevations_for_storey_height, next_floor, storey_heights_m
 from petfall_audit.gui.adapters import RecordTableModel, ViewOptions, push_command
-from petfall_audit.gui.widgets.tables import error_label, record_table
+from petfall_audit.gui.widgets.tables import add_remove_bar, error_label, record_table
 from petfall_audit.model import Building, Floor
 
 __all__ = ["FloorsPanel"]
@@ -68,15 +66,8 @@ class FloorsPanel(QWidget):
         self.model.edit_failed.connect(self._on_edit_failed)
         self.model.edited.connect(lambda *_: self._clear_messages())
 
-        bar = QToolBar()
-        add = QPushButton("Add floor on top")
-        add.clicked.connect(self.add_floor)
-        remove = QPushButton("Remove selected floor")
-        remove.clicked.connect(self.remove_selected)
-        bar.addWidget(add)
-        bar.addWidget(remove)
-        for action in actions:
-            bar.addAction(action)
+        bar = add_remove_bar("Add floor on top", self.add_floor,
+                             "Remove selected floor", self.remove_selected, actions)
         hint = QLabel("Floor levels are finished-floor heights above the building's datum. "
                       "Changing a storey height moves every floor above it.")
         hint.setWordWrap(True)

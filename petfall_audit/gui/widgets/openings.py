@@ -13,10 +13,8 @@ from PySide6.QtWidgets import (
     QFormLayout,
     QHBoxLayout,
     QLabel,
-    QPushButton,
     QScrollArea,
     QSplitter,
-    QToolBar,
     QVBoxLayout,
     QWidget,
 )
@@ -29,7 +27,7 @@ from petfall_audit.editing.query import applicable_openings, unique_id
 from petfall_audit.gui.adapters import RecordTableModel, ViewOptions, _runs, push_command
 from petfall_audit.gui.widgets.field_form import MIXED, FieldForm
 from petfall_audit.gui.widgets.photos import PhotoHost, PhotoStrip
-from petfall_audit.gui.widgets.tables import error_label, record_table
+from petfall_audit.gui.widgets.tables import add_remove_bar, error_label, record_table
 from petfall_audit.model import Opening, OpeningKind
 
 __all__ = ["OpeningsPanel", "TABLE_FIELDS"]
@@ -69,15 +67,8 @@ class OpeningsPanel(QWidget):
         self.form_title.setObjectName("form_title")
         self.table_error = error_label("table_error")
 
-        bar = QToolBar()
-        add = QPushButton("Add opening")
-        add.clicked.connect(self.add_opening)
-        remove = QPushButton("Remove selected")
-        remove.clicked.connect(self.remove_selected)
-        bar.addWidget(add)
-        bar.addWidget(remove)
-        for action in actions:
-            bar.addAction(action)
+        bar = add_remove_bar("Add opening", self.add_opening,
+                             "Remove selected", self.remove_selected, actions)
         self.count_label = QLabel()
         bar.addSeparator()
         bar.addWidget(self.count_label)

@@ -3,16 +3,18 @@ shows why an edit was refused."""
 
 from __future__ import annotations
 
-from collections.abc import Callable
+from collections.abc import Callable, Iterable
 
-from PySide6.QtWidgets import QAbstractItemView, QLabel, QTableView
+from PySide6.QtGui import QAction
+from PySide6.QtWidgets import QAbstractItemView, QLabel, QPushButton, QTableView, QToolBar
 
 from petfall_audit.editing.fields import FieldSpec
 from petfall_audit.gui.adapters import RecordTableModel
 from petfall_audit.gui.widgets.delegates import FieldDelegate
 from petfall_audit.gui.widgets.field_form import ERROR_STYLE
 
-__all__ = ["record_table", "error_label"]
+__all__ = [
+    "add_remove_bar","record_table", "error_label"]
 
 ROW_HEIGHT_PX = 22
 
@@ -48,3 +50,21 @@ def error_label(name: str = "") -> QLabel:
     label.setWordWrap(True)
     label.hide()
     return label
+
+
+def add_remove_bar(
+    add_label: str,
+    on_add: Callable[[], object],
+    remove_label: str,
+    on_remove: Callable[[], object],
+    actions: Iterable[QAction] = (),
+) -> QToolBar:
+    """The toolbar above an editor table: an add and a remove button, then ``actions``."""
+    bar = QToolBar()
+    for label, handler in ((add_label, on_add), (remove_label, on_remove)):
+        button = QPushButton(label)
+        button.clicked.connect(lambda _checked=False, h=handler: h())
+        bar.addWidget(button)
+    for action in actions:
+        bar.addAction(action)
+    return bar
