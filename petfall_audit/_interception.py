@@ -8,13 +8,19 @@ Method, for every opening at once:
    width of the opening, is reachable from the launch point and reaches at least as far out:
    outward travel only grows with the drop, so whatever passes the higher one passes this one
    too (e.g. stacked balconies below a window). The implicit ground closes every list.
+   A surface covers its outward extent and, when it has one, its extent along the facade
+   (``x_from_m`` to ``x_to_m``); a balcony covers its width and projection.
 2. Per sampled cat, the drop at which its outward travel reaches each distinct distance that
    matters (an element's outer or inner edge minus the launch offset): a small table from the
    exact inverse of the outward-travel formula.
 3. Per opening × cat × candidate, the candidate catches when the cat's position along the facade
-   lies in its span and the drop to it lies between the thresholds of step 2; the first (highest)
-   catching candidate is the landing element. Then the closed-form two-posture fall over that
-   drop gives the impact speed and fall time.
+   lies in its span and the drop to its *test level* lies between the thresholds of step 2; the
+   first (highest) catching candidate is the landing element. The test level is the element's
+   own elevation, except for a sunken surface (below the datum: a lightwell, a basement area),
+   whose rim is at the datum: a cat over its footprint when it passes the rim falls into it,
+   whatever its outward travel further down (it meets the well's outer wall). Then the
+   closed-form two-posture fall over the drop to the element itself gives the impact speed
+   (downward and outward parts together) and the fall time.
 
 The opening axis is processed in chunks to bound memory; nothing loops over samples.
 """
@@ -48,7 +54,8 @@ class _Pairs:
 
     start: IntArray  # (n_openings + 1,) offsets of each opening's pairs
     element: IntArray  # index into landing_ids
-    drop_m: FloatArray
+    drop_m: FloatArray  # to the element's own elevation (the fall)
+    test_drop_m: FloatArray  # to its test level (the rim of a sunken surface)
     frac_lo: FloatArray  # position_fraction range in which the element spans the cat
     frac_hi: FloatArray
     dist_lo_m: FloatArray  # outward travel must be >= this ...
@@ -81,10 +88,12 @@ def _landing_elements(
         lo = _finite(f"surface {s.id!r} from_facade_m", s.from_facade_m)
         hi = inf if s.to_facade_m is None else _finite(f"surface {s.id!r} to_facade_m",
                                                         s.to_facade_m)
+        xlo = -inf if s.x_from_m is None else _finite(f"surface {s.id!r} x_from_m", s.x_from_m)
+        xhi = inf if s.x_to_m is None else _finite(f"surface {s.id!r} x_to_m", s.x_to_m)
         ids.append(s.id)
         kinds.append(SurfaceKind(s.kind))
         facades.append(s.facade)
-        rows.append((z, -inf, inf, lo, hi))
+        rows.append((z, xlo, xhi, lo, hi))
         owner.append(-1)
     for i, o in enumerate(building.openings):
         if o.kind not in BALCONY_LIKE:
@@ -183,6 +192,10 @@ def _candidate_pairs(building: Building) -> tuple[_Pairs, tuple[str, ...], tuple
         start=np.concatenate([[0], np.cumsum(np.bincount(rows, minlength=n_op))]).astype(np.intp),
         element=order[cols].astype(np.intp),
         drop_m=np.maximum(op["start"][rows] - z[cols], 0.0),
+        # a sunken surface (below the datum, not the implicit ground) is entered at its rim
+        test_drop_m=np.maximum(
+            op["start"][rows] - np.where(is_ground[cols], z[cols], np.maximum(z[cols], 0.0)), 0.0
+        ),
         frac_lo=frac_lo,
         frac_hi=frac_hi,
         dist_lo_m=olo[cols] - op["x0"][rows],
@@ -267,12 +280,14 @@ def simulate(
     never = pairs.element.size
     p_elem = np.append(pairs.element, 0)
     p_drop = np.append(pairs.drop_m, 0.0)
+    p_test = np.append(pairs.test_drop_m, 0.0)
     p_flo = np.append(pairs.frac_lo, -np.inf)
     p_fhi = np.append(pairs.frac_hi, np.inf)
     p_rlo = np.append(row_lo, 0)
     p_rhi = np.append(row_hi, 0)
 
     consts = _k.FallConstants(b1, b2, f, g)
+    moving = bool(np.any(v0 > 0))
 
     n_op, n_s = len(building.openings), samples.n
     drop = np.empty((n_op, n_s))
@@ -296,10 +311,11 @@ def simulate(
         for k in range(int(counts[a:b].max()) - 2, -1, -1):
             pk = np.where(k < counts[a:b] - 1, pairs.start[a:b] + k, never)
             d = p_drop[pk][:, None]
+            dt = p_test[pk][:, None]
             rhi, rlo, flo, fhi = p_rhi[pk], p_rlo[pk], p_flo[pk], p_fhi[pk]
-            catches = d < table[rhi]
+            catches = dt < table[rhi]
             if np.any(rlo != 0):
-                catches &= d >= table[rlo]
+                catches &= dt >= table[rlo]
             if np.any(flo > 0):
                 catches &= fr >= flo[:, None]
             if np.any(fhi < 1):
@@ -307,6 +323,9 @@ def simulate(
             np.copyto(h, d, where=catches)
             np.copyto(lnd, p_elem[pk][:, None], where=catches)
         speed[a:b], time[a:b] = _k.fall_rows(h, consts)
+        if moving:  # the outward part of the impact speed
+            vx = _k.outward_speed(h, v0, b1, b2, f)
+            np.hypot(speed[a:b], vx, out=speed[a:b])
         if progress is not None:
             progress(b, n_op)
 

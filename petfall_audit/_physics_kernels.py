@@ -180,6 +180,52 @@ def drop_to_reach(
     return result
 
 
+def outward_speed(
+    drop_m: ArrayLike,
+    launch_speed_mps: ArrayLike,
+    beta_tense: ArrayLike,
+    beta_spread: ArrayLike,
+    relax_fraction: ArrayLike,
+) -> FloatArray:
+    """Outward (horizontal) speed (m/s) after a drop ``drop_m`` from a launch at
+    ``launch_speed_mps``: ``vx = v0 e^{−beta s}`` with the path length ``s`` taken as the drop,
+    the same approximation as :func:`outward_travel` (tense up to the switch drop, then spread)."""
+    h = np.asarray(drop_m, dtype=float)
+    b1 = np.asarray(beta_tense, dtype=float)
+    hs = switch_drop_m(b1, relax_fraction)
+    h1 = np.minimum(h, hs)
+    out: FloatArray = np.asarray(launch_speed_mps, dtype=float) * np.exp(
+        -b1 * h1 - np.asarray(beta_spread, dtype=float) * (h - h1)
+    )
+    return out
+
+
+def switch_speed(
+    launch_speed_mps: ArrayLike, beta_tense: ArrayLike, relax_fraction: ArrayLike, g: float
+) -> FloatArray:
+    """Speed (m/s, downward and outward together) at the moment the cat spreads out: downward
+    ``f vt1``, outward ``v0 e^{−beta h_s} = v0 sqrt(1 − f²)``."""
+    f = np.asarray(relax_fraction, dtype=float)
+    v0 = np.asarray(launch_speed_mps, dtype=float)
+    vt1sq = g / np.asarray(beta_tense, dtype=float)
+    out: FloatArray = np.sqrt(f * f * vt1sq + v0 * v0 * (1.0 - f * f))
+    return out
+
+
+def peak_speed(
+    drop_m: ArrayLike, impact_speed_mps: ArrayLike, switch_drop: ArrayLike,
+    switch_speed_mps: ArrayLike,
+) -> FloatArray:
+    """Highest speed (m/s) reached over a two-posture fall: the impact speed, or the speed at
+    the posture switch when the cat got that far and slowed down after spreading out."""
+    h = np.asarray(drop_m, dtype=float)
+    v = np.asarray(impact_speed_mps, dtype=float)
+    out: FloatArray = np.where(
+        h >= np.asarray(switch_drop), np.maximum(v, np.asarray(switch_speed_mps)), v
+    )
+    return out
+
+
 class FallConstants:
     """Per-sample constants of :func:`fall_rows` (1-D arrays over samples)."""
 

@@ -27,7 +27,8 @@ class FallResults:
     every balcony/terrace/gallery opening id (they can catch), then :data:`GROUND_ID`;
     ``landing_kinds`` per landing element (a catching balcony, terrace or gallery counts as
     concrete, as does the implicit ground: an assumption). Arrays ``(n_openings, n_samples)``:
-    ``drop_m`` (m), ``landing`` (index into ``landing_ids``), ``impact_speed_mps`` (m/s),
+    ``drop_m`` (m), ``landing`` (index into ``landing_ids``), ``impact_speed_mps`` (m/s: the
+    speed itself, downward and outward parts together),
     ``fall_time_s`` (s), ``righted`` (fall time ≥ the cat's righting time). ``rho_kg_m3`` is the
     air density used (kg/m³).
     """

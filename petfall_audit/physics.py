@@ -35,6 +35,7 @@ __all__ = [
     "isa_temperature_c",
     "terminal_speed",
     "impact_speed",
+    "peak_speed_of_falls",
     "fall_time",
     "switch_drop",
     "outward_travel_m",
@@ -208,7 +209,8 @@ def outward_travel_m(
     drop and the vertical motion from the closed-form fall gives closed forms in both postures
     (an arccos in the tense posture; asinh or asin after the switch). It slightly overestimates
     the travel (the neglected outward speed adds to the drag): against a 2-D ``solve_ivp`` with
-    coupled drag, 0 to +2 % for launch speeds up to 2.5 m/s and 0 to +4 % up to 4 m/s, drops
+    coupled drag, 0 to +2 % for launch speeds up to 2.5 m/s, 0 to +4 % up to 4 m/s, +7 % up to
+    6 m/s, +13 % up to 10 m/s and +31 % up to 20 m/s (the most a building file accepts), drops
     0.5–200 m (tests/test_interception.py). Overestimating sends cats past ledges that might have
     caught them: the cautious side."""
     h = _non_negative("drop_m", drop_m)
@@ -247,12 +249,34 @@ def simulate_falls(
     facade that spans that position and projects further than the cat has travelled outward by
     the time it gets down to it, or a surface (of that facade or of every facade) whose outward
     extent ``[from_facade_m, to_facade_m)`` contains the outward travel at its elevation.
-    Elements at or above the start height never catch; the implicit ground (datum 0) catches
-    the rest. ``progress(done, total)`` is called as openings are done.
+    A surface catches only over its extent along the facade (``x_from_m`` to ``x_to_m``) when it
+    has one; a sunken surface (below the datum: a lightwell, a basement area) catches a cat that
+    is over its footprint when it passes the rim (the datum), whatever its outward travel further
+    down. Elements at or above the start height never catch; the implicit ground (datum 0)
+    catches the rest (``check`` refuses a building with a gap below an opening, so in a file that
+    loads it is never reached). The impact speed is the speed itself, downward and outward parts
+    together. ``progress(done, total)`` is called as openings are done.
     """
     info = building.info
     rho = float(air_density(info.site_altitude_m, info.air_temperature_c))
     return _simulate(building, samples, rho_kg_m3=rho, progress=progress)
+
+
+def peak_speed_of_falls(falls: FallResults, samples: CatSamples) -> FloatArray:
+    """Highest speed (m/s) each simulated fall reaches, shape ``(n_openings, n_samples)``.
+
+    A cat that spreads out after the switch drop can land a little slower than it was falling at
+    the switch (the spread terminal speed is lower); this is that higher speed, else the impact
+    speed. The injury dose uses it so that no fall is credited with the slow-down: the later
+    case series did not find high falls gentler (docs/risk-model.md)."""
+    m = np.asarray(samples.mass_kg, dtype=float)
+    b1 = _k.drag_per_mass(falls.rho_kg_m3, samples.cda_tense_m2, m)
+    f = np.asarray(samples.relax_fraction, dtype=float)
+    relaxes = np.asarray(samples.cda_spread_m2, dtype=float) > np.asarray(
+        samples.cda_tense_m2, dtype=float)
+    hs = np.where(relaxes, _k.switch_drop_m(b1, f), np.inf)
+    v_switch = _k.switch_speed(samples.launch_speed_mps, b1, f, G0)
+    return _k.peak_speed(falls.drop_m, falls.impact_speed_mps, hs[None, :], v_switch[None, :])
 
 
 # --- time series ---------------------------------------------------------------------------------
