@@ -1,14 +1,20 @@
-"""Injury severity of a fall: a mean-deceleration index (in g) mapped to four injury bands.
+"""Injury from a fall: a physical dose (mean deceleration, in g) and a dose–response that gives
+the chance of each of four injury bands.
 
-The index is the mean deceleration over the stop, ``a = v² / (2 s)``, in units of standard
-gravity, where ``v`` is the impact speed (m/s) and ``s`` the stopping distance (m): the cat's own
-(legs flexing when it lands feet first, far less when it has not yet righted itself) plus the
-surface's (concrete none, lawn and planting beds more). A cat that is part-way through righting
-itself gets a stopping distance in proportion to the part of its righting time that has passed.
+**Dose.** The mean deceleration over the stop, ``D = v² / (2 s g0)``, where ``v`` is the highest
+speed the cat reached during the fall (m/s; the impact speed, or the speed at which it spread out
+when it slowed a little afterwards: no fall is credited with that slow-down) and ``s`` the
+stopping distance (m): the cat's own (legs flexing when it lands feet first, far less when it has
+not yet righted itself) plus the surface's (concrete none, lawn and planting beds more). A cat
+part-way through righting itself gets a stopping distance in proportion to the part of its
+righting time that has passed. The dose never falls as the drop grows.
 
-The index grows with the square of the impact speed and falls with a softer surface or a better
-posture; it has no term of its own that changes with height. Defaults and their sources are in
-``docs/risk-model.md``.
+**Dose–response.** Cats hurt by the same fall are hurt very differently, so the band is a
+probability given the dose, not a step function of it: an ordinal probit on ``ln D``,
+``P(band ≥ b | D) = Φ((ln D − ln θ_b) / σ)`` with the band medians ``θ_b`` and the spread ``σ``
+of :class:`~petfall_audit.model.InjuryThresholds`, fitted to published case series
+(:mod:`petfall_audit.calibration`). An opening's band probabilities are the mean over its
+simulated falls. Defaults and their sources are in ``docs/risk-model.md``.
 
 Band names (mildest first) are ours: ``minor``, ``moderate``, ``serious``, ``life-threatening``.
 """
@@ -21,8 +27,9 @@ from types import MappingProxyType
 
 import numpy as np
 import numpy.typing as npt
+from scipy import special
 
-from petfall_audit.model import SurfaceKind
+from petfall_audit.model import InjuryThresholds, SurfaceKind
 
 __all__ = [
     "BANDS",
@@ -31,12 +38,16 @@ __all__ = [
     "SURFACE_STOP_M",
     "InjuryThresholds",
     "StoppingDistances",
+    "thresholds_array",
     "DEFAULT_THRESHOLDS",
     "DEFAULT_STOPS",
+    "CALIBRATED_DROP_MAX_M",
     "righting_fraction",
     "surface_stop_m",
     "stopping_distance_m",
     "severity_index_g",
+    "dose_g",
+    "band_at_least",
     "band_of",
     "band_probabilities",
     "expected_band",
@@ -78,34 +89,6 @@ SURFACE_STOP_M: Mapping[SurfaceKind, float] = MappingProxyType(
 
 
 @dataclass(frozen=True, slots=True)
-class InjuryThresholds:
-    """Lower bounds of the bands above ``minor``, as mean deceleration in g (strictly rising).
-
-    Defaults (see ``docs/risk-model.md`` for how they were chosen):
-    ``moderate_g`` 15 g (a righted cat on concrete after about a 2 m drop);
-    ``serious_g`` 45 g (about a 6 m drop onto concrete: second-floor falls, where the case
-    series start to report fractures and chest injuries); ``life_threatening_g`` 90 g (a mean
-    deceleration whose peak, 1.6-2 times the mean for a half-sine or triangular pulse, is
-    140-180 g, just under the playground head-injury limit of 200 g with a 4.6 kg headform,
-    ASTM F1292 / EN 1177; it also puts about 14 % of falls from 8-15 m, 74 % onto hard ground,
-    in this band, against 13.3 % of cats that died in Candela Andrade et al. 2025).
-    """
-
-    moderate_g: float = 15.0
-    serious_g: float = 45.0
-    life_threatening_g: float = 90.0
-
-    def __post_init__(self) -> None:
-        t = (self.moderate_g, self.serious_g, self.life_threatening_g)
-        if not all(np.isfinite(t)) or not 0.0 < t[0] < t[1] < t[2]:
-            raise ValueError(f"thresholds must be positive and strictly rising, got {t}")
-
-    def as_array(self) -> npt.NDArray[np.float64]:
-        """The three thresholds (g) as an array, mildest first."""
-        return np.array([self.moderate_g, self.serious_g, self.life_threatening_g])
-
-
-@dataclass(frozen=True, slots=True)
 class StoppingDistances:
     """The cat's own stopping distance, m: ``righted_m`` feet first, legs flexing (about the
     travel of a crouch, 10-15 cm; from memory); ``unrighted_m`` landing on side, chest or chin
@@ -123,6 +106,10 @@ class StoppingDistances:
 
 
 DEFAULT_THRESHOLDS = InjuryThresholds()
+
+#: Highest drop (m) among the falls of the case series the dose–response is fitted to
+#: (:mod:`petfall_audit.calibration`); above it the band shares are extrapolated.
+CALIBRATED_DROP_MAX_M = 22.0
 DEFAULT_STOPS = StoppingDistances()
 
 
@@ -174,31 +161,84 @@ def severity_index_g(
     return out
 
 
+def dose_g(
+    peak_speed_mps: npt.ArrayLike,
+    fall_time_s: npt.ArrayLike,
+    righting_time_s: npt.ArrayLike,
+    surface_m: npt.ArrayLike,
+    stops: StoppingDistances = DEFAULT_STOPS,
+) -> npt.NDArray[np.float64]:
+    """The injury dose of each fall, in g: :func:`severity_index_g` of the highest speed reached
+    (m/s) with the share of the righting turn done after ``fall_time_s`` of the cat's
+    ``righting_time_s`` (s); ``surface_m`` the stopping distance the surface adds (m). All
+    broadcast."""
+    return severity_index_g(
+        peak_speed_mps, righting_fraction(fall_time_s, righting_time_s), surface_m, stops
+    )
+
+
+def _log_medians(thresholds: InjuryThresholds) -> npt.NDArray[np.float64]:
+    return np.log(thresholds_array(thresholds))
+
+
+def thresholds_array(thresholds: InjuryThresholds) -> npt.NDArray[np.float64]:
+    """The three band medians (g) as an array, mildest first."""
+    return np.array(
+        [thresholds.moderate_g, thresholds.serious_g, thresholds.life_threatening_g], dtype=float
+    )
+
+
+def band_at_least(
+    severity_g: npt.ArrayLike, thresholds: InjuryThresholds = DEFAULT_THRESHOLDS
+) -> npt.NDArray[np.float64]:
+    """Chance that a fall of each dose (g) is moderate, serious, life-threatening *or worse*:
+    shape ``(..., 3)``, ``Φ((ln D − ln θ_b) / σ)``; a step at the medians when ``σ`` is 0."""
+    sev = np.asarray(severity_g, dtype=float)
+    log_t = _log_medians(thresholds)
+    with np.errstate(divide="ignore"):
+        z = np.log(sev)[..., None] - log_t
+    if thresholds.spread == 0:
+        out: npt.NDArray[np.float64] = (z >= 0).astype(float)
+        return out
+    z /= thresholds.spread
+    return np.asarray(special.ndtr(z), dtype=float)
+
+
 def band_of(
     severity_g: npt.ArrayLike, thresholds: InjuryThresholds = DEFAULT_THRESHOLDS
 ) -> npt.NDArray[np.int8]:
-    """Band number 0..3 (index into :data:`BANDS`) of each severity index (g).
-
-    A value equal to a threshold belongs to the higher band."""
+    """The median band (0..3, index into :data:`BANDS`) of each dose (g): the band whose median
+    dose it reaches. A dose equal to a median belongs to the higher band."""
     sev = np.asarray(severity_g, dtype=float)
-    return np.searchsorted(thresholds.as_array(), sev, side="right").astype(np.int8)
+    return np.searchsorted(thresholds_array(thresholds), sev, side="right").astype(np.int8)
 
 
 def band_probabilities(
     severity_g: npt.ArrayLike, thresholds: InjuryThresholds = DEFAULT_THRESHOLDS
 ) -> npt.NDArray[np.float64]:
-    """Share of samples in each band, shape ``(..., 4)`` from severities ``(..., n_samples)``.
-
-    Each row sums to 1."""
+    """Chance of each band, shape ``(..., 4)``, from the doses ``(..., n_samples)`` of the
+    simulated falls (g): the dose–response averaged over the falls. Each row sums to 1."""
     sev = np.asarray(severity_g, dtype=float)
     n = sev.shape[-1]
     if n == 0:
         raise ValueError("severity_g needs at least one sample")
-    # share at or above each threshold, then differences: three passes, no sort
-    at_least = np.stack(
-        [np.count_nonzero(sev >= t, axis=-1) for t in thresholds.as_array()], axis=-1
-    ) / float(n)
-    ones = np.ones(at_least.shape[:-1] + (1,))
+    lead = sev.shape[:-1]
+    at_least = np.empty(lead + (3,))
+    log_t = _log_medians(thresholds)
+    with np.errstate(divide="ignore"):
+        log_sev = np.log(sev)
+    for b in range(3):  # one (..., n_samples) temporary at a time
+        z = log_sev - log_t[b]
+        if thresholds.spread == 0:
+            at_least[..., b] = np.count_nonzero(z >= 0, axis=-1) / float(n)
+        else:
+            z /= thresholds.spread
+            special.ndtr(z, out=z)
+            at_least[..., b] = z.mean(axis=-1)
+    # keep the tail shares nested against rounding (they are in exact arithmetic)
+    at_least[..., 1] = np.minimum(at_least[..., 1], at_least[..., 0])
+    at_least[..., 2] = np.minimum(at_least[..., 2], at_least[..., 1])
+    ones = np.ones(lead + (1,))
     zeros = np.zeros_like(ones)
     cum = np.concatenate([ones, at_least, zeros], axis=-1)  # P(band >= b), b = 0..4
     probs: npt.NDArray[np.float64] = cum[..., :-1] - cum[..., 1:]
@@ -209,7 +249,7 @@ def expected_band(band_probabilities_: npt.ArrayLike) -> npt.NDArray[np.int8]:
     """The median band: the worst band that at least half of the falls reach or exceed.
 
     ``band_probabilities_`` has shape ``(..., 4)``; returns band numbers 0..3. In plain words,
-    "at least half of the simulated falls from here are this bad or worse"."""
+    "at least half of the falls from here are this bad or worse"."""
     p = np.asarray(band_probabilities_, dtype=float)
     # P(band >= b) for b = 1..3; a small tolerance keeps exact halves stable against rounding
     tail = np.cumsum(p[..., ::-1], axis=-1)[..., ::-1][..., 1:]

@@ -237,14 +237,16 @@ def _one(o: Opening, profile: CatProfile) -> tuple[float, tuple[str, ...], tuple
 
     # barriers, each a share of cats let through; a cat must defeat all of them
     passing = 1.0
+    # A barrier lets through the cats that fit through its gap plus, of the others, the
+    # residual share that still defeat it: continuous and rising with the gap, so a coarser
+    # barrier never gives a lower likelihood. The words say which of the two dominates.
     if o.netting_mesh_mm is not None:
         share = gap_pass_share(o.netting_mesh_mm, profile)
+        net = FACTORS["net_fitted"].multiplier
+        passing *= net + (1.0 - net) * share
         if share < 0.5:
-            net = FACTORS["net_fitted"].multiplier
-            passing *= net + (1.0 - net) * share
             use("net_fitted", mesh_mm=o.netting_mesh_mm)
         else:
-            passing *= share
             use("net_mesh_large", mesh_mm=o.netting_mesh_mm, share=share)
     if o.screen is Screen.PET_RESISTANT:
         passing *= use("screen_pet")
@@ -252,12 +254,11 @@ def _one(o: Opening, profile: CatProfile) -> tuple[float, tuple[str, ...], tuple
         passing *= use("screen_insect")
     if o.limiter_gap_mm is not None and o.kind not in BALCONY_LIKE:
         share = gap_pass_share(o.limiter_gap_mm, profile)
+        lim = FACTORS["limiter_fitted"].multiplier
+        passing *= lim + (1.0 - lim) * share
         if share < 0.5:
-            lim = FACTORS["limiter_fitted"].multiplier
-            passing *= lim + (1.0 - lim) * share
             use("limiter_fitted", gap_mm=o.limiter_gap_mm)
         else:
-            passing *= share
             use("limiter_gap_large", gap_mm=o.limiter_gap_mm, share=share)
     if o.kind in BALCONY_LIKE:
         over = use("guard_over")

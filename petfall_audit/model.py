@@ -10,6 +10,7 @@ areas in square metres, speeds in metres per second, times in seconds, temperatu
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field
 from enum import StrEnum
 
@@ -31,6 +32,7 @@ __all__ = [
     "Distribution",
     "CatProfile",
     "CAT_PRESETS",
+    "InjuryThresholds",
     "Building",
     "BALCONY_LIKE",
     "WINDOW_KINDS",
@@ -138,11 +140,14 @@ class Facade:
 
 @dataclass(frozen=True, slots=True)
 class Surface:
-    """What lies below a facade (ground, podium roof, canopy, pond...).
+    """What lies below a facade (ground, podium roof, canopy, pond, lightwell...).
 
-    ``elevation_m`` is the top of the surface above the datum. Its outward extent runs from
-    ``from_facade_m`` to ``to_facade_m`` (``None``: unbounded, e.g. the street beyond).
-    ``facade`` is the facade it lies in front of, or ``None`` for every facade.
+    ``elevation_m`` is the top of the surface above the datum; below 0 it is a sunken area
+    (a lightwell, a basement area) whose rim is at the datum. Its outward extent runs from
+    ``from_facade_m`` to ``to_facade_m`` (``None``: unbounded, e.g. the street beyond), and
+    along the facade from ``x_from_m`` to ``x_to_m`` (metres along the facade, as openings'
+    ``x_m``; ``None``: from the facade's start / to its end). ``facade`` is the facade it lies
+    in front of, or ``None`` for every facade (then it has no extent along a facade).
     """
 
     id: str
@@ -152,6 +157,8 @@ class Surface:
     from_facade_m: float = 0.0
     to_facade_m: float | None = None
     label: str = ""
+    x_from_m: float | None = None
+    x_to_m: float | None = None
 
 
 @dataclass(frozen=True, slots=True)
@@ -308,6 +315,35 @@ CAT_PRESETS: dict[str, CatProfile] = {
 
 
 @dataclass(frozen=True, slots=True)
+class InjuryThresholds:
+    """The injury dose–response: how the chance of each band grows with the dose.
+
+    The dose is the mean deceleration of the stop in g (:mod:`petfall_audit.injury`). For a
+    fall of dose ``D``, the chance that the injury is band ``b`` or worse is
+    ``Φ((ln D − ln θ_b) / spread)``, with ``θ_b`` the *median dose* of the band (``moderate_g``,
+    ``serious_g``, ``life_threatening_g``: half of the cats hurt by a fall of that dose are hurt
+    that badly or worse) and ``spread`` the standard deviation of ``ln D`` between cats hurt by
+    the same fall (dimensionless; 0 makes the band a step function of the dose). The defaults
+    are fitted to published case series (``docs/risk-model.md``, :mod:`petfall_audit.calibration`).
+    """
+
+    moderate_g: float = 24.3
+    serious_g: float = 72.9
+    life_threatening_g: float = 186.0
+    spread: float = 0.83
+
+    def __post_init__(self) -> None:
+        t = (self.moderate_g, self.serious_g, self.life_threatening_g)
+        if not all(math.isfinite(x) for x in t) or not 0.0 < t[0] < t[1] < t[2]:
+            raise ValueError(
+                "the median doses must be above 0 and rise from moderate to serious to "
+                f"life-threatening, got {t[0]:g}, {t[1]:g} and {t[2]:g} g"
+            )
+        if not (math.isfinite(self.spread) and 0.0 <= self.spread <= 5.0):
+            raise ValueError(f"the spread must lie between 0 and 5, got {self.spread:g}")
+
+
+@dataclass(frozen=True, slots=True)
 class Building:
     """A whole audited building. Tuples keep it hashable and immutable."""
 
@@ -317,6 +353,7 @@ class Building:
     surfaces: tuple[Surface, ...] = ()
     openings: tuple[Opening, ...] = ()
     cat_profile: CatProfile = field(default_factory=lambda: CAT_PRESETS["adult"])
+    injury: InjuryThresholds = field(default_factory=InjuryThresholds)
 
     def floor(self, level: int) -> Floor:
         """The floor at ``level``; ``KeyError`` if there is none."""

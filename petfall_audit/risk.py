@@ -24,6 +24,7 @@ import numpy.typing as npt
 
 from petfall_audit.injury import (
     BANDS,
+    CALIBRATED_DROP_MAX_M,
     DEFAULT_STOPS,
     DEFAULT_THRESHOLDS,
     G0,
@@ -35,7 +36,7 @@ from petfall_audit.injury import (
 )
 from petfall_audit.likelihood import LikelihoodResult, assess_likelihood
 from petfall_audit.model import Building, OpeningKind, SurfaceKind
-from petfall_audit.physics import FallResults, simulate_falls
+from petfall_audit.physics import FallResults, peak_speed_of_falls, simulate_falls
 from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED, CatSamples, sample_cat_profile
 
 __all__ = [
@@ -53,7 +54,7 @@ __all__ = [
 ]
 
 #: Version of the injury, likelihood and risk model; changes whenever a default changes.
-MODEL_VERSION = "risk-model 1.0"
+MODEL_VERSION = "risk-model 2.0"
 
 #: HHSRS harm-class weights for our bands, mildest first (classes IV, III, II, I).
 HHSRS_CLASS_WEIGHTS: npt.NDArray[np.float64] = np.array([10.0, 300.0, 1000.0, 10000.0])
@@ -183,9 +184,12 @@ def percentiles(values: npt.ArrayLike) -> npt.NDArray[np.float64]:
 def severity_of_falls(
     falls: FallResults, cat: CatSamples, stops: StoppingDistances = DEFAULT_STOPS
 ) -> npt.NDArray[np.float64]:
-    """Severity index (g) of every simulated fall, shape ``(n_openings, n_samples)``."""
-    # the same formula as injury.severity_index_g, written in place: one pass per step over the
-    # (n_openings, n_samples) arrays, no extra temporaries (tests check the two agree)
+    """Injury dose (g) of every simulated fall, shape ``(n_openings, n_samples)``: the mean
+    deceleration of the stop from the highest speed the fall reached (see
+    :func:`petfall_audit.injury.dose_g`)."""
+    # the same formula as injury.dose_g, written in place: one pass per step over the
+    # (n_openings, n_samples) arrays, few temporaries (tests check the two agree)
+    peak = peak_speed_of_falls(falls, cat)
     surf = surface_stop_m(falls.landing_kinds, stops)
     righting_s = np.maximum(cat.righting_time_s, 1e-12)  # a zero righting time: always righted
     s = np.divide(falls.fall_time_s, righting_s)  # share of the righting turn done
@@ -194,7 +198,7 @@ def severity_of_falls(
     s += stops.unrighted_m
     if surf.size and np.any(surf):
         s += np.take(surf, falls.landing)
-    sev = np.multiply(falls.impact_speed_mps, falls.impact_speed_mps)
+    sev = np.multiply(peak, peak, out=peak)
     sev /= s
     sev *= 1.0 / (2.0 * G0)
     return sev
@@ -262,7 +266,7 @@ def assess(
     samples: int = DEFAULT_SAMPLES,
     seed: int = DEFAULT_SEED,
     progress: Callable[[int, int], None] | None = None,
-    thresholds: InjuryThresholds = DEFAULT_THRESHOLDS,
+    thresholds: InjuryThresholds | None = None,
     stops: StoppingDistances = DEFAULT_STOPS,
 ) -> Assessment:
     """Assess every opening of ``building`` with ``samples`` cats drawn with ``seed``.
@@ -271,6 +275,7 @@ def assess(
     called as the simulation advances. For the sensitivity of the top risks to the cat profile,
     pass the result to :func:`petfall_audit.sensitivity.with_sensitivity`.
     Same inputs, same result. ``samples`` may be at most :func:`max_samples` (memory).
+    ``thresholds``: the injury dose–response (default: the building's own, ``building.injury``).
     """
     if samples < 1:
         raise ValueError(f"samples must be at least 1, got {samples}")
@@ -283,7 +288,8 @@ def assess(
     cat = sample_cat_profile(building.cat_profile, samples, seed=seed)
     falls = simulate_falls(building, cat, progress=progress)
     return _assess_from_falls(
-        building, cat, falls, samples=samples, seed=seed, thresholds=thresholds, stops=stops,
+        building, cat, falls, samples=samples, seed=seed,
+        thresholds=building.injury if thresholds is None else thresholds, stops=stops,
     )
 
 
@@ -346,6 +352,12 @@ def _assess_from_falls(
                     f"Water below ({water:.0%} of falls): a cat that survives the fall may drown"
                 )
         factors.append(f"Median impact speed {speed_pct[i, 1]:.1f} m/s")
+        if drop_pct[i, 1] > CALIBRATED_DROP_MAX_M:
+            factors.append(
+                f"Higher than the falls of the published case series (up to about "
+                f"{CALIBRATED_DROP_MAX_M:.0f} m): the injury shares here are extrapolated and "
+                "may understate how badly cats are hurt"
+            )
         factors.append(
             f"At least half of the falls from here are {BANDS[int(exp_band[i])]}"
             + (" or worse" if exp_band[i] < len(BANDS) - 1 else "")

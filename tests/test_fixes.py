@@ -254,8 +254,11 @@ def test_options_lower_the_risk_and_match_an_independent_recomputation(walkup_as
             opt = ranked[0]
             control = CAT.control(opt.control_id)
             p = assess_likelihood([control.apply(opening)], profile=a.building.cat_profile)
+            # a control that relies on people counts only while kept (docs/fixes.md)
+            kept = p.annual_probability * control.likelihood_multiplier
+            now = a.likelihood.annual_probability[i : i + 1]
             expected = risk_score(
-                p.annual_probability * control.likelihood_multiplier,
+                control.adherence * kept + (1 - control.adherence) * now,
                 a.band_probabilities[i : i + 1],
             )[0]
             assert opt.risk_after == pytest.approx(expected, rel=1e-12)

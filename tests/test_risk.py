@@ -9,9 +9,8 @@ import pytest
 
 from petfall_audit.injury import (
     BANDS,
-    band_probabilities,
-    righting_fraction,
-    severity_index_g,
+    DEFAULT_THRESHOLDS,
+    dose_g,
     surface_stop_m,
 )
 from petfall_audit.model import (
@@ -29,7 +28,7 @@ from petfall_audit.model import (
     Surface,
     SurfaceKind,
 )
-from petfall_audit.physics import fall_time, impact_speed
+from petfall_audit.physics import peak_speed_of_falls
 from petfall_audit.risk import HHSRS_CLASS_WEIGHTS, MODEL_VERSION, assess, risk_score
 from petfall_audit.sampling import sample_cat_profile
 from petfall_audit.sensitivity import with_sensitivity
@@ -129,9 +128,14 @@ def test_band_probabilities_and_deterministic_profile() -> None:
         assert list(o.bands) == list(BANDS)
         assert o.drop_m.p5 <= o.drop_m.p50 <= o.drop_m.p95
         assert sum(o.landing.values()) == pytest.approx(1.0)
-    det = assess(_building(ops, _deterministic(0.0)), samples=50)
-    # position along the width still varies, but nothing below catches: one band each
+    step = replace(DEFAULT_THRESHOLDS, spread=0.0)
+    det = assess(_building(ops, _deterministic(0.0)), samples=50, thresholds=step)
+    # position along the width still varies, but nothing below catches, and with no spread
+    # between cats hurt by the same fall: one band each
     assert np.all(np.count_nonzero(det.band_probabilities, axis=1) == 1)
+    # with the fitted spread the same identical cats spread over several bands
+    spread = assess(_building(ops, _deterministic(0.0)), samples=50)
+    assert np.all(np.count_nonzero(spread.band_probabilities > 0.05, axis=1) >= 2)
 
 
 def test_never_relaxing_cat_gets_worse_with_every_floor() -> None:
@@ -143,70 +147,83 @@ def test_never_relaxing_cat_gets_worse_with_every_floor() -> None:
     assert np.all(np.diff(bands) >= 0)
 
 
-def test_always_relaxing_cat_dips_only_with_its_speed() -> None:
+def test_always_relaxing_cat_lands_slower_but_is_not_hurt_less() -> None:
     # relaxed cats peak just after spreading out and settle a few percent lower (fact of the
-    # trade, no source); the severity may dip only by what that speed dip implies
+    # trade, no source); the later case series found no height at which falls get gentler
+    # (Vnuk et al. 2004; Karabağlı et al.; Candela Andrade et al. 2025), so the dose follows the
+    # highest speed reached and nothing falls with height
     ops = [_window(f"W{i}", i) for i in range(1, 41)]
     a = assess(_building(ops, _deterministic(1.0)), samples=20)
     v = np.array([o.impact_speed_mps.p50 for o in a.openings])
-    sev = np.array([o.expected_severity_g for o in a.openings])
     k = int(np.argmax(v))
     assert 0 < k < len(v) - 1 and 0.02 < 1 - v[-1] / v[k] < 0.10
-    np.testing.assert_allclose(sev[3:] / v[3:] ** 2, sev[3] / v[3] ** 2, rtol=1e-9)
-    assert 1 - sev[-1] / sev[k] <= 1 - (v[-1] / v[k]) ** 2 + 1e-9
-    assert {o.expected_band for o in a.openings[k:]} == {3}
+    sev = np.array([o.expected_severity_g for o in a.openings])
+    assert np.all(np.diff(sev) >= -1e-9 * sev[1:])
+    tail = np.cumsum(a.band_probabilities[:, ::-1], axis=1)[:, ::-1]
+    assert np.all(np.diff(tail, axis=0) >= -1e-12)
+    risk = np.array([o.risk for o in a.openings])
+    assert np.all(np.diff(risk) >= -1e-9 * risk[1:])
 
 
-def test_default_profile_shows_no_higher_floor_as_markedly_safer() -> None:
+def test_default_profile_never_shows_a_higher_floor_as_safer() -> None:
     # the "safer above seven storeys" claim was not reproduced by the Zagreb (Vnuk et al. 2004),
-    # Istanbul and Berlin series; severity must not fall with height
+    # Istanbul (Karabağlı et al.) and Berlin (Candela Andrade et al. 2025) series
     ops = [_window(f"W{i}", i) for i in range(1, 41)]
     a = assess(_building(ops), samples=N)
     sev = np.array([o.expected_severity_g for o in a.openings])
-    assert np.all(sev >= 0.97 * np.maximum.accumulate(sev))
+    assert np.all(np.diff(sev) >= -1e-9 * sev[1:])
     bands = np.array([o.expected_band for o in a.openings])
     assert np.all(np.diff(bands) >= 0)
     risk = np.array([o.risk for o in a.openings])
-    assert np.all(risk >= 0.97 * np.maximum.accumulate(risk))
+    assert np.all(np.diff(risk) >= -1e-9 * risk[1:])
 
 
-def _case_series_severity(drop_m: np.ndarray, hard: np.ndarray) -> np.ndarray:
-    cat = sample_cat_profile(CAT_PRESETS["adult"], drop_m.size, seed=11)
-    kw = dict(mass_kg=cat.mass_kg, cda_tense_m2=cat.cda_tense_m2,
-              cda_spread_m2=cat.cda_spread_m2, relax_fraction=cat.relax_fraction,
-              rho_kg_m3=1.225)
-    v = impact_speed(drop_m, **kw)
-    t = fall_time(drop_m, **kw)
-    s = np.where(hard, 0.0, surface_stop_m([SurfaceKind.LAWN])[0])
-    return severity_index_g(v, righting_fraction(t, cat.righting_time_s), s)
+def _windows_over(drops_m: np.ndarray, kind: SurfaceKind) -> Building:
+    """One window per drop (sill 0.9 m above its floor) over one surface."""
+    floors = tuple(Floor(i, f"F{i}", float(d) - 0.9) for i, d in enumerate(drops_m))
+    ops = tuple(Opening(f"W{i}", i, "f", OpeningKind.WINDOW_CASEMENT, 0.0, 1.0,
+                        perch_height_m=0.9) for i in range(len(drops_m)))
+    return Building(BuildingInfo("Drops"), floors, (Facade("f", 5.0),),
+                    (Surface("below", kind, 0.0),), ops)
 
 
-def test_case_series_berlin_share_of_serious_and_fatal() -> None:
-    # Candela Andrade et al. 2025, J Feline Med Surg (1125 cats, Berlin): typical heights 8-15 m,
-    # 74.2 % landed on hard ground, 13.3 % died or were euthanised; thoracic trauma 58.3 %.
-    rng = np.random.default_rng(0)
-    drop = rng.uniform(8.0, 15.0, 4000)
-    hard = rng.random(4000) < 0.742
-    p = band_probabilities(_case_series_severity(drop, hard)[None, :])[0]
-    assert 0.07 <= p[3] <= 0.25  # life-threatening share near the 13.3 % that died
-    assert p[2] + p[3] >= 0.583  # serious or worse at least the thoracic-trauma share
+def test_adult_over_concrete_spreads_over_bands_at_every_height() -> None:
+    # the case series report a wide spread of outcomes at every height: most cats survive,
+    # many from high floors have only minor injuries, a minority die even from low floors
+    # (research summary of Vnuk et al. 2004, Candela Andrade et al. 2025, Merbl et al. 2013)
+    drops = np.arange(3.0, 60.5, 1.0)
+    a = assess(_windows_over(drops, SurfaceKind.CONCRETE), samples=N)
+    p = a.band_probabilities
+    assert np.all(np.count_nonzero(p >= 0.10, axis=1) >= 2), p[np.count_nonzero(
+        p >= 0.10, axis=1) < 2]
+    serious_or_worse = p[:, 2] + p[:, 3]
+    assert np.all(np.diff(serious_or_worse) > 0)  # rises with the drop (Karabağlı et al.)
+
+
+def test_berlin_conditions_give_the_reported_share_of_deaths() -> None:
+    # Candela Andrade et al. 2025, J Feline Med Surg (1125 cats, Berlin): typically 8-15 m,
+    # 74.2 % landed on hard ground; 13.3 % died or were put to sleep. The life-threatening band
+    # also holds cats that survive with intensive care, so its share may be somewhat higher.
+    drops = np.linspace(8.0, 15.0, 15)
+    hard = assess(_windows_over(drops, SurfaceKind.CONCRETE), samples=N).band_probabilities
+    soft = assess(_windows_over(drops, SurfaceKind.LAWN), samples=N).band_probabilities
+    share = 0.742 * hard[:, 3].mean() + 0.258 * soft[:, 3].mean()
+    assert 0.10 <= share <= 0.25
     # severity linked to surface: hard ground worse than lawn at the same heights
-    sev = _case_series_severity(drop, np.ones(4000, bool))
-    assert sev.mean() > 1.3 * _case_series_severity(drop, np.zeros(4000, bool)).mean()
+    assert np.all(hard[:, 3] > soft[:, 3])
 
 
 def test_case_series_height_shape() -> None:
     storey_m = 3.0  # storeys of 2.7-3.5 m (common practice, no source)
-    n = 2000
-    means = []
-    for storey in range(1, 13):
-        drop = np.full(n, storey * storey_m)
-        means.append(_case_series_severity(drop, np.ones(n, bool)).mean())
-    means_a = np.array(means)
+    drops = np.arange(1, 13) * storey_m + 0.9
+    a = assess(_windows_over(drops, SurfaceKind.CONCRETE), samples=N)
+    means_a = np.array([o.expected_severity_g for o in a.openings])
     # Karabağlı et al., Pak Vet J (Istanbul, 160 cats): injury score rose steadily with height
     assert np.all(np.diff(means_a) > 0)
     # Vnuk et al. 2004, J Feline Med Surg 6:305: falls from the 7th storey up were more severe
     assert means_a[6:].mean() > 1.4 * means_a[1:6].mean()
+    life = a.band_probabilities[:, 3]
+    assert life[6:].mean() > 1.5 * life[1:6].mean()
 
 
 def test_factors_hazards_and_ranked_views() -> None:
@@ -277,8 +294,7 @@ def test_in_place_severity_matches_the_injury_formula() -> None:
     cat = sample_cat_profile(b.cat_profile, 300, seed=2)
     falls = simulate_falls(b, cat)
     surf = surface_stop_m(falls.landing_kinds)[falls.landing]
-    ref = severity_index_g(falls.impact_speed_mps,
-                           righting_fraction(falls.fall_time_s, cat.righting_time_s), surf)
+    ref = dose_g(peak_speed_of_falls(falls, cat), falls.fall_time_s, cat.righting_time_s, surf)
     np.testing.assert_allclose(severity_of_falls(falls, cat), ref, rtol=1e-12)
 
 
