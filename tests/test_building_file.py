@@ -12,6 +12,7 @@ from pathlib import Path
 from typing import Any
 
 import jsonschema
+import numpy as np
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
@@ -284,7 +285,7 @@ def _set(doc: dict[str, Any], path: str, value: Any) -> dict[str, Any]:
         (
             "surfaces[0].from_facade_m",
             2.0,
-            "facades[0]: nothing lies below the openings on facade 'north' from 0 to 2 m out",
+            "facades[0]: nothing lies below opening 'a' on facade 'north' from 0 to 2 m out",
         ),
         ("openings[0].floor", "1", "openings[0].floor: expected a whole number, got '1'"),
         ("openings[0].x_m", float("nan"), "openings[0].x_m: expected a finite number, got NaN"),
@@ -432,7 +433,7 @@ def test_duplicate_keys_in_the_json_are_reported(tmp_path: Path) -> None:
         (
             {"format": FORMAT, "version": 7},
             "this building file was written by a newer version (7) of petfall-audit; "
-            "this version reads up to 1",
+            "this version reads up to 2",
         ),
     ],
 )
@@ -501,7 +502,8 @@ def test_an_older_version_is_migrated_in_order(monkeypatch: pytest.MonkeyPatch) 
             floor["elevation_m"] = floor.pop("height_m")
         return doc
 
-    monkeypatch.setattr(migrations, "MIGRATIONS", {-1: from_minus_1, 0: from_0})
+    monkeypatch.setattr(migrations, "MIGRATIONS",
+                        {-1: from_minus_1, 0: from_0, 1: migrations.MIGRATIONS[1]})
     old = minimal_doc()
     old["version"] = -1
     old["site"] = old.pop("building")
@@ -524,10 +526,10 @@ def test_a_failing_migration_is_a_file_format_error(monkeypatch: pytest.MonkeyPa
         parse_building(minimal_doc() | {"version": 0})
 
 
-def test_current_version_is_one_and_written() -> None:
-    assert CURRENT_VERSION == 1
+def test_current_version_is_two_and_written() -> None:
+    assert CURRENT_VERSION == 2
     d = building_to_dict(parse_building(minimal_doc()))
-    assert (d["format"], d["version"]) == (FORMAT, 1)
+    assert (d["format"], d["version"]) == (FORMAT, 2)
 
 
 # --- writing ---------------------------------------------------------------------------------
@@ -639,8 +641,8 @@ def test_schema_is_valid_and_checks_the_fixture() -> None:
     schema = building_json_schema()
     jsonschema.Draft202012Validator.check_schema(schema)
     validator = jsonschema.Draft202012Validator(schema)
-    validator.validate(json.loads(FIXTURE.read_text(encoding="utf-8")))
-    bad = minimal_doc()
+    validator.validate(building_to_dict(load_building(FIXTURE)))  # the fixture, migrated
+    bad = minimal_doc() | {"version": 2}
     bad["openings"][0]["colour"] = "red"
     bad["cat_profile"] = {"mass_kg": {"mean": 4, "max": 5}}
     assert len(list(validator.iter_errors(bad))) == 2
@@ -716,3 +718,98 @@ def test_the_example_in_the_documentation_loads() -> None:
     example = text.split("## Example", 1)[1].split("```json", 1)[1].split("```", 1)[0]
     b = parse_building(json.loads(example))
     assert b.opening("F1").escape_window and validate_building(b) == []
+
+
+def test_version_1_fixture_is_migrated_and_falls_as_version_1_computed() -> None:
+    # Reference: the falls of the committed version-1 fixture as the version-1 code computed them
+    # (tests/fixtures/building_v1_falls.json, written before the format moved to version 2).
+    # The file uses no field of version 2, so every drop and landing element must be the same.
+    from petfall_audit.physics import simulate_falls
+    from petfall_audit.sampling import sample_cat_profile
+
+    raw = json.loads(FIXTURE.read_text(encoding="utf-8"))
+    assert raw["version"] == 1
+    b = load_building(FIXTURE)
+    assert building_to_dict(b)["version"] == 2
+    assert all(s.x_from_m is None and s.x_to_m is None for s in b.surfaces)
+    ref = json.loads((FIXTURE.parent / "building_v1_falls.json").read_text(encoding="utf-8"))
+    cat = sample_cat_profile(b.cat_profile, ref["samples"], seed=ref["seed"])
+    falls = simulate_falls(b, cat)
+    for k, oid in enumerate(falls.opening_ids):
+        want = ref["openings"][oid]
+        got_drops = sorted({round(float(x), 9) for x in falls.drop_m[k]})
+        assert got_drops == pytest.approx(want["drops_m"], abs=1e-9), oid
+        ids, counts = np.unique(np.asarray(falls.landing_ids)[falls.landing[k]],
+                                return_counts=True)
+        assert dict(zip(ids.tolist(), counts.tolist(), strict=True)) == want["landing"], oid
+
+
+# --- version 2: surfaces along part of a facade, the injury section ------------------------
+
+
+def _v2_doc() -> dict[str, Any]:
+    doc = minimal_doc() | {"version": 2}
+    doc["facades"] = [{"id": "north", "length_m": 40}]
+    doc["floors"] = [{"level": k, "label": str(k), "elevation_m": 3.0 * k} for k in range(6)]
+    doc["surfaces"] = [
+        {"id": "podium", "kind": "roof", "elevation_m": 7.0, "facade": "north",
+         "to_facade_m": 12.0, "x_from_m": 0.0, "x_to_m": 10.0},
+        {"id": "street", "kind": "concrete", "elevation_m": 0.0, "facade": "north"},
+    ]
+    doc["openings"] = [
+        {"id": "over", "floor": 4, "facade": "north", "kind": "window_casement", "x_m": 3,
+         "width_m": 1.2},
+        {"id": "beside_low", "floor": 1, "facade": "north", "kind": "window_casement",
+         "x_m": 30, "width_m": 1.2},
+    ]
+    return doc
+
+
+def test_a_partial_podium_loads_beside_a_lower_window() -> None:
+    # the window beside the podium is lower than its roof: only openings over its extent count
+    b = parse_building(_v2_doc())
+    podium = b.surfaces[0]
+    assert (podium.x_from_m, podium.x_to_m) == (0.0, 10.0)
+    assert building_to_dict(b)["surfaces"][0]["x_to_m"] == 10.0
+    assert parse_building(json.loads(dumps_building(b))) == b
+
+
+def test_partial_surface_problems_are_located() -> None:
+    doc = _v2_doc()
+    doc["openings"][1]["x_m"] = 8.0  # now over the podium's extent and below its roof
+    with pytest.raises(ValidationFailed) as info:
+        parse_building(doc)
+    assert any(p.where == "surfaces[0].elevation_m" and "beside_low" in p.message
+               for p in info.value.problems)
+    doc = _v2_doc()
+    doc["surfaces"][1]["x_from_m"] = 20.0  # the street no longer lies under 10-20 m ...
+    doc["surfaces"].append({"id": "yard", "kind": "concrete", "elevation_m": 0.0,
+                            "facade": "north", "x_to_m": 10.0})  # ... only under 0-10 m
+    doc["openings"].append({"id": "gap", "floor": 2, "facade": "north",
+                            "kind": "window_casement", "x_m": 14, "width_m": 1.0})
+    with pytest.raises(ValidationFailed) as info:
+        parse_building(doc)
+    msgs = [str(p) for p in info.value.problems]
+    assert any("nothing lies below opening 'gap'" in m and "from 10 m to 20 m" in m
+               for m in msgs), msgs
+    doc = _v2_doc()
+    doc["surfaces"][0]["x_to_m"] = 0.0
+    doc["surfaces"].append({"id": "all", "kind": "lawn", "elevation_m": 0.0, "x_from_m": 1.0})
+    with pytest.raises(ValidationFailed) as info:
+        parse_building(doc)
+    where = {p.where for p in info.value.problems}
+    assert {"surfaces[0].x_to_m", "surfaces[2].x_from_m"} <= where
+
+
+def test_injury_section_round_trips_and_is_checked() -> None:
+    doc = _v2_doc()
+    doc["injury"] = {"moderate_g": 20.0, "serious_g": 50.0, "life_threatening_g": 150.0,
+                     "spread": 0.5}
+    b = parse_building(doc)
+    assert (b.injury.serious_g, b.injury.spread) == (50.0, 0.5)
+    assert building_to_dict(b)["injury"] == doc["injury"]
+    doc["injury"] = {"moderate_g": 60.0, "serious_g": 50.0}
+    with pytest.raises(ValidationFailed) as info:
+        parse_building(doc)
+    assert any(p.where.startswith("injury") and "must rise" in p.message
+               for p in info.value.problems)

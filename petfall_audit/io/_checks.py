@@ -277,6 +277,25 @@ def _check_surfaces(
                     f"(to_facade_m null) for a surface that runs on without end",
                 )
             )
+        ok_xf = _range(problems, at("x_from_m"), s.x_from_m, "m", 0.0, L.length_max_m)
+        ok_xt = _range(problems, at("x_to_m"), s.x_to_m, "m", 0.0, L.length_max_m)
+        if ok_xf and ok_xt and s.x_from_m is not None and s.x_to_m is not None \
+                and s.x_to_m <= s.x_from_m:
+            problems.append(
+                Problem(
+                    at("x_to_m"),
+                    f"the surface must end further along the facade than it starts "
+                    f"({s.x_from_m:g} m), got {s.x_to_m:g} m",
+                )
+            )
+        if s.facade is None and (s.x_from_m is not None or s.x_to_m is not None):
+            problems.append(
+                Problem(
+                    at("x_from_m" if s.x_from_m is not None else "x_to_m"),
+                    "an extent along a facade needs the facade it lies along: set its facade, "
+                    "or leave x_from_m and x_to_m empty for a surface in front of every facade",
+                )
+            )
         if s.facade is not None and "facades" not in incomplete and s.facade not in facade_ids:
             problems.append(
                 Problem(
@@ -356,8 +375,8 @@ def _check_openings(
 def _check_landing(
     problems: list[Problem], b: Building, places: Places, *, coverage: bool = True
 ) -> None:
-    """Surfaces above the openings they would catch; with ``coverage``, facades with gaps in
-    what lies below (skipped when some surfaces were left out: one of them may fill the gap)."""
+    """Surfaces above the openings they would catch; with ``coverage``, openings with gaps in
+    what lies below them (skipped when some surfaces were left out: one may fill the gap)."""
     if not b.openings:
         return
     L = LIMITS
@@ -366,18 +385,23 @@ def _check_landing(
     o_elev = np.array([elevation.get(o.floor, np.nan) for o in b.openings], dtype=float)
     o_fac = np.array([facade_index.get(o.facade, -2) for o in b.openings])
     o_proj = np.array([o.projection_m for o in b.openings], dtype=float)
+    o_x = np.array([o.x_m for o in b.openings], dtype=float)
+    o_right = o_x + np.array([o.width_m for o in b.openings], dtype=float)
     if b.surfaces:
         s_elev = np.array([s.elevation_m for s in b.surfaces], dtype=float)
         s_fac = np.array([facade_index.get(s.facade, -2) if s.facade else -1 for s in b.surfaces])
         s_from = np.array([s.from_facade_m for s in b.surfaces], dtype=float)
         s_to = np.array([np.inf if s.to_facade_m is None else s.to_facade_m for s in b.surfaces])
+        s_xlo = np.array([-np.inf if s.x_from_m is None else s.x_from_m for s in b.surfaces])
+        s_xhi = np.array([np.inf if s.x_to_m is None else s.x_to_m for s in b.surfaces])
         with np.errstate(invalid="ignore"):
             same_face = (s_fac[:, None] == -1) | (s_fac[:, None] == o_fac[None, :])
             in_reach = (s_from[:, None] <= o_proj[None, :] + L.catch_reach_m) & (
                 s_to[:, None] > o_proj[None, :]
             )
+            along = (s_xlo[:, None] < o_right[None, :]) & (s_xhi[:, None] > o_x[None, :])
             above = s_elev[:, None] > o_elev[None, :] + _EPS
-            caught = same_face & in_reach & above & (o_fac[None, :] >= 0)
+            caught = same_face & in_reach & along & above & (o_fac[None, :] >= 0)
         for si in np.flatnonzero(caught.any(axis=1)):
             hits = np.flatnonzero(caught[si])
             first = int(hits[0])
@@ -391,34 +415,53 @@ def _check_landing(
                     f"{o_elev[first]:g} m){more}; check its elevation, facade and extent",
                 )
             )
-    # Every opening must land somewhere: below the lowest opening on each facade, the surfaces
-    # must cover the whole way out from the facade.
+    # Every opening must land somewhere: below each opening, along its whole width, the
+    # surfaces at or below its floor must cover the whole way out from the facade.
     if not coverage:
         return
     for k, facade in enumerate(b.facades):
-        on_face = (o_fac == k) & np.isfinite(o_elev)
-        if not on_face.any():
+        on_face = np.flatnonzero((o_fac == k) & np.isfinite(o_elev))
+        if not on_face.size:
             continue
-        lowest = float(o_elev[on_face].min())
-        spans = sorted(
-            (s.from_facade_m, math.inf if s.to_facade_m is None else s.to_facade_m)
-            for s in b.surfaces
-            if (s.facade is None or s.facade == facade.id) and s.elevation_m <= lowest + _EPS
-        )
-        gap = _first_gap(spans)
-        if gap is not None:
-            start, end = gap
-            extent = (
-                f"from {start:g} m out" if math.isinf(end) else f"from {start:g} to {end:g} m out"
+        mine = [s for s in b.surfaces if s.facade is None or s.facade == facade.id]
+        # Between two consecutive ends of surfaces along the facade the same surfaces lie
+        # below; the lowest opening over such a cell needs the least of them (a higher one has
+        # every surface the lower one has), so checking it checks the cell.
+        cuts = sorted({x for s in mine for x in (s.x_from_m, s.x_to_m) if x is not None})
+        bounds = [-math.inf, *cuts, math.inf]
+        for a, z in zip(bounds[:-1], bounds[1:], strict=True):
+            over = on_face[(o_x[on_face] < z) & (o_right[on_face] > a)]
+            if not over.size:
+                continue
+            i = int(over[np.argmin(o_elev[over])])
+            lo, hi = max(a, float(o_x[i])), min(z, float(o_right[i]))
+            mid = 0.5 * (lo + hi) if hi > lo else lo
+            spans = sorted(
+                (s.from_facade_m, math.inf if s.to_facade_m is None else s.to_facade_m)
+                for s in mine
+                if s.elevation_m <= o_elev[i] + _EPS
+                and (s.x_from_m is None or s.x_from_m <= mid)
+                and (s.x_to_m is None or s.x_to_m > mid)
             )
+            gap = _first_gap(spans)
+            if gap is None:
+                continue
+            start, end = gap
+            extent = (f"from {start:g} m out" if math.isinf(end)
+                      else f"from {start:g} to {end:g} m out")
+            where = ("" if math.isinf(a) and math.isinf(z) else
+                     f", along the facade from {max(a, 0.0):g} m"
+                     + ("" if math.isinf(z) else f" to {z:g} m"))
+            o = b.openings[i]
             problems.append(
                 Problem(
                     places.at("facades", k),
-                    f"nothing lies below the openings on facade {facade.id!r} {extent} (lowest "
-                    f"opening floor at {lowest:g} m): add a surface there, e.g. the ground "
-                    f"running on without end (outer edge empty, to_facade_m null)",
+                    f"nothing lies below opening {o.id!r} on facade {facade.id!r} {extent}"
+                    f"{where} (its floor at {o_elev[i]:g} m): add a surface there, e.g. the "
+                    f"ground running on without end (outer edge empty, to_facade_m null)",
                 )
             )
+            break  # one message per facade is enough to act on
 
 
 def _first_gap(spans: Sequence[tuple[float, float]]) -> tuple[float, float] | None:

@@ -21,12 +21,21 @@ import datetime as _dt
 import json
 from typing import Annotated, Any, Literal, Union
 
-from pydantic import BaseModel, ConfigDict, Discriminator, Field, Tag, field_validator
+from pydantic import (
+    BaseModel,
+    ConfigDict,
+    Discriminator,
+    Field,
+    Tag,
+    field_validator,
+    model_validator,
+)
 
 from petfall_audit.model import (
     CAT_PRESETS,
     BuildingInfo,
     Facade,
+    InjuryThresholds,
     Opening,
     Surface,
 )
@@ -45,6 +54,7 @@ __all__ = [
     "OpeningModel",
     "CatProfileModel",
     "CatProfileField",
+    "InjuryModel",
     "OpeningKindName",
     "SurfaceKindName",
     "ScreenName",
@@ -64,7 +74,7 @@ __all__ = [
 ]
 
 FORMAT = "petfall-audit-building"
-CURRENT_VERSION = 1
+CURRENT_VERSION = 2
 SCHEMA_FILENAME = "building.schema.json"
 
 
@@ -230,6 +240,51 @@ class SurfaceModel(_Strict):
         description="Where it ends, out from the facade (m); null for unbounded.",
     )
     label: str = Field(default=_default(Surface, "label"), description="Label shown to people.")
+    x_from_m: float | None = Field(
+        default=None,
+        ge=0.0,
+        le=_L.length_max_m,
+        description="Where it starts along its facade (m, as openings' x_m); null for the "
+        "facade's start. Version 2.",
+    )
+    x_to_m: float | None = Field(
+        default=None,
+        ge=0.0,
+        le=_L.length_max_m,
+        description="Where it ends along its facade (m); null for the facade's end. Version 2.",
+    )
+
+
+class InjuryModel(_Strict):
+    """The "injury" section: the injury dose–response (version 2; absent = the fitted
+    defaults)."""
+
+    moderate_g: float = Field(
+        default=_default(InjuryThresholds, "moderate_g"), gt=0.0, le=10_000.0,
+        description="Median dose (mean deceleration, g) of a moderate or worse injury.",
+    )
+    serious_g: float = Field(
+        default=_default(InjuryThresholds, "serious_g"), gt=0.0, le=10_000.0,
+        description="Median dose (g) of a serious or worse injury.",
+    )
+    life_threatening_g: float = Field(
+        default=_default(InjuryThresholds, "life_threatening_g"), gt=0.0, le=10_000.0,
+        description="Median dose (g) of a life-threatening injury.",
+    )
+    spread: float = Field(
+        default=_default(InjuryThresholds, "spread"), ge=0.0, le=5.0,
+        description="Spread of the log of the dose between cats hurt by the same fall "
+        "(0: the band is a step function of the dose).",
+    )
+
+    @model_validator(mode="after")
+    def _rising(self) -> InjuryModel:
+        if not self.moderate_g < self.serious_g < self.life_threatening_g:
+            raise ValueError(
+                "the median doses must rise from moderate to serious to life-threatening, got "
+                f"{self.moderate_g:g}, {self.serious_g:g} and {self.life_threatening_g:g} g"
+            )
+        return self
 
 
 def _opening_default(name: str) -> Any:
@@ -438,14 +493,14 @@ CatProfileField = Annotated[
 
 
 class DocumentModel(_Strict):
-    """A whole building file, version 1."""
+    """A whole building file, version 2."""
 
     model_config = ConfigDict(title="petfall-audit building file")
 
     format: Literal["petfall-audit-building"] = Field(
         description="Always 'petfall-audit-building'."
     )
-    version: Literal[1] = Field(description="File format version.")
+    version: Literal[2] = Field(description="File format version.")
     building: BuildingModel
     floors: list[FloorModel] = Field(default_factory=list)
     facades: list[FacadeModel] = Field(default_factory=list)
@@ -454,6 +509,10 @@ class DocumentModel(_Strict):
     cat_profile: CatProfileField = Field(
         default="adult",
         description="A preset name or an object of parameters (missing ones from the preset).",
+    )
+    injury: InjuryModel = Field(
+        default_factory=InjuryModel,
+        description="The injury dose–response (version 2); absent: the fitted defaults.",
     )
 
 
@@ -470,6 +529,7 @@ ALL_FIELD_NAMES: frozenset[str] = _field_names(
     SurfaceModel,
     OpeningModel,
     CatProfileModel,
+    InjuryModel,
     NormalModel,
     UniformModel,
     LogNormalModel,

@@ -36,6 +36,7 @@ from petfall_audit.io._schema import (
     DocumentModel,
     FacadeModel,
     FloorModel,
+    InjuryModel,
     LogNormalModel,
     NormalModel,
     OpeningModel,
@@ -54,6 +55,7 @@ from petfall_audit.model import (
     Facade,
     Fixed,
     Floor,
+    InjuryThresholds,
     LogNormal,
     Normal,
     OpenFrequency,
@@ -76,7 +78,7 @@ __all__ = [
     "validate_building",
 ]
 
-_SECTIONS = ("building", "floors", "facades", "surfaces", "openings", "cat_profile")
+_SECTIONS = ("building", "floors", "facades", "surfaces", "openings", "cat_profile", "injury")
 _LIST_SECTIONS: dict[str, type[BaseModel]] = {
     "floors": FloorModel,
     "facades": FacadeModel,
@@ -142,6 +144,7 @@ def building_to_dict(building: Building) -> dict[str, object]:
         "surfaces": [_plain(s) for s in building.surfaces],
         "openings": [_plain(o) for o in building.openings],
         "cat_profile": _profile_to_dict(building.cat_profile),
+        "injury": _plain(building.injury),
     }
 
 
@@ -260,6 +263,8 @@ def _salvage(doc: dict[str, Any], exc: ValidationError) -> tuple[Building, Place
         surfaces=tuple(lists["surfaces"]),
         openings=tuple(lists["openings"]),
         cat_profile=profile,
+        injury=(_injury(InjuryModel.model_validate(doc["injury"]))
+                if "injury" in doc and "injury" not in incomplete else InjuryThresholds()),
     )
     return building, Places(places), frozenset(incomplete)
 
@@ -285,6 +290,8 @@ def _surface(m: SurfaceModel) -> Surface:
         from_facade_m=float(m.from_facade_m),
         to_facade_m=None if m.to_facade_m is None else float(m.to_facade_m),
         label=m.label,
+        x_from_m=None if m.x_from_m is None else float(m.x_from_m),
+        x_to_m=None if m.x_to_m is None else float(m.x_to_m),
     )
 
 
@@ -343,7 +350,12 @@ def _to_building(m: DocumentModel) -> Building:
         surfaces=tuple(_surface(s) for s in m.surfaces),
         openings=tuple(_opening(o) for o in m.openings),
         cat_profile=_profile_from(m.cat_profile),
+        injury=_injury(m.injury),
     )
+
+
+def _injury(m: InjuryModel) -> InjuryThresholds:
+    return InjuryThresholds(**{k: float(v) for k, v in m.model_dump().items()})
 
 
 # --- writing ---------------------------------------------------------------------------------

@@ -2,9 +2,14 @@
 
 ``MIGRATIONS`` maps a version ``n`` to a function that takes a document of version ``n`` and
 returns the same building as version ``n + 1``. :func:`migrate` applies them in order. Version 1
-is the first version, so the registry is empty today; the mechanism is tested with a fake older
-version. When the format changes: bump ``CURRENT_VERSION`` in ``_schema.py``, add the step here,
-and commit a fixture of the old version under ``tests/fixtures/`` that must keep loading.
+is the first version. When the format changes: bump ``CURRENT_VERSION`` in ``_schema.py``, add
+the step here, and commit a fixture of the old version under ``tests/fixtures/`` that must keep
+loading.
+
+Version 2 adds optional fields only: a surface's extent along its facade (``x_from_m``,
+``x_to_m``) and the ``"injury"`` section (the injury dose–response). A version-1 file means
+exactly what it meant: its surfaces run the whole length of their facade and it uses the default
+dose–response, so the step from 1 to 2 changes nothing but the version number.
 """
 
 from __future__ import annotations
@@ -20,8 +25,13 @@ __all__ = ["MIGRATIONS", "Migration", "migrate"]
 
 Migration = Callable[[dict[str, Any]], dict[str, Any]]
 
+def _v1_to_v2(doc: dict[str, Any]) -> dict[str, Any]:
+    """Version 1 → 2: only optional fields were added; their absence keeps the old meaning."""
+    return doc
+
+
 #: ``{from_version: step}``; each step returns the document one version newer.
-MIGRATIONS: dict[int, Migration] = {}
+MIGRATIONS: dict[int, Migration] = {1: _v1_to_v2}
 
 
 def migrate(doc: dict[str, Any], version: int) -> dict[str, Any]:
