@@ -322,3 +322,34 @@ def test_cat_assumptions_wait_for_the_full_results(qtbot, monkeypatch) -> None: 
         window.recomputer.cancel()
         window.recomputer.wait(10000)
         wait_for_tasks(20000)
+
+
+def test_a_partial_podium_is_drawn_where_it_lies_on_screen_and_paper(app_window) -> None:  # type: ignore[no-untyped-def]
+    from PySide6.QtWidgets import QGraphicsRectItem
+    from reportlab.graphics.shapes import Rect
+
+    from petfall_audit.figures import facade_elevations
+    from petfall_audit.model import Surface, SurfaceKind
+    from petfall_audit.report.charts import facade_drawing, facade_scales
+
+    base = sample_building("walkup")
+    podium = Surface("podium", SurfaceKind.ROOF, 0.5, "street", 1.1, 6.0, "Bin store roof",
+                     x_from_m=4.0, x_to_m=10.0)
+    b = dataclasses.replace(base, surfaces=(*base.surfaces, podium))
+    window, views = app_window(b)
+    window.view_tabs.setCurrentWidget(views.facade)
+    views.facade.set_facade("street")
+    strips = [i for i in views.facade.scene.items() if isinstance(i, QGraphicsRectItem)
+              and i.toolTip().startswith("Bin store roof")]
+    assert len(strips) == 1
+    r = strips[0].rect()
+    assert (r.left(), r.width()) == pytest.approx((4.0, 6.0))
+    assert "along the facade" in strips[0].toolTip()
+    # the PDF draws the same figure data: one strip, 6 m wide, starting 4 m along
+    elev = next(e for e in facade_elevations(views.context.assessment) if e.facade_id == "street")
+    band = next(s for s in elev.surfaces if s.id == "podium")
+    assert band.span_along_m(elev.length_m) == (4.0, 10.0)
+    d = facade_drawing(elev, 480.0, 600.0)
+    _, sx = facade_scales(elev, 480.0, 600.0)
+    widths = [round(c.width / sx, 6) for c in d.contents if isinstance(c, Rect)]
+    assert 6.0 in widths

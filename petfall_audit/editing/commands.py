@@ -26,6 +26,7 @@ from petfall_audit.model import (
     CatProfile,
     Facade,
     Floor,
+    InjuryThresholds,
     Opening,
     Surface,
 )
@@ -51,6 +52,7 @@ __all__ = [
     "RemoveSurface",
     "SetSurface",
     "SetCatProfile",
+    "SetInjuryModel",
     "ReplaceBuilding",
     "DEFAULT_ID_PATTERN",
     "copied_id",
@@ -594,6 +596,22 @@ class SetCatProfile(BuildingCommand):
 
     def apply(self, building: Building) -> Building:
         return dataclasses.replace(building, cat_profile=self.profile)
+
+
+class SetInjuryModel(BuildingCommand):
+    """Change the injury dose–response (band median doses in g, the spread between cats)."""
+
+    def __init__(self, changes: Mapping[str, Any], *, label: str | None = None,
+                 merge_key: Hashable | None = None) -> None:
+        self.changes = _coerce_changes(InjuryThresholds, changes, "injury")
+        super().__init__(label or "Change the injury bands", merge_key)
+
+    def apply(self, building: Building) -> Building:
+        try:
+            injury = dataclasses.replace(building.injury, **self.changes)
+        except ValueError as exc:
+            raise _refuse("injury", str(exc)) from None
+        return dataclasses.replace(building, injury=injury)
 
 
 class ReplaceBuilding(BuildingCommand):

@@ -33,6 +33,7 @@ _FIELD_KIND = {
     "surfaces": "surfaces",
     "openings": "openings",
     "cat_profile": "profile",
+    "injury": "profile",  # the assumptions about the cats: who falls, how they are hurt
 }
 
 ChangeCallback = Callable[[str], None]

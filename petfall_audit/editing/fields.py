@@ -31,6 +31,7 @@ __all__ = [
     "FACADE_FIELDS",
     "SURFACE_FIELDS",
     "INFO_FIELDS",
+    "INJURY_FIELDS",
     "enum_label",
     "field_spec",
     "format_value",
@@ -81,8 +82,9 @@ class FieldSpec:
     """One editable field.
 
     ``kind``: ``text`` | ``id`` | ``int`` | ``length`` (m) | ``gap`` (mm) | ``enum`` | ``bool`` |
-    ``temperature`` (°C) | ``ref`` (the id of another item, e.g. a facade). ``optional``: empty
-    text means ``None`` (a gap field: none).
+    ``temperature`` (°C) | ``ref`` (the id of another item, e.g. a facade) | ``dose`` (a mean
+    deceleration in g) | ``number`` (a plain number). ``optional``: empty text means ``None`` (a
+    gap field: none).
     """
 
     name: str
@@ -145,6 +147,21 @@ SURFACE_FIELDS: tuple[FieldSpec, ...] = (
     FieldSpec("from_facade_m", "From (out from facade)", "length"),
     FieldSpec("to_facade_m", "To (out from facade)", "length", optional=True,
               help="Empty: reaches on without end (the street beyond)"),
+    FieldSpec("x_from_m", "Along facade from", "length", optional=True,
+              help="Empty: from the facade's start. A podium or canopy under part of the "
+              "facade starts here"),
+    FieldSpec("x_to_m", "Along facade to", "length", optional=True,
+              help="Empty: to the facade's end"),
+)
+
+INJURY_FIELDS: tuple[FieldSpec, ...] = (
+    FieldSpec("moderate_g", "Moderate or worse: median dose", "dose",
+              help="Half of the cats hurt by a fall of this dose (mean deceleration, g) are "
+              "hurt moderately or worse"),
+    FieldSpec("serious_g", "Serious or worse: median dose", "dose"),
+    FieldSpec("life_threatening_g", "Life-threatening: median dose", "dose"),
+    FieldSpec("spread", "Spread between cats", "number",
+              help="How differently cats are hurt by the same fall (0: every cat alike)"),
 )
 
 INFO_FIELDS: tuple[FieldSpec, ...] = (
@@ -211,6 +228,10 @@ def format_value(spec: FieldSpec, value: Any, system: str = "metric") -> str:
         return enum_label(value)
     if spec.kind == "bool":
         return "Yes" if value else "No"
+    if spec.kind == "dose":
+        return f"{_trim(float(value), 1)} g"
+    if spec.kind == "number":
+        return _trim(float(value), 3)
     return str(value)
 
 
@@ -262,6 +283,16 @@ def parse_value(spec: FieldSpec, text: str, system: str = "metric") -> Any:
         return value_mm
     if spec.kind == "temperature":
         return _parse_temperature_c(raw, system)
+    if spec.kind in ("dose", "number"):
+        t = raw[:-1].strip() if spec.kind == "dose" and raw[-1:].lower() == "g" else raw
+        try:
+            number = float(t.replace(",", "."))
+        except ValueError:
+            number = math.nan
+        if not math.isfinite(number):
+            example = "e.g. 70 g" if spec.kind == "dose" else "e.g. 0.8"
+            raise ValueError(f"cannot read '{text}' as a number ({example})")
+        return number
     if spec.kind == "int":
         try:
             return int(raw)

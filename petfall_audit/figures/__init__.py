@@ -21,6 +21,7 @@ from __future__ import annotations
 from petfall_audit.figures.budget import budget_grid, knee_budget
 from petfall_audit.figures.elevation import (
     HEAD_HEIGHT_M,
+    SURFACE_FILLS,
     CatchingBalcony,
     FacadeContext,
     FacadeElevation,
@@ -60,6 +61,7 @@ from petfall_audit.figures.sensitivity import (
 
 __all__ = [
     "HEAD_HEIGHT_M",
+    "SURFACE_FILLS",
     "CatchingBalcony",
     "FacadeContext",
     "FacadeElevation",

@@ -18,6 +18,7 @@ if TYPE_CHECKING:
 __all__ = [
     "HEAD_HEIGHT_M",
     "FacadeElevation",
+    "SURFACE_FILLS",
     "SurfaceBand",
     "CatchingBalcony",
     "FacadeContext",
@@ -25,6 +26,13 @@ __all__ = [
     "facade_elevations",
     "facade_context",
 ]
+
+#: Fill of each surface kind on an elevation, screen and paper alike (muted, so the band colours
+#: of the openings stand out).
+SURFACE_FILLS: dict[str, str] = {
+    "concrete": "#9A9A9A", "asphalt": "#5E5E5E", "gravel": "#B8AE9C", "lawn": "#8FA67A",
+    "planting": "#6F8F5A", "water": "#7FA7C9", "roof": "#8C7F73", "deck": "#A58462",
+}
 
 #: Head height of a window or door drawn on an elevation (m). Drawing convention only.
 HEAD_HEIGHT_M = 2.1
@@ -57,6 +65,7 @@ class FacadeElevation:
     guard_m: NDArray[np.float64]
     band: NDArray[np.int_]
     rank: NDArray[np.int_]
+    surfaces: tuple[SurfaceBand, ...] = ()
 
 
 def storey_heights_m(building: Building) -> dict[int, float]:
@@ -113,6 +122,7 @@ def facade_elevations(assessment: Assessment) -> list[FacadeElevation]:
                 guard_m=np.where(balcony, base + np.minimum(perch, head), np.nan),
                 band=np.array([band_of.get(o.id, -1) for o in ops], dtype=int),
                 rank=np.array([rank_of.get(o.id, 0) for o in ops], dtype=int),
+                surfaces=facade_context(building, facade.id).surfaces,
             )
         )
     return out
@@ -121,7 +131,8 @@ def facade_elevations(assessment: Assessment) -> list[FacadeElevation]:
 @dataclass(frozen=True, slots=True)
 class SurfaceBand:
     """A surface below, seen on an elevation: its top ``elevation_m``, outward extent
-    ``from_m``..``to_m`` (``None`` = unbounded) and plain-words ``label``."""
+    ``from_m``..``to_m`` (``None`` = unbounded), extent along the facade ``x_from_m``..``x_to_m``
+    (``None`` = from its start / to its end) and plain-words ``label``."""
 
     id: str
     kind: str
@@ -129,6 +140,14 @@ class SurfaceBand:
     from_m: float
     to_m: float | None
     label: str
+    x_from_m: float | None = None
+    x_to_m: float | None = None
+
+    def span_along_m(self, length_m: float) -> tuple[float, float]:
+        """Where it lies along a facade of ``length_m`` (m), clipped to the facade."""
+        lo = 0.0 if self.x_from_m is None else max(0.0, self.x_from_m)
+        hi = length_m if self.x_to_m is None else min(length_m, self.x_to_m)
+        return lo, max(lo, hi)
 
 
 @dataclass(frozen=True, slots=True)
@@ -171,7 +190,7 @@ def facade_context(building: Building, facade_id: str) -> FacadeContext:
         surfaces=tuple(
             SurfaceBand(s.id, str(s.kind), float(s.elevation_m), float(s.from_facade_m),
                         None if s.to_facade_m is None else float(s.to_facade_m),
-                        s.label or s.id)
+                        s.label or s.id, s.x_from_m, s.x_to_m)
             for s in surfaces
         ),
         catching=catching,

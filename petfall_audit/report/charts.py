@@ -13,6 +13,7 @@ from reportlab.lib import colors
 from reportlab.pdfbase.pdfmetrics import stringWidth
 
 from petfall_audit.figures import (
+    SURFACE_FILLS,
     FacadeElevation,
     FallProfileFigure,
     FloorComparison,
@@ -156,6 +157,15 @@ def facade_drawing(elev: FacadeElevation, width: float, max_height: float,
                fillColor=colors.white, strokeColor=INK, strokeWidth=0.8))
     d.add(Line(label_w - 4, y_of(elev.ground_m), x_of(span_x) + 4, y_of(elev.ground_m),
                strokeColor=INK, strokeWidth=1.2))
+    # what lies below, at its height and where it lies along the facade (a podium under part
+    # of the facade is drawn only there); nearest the facade drawn last, on top
+    for surf in reversed(elev.surfaces):
+        lo, hi = surf.span_along_m(elev.length_m)
+        if hi <= lo:
+            continue
+        fill = colors.HexColor(SURFACE_FILLS.get(surf.kind, "#9A9A9A"))
+        d.add(Rect(x_of(lo), y_of(surf.elevation_m) - 1.2, (hi - lo) * sx, 2.4,
+                   fillColor=fill, strokeColor=INK, strokeWidth=0.3))
     # floor lines and labels, thinned so labels never overlap
     every = max(1, math.ceil(9.0 / max(scale * float(np.median(np.diff(elev.floor_elevation_m)))
                                         if elev.floor_elevation_m.size > 1 else 9.0, 1e-6)))

@@ -16,7 +16,15 @@ from typing import TYPE_CHECKING, Any
 
 from petfall_audit.cautions import CAUTIONS, CAUTIONS_SHORT
 from petfall_audit.io.photos import photo_file, photo_name
-from petfall_audit.model import CatProfile, Distribution, Fixed, LogNormal, Normal, Uniform
+from petfall_audit.model import (
+    CatProfile,
+    Distribution,
+    Fixed,
+    InjuryThresholds,
+    LogNormal,
+    Normal,
+    Uniform,
+)
 
 if TYPE_CHECKING:
     from petfall_audit.plan import Plan
@@ -512,17 +520,25 @@ def _method(assessment: Assessment) -> tuple[tuple[str, str], ...]:
          "Classical Mechanics, 2005, §2.4; checked against a numerical integrator)."),
         ("Where the cat lands",
          "The cat leaves the rail top or sill with a small outward speed; its outward travel "
-         "decides whether a balcony, canopy or podium below catches it, which sets the drop."),
+         "decides whether a balcony, canopy or podium below catches it, which sets the drop. A "
+         "surface catches only where it lies, out from the facade and along it; a cat over a "
+         "lightwell or basement area when it passes the rim falls into it. The impact speed "
+         "counts the outward part as well as the downward one."),
         ("Air density",
          "ICAO / ISO 2533 standard atmosphere at the site altitude, corrected to the design air "
          "temperature with the ideal-gas law."),
         ("Injury bands",
-         "Severity follows the mean deceleration v²/(2s), with the stopping distance s set by the "
-         "landing surface and whether the cat has turned feet-down. Band thresholds borrow the "
-         "playground-surfacing limits (EN 1177, ASTM F1292: 200 g with a 4.6 kg headform, close "
-         "to a cat's mass) as an analogy. The index has no term of its own that lowers it with "
-         "height; with the default cat profile it does not fall with height, so a higher floor "
-         "is never shown as safer."),
+         "The dose of a fall is its mean deceleration v²/(2s), from the highest speed reached "
+         "(a cat that spreads out and slows a little is not credited with it) and the stopping "
+         "distance s set by the landing surface and whether the cat has turned feet-down. Cats "
+         "hurt by the same fall are hurt very differently, so each band is a probability that "
+         "rises smoothly with the dose (an ordinal probit on its logarithm). Its four parameters "
+         "were fitted to published veterinary case series (Berlin 2025, 1,125 cats; Zagreb "
+         "2004; Alexandria 2018; a 37-cat clinic series): the shares that died or were put to "
+         "sleep read as life-threatening, limb fractures and shock as serious or worse, heights "
+         "in storeys as 3 m each, hard ground as in the Berlin series. Clinic series miss cats "
+         "killed outright, so the highest band is calibrated on deaths among treated cats. With "
+         "every cat profile and surface, a higher floor is never shown as safer."),
         ("Likelihood",
          "Annual chance that a resident cat gets out and falls, from access (cats present, how "
          "often open), the barrier's effect on a cat rather than a child, perch invitations and "
@@ -538,6 +554,13 @@ def _method(assessment: Assessment) -> tuple[tuple[str, str], ...]:
     )
 
 
+def _injury_text(t: InjuryThresholds) -> str:
+    fitted = t == InjuryThresholds()
+    return (f"{t.moderate_g:.1f} / {t.serious_g:.1f} / {t.life_threatening_g:.1f} g, spread "
+            f"{t.spread:.2f} (" + ("fitted to the case series" if fitted
+                                   else "set for this building; the fitted values differ") + ")")
+
+
 def _assumptions(profile: CatProfile, assessment: Assessment) -> tuple[tuple[str, str], ...]:
     info = assessment.building.info
     return (
@@ -550,6 +573,8 @@ def _assumptions(profile: CatProfile, assessment: Assessment) -> tuple[tuple[str
          _dist_text(profile.relax_fraction, "", ".2f").strip()),
         ("Righting time", _dist_text(profile.righting_time_s, "s", ".2f")),
         ("Outward launch speed", _dist_text(profile.launch_speed_mps, "m/s", ".1f")),
+        ("Injury bands: median dose of moderate / serious / life-threatening, spread",
+         _injury_text(assessment.thresholds)),
         ("Site altitude / design air temperature",
          f"{info.site_altitude_m:.0f} m / {info.air_temperature_c:.0f} °C "
          f"(air density {float(assessment.falls.rho_kg_m3):.3f} kg/m³)"),
@@ -558,9 +583,15 @@ def _assumptions(profile: CatProfile, assessment: Assessment) -> tuple[tuple[str
 
 SOURCES: tuple[str, ...] = (
     "Candela Andrade et al. 2025, J Feline Med Surg (1125 cats, Berlin): mean mass 4.1 kg; "
-    "severity linked to height and surface; 74 % landed on hard ground.",
+    "severity linked to height and surface; 74 % landed on hard ground; 13.3 % died or were put "
+    "to sleep, 47.2 % had limb fractures (fitted).",
     "Vnuk et al. 2004, J Feline Med Surg 6:305 (119 cats, Zagreb): more severe and more chest "
-    "injuries from the 7th storey up.",
+    "injuries from the 7th storey up; 96.5 % survived, 46.2 % limb fractures (fitted).",
+    "Zaghloul & Samy 2018, Alex J Vet Sci 59:43 (45 cats, 2nd-5th storey): 77.8 % survived, "
+    "60 % fractures or luxations (fitted).",
+    "A retrospective series of 37 cats from one clinic (published summary): shock in 35.1 %, "
+    "66 % of those from the 6th storey up (fitted); Gheren et al., Braz J Vet Med (43 cats, "
+    "Rio de Janeiro): compared.",
     "Karabağlı et al., Pak Vet J (160 cats, Istanbul): injury score rose steadily with height.",
     "Merbl et al. 2013, Isr J Vet Med 68:28 (107 cats): survival falls with height.",
     "ISO 2533:1975 standard atmosphere; EN 1177:2018 and ASTM F1292 playground surfacing limits "

@@ -43,7 +43,12 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from petfall_audit.figures import FacadeElevation, facade_context, facade_elevations
+from petfall_audit.figures import (
+    SURFACE_FILLS,
+    FacadeElevation,
+    facade_context,
+    facade_elevations,
+)
 from petfall_audit.gui.views.common import ViewContext, band_qstyle, fmt_one_in
 from petfall_audit.injury import BANDS
 from petfall_audit.model import BALCONY_LIKE, Opening, Screen
@@ -53,10 +58,6 @@ __all__ = ["FacadeView", "OpeningItem", "opening_tooltip", "SELECT_COLOUR", "is_
 #: Outline of selected openings: a vermilion that stands out from the straw-to-navy bands.
 SELECT_COLOUR = "#D55E00"
 _FLOOR_FILLS = ("#FAFAF7", "#EFEFEA")
-_SURFACE_FILL = {
-    "concrete": "#9A9A9A", "asphalt": "#5E5E5E", "gravel": "#B8AE9C", "lawn": "#8FA67A",
-    "planting": "#6F8F5A", "water": "#7FA7C9", "roof": "#8C7F73", "deck": "#A58462",
-}
 _MIN_STOREY_PX = 40.0  # zoom so that a storey is at least this tall on screen
 
 
@@ -404,13 +405,19 @@ class FacadeView(QWidget):
         ctx = facade_context(building, self._facade_id)
         ground = e.ground_m
         notes = []
-        for s in ctx.surfaces:
-            strip = QGraphicsRectItem(QRectF(-1.0, y(s.elevation_m), width + 2.0, 0.35))
-            strip.setBrush(QBrush(QColor(_SURFACE_FILL.get(s.kind, "#9A9A9A")),
+        for s in e.surfaces:
+            lo, hi = s.span_along_m(width)
+            lo = -1.0 if s.x_from_m is None else lo  # a strip that runs on past both ends
+            hi = width + 1.0 if s.x_to_m is None else hi
+            strip = QGraphicsRectItem(QRectF(lo, y(s.elevation_m), hi - lo, 0.35))
+            strip.setBrush(QBrush(QColor(SURFACE_FILLS.get(s.kind, "#9A9A9A")),
                                   Qt.BrushStyle.Dense4Pattern))
             strip.setPen(_pen("#505050", 1.0))
             extent = (f"{units.fmt_length(s.from_m)}–{units.fmt_length(s.to_m)} out"
                       if s.to_m is not None else f"beyond {units.fmt_length(s.from_m)}")
+            if s.x_from_m is not None or s.x_to_m is not None:
+                extent += (f", along the facade {units.fmt_length(lo if lo > 0 else 0.0)}–"
+                           f"{units.fmt_length(min(hi, width))}")
             strip.setToolTip(f"{s.label} ({s.kind}), top at {units.fmt_length(s.elevation_m)}, "
                              f"{extent}")
             strip.setZValue(5)

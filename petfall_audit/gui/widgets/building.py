@@ -4,15 +4,23 @@ from __future__ import annotations
 
 from typing import Any
 
-from PySide6.QtWidgets import QComboBox, QFormLayout, QGroupBox, QLabel, QVBoxLayout, QWidget
+from PySide6.QtWidgets import (
+    QComboBox,
+    QFormLayout,
+    QGroupBox,
+    QLabel,
+    QPushButton,
+    QVBoxLayout,
+    QWidget,
+)
 
-from petfall_audit.editing.commands import SetBuildingInfo, SetCatProfile
+from petfall_audit.editing.commands import SetBuildingInfo, SetCatProfile, SetInjuryModel
 from petfall_audit.editing.document import Document
-from petfall_audit.editing.fields import INFO_FIELDS
+from petfall_audit.editing.fields import INFO_FIELDS, INJURY_FIELDS
 from petfall_audit.editing.history import History
 from petfall_audit.gui.adapters import ViewOptions, push_command
 from petfall_audit.gui.widgets.field_form import FieldForm
-from petfall_audit.model import CAT_PRESETS
+from petfall_audit.model import CAT_PRESETS, InjuryThresholds
 
 __all__ = ["BuildingPanel", "PRESET_LABELS"]
 
@@ -48,9 +56,24 @@ class BuildingPanel(QWidget):
         cats_layout.addRow(QLabel("Mass, body drag, chance of relaxing in the fall and righting "
                                   "time are sampled from the chosen population; see the method "
                                   "notes in the audit report."))
+        self.injury_form = FieldForm(INJURY_FIELDS, options, self._commit_injury)
+        self.injury_form.setObjectName("injury_form")
+        injury = QGroupBox("Injury bands")
+        injury_layout = QVBoxLayout(injury)
+        explain = QLabel("How likely each injury band is for a fall of a given dose (its mean "
+                         "deceleration). The defaults are fitted to published veterinary case "
+                         "series; change them only with a reason you can state in the audit.")
+        explain.setWordWrap(True)
+        injury_layout.addWidget(explain)
+        injury_layout.addWidget(self.injury_form)
+        self.injury_reset = QPushButton("Use the fitted defaults")
+        self.injury_reset.setObjectName("injury_reset")
+        self.injury_reset.clicked.connect(self._on_injury_reset)
+        injury_layout.addWidget(self.injury_reset)
         layout = QVBoxLayout(self)
         layout.addWidget(details)
         layout.addWidget(cats)
+        layout.addWidget(injury)
         layout.addStretch(1)
         self._disconnects = [doc.on_changed("building", self._on_building_changed),
                              doc.on_changed("profile", self._on_profile_changed)]
@@ -69,7 +92,21 @@ class BuildingPanel(QWidget):
         self.form.set_values({s.name: getattr(info, s.name) for s in INFO_FIELDS},
                              keep_errors=True)
 
+    def _commit_injury(self, name: str, value: Any) -> str | None:
+        return push_command(self._history, SetInjuryModel({name: value}))
+
+    def _on_injury_reset(self) -> None:
+        fitted = InjuryThresholds()
+        if self._doc.building.injury != fitted:
+            push_command(self._history, SetInjuryModel(
+                {n: getattr(fitted, n) for n in ("moderate_g", "serious_g",
+                                                  "life_threatening_g", "spread")},
+                label="Use the fitted injury bands"))
+
     def _on_profile_changed(self, kind: str) -> None:
+        injury = self._doc.building.injury
+        self.injury_form.set_values({s.name: getattr(injury, s.name) for s in INJURY_FIELDS},
+                                    keep_errors=True)
         preset = self._doc.building.cat_profile.preset
         i = self.profile.findData(preset)
         if i < 0 and self.profile.findData(None) < 0:
