@@ -80,7 +80,7 @@ class IfcModelBuilder:
             # The model's +y axis points true_north_deg clockwise from north, so true north in
             # model coordinates is +y turned anticlockwise by that angle.
             a = math.radians(true_north_deg)
-            self.model_ctx.TrueNorth = self.f.createIfcDirection((math.sin(a), math.cos(a)))
+            self.model_ctx.TrueNorth = self.f.createIfcDirection((-math.sin(a), math.cos(a)))
         self.site = ifcopenshell.api.root.create_entity(self.f, ifc_class="IfcSite", name="Site")
         self.building = ifcopenshell.api.root.create_entity(
             self.f, ifc_class="IfcBuilding", name=name)

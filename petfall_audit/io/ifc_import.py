@@ -212,6 +212,8 @@ def _open(path: Path) -> Any:
         )
     with path.open("rb") as handle:
         head = handle.read(4096)
+        handle.seek(max(size - 4096, 0))
+        tail = handle.read()
     if head.startswith(b"PK"):
         raise ModelImportError(
             f"{path.name}: a compressed model (.ifczip); unzip it and import the .ifc inside"
@@ -219,6 +221,11 @@ def _open(path: Path) -> Any:
     if not head.lstrip(b"\xef\xbb\xbf \t\r\n").startswith(b"ISO-10303-21;"):
         raise ModelImportError(
             f"{path.name}: not an IFC model (an .ifc file starts with 'ISO-10303-21;')"
+        )
+    if b"END-ISO-10303-21;" not in tail:
+        raise ModelImportError(
+            f"{path.name}: the IFC model is incomplete (it does not end with "
+            "'END-ISO-10303-21;'); it may have been cut short while copying: export it again"
         )
     ifcopenshell = _ifcopenshell()
     try:
@@ -597,7 +604,9 @@ def _storey_of(element: Any, wall: Any | None, element_util: Any) -> Any | None:
     for candidate in (element, wall):
         if candidate is None:
             continue
-        container = element_util.get_container(candidate)
+        # the element's own containment (the helper would answer with its host wall's)
+        rels = getattr(candidate, "ContainedInStructure", None) or ()
+        container = rels[0].RelatingStructure if rels else None
         for _ in range(8):  # space -> storey; bounded against a cyclic model
             if container is None or container.is_a("IfcBuildingStorey"):
                 break
@@ -995,10 +1004,8 @@ def model_table(
     for number, o in enumerate(model.openings, start=2):
         notes = o.notes(model.source)
         old = existing.get(o.id)
-        if old is not None and old.notes and notes.splitlines()[0] not in old.notes:
-            notes = f"{old.notes}\n{notes}"
-        elif old is not None and old.notes:
-            notes = old.notes
+        if old is not None:
+            notes = _merged_notes(old.notes, notes)
         s = storey[o.level]
         values = {
             "id": o.id,
@@ -1016,6 +1023,21 @@ def model_table(
         rows.append((number, tuple(values[f] for f in _FIELDS)))
     table = RawTable(headers=headers, rows=tuple(rows), source=model.source)
     return table, {_HEADERS[f]: f for f in _FIELDS}, list(model.openings)
+
+
+_MODEL_LINES = ("From the building model ", "Assumed: ")
+
+
+def _merged_notes(old: str, new: str) -> str:
+    """Notes of an opening the building has already: the model's lines (source, assumptions)
+    replace those of an earlier import, the user's own lines stay, and the survey line stays as
+    the user left it (it is not brought back once deleted, nor added to a surveyed opening)."""
+    model_lines = [line for line in new.splitlines() if line.startswith(_MODEL_LINES)]
+    kept = [line for line in old.splitlines() if not line.startswith(_MODEL_LINES)]
+    had_model = len(kept) != len(old.splitlines())
+    if had_model:
+        return "\n".join([*model_lines, *kept])
+    return "\n".join([*kept, *model_lines]) if kept else "\n".join(model_lines)
 
 
 def _number(value: float) -> str:
