@@ -441,8 +441,8 @@ def _cmd_import(args: argparse.Namespace) -> int:
 
     if Path(args.schedule).suffix.lower() == ".ifc":
         return _cmd_import_model(args)
-    if args.facade:
-        raise _refuse("--facade renames the facades of a building model (.ifc) only")
+    if args.facade or args.ground:
+        raise _refuse("--facade and --ground are for a building model (.ifc) only")
     building = _load(args.into)
     table = read_table(Path(args.schedule))
     mapping = guess_mapping(table.headers)
@@ -494,6 +494,17 @@ def _facade_map(pairs: Sequence[str]) -> dict[str, str]:
     return mapping
 
 
+def _with_ground(building: Building, kind: str) -> Building:
+    """``building`` with the ground the user named at the import, under every facade."""
+    import dataclasses
+
+    from petfall_audit.model import Surface, SurfaceKind
+
+    ground = Surface(id="ground", kind=SurfaceKind(kind), elevation_m=0.0,
+                     label=f"Ground ({kind.replace('_', ' ')}), given at the import: check it")
+    return dataclasses.replace(building, surfaces=(*building.surfaces, ground))
+
+
 def _cmd_import_model(args: argparse.Namespace) -> int:
     """``import MODEL.ifc --into FILE``: create FILE from the model, or merge into it."""
     from petfall_audit.cautions import CAUTIONS_SHORT
@@ -522,9 +533,14 @@ def _cmd_import_model(args: argparse.Namespace) -> int:
     for note in model.skipped:
         print(f"  left out: {note}")
     if creating:
-        updated, preview = new_building(model)
         if facade_map:
             raise _refuse("--facade applies when merging into an existing building file")
+        updated, preview = new_building(model)
+        if args.ground:
+            updated = _with_ground(updated, args.ground)
+    elif args.ground:
+        raise _refuse("--ground applies when the import creates the building file; add "
+                      "surfaces to an existing one in the app or the file")
     else:
         assert building is not None
         preview = preview_model(model, building, facade_map=facade_map)
@@ -614,6 +630,8 @@ def _cmd_open(args: argparse.Namespace) -> int:
 
 
 def _build_parser() -> argparse.ArgumentParser:
+    from petfall_audit.model import SurfaceKind
+
     parser = argparse.ArgumentParser(
         prog="petfall-audit",
         description=(
@@ -707,6 +725,10 @@ def _build_parser() -> argparse.ArgumentParser:
                    help="schedule spreadsheet (.csv or .xlsx) or building model (.ifc)")
     p.add_argument("--into", required=True, metavar="FILE",
                    help="building file to update (a model creates it when missing)")
+    p.add_argument("--ground", default=None, metavar="KIND",
+                   choices=[kind.value for kind in SurfaceKind],
+                   help="model only, when creating FILE: what the ground below every facade is "
+                        "(the model does not say); without it FILE has no surface yet")
     p.add_argument("--facade", action="append", metavar="MODEL=FILE",
                    help="model only: put the model's facade MODEL on the file's facade FILE "
                         "(repeatable)")

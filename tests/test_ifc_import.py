@@ -447,3 +447,24 @@ def test_unit_conversion_matches_between_millimetres_and_metres(tmp_path: Path) 
     for x, y in zip(a.openings, b.openings, strict=True):
         assert math.isclose(x.x_m, y.x_m, abs_tol=1e-6)
         assert math.isclose(x.perch_height_m, y.perch_height_m, abs_tol=1e-6)
+
+
+def test_ground_given_at_the_import_makes_a_file_that_loads(
+    tmp_path: Path, capsys: pytest.CaptureFixture[str]
+) -> None:
+    into = tmp_path / "new.json"
+    model = _acceptance_model(tmp_path)
+    assert main(["import", str(model), "--into", str(into), "--ground", "lawn"]) == 0
+    building = load_building(into)
+    (ground,) = building.surfaces
+    assert ground.kind is SurfaceKind.LAWN and ground.facade is None
+    assert ground.to_facade_m is None and "given at the import" in ground.label
+    # --ground only when creating; --facade only when merging; neither for a schedule
+    assert main(["import", str(model), "--into", str(into), "--ground", "lawn"]) == 2
+    assert main(["import", str(model), "--into", str(tmp_path / "other.json"),
+                 "--facade", "north=street"]) == 2
+    assert not (tmp_path / "other.json").exists()
+    schedule = tmp_path / "s.csv"
+    schedule.write_text("Opening ID,Floor,Facade,Type,Width (m)\n", encoding="utf-8")
+    assert main(["import", str(schedule), "--into", str(into), "--ground", "lawn"]) == 2
+    capsys.readouterr()
