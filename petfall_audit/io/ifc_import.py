@@ -327,7 +327,7 @@ def read_model(path: str | Path, *, progress: Progress | None = None) -> ModelRe
     door_raws: list[_Raw] = []
     for d in doors:
         tick()
-        raw = _door(d, scale)
+        raw = _door(d, scale, geometry.placements)
         if raw is not None:
             door_raws.append(raw)
 
@@ -439,15 +439,36 @@ def _label(entity: Any) -> str:
     return str(name).strip()
 
 
-def _placement(entity: Any, scale: float) -> np.ndarray | None:
-    """The entity's world placement, translation in metres; ``None`` without a placement."""
-    import ifcopenshell.util.placement as placement
+#: World matrices of the placements met while one model is read (file units), by entity id:
+#: the windows of a storey share its chain of placements, which is resolved once.
+_Placements = dict[int, np.ndarray]
 
+
+def _world(placement: Any, cache: _Placements, depth: int = 0) -> np.ndarray:
+    """World matrix (file units) of an ``IfcLocalPlacement`` chain, memoised in ``cache``."""
+    import ifcopenshell.util.placement as util
+
+    key = placement.id()
+    found = cache.get(key)
+    if found is not None:
+        return found
+    if depth > 64 or not placement.is_a("IfcLocalPlacement"):
+        m = np.array(util.get_local_placement(placement), dtype=float)  # grids and the like
+    else:
+        local = np.array(util.get_axis2placement(placement.RelativePlacement), dtype=float)
+        parent = placement.PlacementRelTo
+        m = local if parent is None else _world(parent, cache, depth + 1) @ local
+    cache[key] = m
+    return m
+
+
+def _placement(entity: Any, scale: float, cache: _Placements | None = None) -> np.ndarray | None:
+    """The entity's world placement, translation in metres; ``None`` without a placement."""
     if getattr(entity, "ObjectPlacement", None) is None:
         return None
     try:
-        m = np.array(placement.get_local_placement(entity.ObjectPlacement), dtype=float)
-    except Exception:  # a placement the helper cannot resolve (e.g. a grid placement)
+        m = _world(entity.ObjectPlacement, {} if cache is None else cache).copy()
+    except Exception:  # a placement that cannot be resolved (damaged, unsupported)
         return None
     if m.shape != (4, 4) or not np.isfinite(m).all():
         return None
@@ -472,6 +493,7 @@ class _Geometry:
     def __init__(self) -> None:
         self._settings: Any = None
         self.failed = 0
+        self.placements: _Placements = {}
 
     def vertices(self, element: Any) -> np.ndarray | None:
         if getattr(element, "Representation", None) is None:
@@ -532,7 +554,7 @@ def _window(w: Any, scale: float, geometry: _Geometry, element_util: Any,
                                                                       type_predefined):
         skipped.append(f"window {name!r}: a roof light, not in a facade; add it by hand")
         return None
-    m = _placement(w, scale)
+    m = _placement(w, scale, geometry.placements)
     if m is None:
         skipped.append(f"window {name!r}: no placement in the model")
         return None
@@ -560,7 +582,7 @@ def _window(w: Any, scale: float, geometry: _Geometry, element_util: Any,
     wall = _host_wall(w)
     wall_axis, wall_origin = along, None
     if wall is not None:
-        wm = _placement(wall, scale)
+        wm = _placement(wall, scale, geometry.placements)
         if wm is not None:
             axis = _horizontal(wm[:3, 0])
             if axis is not None:
@@ -569,10 +591,10 @@ def _window(w: Any, scale: float, geometry: _Geometry, element_util: Any,
                 along, wall_axis, width, bottom, assumptions, wall_origin=wall_origin)
 
 
-def _door(d: Any, scale: float) -> _Raw | None:
+def _door(d: Any, scale: float, placements: _Placements) -> _Raw | None:
     import ifcopenshell.util.element as element_util
 
-    m = _placement(d, scale)
+    m = _placement(d, scale, placements)
     if m is None:
         return None
     along = _horizontal(m[:3, 0])
@@ -582,7 +604,7 @@ def _door(d: Any, scale: float) -> _Raw | None:
     wall = _host_wall(d)
     wall_axis, wall_origin = along, None
     if wall is not None:
-        wm = _placement(wall, scale)
+        wm = _placement(wall, scale, placements)
         if wm is not None:
             axis = _horizontal(wm[:3, 0])
             if axis is not None:
