@@ -114,13 +114,20 @@ class IfcModelBuilder:
     # --- elements ------------------------------------------------------------------------------
 
     def wall(self, storey: ifcopenshell.entity_instance, start: Point, end: Point, *,
-             height_m: float = 3.0, external: bool | None = True) -> ifcopenshell.entity_instance:
+             height_m: float = 3.0, external: bool | None = True,
+             body: bool = True) -> ifcopenshell.entity_instance:
         wall = ifcopenshell.api.root.create_entity(self.f, ifc_class="IfcWall", name="Wall")
         z = self._storey_z(storey)
         ifcopenshell.api.geometry.edit_object_placement(
             self.f, product=wall,
             matrix=_matrix((start[0], start[1], z), (end[0] - start[0], end[1] - start[1])))
         self._contain(wall, storey)
+        if body:
+            rep = ifcopenshell.api.geometry.add_wall_representation(
+                self.f, context=self.body, length=math.dist(start, end), height=height_m,
+                thickness=0.2)
+            ifcopenshell.api.geometry.assign_representation(
+                self.f, product=wall, representation=rep)
         if external is not None:
             pset = ifcopenshell.api.pset.add_pset(self.f, product=wall, name="Pset_WallCommon")
             ifcopenshell.api.pset.edit_pset(self.f, pset=pset, properties={"IsExternal": external})

@@ -75,6 +75,9 @@ def test_acceptance_floors_sills_widths_facades_positions(
         assert o.kind is OpeningKind.WINDOW_CASEMENT
     # two facades, named by compass: the y = 0 face looks south, the y = 8 m face north
     assert sorted(f.id for f in building.facades) == ["north", "south"]
+    # each facade as long as its 12 m wall (the wall's body geometry)
+    assert {f.id: f.length_m for f in building.facades} == pytest.approx(
+        {"north": 12.0, "south": 12.0}, abs=0.01)
     for facade in ("north", "south"):
         for level in range(5):
             xs = sorted(o.x_m for o in building.openings
@@ -99,7 +102,7 @@ def test_storeys_out_of_order_and_a_basement(tmp_path: Path) -> None:
     b = IfcModelBuilder(unit="mm")
     for name, z in (("Third", 7.6), ("Ground", 0.0), ("Basement", -3.2), ("First", 4.5)):
         storey = b.storey(name, z)
-        wall = b.wall(storey, (0.0, 0.0), (10.0, 0.0))
+        wall = b.wall(storey, (0.0, 0.0), (10.0, 0.0), body=False)
         b.window(storey, wall, along_m=2.0, sill_m=1.0, width_m=0.9, name=f"W-{name}")
     model = read_model(b.write(tmp_path / "shuffled.ifc"))
     assert [(s.level, s.label) for s in model.storeys] == [
@@ -108,6 +111,9 @@ def test_storeys_out_of_order_and_a_basement(tmp_path: Path) -> None:
     level_of = {o.name: o.level for o in model.openings}
     assert level_of == {"W-Basement": -1, "W-Ground": 0, "W-First": 1, "W-Third": 2}
     assert all(o.perch_height_m == pytest.approx(1.0) for o in model.openings)
+    # walls without body geometry: the facade runs from the wall's start to the last window
+    (facade,) = model.facades
+    assert facade.length_m == pytest.approx(2.0 + 0.9)
 
 
 def test_window_on_a_rotated_face_and_true_north(tmp_path: Path) -> None:

@@ -281,6 +281,7 @@ class _Raw:
     span: tuple[float, float] | None = None  # along the facade, left and right (m)
     wall_origin: np.ndarray | None = None
     facade_index: int = -1
+    wall: Any | None = None  # the host wall, whose body geometry gives the facade's ends
 
 
 def read_model(path: str | Path, *, progress: Progress | None = None) -> ModelRead:
@@ -358,7 +359,7 @@ def read_model(path: str | Path, *, progress: Progress | None = None) -> ModelRe
 
     everything = raws + balconies
     true_north = _true_north(model)
-    facades, facade_of = _facades(everything, true_north, assumptions)
+    facades, facade_of = _facades(everything, true_north, assumptions, geometry)
     openings = _openings(everything, facade_of, facades)
     if true_north is None and facades:
         assumptions.append(
@@ -494,8 +495,18 @@ class _Geometry:
         self._settings: Any = None
         self.failed = 0
         self.placements: _Placements = {}
+        self._vertices: dict[int, np.ndarray | None] = {}
 
-    def vertices(self, element: Any) -> np.ndarray | None:
+    def vertices(self, element: Any, *, count_failure: bool = True) -> np.ndarray | None:
+        """World vertices (m) of the element's body, cached; ``None`` if it has none."""
+        key = element.id()
+        if key in self._vertices:
+            return self._vertices[key]
+        verts = self._build(element, count_failure)
+        self._vertices[key] = verts
+        return verts
+
+    def _build(self, element: Any, count_failure: bool) -> np.ndarray | None:
         if getattr(element, "Representation", None) is None:
             return None
         import ifcopenshell.geom
@@ -507,11 +518,11 @@ class _Geometry:
         try:
             shape = geom.create_shape(self._settings, element)
         except Exception:  # geometry the kernel cannot build
-            self.failed += 1
+            self.failed += count_failure
             return None
         verts = np.asarray(shape.geometry.verts, dtype=float).reshape(-1, 3)
         if verts.size == 0 or not np.isfinite(verts).all():
-            self.failed += 1
+            self.failed += count_failure
             return None
         return verts
 
@@ -588,7 +599,7 @@ def _window(w: Any, scale: float, geometry: _Geometry, element_util: Any,
             if axis is not None:
                 wall_axis, wall_origin = axis, wm[:3, 3]
     return _Raw(w, "IfcWindow", kind, _storey_of(w, wall, element_util), m[:3, 3].copy(),
-                along, wall_axis, width, bottom, assumptions, wall_origin=wall_origin)
+                along, wall_axis, width, bottom, assumptions, wall_origin=wall_origin, wall=wall)
 
 
 def _door(d: Any, scale: float, placements: _Placements) -> _Raw | None:
@@ -611,7 +622,7 @@ def _door(d: Any, scale: float, placements: _Placements) -> _Raw | None:
                 wall_axis, wall_origin = axis, wm[:3, 3]
     return _Raw(d, "IfcDoor", OpeningKind.BALCONY, _storey_of(d, wall, element_util),
                 m[:3, 3].copy(), along, wall_axis, width, float(m[2, 3]), [],
-                wall_origin=wall_origin)
+                wall_origin=wall_origin, wall=wall)
 
 
 def _positive(value: Any, scale: float) -> float | None:
@@ -883,7 +894,8 @@ def _true_north(model: Any) -> tuple[float, float] | None:
 
 
 def _facades(raws: Sequence[_Raw], true_north: tuple[float, float] | None,
-             assumptions: list[str]) -> tuple[list[ModelFacade], list[FacadeDirection]]:
+             assumptions: list[str],
+             geometry: _Geometry) -> tuple[list[ModelFacade], list[FacadeDirection]]:
     """Facades by outward direction; sets each raw's span along its facade."""
     if not raws:
         return [], []
@@ -895,25 +907,36 @@ def _facades(raws: Sequence[_Raw], true_north: tuple[float, float] | None,
         members = [r for r, k in zip(raws, groups, strict=True) if k == g]
         t = _tangent(np.array(direction.normal))
         starts: list[float] = []
+        ends: list[float] = []
+        walls: dict[int, Any] = {}
         for r in members:
             if r.span is None:
                 a = float(r.origin[:2] @ t)
                 b = a + r.width_m * float(r.along @ t)
                 r.span = (min(a, b), max(a, b))
             starts.append(r.span[0])
+            ends.append(r.span[1])
             if r.wall_origin is not None:
                 starts.append(float(r.wall_origin[:2] @ t))
+            if r.wall is not None:
+                walls[r.wall.id()] = r.wall
+        for wall in walls.values():  # the walls' own ends, where their geometry is readable
+            verts = geometry.vertices(wall, count_failure=False)
+            if verts is not None:
+                along = verts[:, :2] @ t
+                starts.append(float(along.min()))
+                ends.append(float(along.max()))
         origin = min(starts)
         for r in members:
             assert r.span is not None
             r.span = (r.span[0] - origin, r.span[1] - origin)
             r.facade_index = g
-        length = max(r.span[1] for r in members if r.span is not None)
+        length = max(ends) - origin
         facades.append(ModelFacade(direction.id, direction.label, round(length, 3),
                                    direction.bearing_deg))
     assumptions.append(
         "positions along each facade are measured as seen from outside, from its leftmost "
-        "window, door or wall end in the model")
+        "window, door or wall end in the model; its length reaches the rightmost one")
     return facades, directions
 
 
