@@ -577,8 +577,9 @@ def _cmd_import_model(args: argparse.Namespace) -> int:
           f"{_count(updated.facades, 'facade')}, {_count(updated.openings, 'opening')}")
     missing = validate_building(updated)
     if missing:
-        print(f"{args.into}: not ready to assess; the model does not hold what lies below: "
-              f"add it, then run petfall-audit check {args.into}")
+        print(f"{args.into}: not ready to assess yet, {len(missing)} problem(s) (the model "
+              "does not hold what lies below each facade: add the surfaces, or import again "
+              f"into a new file with --ground KIND), then run petfall-audit check {args.into}")
         for building_problem in missing:
             print(f"  {building_problem}")
     warnings = survey_warnings(updated)

@@ -124,3 +124,19 @@ def test_a_foreign_file_is_refused_with_a_message(qtbot, tmp_path: Path) -> None
     assert window.document.building is before
     window.recomputer.cancel()
     window.recomputer.wait(10000)
+
+
+def test_preview_says_which_floors_change(qtbot, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
+    import dataclasses
+
+    from petfall_audit.model import Floor
+
+    # the building has floor 1 at 3.0 m; the model's level 1 stands at 4.5 m
+    building = dataclasses.replace(
+        blank_building(), floors=(Floor(0, "Ground floor", 0.0), Floor(1, "First", 3.0)))
+    dialog = ModelImportDialog(building, read_model(_model(tmp_path)))
+    qtbot.addWidget(dialog)
+    states = [dialog.storeys.item(r, 3).text() for r in range(dialog.storeys.rowCount())]
+    assert states[0].startswith("floor 0 'Ground floor'")
+    assert states[1] == "changes floor 1 'First' from 3 m to 4.5 m"
+    assert states[2] == "new floor"

@@ -40,6 +40,7 @@ from petfall_audit.errors import ModelImportError, ScheduleImportError
 from petfall_audit.io.ifc_import import (
     ModelRead,
     apply_model,
+    floor_levels,
     opening_of_row,
     preview_model,
     read_model,
@@ -84,11 +85,11 @@ class ModelImportDialog(QDialog):
                        "assumption below before importing.")
         intro.setWordWrap(True)
 
+        levels = floor_levels(model, building)
         self.storeys = _table(
             "storeys_table", ["Level", "Storey", "Elevation (m)", "In this building"],
-            [(str(s.level), s.label, f"{s.elevation_m:.3f}", self._floor_state(s.level,
-                                                                              s.elevation_m))
-             for s in model.storeys])
+            [(str(levels[s.level]), s.label, f"{s.elevation_m:.3f}",
+              self._floor_state(levels[s.level], s.elevation_m)) for s in model.storeys])
 
         existing = [f.id for f in building.facades]
         self.facades = _table("facades_table",
@@ -175,9 +176,14 @@ class ModelImportDialog(QDialog):
     # --- what is shown ------------------------------------------------------------------------
 
     def _floor_state(self, level: int, elevation_m: float) -> str:
+        """What the storey does to the building's floor at ``level``."""
         for f in self.building.floors:
+            if f.level != level:
+                continue
             if abs(f.elevation_m - elevation_m) <= 0.05:
                 return f"floor {f.level} '{f.label}' ({f.elevation_m:g} m)"
+            return (f"changes floor {f.level} '{f.label}' from {f.elevation_m:g} m to "
+                    f"{elevation_m:g} m")
         return "new floor"
 
     def assumption_text(self) -> str:

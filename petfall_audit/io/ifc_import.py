@@ -64,6 +64,7 @@ __all__ = [
     "ModelRead",
     "read_model",
     "model_table",
+    "floor_levels",
     "preview_model",
     "apply_model",
     "new_building",
@@ -1010,7 +1011,7 @@ _FIELDS = ("id", "floor", "floor_elevation_m", "floor_label", "facade", "kind", 
 _HEADERS = {c.field: c.header for c in COLUMNS}
 
 
-def _levels_for(model: ModelRead, building: Building) -> dict[int, int]:
+def floor_levels(model: ModelRead, building: Building) -> dict[int, int]:
     """Model level -> building level: a storey at a floor's elevation (±5 cm) takes that
     floor's level; when every storey matches or the building has no floor, the rest follow the
     model's numbering shifted to fit."""
@@ -1041,7 +1042,7 @@ def model_table(
     ``facade_map`` renames the model's facades (e.g. ``{"north": "street"}``). An opening the
     building already has keeps its notes, with the model's notes added once."""
     facade_map = dict(facade_map or {})
-    levels = _levels_for(model, building)
+    levels = floor_levels(model, building)
     storey = {s.level: s for s in model.storeys}
     existing = {o.id: o for o in building.openings}
     headers = tuple(_HEADERS[f] for f in _FIELDS)
