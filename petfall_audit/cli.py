@@ -226,13 +226,40 @@ def _library_chatter_to_stderr() -> Iterator[None]:
 
 
 def _cmd_check(args: argparse.Namespace) -> int:
-    building = _load(args.file)
+    from petfall_audit.io.building_file import load_building
+    from petfall_audit.io.survey import survey_warnings
+    from petfall_audit.model import Building
+
+    try:
+        building = load_building(Path(args.file))
+    except ValidationFailed as exc:
+        _print_problems(exc, args.file)
+        if isinstance(exc.building, Building):
+            _print_warnings(survey_warnings(exc.building), args.file)
+        return EXIT_INVALID
+    except BuildingFileError as exc:
+        _print_problems(exc, args.file)
+        return EXIT_INVALID
     print(
         f"{args.file}: valid — {building.info.name}: {_count(building.floors, 'floor')}, "
         f"{_count(building.facades, 'facade')}, {_count(building.surfaces, 'surface')}, "
         f"{_count(building.openings, 'opening')}"
     )
+    _print_warnings(survey_warnings(building), args.file, stream=sys.stdout)
     return EXIT_OK
+
+
+def _print_warnings(warnings: Sequence[object], path: str, *, stream: object = None,
+                    limit: int = 50) -> None:
+    """Warnings (information still missing), at most ``limit`` of them and a count of the rest."""
+    if not warnings:
+        return
+    out = stream if stream is not None else sys.stderr
+    print(f"{path}: {len(warnings)} warning(s): information still missing", file=out)  # type: ignore[arg-type]
+    for warning in list(warnings)[:limit]:
+        print(f"  {warning}", file=out)  # type: ignore[arg-type]
+    if len(warnings) > limit:
+        print(f"  ... and {len(warnings) - limit} more", file=out)  # type: ignore[arg-type]
 
 
 def _cmd_assess(args: argparse.Namespace) -> int:
@@ -412,6 +439,10 @@ def _cmd_import(args: argparse.Namespace) -> int:
         read_table,
     )
 
+    if Path(args.schedule).suffix.lower() == ".ifc":
+        return _cmd_import_model(args)
+    if args.facade or args.ground:
+        raise _refuse("--facade and --ground are for a building model (.ifc) only")
     building = _load(args.into)
     table = read_table(Path(args.schedule))
     mapping = guess_mapping(table.headers)
@@ -449,6 +480,112 @@ def _cmd_import(args: argparse.Namespace) -> int:
         f"{args.into}: {_count(updated.floors, 'floor')}, {_count(updated.facades, 'facade')}, "
         f"{_count(updated.openings, 'opening')}"
     )
+    print(CAUTIONS_SHORT)
+    return EXIT_OK
+
+
+def _facade_map(pairs: Sequence[str]) -> dict[str, str]:
+    mapping: dict[str, str] = {}
+    for pair in pairs:
+        model_id, sep, file_id = pair.partition("=")
+        if not sep or not model_id.strip() or not file_id.strip():
+            raise _refuse(f"--facade {pair!r}: expected MODEL=FILE, e.g. --facade north=street")
+        mapping[model_id.strip()] = file_id.strip()
+    return mapping
+
+
+def _with_ground(building: Building, kind: str) -> Building:
+    """``building`` with the ground the user named at the import, under every facade."""
+    import dataclasses
+
+    from petfall_audit.model import Surface, SurfaceKind
+
+    ground = Surface(id="ground", kind=SurfaceKind(kind), elevation_m=0.0,
+                     label=f"Ground ({kind.replace('_', ' ')}), given at the import: check it")
+    return dataclasses.replace(building, surfaces=(*building.surfaces, ground))
+
+
+def _cmd_import_model(args: argparse.Namespace) -> int:
+    """``import MODEL.ifc --into FILE``: create FILE from the model, or merge into it."""
+    from petfall_audit.cautions import CAUTIONS_SHORT
+    from petfall_audit.io.building_file import save_building, validate_building
+    from petfall_audit.io.ifc_import import apply_model, new_building, preview_model, read_model
+    from petfall_audit.io.survey import survey_warnings
+
+    facade_map = _facade_map(args.facade or ())
+    into = Path(args.into)
+    creating = not into.exists()
+    if creating:
+        _check_output(into)
+    building = None if creating else _load(args.into)
+    model = read_model(Path(args.schedule), progress=_stderr_progress("reading the model"))
+    unknown = sorted(set(facade_map) - {f.id for f in model.facades})
+    if unknown:
+        raise _refuse(f"--facade: the model has no facade {', '.join(map(repr, unknown))} "
+                      f"(it has {', '.join(f.id for f in model.facades) or 'none'})")
+    print(model.summary())
+    for storey in model.storeys:
+        print(f"  storey level {storey.level}: {storey.label!r} at {storey.elevation_m:.3f} m")
+    for facade in model.facades:
+        print(f"  facade {facade.id}: {facade.label}, {facade.length_m:g} m")
+    for note in model.assumptions:
+        print(f"  assumed: {note}")
+    for note in model.skipped:
+        print(f"  left out: {note}")
+    if creating:
+        if facade_map:
+            raise _refuse("--facade applies when merging into an existing building file")
+        updated, preview = new_building(model)
+        if args.ground:
+            updated = _with_ground(updated, args.ground)
+    elif args.ground:
+        raise _refuse("--ground applies when the import creates the building file; add "
+                      "surfaces to an existing one in the app or the file")
+    else:
+        assert building is not None
+        preview = preview_model(model, building, facade_map=facade_map)
+    if preview.problems:
+        print(f"{args.schedule}: {len(preview.problems)} problem(s) (row n is the model's "
+              "opening n - 1 in the list above):", file=sys.stderr)
+        for problem in preview.problems:
+            print(f"  {problem}", file=sys.stderr)
+        if not args.accept_valid or not preview.openings:
+            print(f"{args.schedule}: nothing imported; fix the model, or import the "
+                  f"{len(preview.openings)} valid opening(s) with --accept-valid",
+                  file=sys.stderr)
+            return EXIT_INVALID
+    if not preview.openings:
+        print(f"{args.schedule}: the model holds no window or balcony to import; nothing "
+              "written", file=sys.stderr)
+        return EXIT_INVALID
+    if not creating:
+        assert building is not None
+        updated = apply_model(building, model, preview, mode=args.mode,
+                              accept_valid_rows=args.accept_valid, facade_map=facade_map)
+        after = validate_building(updated)
+        if after:  # never turn a building file that loads into one that does not
+            print(f"{args.into}: the imported building would have {len(after)} problem(s):",
+                  file=sys.stderr)
+            for building_problem in after:
+                print(f"  {building_problem}", file=sys.stderr)
+            print(f"{args.into}: nothing imported", file=sys.stderr)
+            return EXIT_INVALID
+    save_building(updated, into)
+    verb = "created" if creating else f"updated ({args.mode})"
+    print(f"{args.schedule} -> {args.into} {verb}: {preview.summary()}")
+    print(f"{args.into}: {_count(updated.floors, 'floor')}, "
+          f"{_count(updated.facades, 'facade')}, {_count(updated.openings, 'opening')}")
+    missing = validate_building(updated)
+    if missing:
+        print(f"{args.into}: not ready to assess yet, {len(missing)} problem(s) (the model "
+              "does not hold what lies below each facade: add the surfaces, or import again "
+              f"into a new file with --ground KIND), then run petfall-audit check {args.into}")
+        for building_problem in missing:
+            print(f"  {building_problem}")
+    warnings = survey_warnings(updated)
+    if warnings:
+        print(f"{args.into}: {len(warnings)} opening(s) still to survey (guards, limiters, "
+              "screens, netting, how often opened, cats); petfall-audit check lists them")
     print(CAUTIONS_SHORT)
     return EXIT_OK
 
@@ -494,6 +631,8 @@ def _cmd_open(args: argparse.Namespace) -> int:
 
 
 def _build_parser() -> argparse.ArgumentParser:
+    from petfall_audit.model import SurfaceKind
+
     parser = argparse.ArgumentParser(
         prog="petfall-audit",
         description=(
@@ -575,9 +714,25 @@ def _build_parser() -> argparse.ArgumentParser:
     _add_sampling_options(p)
     p.set_defaults(handler=_cmd_batch)
 
-    p = sub.add_parser("import", help="import floors and openings from a schedule (.csv or .xlsx)")
-    p.add_argument("schedule", help="schedule spreadsheet (.csv or .xlsx)")
-    p.add_argument("--into", required=True, metavar="FILE", help="building file to update")
+    p = sub.add_parser(
+        "import",
+        help="import floors and openings from a schedule (.csv or .xlsx) or a building model "
+             "(.ifc)",
+        description="Import floors and openings into FILE. From a schedule, FILE must exist. "
+        "From a building model (.ifc, needs the optional ifcopenshell package), FILE is "
+        "created when it does not exist, else the model is merged into it.",
+    )
+    p.add_argument("schedule", metavar="SOURCE",
+                   help="schedule spreadsheet (.csv or .xlsx) or building model (.ifc)")
+    p.add_argument("--into", required=True, metavar="FILE",
+                   help="building file to update (a model creates it when missing)")
+    p.add_argument("--ground", default=None, metavar="KIND",
+                   choices=[kind.value for kind in SurfaceKind],
+                   help="model only, when creating FILE: what the ground below every facade is "
+                        "(the model does not say); without it FILE has no surface yet")
+    p.add_argument("--facade", action="append", metavar="MODEL=FILE",
+                   help="model only: put the model's facade MODEL on the file's facade FILE "
+                        "(repeatable)")
     p.add_argument("--map", metavar="MAPPING.json", help="column mapping (header -> field)")
     p.add_argument(
         "--mode", choices=("merge", "replace"), default="merge",

@@ -8,6 +8,7 @@
     │   └── ValidationFailed        a list of located problems (``.problems``)
     ├── CatalogueError              a control catalogue cannot be read (``.problems``)
     ├── ScheduleImportError         a schedule spreadsheet cannot be imported
+    ├── ModelImportError            a building model (IFC) cannot be imported
     ├── PlanError                   the budgeted fix plan cannot be solved
     └── ReportError                 a report or export cannot be written
 
@@ -25,23 +26,36 @@ __all__ = [
     "Problem",
     "CatalogueError",
     "ScheduleImportError",
+    "ModelImportError",
     "PlanError",
     "ReportError",
 ]
 
 from collections.abc import Sequence
 from dataclasses import dataclass
+from typing import Literal
 
 
 @dataclass(frozen=True, slots=True)
 class Problem:
-    """One located problem: ``where`` like ``openings[12].floor``, ``message`` in plain words."""
+    """One located problem: ``where`` like ``openings[12].floor``, ``message`` in plain words.
+
+    ``severity``: ``"error"`` (the building cannot be assessed until it is fixed) or
+    ``"warning"`` (information still missing that the assessment assumes; see
+    :func:`petfall_audit.io.survey.survey_warnings`).
+    """
 
     where: str
     message: str
+    severity: Literal["error", "warning"] = "error"
+
+    @property
+    def is_warning(self) -> bool:
+        return self.severity == "warning"
 
     def __str__(self) -> str:
-        return f"{self.where}: {self.message}" if self.where else self.message
+        text = f"{self.where}: {self.message}" if self.where else self.message
+        return f"warning: {text}" if self.is_warning else text
 
 
 class PetfallError(Exception):
@@ -57,10 +71,15 @@ class FileFormatError(BuildingFileError):
 
 
 class ValidationFailed(BuildingFileError):
-    """The document has problems; ``problems`` lists them all, each with its place."""
+    """The document has problems; ``problems`` lists them all, each with its place.
 
-    def __init__(self, problems: list[Problem]) -> None:
+    ``building`` is the whole building as read when every item of the file could be read (the
+    problems are then in how the items fit together, e.g. nothing below a facade), else
+    ``None``; the app can open it for the user to complete."""
+
+    def __init__(self, problems: list[Problem], building: object | None = None) -> None:
         self.problems = list(problems)
+        self.building = building
         super().__init__("\n".join(str(p) for p in self.problems))
 
 
@@ -77,6 +96,10 @@ class CatalogueError(PetfallError):
 
 class ScheduleImportError(PetfallError):
     """A schedule spreadsheet cannot be imported."""
+
+
+class ModelImportError(PetfallError):
+    """A building model (IFC) cannot be read or imported."""
 
 
 class PlanError(PetfallError):

@@ -1,9 +1,10 @@
-"""Import a window and balcony schedule (CSV or XLSX) from the app.
+"""Import a window and balcony schedule (CSV or XLSX) or a building model (IFC) from the app.
 
 :class:`ImportDialog` drives the Qt-free steps of :mod:`petfall_audit.io.schedule`: the guessed
 column mapping in an editable table (one combo box per column, a unit per column), a preview that
 lists every bad cell by row and column, merge or replace, and "import the valid rows only". The
 result is applied by :func:`import_schedule` as ONE undoable command on the document's history.
+A ``.ifc`` file goes to :mod:`petfall_audit.gui.model_import_dialog` instead.
 """
 
 from __future__ import annotations
@@ -67,8 +68,10 @@ class ImportPrompts:
 
     def open_schedule(self, parent: QWidget | None) -> Path | None:
         name, _ = QFileDialog.getOpenFileName(
-            parent, "Import a window and balcony schedule", "",
-            "Schedules (*.csv *.xlsx *.xlsm *.txt *.tsv);;All files (*)")
+            parent, "Import a schedule or a building model", "",
+            "Schedules and building models (*.csv *.xlsx *.xlsm *.txt *.tsv *.ifc);;"
+            "Schedules (*.csv *.xlsx *.xlsm *.txt *.tsv);;Building models (*.ifc);;"
+            "All files (*)")
         return Path(name) if name else None
 
     def open_mapping(self, parent: QWidget | None) -> Path | None:
@@ -79,7 +82,7 @@ class ImportPrompts:
     def show_error(self, parent: QWidget | None, title: str, text: str) -> None:
         QMessageBox.warning(parent, title, text)
 
-    def run(self, dialog: ImportDialog) -> bool:
+    def run(self, dialog: QDialog) -> bool:
         """Show the dialog; True if the user chose to import."""
         return dialog.exec() == QDialog.DialogCode.Accepted
 
@@ -317,6 +320,10 @@ def import_schedule(window: Any, path: Path | None = None, *,
         path = prompts.open_schedule(window)
         if path is None:
             return "cancelled"
+    if Path(path).suffix.lower() == ".ifc":
+        from petfall_audit.gui.model_import_dialog import import_model
+
+        return import_model(window, Path(path), prompts=prompts)
     try:
         table = read_table(path)
     except ScheduleImportError as exc:

@@ -200,8 +200,10 @@ def _parse(doc: object, early: list[Problem]) -> Building:
     doc = migrate(doc, version)  # FileFormatError for a version it cannot convert
 
     problems = list(early)
+    validated = False
     try:
         model = DocumentModel.model_validate(doc)
+        validated = True
     except ValidationError as exc:
         problems.extend(_pydantic_problems(exc))
         building, places, incomplete = _salvage(doc, exc)
@@ -210,7 +212,8 @@ def _parse(doc: object, early: list[Problem]) -> Building:
         places, incomplete = Places.identity(building), frozenset()
     problems.extend(check_model(building, places, incomplete))
     if problems:
-        raise ValidationFailed(_sorted_problems(problems))
+        whole = building if validated and not early else None
+        raise ValidationFailed(_sorted_problems(problems), building=whole)
     return building
 
 

@@ -153,10 +153,11 @@ def install_views(window: Any, *, export_prompts: Any = None, import_prompts: An
     exports = ExportActions(
         window, prompts=export_prompts,
         budget=lambda: float(plan.budget.value()) if plan.catalogue is not None else None)
-    import_action = QAction("&Import schedule (CSV, XLSX)…", window)
+    import_action = QAction("&Import schedule or model (CSV, XLSX, IFC)…", window)
     import_action.setObjectName("import_schedule")
     import_action.setShortcut(QKeySequence("Ctrl+I"))
-    import_action.setStatusTip("Add or update openings from a window and balcony schedule")
+    import_action.setStatusTip("Add or update floors and openings from a window and balcony "
+                               "schedule or a building model (IFC)")
     import_action.triggered.connect(
         lambda _c=False: import_schedule(window, prompts=import_prompts))
     file_menu = _file_menu(window)
