@@ -27,7 +27,7 @@ The opening axis is processed in chunks to bound memory; nothing loops over samp
 
 from __future__ import annotations
 
-from collections.abc import Callable
+from collections.abc import Callable, Iterator
 from dataclasses import dataclass
 
 import numpy as np
@@ -262,6 +262,45 @@ def simulate(
 ) -> FallResults:
     """See :func:`petfall_audit.physics.simulate_falls`; ``rho_kg_m3`` is the site's air
     density (kg/m³)."""
+    n_op, n_s = len(building.openings), samples.n
+    drop = np.empty((n_op, n_s))
+    landing = np.empty((n_op, n_s), dtype=np.intp)
+    speed = np.empty((n_op, n_s))
+    time = np.empty((n_op, n_s))
+    righted = np.empty((n_op, n_s), dtype=bool)
+    landing_ids: tuple[str, ...] = ()
+    landing_kinds: tuple[SurfaceKind, ...] = ()
+    for a, b, part in simulate_chunks(building, samples, rho_kg_m3=rho_kg_m3,
+                                      progress=progress):
+        drop[a:b], landing[a:b], speed[a:b] = part.drop_m, part.landing, part.impact_speed_mps
+        time[a:b], righted[a:b] = part.fall_time_s, part.righted
+        landing_ids, landing_kinds = part.landing_ids, part.landing_kinds
+    if not landing_ids:  # no openings: still name the elements
+        _, landing_ids, landing_kinds = _candidate_pairs(building)
+    return FallResults(
+        opening_ids=tuple(o.id for o in building.openings),
+        landing_ids=landing_ids,
+        landing_kinds=landing_kinds,
+        drop_m=drop,
+        landing=landing,
+        impact_speed_mps=speed,
+        fall_time_s=time,
+        righted=righted,
+        rho_kg_m3=float(rho_kg_m3),
+    )
+
+
+def simulate_chunks(
+    building: Building,
+    samples: CatSamples,
+    *,
+    rho_kg_m3: float,
+    progress: Callable[[int, int], None] | None = None,
+    chunk_elements: int = _CHUNK_ELEMENTS,
+) -> Iterator[tuple[int, int, FallResults]]:
+    """The falls of :func:`simulate`, a block of openings at a time: yields ``(a, b, falls)``
+    with the falls of openings ``a`` to ``b - 1`` (building order), so that a caller can
+    summarise each block and let it go: memory stays bounded whatever the building's size."""
     _check_samples(samples)
     rho = float(rho_kg_m3)
     g = G0
@@ -290,12 +329,9 @@ def simulate(
     moving = bool(np.any(v0 > 0))
 
     n_op, n_s = len(building.openings), samples.n
-    drop = np.empty((n_op, n_s))
-    landing = np.empty((n_op, n_s), dtype=np.intp)
-    speed = np.empty((n_op, n_s))
-    time = np.empty((n_op, n_s))
+    ids = tuple(o.id for o in building.openings)
     counts = np.diff(pairs.start)
-    step = max(1, _CHUNK_ELEMENTS // n_s)
+    step = max(1, int(chunk_elements) // n_s)
     fr = frac[None, :]
     if progress is not None:
         progress(0, n_op)
@@ -304,10 +340,8 @@ def simulate(
         # the last pair of every opening always catches; test the others from the lowest up,
         # so that the highest catching one is kept
         last = pairs.start[a + 1:b + 1] - 1
-        h = drop[a:b]
-        lnd = landing[a:b]
-        h[...] = p_drop[last][:, None]
-        lnd[...] = p_elem[last][:, None]
+        h = np.repeat(p_drop[last][:, None], n_s, axis=1)
+        lnd = np.repeat(p_elem[last][:, None], n_s, axis=1)
         for k in range(int(counts[a:b].max()) - 2, -1, -1):
             pk = np.where(k < counts[a:b] - 1, pairs.start[a:b] + k, never)
             d = p_drop[pk][:, None]
@@ -322,21 +356,20 @@ def simulate(
                 catches &= fr < fhi[:, None]
             np.copyto(h, d, where=catches)
             np.copyto(lnd, p_elem[pk][:, None], where=catches)
-        speed[a:b], time[a:b] = _k.fall_rows(h, consts)
+        speed, time = _k.fall_rows(h, consts)
         if moving:  # the outward part of the impact speed
             vx = _k.outward_speed(h, v0, b1, b2, f)
-            np.hypot(speed[a:b], vx, out=speed[a:b])
+            np.hypot(speed, vx, out=speed)
+        yield a, b, FallResults(
+            opening_ids=ids[a:b],
+            landing_ids=landing_ids,
+            landing_kinds=landing_kinds,
+            drop_m=h,
+            landing=lnd,
+            impact_speed_mps=speed,
+            fall_time_s=time,
+            righted=time >= righting[None, :],
+            rho_kg_m3=rho,
+        )
         if progress is not None:
             progress(b, n_op)
-
-    return FallResults(
-        opening_ids=tuple(o.id for o in building.openings),
-        landing_ids=landing_ids,
-        landing_kinds=landing_kinds,
-        drop_m=drop,
-        landing=landing,
-        impact_speed_mps=speed,
-        fall_time_s=time,
-        righted=time >= righting[None, :],
-        rho_kg_m3=rho,
-    )

@@ -16,12 +16,13 @@ The whole building is computed in one pass over ``(n_openings, n_samples)`` arra
 from __future__ import annotations
 
 from collections.abc import Callable
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from typing import Any, Literal
 
 import numpy as np
 import numpy.typing as npt
 
+from petfall_audit._interception import simulate_chunks
 from petfall_audit.injury import (
     BANDS,
     CALIBRATED_DROP_MAX_M,
@@ -36,7 +37,7 @@ from petfall_audit.injury import (
 )
 from petfall_audit.likelihood import LikelihoodResult, assess_likelihood
 from petfall_audit.model import Building, OpeningKind, SurfaceKind
-from petfall_audit.physics import FallResults, peak_speed_of_falls, simulate_falls
+from petfall_audit.physics import FallResults, air_density, peak_speed_of_falls, simulate_falls
 from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED, CatSamples, sample_cat_profile
 
 __all__ = [
@@ -49,8 +50,8 @@ __all__ = [
     "percentiles",
     "severity_of_falls",
     "assess",
-    "MAX_FALLS",
-    "max_samples",
+    "KEEP_FALLS_MAX",
+    "MAX_SAMPLES",
 ]
 
 #: Version of the injury, likelihood and risk model; changes whenever a default changes.
@@ -59,14 +60,12 @@ MODEL_VERSION = "risk-model 2.0"
 #: HHSRS harm-class weights for our bands, mildest first (classes IV, III, II, I).
 HHSRS_CLASS_WEIGHTS: npt.NDArray[np.float64] = np.array([10.0, 300.0, 1000.0, 10000.0])
 
-#: Most simulated falls (openings × samples) in one assessment: about 0.6 GB of memory, 1.2 GB
-#: with the sensitivity summary.
-MAX_FALLS = 10_000_000
-
-
-def max_samples(n_openings: int) -> int:
-    """The most samples :func:`assess` takes for a building with ``n_openings`` openings."""
-    return MAX_FALLS // max(1, n_openings)
+#: Most simulated falls an assessment keeps whole by default (about 170 MB with the doses);
+#: beyond it only the per-opening summaries are kept and memory stays bounded.
+KEEP_FALLS_MAX = 5_000_000
+#: Most sampled cats one assessment takes (each block of the simulation holds at least one
+#: opening's falls of every cat: 8 MB per array at this count).
+MAX_SAMPLES = 1_000_000
 
 
 _MOSTLY_UNRIGHTED = 0.10  # share of unrighted landings worth a factor line
@@ -121,8 +120,10 @@ class OpeningResult:
 class Assessment:
     """A whole building assessed. Arrays are in building order of the openings.
 
-    ``band_probabilities`` ``(n_openings, 4)``; ``risk`` ``(n_openings,)``; ``severity_g``
-    ``(n_openings, n_samples)`` severity index per fall (g); ``sensitivity``: a
+    ``band_probabilities`` ``(n_openings, 4)``; ``risk`` ``(n_openings,)``; ``falls`` and
+    ``severity_g`` ``(n_openings, n_samples)`` (the dose of each fall, g) when the assessment
+    kept every fall (``None`` for a large building, see :func:`assess`); ``rho_kg_m3`` the air
+    density used (kg/m³); ``sensitivity``: a
     :class:`petfall_audit.sensitivity.SensitivityResult` (added by
     :func:`petfall_audit.sensitivity.with_sensitivity`) or ``None``. ``thresholds``, ``stops``
     and ``cat`` are what the assessment used.
@@ -132,16 +133,17 @@ class Assessment:
     samples: int
     seed: int
     model_version: str
-    falls: FallResults
+    falls: FallResults | None
     band_probabilities: npt.NDArray[np.float64]
     likelihood: LikelihoodResult
     risk: npt.NDArray[np.float64]
     openings: tuple[OpeningResult, ...]
     sensitivity: Any | None = None
-    severity_g: npt.NDArray[np.float64] = field(default_factory=lambda: np.zeros((0, 0)))
+    severity_g: npt.NDArray[np.float64] | None = None
     thresholds: InjuryThresholds = DEFAULT_THRESHOLDS
     cat: CatSamples | None = None
     stops: StoppingDistances = DEFAULT_STOPS
+    rho_kg_m3: float = 1.225
 
     def ranked(self, by: Literal["band", "risk"] = "band") -> list[OpeningResult]:
         """Openings worst first: ``"band"`` by expected band then likelihood; ``"risk"`` by
@@ -268,46 +270,118 @@ def assess(
     progress: Callable[[int, int], None] | None = None,
     thresholds: InjuryThresholds | None = None,
     stops: StoppingDistances = DEFAULT_STOPS,
+    keep_falls: bool | None = None,
 ) -> Assessment:
     """Assess every opening of ``building`` with ``samples`` cats drawn with ``seed``.
 
     The same samples serve every opening (common random numbers). ``progress(done, total)`` is
     called as the simulation advances. For the sensitivity of the top risks to the cat profile,
     pass the result to :func:`petfall_audit.sensitivity.with_sensitivity`.
-    Same inputs, same result. ``samples`` may be at most :func:`max_samples` (memory).
-    ``thresholds``: the injury dose–response (default: the building's own, ``building.injury``).
+    Same inputs, same result. ``thresholds``: the injury dose–response (default: the building's
+    own, ``building.injury``). The falls are simulated and summarised a block of openings at a
+    time, so memory stays bounded for a building of any size; ``keep_falls`` keeps every fall
+    in the result as well (``falls``, ``severity_g``), by default when there are at most
+    :data:`KEEP_FALLS_MAX` of them.
     """
     if samples < 1:
         raise ValueError(f"samples must be at least 1, got {samples}")
-    if samples > max_samples(len(building.openings)):
-        raise ValueError(
-            f"samples must be at most {max_samples(len(building.openings))} for "
-            f"{len(building.openings)} openings (at most {MAX_FALLS:,} simulated falls), "
-            f"got {samples}"
-        )
+    if samples > MAX_SAMPLES:
+        raise ValueError(f"samples must be at most {MAX_SAMPLES:,}, got {samples}")
+    n_open = len(building.openings)
+    keep = n_open * samples <= KEEP_FALLS_MAX if keep_falls is None else bool(keep_falls)
     cat = sample_cat_profile(building.cat_profile, samples, seed=seed)
-    falls = simulate_falls(building, cat, progress=progress)
-    return _assess_from_falls(
-        building, cat, falls, samples=samples, seed=seed,
-        thresholds=building.injury if thresholds is None else thresholds, stops=stops,
+    rho = float(air_density(building.info.site_altitude_m, building.info.air_temperature_c))
+    t = building.injury if thresholds is None else thresholds
+    summary = _Summary(n_open, samples)
+    kept: list[tuple[int, int, FallResults, npt.NDArray[np.float64]]] = []
+    for a, b, part in simulate_chunks(building, cat, rho_kg_m3=rho, progress=progress):
+        sev = severity_of_falls(part, cat, stops)
+        summary.add(a, b, part, sev, t)
+        if keep:
+            kept.append((a, b, part, sev))
+    falls, sev_all = _joined(building, kept, samples, rho) if keep else (None, None)
+    return _assessment(building, cat, summary, samples=samples, seed=seed, thresholds=t,
+                       stops=stops, rho_kg_m3=rho, falls=falls, severity_g=sev_all)
+
+
+def _joined(
+    building: Building, kept: list[tuple[int, int, FallResults, npt.NDArray[np.float64]]],
+    samples: int, rho: float,
+) -> tuple[FallResults, npt.NDArray[np.float64]]:
+    """The kept blocks as one :class:`FallResults` and one dose array."""
+    if not kept:
+        empty = simulate_falls(building, sample_cat_profile(building.cat_profile, samples))
+        return empty, np.zeros((0, samples))
+    parts = [k[2] for k in kept]
+    first = parts[0]
+    falls = FallResults(
+        opening_ids=tuple(i for p in parts for i in p.opening_ids),
+        landing_ids=first.landing_ids,
+        landing_kinds=first.landing_kinds,
+        drop_m=np.concatenate([p.drop_m for p in parts]),
+        landing=np.concatenate([p.landing for p in parts]),
+        impact_speed_mps=np.concatenate([p.impact_speed_mps for p in parts]),
+        fall_time_s=np.concatenate([p.fall_time_s for p in parts]),
+        righted=np.concatenate([p.righted for p in parts]),
+        rho_kg_m3=rho,
     )
+    return falls, np.concatenate([k[3] for k in kept])
 
 
-def _assess_from_falls(
+class _Summary:
+    """Per-opening summaries of the falls, filled a block of openings at a time."""
+
+    def __init__(self, n_open: int, samples: int) -> None:
+        self.samples = samples
+        self.probs = np.zeros((n_open, 4))
+        self.mean_sev = np.zeros(n_open)
+        self.drop_pct = np.zeros((n_open, 3))
+        self.speed_pct = np.zeros((n_open, 3))
+        self.water_share = np.zeros(n_open)
+        self.unrighted_share = np.zeros(n_open)
+        self.landing: list[dict[str, float]] = [{} for _ in range(n_open)]
+        self.landing_kind: list[SurfaceKind | None] = [None] * n_open
+
+    def add(self, a: int, b: int, falls: FallResults, sev: npt.NDArray[np.float64],
+            thresholds: InjuryThresholds) -> None:
+        self.probs[a:b] = band_probabilities(sev, thresholds)
+        self.mean_sev[a:b] = sev.mean(axis=1)
+        self.drop_pct[a:b], self.speed_pct[a:b] = _fall_percentiles(falls.drop_m,
+                                                                    falls.impact_speed_mps)
+        self.unrighted_share[a:b] = (1.0 - np.count_nonzero(falls.righted, axis=1)
+                                     / float(self.samples))
+        shares = _landing_shares(falls)
+        is_water = np.array([SurfaceKind(k) is SurfaceKind.WATER for k in falls.landing_kinds],
+                            bool)
+        self.water_share[a:b] = shares[:, is_water].sum(axis=1)
+        rows, cols = np.nonzero(shares)
+        row_start = np.searchsorted(rows, np.arange(b - a + 1))
+        for r in range(b - a):
+            order = sorted(cols[row_start[r]:row_start[r + 1]].tolist(),
+                           key=lambda j: (-shares[r, j], falls.landing_ids[j]))
+            self.landing[a + r] = {str(falls.landing_ids[j]): float(shares[r, j])
+                                   for j in order}
+            if order:
+                self.landing_kind[a + r] = SurfaceKind(falls.landing_kinds[order[0]])
+
+
+def _assessment(
     building: Building,
     cat: CatSamples,
-    falls: FallResults,
+    summary: _Summary,
     *,
     samples: int,
     seed: int,
     thresholds: InjuryThresholds,
     stops: StoppingDistances,
+    rho_kg_m3: float,
+    falls: FallResults | None,
+    severity_g: npt.NDArray[np.float64] | None,
 ) -> Assessment:
     n_open = len(building.openings)
-    sev = severity_of_falls(falls, cat, stops) if n_open else np.zeros((0, samples))
-    probs = band_probabilities(sev, thresholds) if n_open else np.zeros((0, 4))
+    probs = summary.probs
     exp_band = expected_band(probs)
-    mean_sev = sev.mean(axis=1) if n_open else np.zeros(0)
+    mean_sev = summary.mean_sev
     lik = assess_likelihood(building.openings, profile=building.cat_profile)
     risk = risk_score(lik.annual_probability, probs)
 
@@ -315,36 +389,23 @@ def _assess_from_falls(
                        np.arange(n_open, dtype=float)])
     risk_rank = _rank([-risk, -exp_band.astype(float), -mean_sev, np.arange(n_open, dtype=float)])
 
-    drop_pct, speed_pct = (
-        _fall_percentiles(falls.drop_m, falls.impact_speed_mps)
-        if n_open
-        else (np.zeros((0, 3)), np.zeros((0, 3)))
-    )
-    shares = _landing_shares(falls) if n_open else np.zeros((0, 0))
-    is_water = np.array([SurfaceKind(k) is SurfaceKind.WATER for k in falls.landing_kinds], bool)
-    water_share = shares[:, is_water].sum(axis=1) if n_open else np.zeros(0)
-    unrighted_share = (
-        1.0 - np.count_nonzero(falls.righted, axis=1) / float(samples) if n_open else np.zeros(0)
-    )
-    life_share = probs[:, 3] if n_open else np.zeros(0)
+    drop_pct, speed_pct = summary.drop_pct, summary.speed_pct
+    water_share = summary.water_share
+    unrighted_share = summary.unrighted_share
+    life_share = probs[:, 3]
 
-    rows, cols = np.nonzero(shares)
-    row_start = np.searchsorted(rows, np.arange(n_open + 1))
     results: list[OpeningResult] = []
     for i, o in enumerate(building.openings):
-        order = sorted(
-            cols[row_start[i] : row_start[i + 1]].tolist(),
-            key=lambda j: (-shares[i, j], falls.landing_ids[j]),
-        )
-        landing = {str(falls.landing_ids[j]): float(shares[i, j]) for j in order}
+        landing = summary.landing[i]
         factors = list(lik.factors[i])
         hazards = list(lik.hazards[i])
-        if order:
-            j0 = order[0]
-            kind0 = falls.landing_kinds[j0]
+        if landing:
+            id0, share0 = next(iter(landing.items()))
+            kind0 = summary.landing_kind[i]
+            assert kind0 is not None
             factors.append(
-                f"Median drop {drop_pct[i, 1]:.1f} m; {shares[i, j0]:.0%} of falls land on "
-                f"{_surface_word(kind0)} ({falls.landing_ids[j0]})"
+                f"Median drop {drop_pct[i, 1]:.1f} m; {share0:.0%} of falls land on "
+                f"{_surface_word(kind0)} ({id0})"
             )
             water = float(water_share[i])
             if water > 0:
@@ -391,7 +452,7 @@ def _assess_from_falls(
             )
         )
 
-    assessment = Assessment(
+    return Assessment(
         building=building,
         samples=samples,
         seed=seed,
@@ -401,9 +462,9 @@ def _assess_from_falls(
         likelihood=lik,
         risk=risk,
         openings=tuple(results),
-        severity_g=sev,
+        severity_g=severity_g,
         thresholds=thresholds,
         cat=cat,
         stops=stops,
+        rho_kg_m3=rho_kg_m3,
     )
-    return assessment

@@ -187,15 +187,13 @@ def test_huge_seed_is_fine(building_file: Path, capsys: pytest.CaptureFixture[st
     assert "99999999999999999999999" in capsys.readouterr().out
 
 
-def test_more_samples_than_fit_in_memory_are_refused_with_the_most_allowed(
+def test_more_samples_than_one_assessment_takes_are_refused(
     building_file: Path, capsys: pytest.CaptureFixture[str]
 ) -> None:
-    from petfall_audit.risk import max_samples
+    from petfall_audit.risk import MAX_SAMPLES
 
-    most = max_samples(16)  # the building has 16 openings
-    assert main(["assess", str(building_file), "--samples", str(most + 1)]) == 2
-    err = capsys.readouterr().err
-    assert f"--samples {most} or fewer" in err
+    assert main(["assess", str(building_file), "--samples", str(MAX_SAMPLES + 1)]) == 2
+    assert f"at most {MAX_SAMPLES:,} simulated cats" in capsys.readouterr().err
 
 
 def test_table_prose_fits_an_80_column_terminal() -> None:

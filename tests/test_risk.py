@@ -319,10 +319,19 @@ def test_percentiles_match_numpy() -> None:
     np.testing.assert_allclose(percentiles(np.arange(101.0)), [5.0, 50.0, 95.0])
 
 
-def test_more_samples_than_fit_in_memory_are_refused() -> None:
-    from petfall_audit.risk import MAX_FALLS, max_samples
-
-    b = _building([_window("W1", 2), _window("W2", 3)])
-    assert max_samples(2) == MAX_FALLS // 2 and max_samples(0) == MAX_FALLS
+def test_large_buildings_are_summarised_block_by_block_with_the_same_results() -> None:
+    # the same building assessed keeping every fall and block by block gives the same numbers
+    ops = [_window(f"W{i}", i) for i in range(1, 30)] + [_balcony(f"B{i}", i) for i in (3, 9)]
+    b = _building(ops)
+    whole = assess(b, samples=300, seed=4, keep_falls=True)
+    lean = assess(b, samples=300, seed=4, keep_falls=False)
+    assert lean.falls is None and lean.severity_g is None
+    assert whole.falls is not None and whole.severity_g is not None
+    assert whole.severity_g.shape == (len(ops), 300)
+    assert lean.openings == whole.openings
+    np.testing.assert_array_equal(lean.band_probabilities, whole.band_probabilities)
+    assert lean.rho_kg_m3 == whole.falls.rho_kg_m3
     with pytest.raises(ValueError, match="at most"):
-        assess(b, samples=max_samples(2) + 1, seed=1)
+        from petfall_audit.risk import MAX_SAMPLES
+
+        assess(b, samples=MAX_SAMPLES + 1, seed=1)

@@ -144,7 +144,7 @@ def fall_profile_figure(assessment: Assessment, opening_id: str) -> FallProfileF
     result = assessment.result(opening_id)
     cat = representative_cat(assessment.building.cat_profile)
     drop = float(result.drop_m.p50)
-    rho = float(assessment.falls.rho_kg_m3)
+    rho = float(assessment.rho_kg_m3)
     trace = _trace(drop, cat, cat.cda_spread_m2 if cat.relaxes else cat.cda_tense_m2, rho)
     posture = (
         f"spreads out at {cat.relax_fraction:.0%} of its tense terminal speed"
@@ -169,7 +169,7 @@ def posture_paths(assessment: Assessment, opening_id: str, *,
     profile = assessment.building.cat_profile
     cat = representative_cat(profile)
     drop = float(result.drop_m.p50)
-    rho = float(assessment.falls.rho_kg_m3)
+    rho = float(assessment.rho_kg_m3)
     p_relax = float(profile.relax_probability)
     if p_relax > 0.0 and cat.cda_spread_m2 > cat.cda_tense_m2:
         spec = [("stays tense", 1.0 - p_relax, cat.cda_tense_m2),
@@ -206,7 +206,7 @@ def impact_speed_curve(assessment: Assessment, *, n_points: int = 200) -> Impact
     from petfall_audit.physics import impact_speed
 
     cat = representative_cat(assessment.building.cat_profile)
-    rho = float(assessment.falls.rho_kg_m3)
+    rho = float(assessment.rho_kg_m3)
     drops = np.array([o.drop_m.p50 for o in assessment.openings], dtype=float)
     top = float(np.nanmax(drops)) if drops.size else 10.0
     grid = np.linspace(0.0, max(1.2 * top, 5.0), n_points)

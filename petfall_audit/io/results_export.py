@@ -144,7 +144,7 @@ def assessment_to_dict(a: Assessment) -> dict[str, Any]:
         "cat_profile": profile_to_dict(a.building.cat_profile),
         "samples": a.samples,
         "seed": a.seed,
-        "air_density_kg_m3": _r(float(a.falls.rho_kg_m3)),
+        "air_density_kg_m3": _r(float(a.rho_kg_m3)),
         "bands": list(BANDS),
         "band_thresholds_g": {
             "moderate": _r(t.moderate_g),

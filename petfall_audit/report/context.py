@@ -577,7 +577,7 @@ def _assumptions(profile: CatProfile, assessment: Assessment) -> tuple[tuple[str
          _injury_text(assessment.thresholds)),
         ("Site altitude / design air temperature",
          f"{info.site_altitude_m:.0f} m / {info.air_temperature_c:.0f} °C "
-         f"(air density {float(assessment.falls.rho_kg_m3):.3f} kg/m³)"),
+         f"(air density {float(assessment.rho_kg_m3):.3f} kg/m³)"),
     )
 
 
