@@ -15,7 +15,7 @@ import sys
 from collections.abc import Callable, Iterator, Sequence, Sized
 from contextlib import contextmanager
 from pathlib import Path
-from typing import TYPE_CHECKING
+from typing import IO, TYPE_CHECKING, TextIO
 
 from petfall_audit import __version__
 from petfall_audit.errors import (
@@ -175,8 +175,8 @@ def _dumps(doc: object) -> str:
     return json.dumps(doc, indent=2, ensure_ascii=False) + "\n"
 
 
-def _flush_c_stdout() -> None:
-    """Flush the C library's stdout buffer, where compiled libraries print."""
+def _flush_c_stdio() -> None:
+    """Flush the C library's stdio buffers, where compiled libraries print."""
     try:
         import ctypes
 
@@ -185,41 +185,90 @@ def _flush_c_stdout() -> None:
         pass
 
 
-@contextmanager
-def _library_chatter_to_stderr() -> Iterator[None]:
-    """While a command runs, what compiled libraries print on file descriptor 1 goes to stderr,
-    and Python's ``sys.stdout`` still writes to the real standard output.
+class _HeldChatter:
+    """What compiled libraries wrote on descriptors 1 and 2 while a command ran (see
+    :func:`_library_chatter_held`); ``text()`` reads it back."""
 
-    Some builds of the MILP solver print internal diagnostic lines on descriptor 1; they would
-    corrupt JSON or CSV that a command writes to standard output. Only the command line does
-    this (a process-wide change): the library itself never touches descriptors. Skipped when
-    ``sys.stdout`` is not the process's own (captured, redirected in Python).
+    def __init__(self, file: IO[bytes] | None) -> None:
+        self._file = file
+
+    def text(self, limit: int = 64_000) -> str:
+        if self._file is None:
+            return ""
+        _flush_c_stdio()
+        self._file.seek(0)
+        data = self._file.read(limit)
+        return data.decode("utf-8", errors="replace").strip()
+
+
+@contextmanager
+def _library_chatter_held() -> Iterator[_HeldChatter]:
+    """While a command runs, what compiled libraries print on file descriptors 1 and 2 is held
+    in a temporary file, and Python's ``sys.stdout`` / ``sys.stderr`` still write to the real
+    standard output and error.
+
+    The MILP solver is asked to stay silent (``disp=False`` in :mod:`petfall_audit.plan`), but
+    some builds of it, and other compiled libraries, print diagnostic lines straight on the
+    descriptors: they would corrupt JSON or CSV written to standard output and clutter the
+    terminal. The caller shows the held text on stderr when the command fails, so a real error
+    is never swallowed. Only the command line does this (a process-wide change): the library
+    itself never touches descriptors. Skipped when ``sys.stdout`` or ``sys.stderr`` is not the
+    process's own (captured or redirected in Python).
     """
-    original = sys.stdout
-    own = sys.__stdout__
-    if own is None or original is not own:
-        yield
+    import tempfile
+
+    streams = (sys.stdout, sys.stderr)
+    own = (sys.__stdout__, sys.__stderr__)
+    if any(o is None or s is not o for s, o in zip(streams, own, strict=True)):
+        yield _HeldChatter(None)
         return
+    held = tempfile.TemporaryFile()  # closed in the finally below
+    saved: list[int] = []
     try:
-        original.flush()
-        _flush_c_stdout()
-        real_fd = os.dup(1)
-        os.dup2(2, 1)
+        for stream in streams:
+            stream.flush()
+        _flush_c_stdio()
+        for fd in (1, 2):
+            saved.append(os.dup(fd))
+        for fd in (1, 2):
+            os.dup2(held.fileno(), fd)
     except (OSError, ValueError):
-        yield
+        for fd, copy in zip((1, 2), saved, strict=False):
+            os.dup2(copy, fd)
+            os.close(copy)
+        held.close()
+        yield _HeldChatter(None)
         return
-    sys.stdout = open(  # closed in the finally below
-        real_fd, "w", buffering=1, encoding=own.encoding, errors=own.errors, closefd=False,
-    )
+    sys.stdout, sys.stderr = (_text_stream(copy, o) for copy, o in zip(saved, own, strict=True))
     try:
-        yield
+        yield _HeldChatter(held)
     finally:
-        sys.stdout.flush()
-        sys.stdout.close()
-        sys.stdout = original
-        _flush_c_stdout()
-        os.dup2(real_fd, 1)
-        os.close(real_fd)
+        for stream in (sys.stdout, sys.stderr):
+            stream.flush()
+            stream.close()
+        sys.stdout, sys.stderr = streams
+        _flush_c_stdio()
+        for fd, copy in zip((1, 2), saved, strict=True):
+            os.dup2(copy, fd)
+            os.close(copy)
+        held.close()
+
+
+def _text_stream(fd: int, like: TextIO | None) -> TextIO:
+    """A line-buffered text stream on ``fd`` with the encoding of ``like``; leaves ``fd`` open."""
+    return open(  # closed by the caller
+        fd, "w", buffering=1, encoding=getattr(like, "encoding", None),
+        errors=getattr(like, "errors", None), closefd=False,
+    )
+
+
+def _show_held(held: _HeldChatter) -> None:
+    """After a failed command, what libraries printed while it ran (it may explain the failure)."""
+    text = held.text()
+    if text:
+        print("petfall-audit: a library reported while the command ran:", file=sys.stderr)
+        for line in text.splitlines():
+            print(f"  {line}", file=sys.stderr)
 
 
 # --- subcommands --------------------------------------------------------------------------------
@@ -769,11 +818,23 @@ def main(argv: Sequence[str] | None = None) -> int:
         return int(exc.code or 0)
     if args.command is None:
         return _cmd_open(argparse.Namespace(file=None))
+    if args.handler is _cmd_open:
+        return _run(args)
+    with _library_chatter_held() as held:
+        try:
+            code = _run(args)
+        except BaseException:  # an unexpected error: its traceback follows on stderr
+            _show_held(held)
+            raise
+        if code != EXIT_OK:
+            _show_held(held)
+        return code
+
+
+def _run(args: argparse.Namespace) -> int:
+    """The subcommand's exit code; failures reported on stderr in plain words."""
     try:
-        if args.handler is _cmd_open:
-            return int(args.handler(args))
-        with _library_chatter_to_stderr():
-            return int(args.handler(args))
+        return int(args.handler(args))
     except _Stop as stop:
         return stop.code
     except PetfallError as exc:

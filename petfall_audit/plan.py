@@ -170,7 +170,10 @@ def solve_choice_knapsack(
         integrality=np.ones(k),
         bounds=Bounds(0.0, 1.0),
         constraints=LinearConstraint(a, -np.inf, ub),
-        options={"mip_rel_gap": float(mip_rel_gap), "time_limit": float(time_limit_s)},
+        # disp=False: the solver prints no progress log (the command line also holds back what
+        # compiled libraries print on the terminal, see petfall_audit.cli)
+        options={"disp": False, "mip_rel_gap": float(mip_rel_gap),
+                 "time_limit": float(time_limit_s)},
     )
     if res.status not in (0, 1) or res.x is None:
         raise PlanError(f"the fix plan could not be solved: {res.message}")

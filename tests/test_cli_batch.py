@@ -77,23 +77,3 @@ def test_batch_out_dir_that_is_a_file_is_refused(tmp_path: Path,
     file.write_text("x", "utf-8")
     assert main(["batch", str(sample_path("walkup")), "--out-dir", str(file)]) == 2
     assert "not a folder" in capsys.readouterr().err
-
-
-def test_library_chatter_on_descriptor_1_never_reaches_the_commands_output() -> None:
-    """A compiled library printing straight to file descriptor 1 (as some MILP solver builds do)
-    must not corrupt the JSON or CSV a command writes to standard output: it goes to stderr."""
-    import subprocess
-    import sys
-
-    code = (
-        "import os\n"
-        "from petfall_audit.cli import _library_chatter_to_stderr\n"
-        "with _library_chatter_to_stderr():\n"
-        "    os.write(1, b'solver chatter\\n')\n"
-        "    print('{\"result\": 1}')\n"
-        "print('after')\n"
-    )
-    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
-                         check=True, cwd=Path(__file__).resolve().parents[1])
-    assert out.stdout == '{"result": 1}\nafter\n'
-    assert "solver chatter" in out.stderr
