@@ -8,7 +8,6 @@ Problems go to stderr one a line; a traceback is never shown for a user's mistak
 from __future__ import annotations
 
 import argparse
-import json
 import math
 import os
 import sys
@@ -23,7 +22,6 @@ from petfall_audit.errors import (
     CatalogueError,
     PetfallError,
     ReportError,
-    ValidationFailed,
 )
 
 if TYPE_CHECKING:
@@ -66,13 +64,9 @@ def _stderr_progress(label: str) -> Callable[[int, int], None]:
 
 
 def _print_problems(exc: PetfallError, path: str) -> None:
-    problems = getattr(exc, "problems", None)
-    if isinstance(exc, ValidationFailed | CatalogueError) and problems:
-        print(f"{path}: {len(problems)} problem(s):", file=sys.stderr)
-        for problem in problems:
-            print(f"  {problem}", file=sys.stderr)
-    else:
-        print(f"{path}: {exc}", file=sys.stderr)
+    from petfall_audit.batch import describe_problems
+
+    print(describe_problems(exc, path), file=sys.stderr)
 
 
 def _refuse(message: str) -> _Stop:
@@ -172,7 +166,9 @@ def _count(items: Sized, noun: str) -> str:
 
 
 def _dumps(doc: object) -> str:
-    return json.dumps(doc, indent=2, ensure_ascii=False) + "\n"
+    from petfall_audit.batch import json_text
+
+    return json_text(doc)
 
 
 def _flush_c_stdio() -> None:
@@ -405,53 +401,57 @@ def _cmd_report(args: argparse.Namespace) -> int:
 def _cmd_batch(args: argparse.Namespace) -> int:
     """Assess many buildings; one result file each plus a summary CSV. Bad files are listed
     and skipped; the exit code is 2 if any file could not be assessed. Two files with the same
-    name get ``name.json`` and ``name-2.json``; the summary names each result file."""
+    name get ``name.json`` and ``name-2.json``; the summary names each result file. ``--jobs``
+    buildings are assessed at once in separate processes; the results are the same."""
     import csv
     import io
 
+    from petfall_audit.batch import BatchJob, discard, run_all
     from petfall_audit.cautions import CAUTIONS_SHORT
     from petfall_audit.injury import BANDS
     from petfall_audit.io.atomic import atomic_write_text
-    from petfall_audit.io.results_export import assessment_to_csv, assessment_to_dict
-    from petfall_audit.plan import make_plan
-    from petfall_audit.report import write_audit
+    from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
 
     _require_at_least("--budget", args.budget, 0)
+    _require_at_least("--jobs", args.jobs, 1)
     _check_sampling(args)
     out_dir = Path(args.out_dir)
     if out_dir.exists() and not out_dir.is_dir():
         raise _refuse(f"--out-dir {out_dir}: is a file, not a folder")
     out_dir.mkdir(parents=True, exist_ok=True)
+    jobs = [
+        BatchJob(index=n, path=name, out_dir=str(out_dir), fmt=args.format,
+                 samples=DEFAULT_SAMPLES if args.samples is None else args.samples,
+                 seed=DEFAULT_SEED if args.seed is None else args.seed, budget=args.budget,
+                 want_options=False)
+        for n, name in enumerate(args.files)
+    ]
+    workers = args.jobs if args.jobs is not None else _default_jobs()
+    outcomes = run_all(jobs, workers=workers, progress=_stderr_progress("batch"))
     rows: list[list[object]] = []
+    done = []
     failed = 0
-    taken = {"summary"}  # result names in use (case-insensitive, as on some file systems)
-    for n, name in enumerate(args.files, 1):
-        try:
-            building = _load(name)
-            assessment = _assess(args, building,
-                                 label=f"[{n}/{len(args.files)}] {Path(name).stem}")
-        except _Stop:
-            failed += 1
-            continue
-        stem = _unique_stem(Path(name).stem, taken)
-        result_path = out_dir / f"{stem}.{args.format}"
-        if args.format == "json":
-            atomic_write_text(result_path, _dumps(assessment_to_dict(assessment)))
-        elif args.format == "csv":
-            atomic_write_text(result_path, assessment_to_csv(assessment))
-        plan = make_plan(assessment, args.budget) if args.budget is not None else None
-        if args.format == "pdf":
-            write_audit(assessment, plan, result_path, photo_root=Path(name).parent)
-        counts = [0] * len(BANDS)
-        for result in assessment.openings:
-            counts[result.expected_band] += 1
-        worst = assessment.ranked("risk")[0] if assessment.openings else None
-        rows.append([
-            name, building.info.name, len(building.openings), *counts,
-            worst.id if worst else "", f"{float(assessment.risk.sum()):.0f}",
-            f"{plan.total_cost:.0f}" if plan else "", f"{plan.risk_after:.0f}" if plan else "",
-            result_path.name,
-        ])
+    taken = {"summary", "portfolio-plan", "portfolio"}  # names in use (any case)
+    try:
+        for outcome in outcomes:
+            if outcome.error is not None:
+                print(outcome.error, file=sys.stderr)
+                failed += 1
+                continue
+            stem = _unique_stem(Path(outcome.path).stem, taken)
+            result_path = out_dir / f"{stem}.{args.format}"
+            os.replace(outcome.result_tmp, result_path)
+            done.append((outcome, result_path.name))
+            rows.append([
+                outcome.path, outcome.building_name, outcome.n_openings, *outcome.band_counts,
+                outcome.worst_id, f"{outcome.risk_total:.0f}",
+                f"{outcome.plan_cost:.0f}" if outcome.plan_cost is not None else "",
+                f"{outcome.plan_risk_after:.0f}" if outcome.plan_risk_after is not None else "",
+                result_path.name,
+            ])
+    finally:
+        for outcome in outcomes:
+            discard(outcome.result_tmp)
     buffer = io.StringIO()
     buffer.write(f"# {CAUTIONS_SHORT}\n")
     writer = csv.writer(buffer, lineterminator="\n")
@@ -462,6 +462,12 @@ def _cmd_batch(args: argparse.Namespace) -> int:
     atomic_write_text(out_dir / "summary.csv", buffer.getvalue())
     print(f"assessed {len(rows)} of {len(args.files)} building(s); wrote {out_dir / 'summary.csv'}")
     return EXIT_INVALID if failed else EXIT_OK
+
+
+def _default_jobs() -> int:
+    from petfall_audit.batch import default_jobs
+
+    return default_jobs()
 
 
 def _unique_stem(stem: str, taken: set[str]) -> str:
@@ -760,6 +766,9 @@ def _build_parser() -> argparse.ArgumentParser:
                    help="result file per building (default: json)")
     p.add_argument("--budget", type=float, default=None, metavar="AMOUNT",
                    help="also plan fixes within AMOUNT per building")
+    p.add_argument("--jobs", type=int, default=None, metavar="N",
+                   help="buildings assessed at once, in separate processes (default: the "
+                        "number of cores)")
     _add_sampling_options(p)
     p.set_defaults(handler=_cmd_batch)
 
