@@ -25,6 +25,7 @@ from petfall_audit.errors import (
 )
 
 if TYPE_CHECKING:
+    from petfall_audit.batch import BuildingOutcome
     from petfall_audit.model import Building
     from petfall_audit.risk import Assessment
 
@@ -413,6 +414,7 @@ def _cmd_batch(args: argparse.Namespace) -> int:
     from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
 
     _require_at_least("--budget", args.budget, 0)
+    _require_at_least("--portfolio-budget", args.portfolio_budget, 0)
     _require_at_least("--jobs", args.jobs, 1)
     _check_sampling(args)
     out_dir = Path(args.out_dir)
@@ -423,7 +425,7 @@ def _cmd_batch(args: argparse.Namespace) -> int:
         BatchJob(index=n, path=name, out_dir=str(out_dir), fmt=args.format,
                  samples=DEFAULT_SAMPLES if args.samples is None else args.samples,
                  seed=DEFAULT_SEED if args.seed is None else args.seed, budget=args.budget,
-                 want_options=False)
+                 want_options=args.portfolio_budget is not None)
         for n, name in enumerate(args.files)
     ]
     workers = args.jobs if args.jobs is not None else _default_jobs()
@@ -461,7 +463,38 @@ def _cmd_batch(args: argparse.Namespace) -> int:
     writer.writerows(rows)
     atomic_write_text(out_dir / "summary.csv", buffer.getvalue())
     print(f"assessed {len(rows)} of {len(args.files)} building(s); wrote {out_dir / 'summary.csv'}")
+    if args.portfolio_budget is not None:
+        for path in _write_portfolio(done, args.portfolio_budget, out_dir):
+            print(f"wrote {path}")
     return EXIT_INVALID if failed else EXIT_OK
+
+
+def _write_portfolio(done: Sequence[tuple[BuildingOutcome, str]], budget: float,
+                     out_dir: Path) -> list[Path]:
+    """Plan ``budget`` over every opening of the assessed buildings; write DIR/portfolio-plan.json
+    and the estate summary DIR/portfolio.pdf."""
+    from petfall_audit.figures.budget import budget_grid
+    from petfall_audit.io.atomic import atomic_write_text
+    from petfall_audit.io.portfolio_export import portfolio_to_dict
+    from petfall_audit.portfolio import (
+        EstateBuilding,
+        estate_options,
+        plan_portfolio,
+        portfolio_curve,
+    )
+    from petfall_audit.report.portfolio import write_portfolio_report
+
+    estate = [EstateBuilding(file=o.path, name=o.building_name, result_file=name,
+                             options=o.options or {}, risk_before=o.risk_total)
+              for o, name in done]
+    currency = next((o.currency for o, _ in done if o.currency), "")
+    portfolio = plan_portfolio(estate, budget, currency=currency)
+    plan_path = out_dir / "portfolio-plan.json"
+    atomic_write_text(plan_path, _dumps(portfolio_to_dict(portfolio)))
+    grid = budget_grid(estate_options(estate), n_points=12)
+    budgets, removed = portfolio_curve(estate, sorted({*grid.tolist(), float(budget)}))
+    pdf_path = write_portfolio_report(portfolio, budgets, removed, out_dir / "portfolio.pdf")
+    return [plan_path, pdf_path]
 
 
 def _default_jobs() -> int:
@@ -766,6 +799,9 @@ def _build_parser() -> argparse.ArgumentParser:
                    help="result file per building (default: json)")
     p.add_argument("--budget", type=float, default=None, metavar="AMOUNT",
                    help="also plan fixes within AMOUNT per building")
+    p.add_argument("--portfolio-budget", type=float, default=None, metavar="AMOUNT",
+                   help="also plan one budget of AMOUNT over every opening of every building: "
+                        "writes DIR/portfolio-plan.json and the estate summary DIR/portfolio.pdf")
     p.add_argument("--jobs", type=int, default=None, metavar="N",
                    help="buildings assessed at once, in separate processes (default: the "
                         "number of cores)")
