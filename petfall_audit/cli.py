@@ -22,6 +22,7 @@ from petfall_audit.errors import (
     CatalogueError,
     PetfallError,
     ReportError,
+    ValidationFailed,
 )
 
 if TYPE_CHECKING:
