@@ -65,12 +65,24 @@ class BuildingOutcome:
     currency: str = ""
 
 
+#: Memory one worker may need at most (bytes): the largest assessment (about 0.6 GB, see
+#: :data:`petfall_audit.risk.MAX_FALLS`) with its report and temporaries.
+WORKER_MEMORY_BYTES = 1_500_000_000
+
+
 def default_jobs() -> int:
-    """The number of cores this process may use (at least 1)."""
+    """The number of cores this process may use, but no more workers than the machine's memory
+    holds at :data:`WORKER_MEMORY_BYTES` each (at least 1)."""
     try:
-        return max(1, len(os.sched_getaffinity(0)))
+        cores = len(os.sched_getaffinity(0))
     except AttributeError:  # not on every platform
-        return max(1, os.cpu_count() or 1)
+        cores = os.cpu_count() or 1
+    try:
+        memory = os.sysconf("SC_PAGE_SIZE") * os.sysconf("SC_PHYS_PAGES")
+    except (AttributeError, ValueError, OSError):  # not on every platform
+        memory = 0
+    fit = memory // WORKER_MEMORY_BYTES if memory > 0 else cores
+    return max(1, min(cores, fit))
 
 
 def json_text(doc: object) -> str:

@@ -131,3 +131,18 @@ def test_a_building_that_fails_while_assessed_is_reported_and_skipped(
     assert "block.json: could not be assessed: the simulation broke" in capsys.readouterr().err
     assert [Path(r["file"]).stem for r in _summary(out)] == ["walkup"]
     assert sorted(p.name for p in out.iterdir()) == ["summary.csv", "walkup.json"]
+
+
+def test_default_jobs_follow_the_cores_but_fit_in_memory(monkeypatch: pytest.MonkeyPatch) -> None:
+    import os
+
+    import petfall_audit.batch as batch
+
+    monkeypatch.setattr(os, "sched_getaffinity", lambda pid: set(range(64)), raising=False)
+    pages = {"SC_PAGE_SIZE": 4096, "SC_PHYS_PAGES": 4_000_000_000 // 4096}
+    monkeypatch.setattr(os, "sysconf", lambda name: pages[name])
+    assert batch.default_jobs() == 4_000_000_000 // batch.WORKER_MEMORY_BYTES  # 2, not 64
+    pages["SC_PHYS_PAGES"] = 10**15 // 4096
+    assert batch.default_jobs() == 64
+    pages["SC_PHYS_PAGES"] = 1
+    assert batch.default_jobs() == 1
