@@ -805,7 +805,7 @@ def _build_parser() -> argparse.ArgumentParser:
                         "writes DIR/portfolio-plan.json and the estate summary DIR/portfolio.pdf")
     p.add_argument("--jobs", type=int, default=None, metavar="N",
                    help="buildings assessed at once, in separate processes (default: the "
-                        "number of cores)")
+                        "number of cores, fewer if memory is short)")
     _add_sampling_options(p)
     p.set_defaults(handler=_cmd_batch)
 
