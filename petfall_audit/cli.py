@@ -8,14 +8,13 @@ Problems go to stderr one a line; a traceback is never shown for a user's mistak
 from __future__ import annotations
 
 import argparse
-import json
 import math
 import os
 import sys
 from collections.abc import Callable, Iterator, Sequence, Sized
 from contextlib import contextmanager
 from pathlib import Path
-from typing import TYPE_CHECKING
+from typing import IO, TYPE_CHECKING, TextIO
 
 from petfall_audit import __version__
 from petfall_audit.errors import (
@@ -27,6 +26,7 @@ from petfall_audit.errors import (
 )
 
 if TYPE_CHECKING:
+    from petfall_audit.batch import BuildingOutcome
     from petfall_audit.model import Building
     from petfall_audit.risk import Assessment
 
@@ -66,13 +66,9 @@ def _stderr_progress(label: str) -> Callable[[int, int], None]:
 
 
 def _print_problems(exc: PetfallError, path: str) -> None:
-    problems = getattr(exc, "problems", None)
-    if isinstance(exc, ValidationFailed | CatalogueError) and problems:
-        print(f"{path}: {len(problems)} problem(s):", file=sys.stderr)
-        for problem in problems:
-            print(f"  {problem}", file=sys.stderr)
-    else:
-        print(f"{path}: {exc}", file=sys.stderr)
+    from petfall_audit.batch import describe_problems
+
+    print(describe_problems(exc, path), file=sys.stderr)
 
 
 def _refuse(message: str) -> _Stop:
@@ -167,11 +163,13 @@ def _count(items: Sized, noun: str) -> str:
 
 
 def _dumps(doc: object) -> str:
-    return json.dumps(doc, indent=2, ensure_ascii=False) + "\n"
+    from petfall_audit.batch import json_text
+
+    return json_text(doc)
 
 
-def _flush_c_stdout() -> None:
-    """Flush the C library's stdout buffer, where compiled libraries print."""
+def _flush_c_stdio() -> None:
+    """Flush the C library's stdio buffers, where compiled libraries print."""
     try:
         import ctypes
 
@@ -180,41 +178,90 @@ def _flush_c_stdout() -> None:
         pass
 
 
-@contextmanager
-def _library_chatter_to_stderr() -> Iterator[None]:
-    """While a command runs, what compiled libraries print on file descriptor 1 goes to stderr,
-    and Python's ``sys.stdout`` still writes to the real standard output.
+class _HeldChatter:
+    """What compiled libraries wrote on descriptors 1 and 2 while a command ran (see
+    :func:`_library_chatter_held`); ``text()`` reads it back."""
 
-    Some builds of the MILP solver print internal diagnostic lines on descriptor 1; they would
-    corrupt JSON or CSV that a command writes to standard output. Only the command line does
-    this (a process-wide change): the library itself never touches descriptors. Skipped when
-    ``sys.stdout`` is not the process's own (captured, redirected in Python).
+    def __init__(self, file: IO[bytes] | None) -> None:
+        self._file = file
+
+    def text(self, limit: int = 64_000) -> str:
+        if self._file is None:
+            return ""
+        _flush_c_stdio()
+        self._file.seek(0)
+        data = self._file.read(limit)
+        return data.decode("utf-8", errors="replace").strip()
+
+
+@contextmanager
+def _library_chatter_held() -> Iterator[_HeldChatter]:
+    """While a command runs, what compiled libraries print on file descriptors 1 and 2 is held
+    in a temporary file, and Python's ``sys.stdout`` / ``sys.stderr`` still write to the real
+    standard output and error.
+
+    The MILP solver is asked to stay silent (``disp=False`` in :mod:`petfall_audit.plan`), but
+    some builds of it, and other compiled libraries, print diagnostic lines straight on the
+    descriptors: they would corrupt JSON or CSV written to standard output and clutter the
+    terminal. The caller shows the held text on stderr when the command fails, so a real error
+    is never swallowed. Only the command line does this (a process-wide change): the library
+    itself never touches descriptors. Skipped when ``sys.stdout`` or ``sys.stderr`` is not the
+    process's own (captured or redirected in Python).
     """
-    original = sys.stdout
-    own = sys.__stdout__
-    if own is None or original is not own:
-        yield
+    import tempfile
+
+    streams = (sys.stdout, sys.stderr)
+    own = (sys.__stdout__, sys.__stderr__)
+    if any(o is None or s is not o for s, o in zip(streams, own, strict=True)):
+        yield _HeldChatter(None)
         return
+    held = tempfile.TemporaryFile()  # closed in the finally below
+    saved: list[int] = []
     try:
-        original.flush()
-        _flush_c_stdout()
-        real_fd = os.dup(1)
-        os.dup2(2, 1)
+        for stream in streams:
+            stream.flush()
+        _flush_c_stdio()
+        for fd in (1, 2):
+            saved.append(os.dup(fd))
+        for fd in (1, 2):
+            os.dup2(held.fileno(), fd)
     except (OSError, ValueError):
-        yield
+        for fd, copy in zip((1, 2), saved, strict=False):
+            os.dup2(copy, fd)
+            os.close(copy)
+        held.close()
+        yield _HeldChatter(None)
         return
-    sys.stdout = open(  # closed in the finally below
-        real_fd, "w", buffering=1, encoding=own.encoding, errors=own.errors, closefd=False,
-    )
+    sys.stdout, sys.stderr = (_text_stream(copy, o) for copy, o in zip(saved, own, strict=True))
     try:
-        yield
+        yield _HeldChatter(held)
     finally:
-        sys.stdout.flush()
-        sys.stdout.close()
-        sys.stdout = original
-        _flush_c_stdout()
-        os.dup2(real_fd, 1)
-        os.close(real_fd)
+        for stream in (sys.stdout, sys.stderr):
+            stream.flush()
+            stream.close()
+        sys.stdout, sys.stderr = streams
+        _flush_c_stdio()
+        for fd, copy in zip((1, 2), saved, strict=True):
+            os.dup2(copy, fd)
+            os.close(copy)
+        held.close()
+
+
+def _text_stream(fd: int, like: TextIO | None) -> TextIO:
+    """A line-buffered text stream on ``fd`` with the encoding of ``like``; leaves ``fd`` open."""
+    return open(  # closed by the caller
+        fd, "w", buffering=1, encoding=getattr(like, "encoding", None),
+        errors=getattr(like, "errors", None), closefd=False,
+    )
+
+
+def _show_held(held: _HeldChatter) -> None:
+    """After a failed command, what libraries printed while it ran (it may explain the failure)."""
+    text = held.text()
+    if text:
+        print("petfall-audit: a library reported while the command ran:", file=sys.stderr)
+        for line in text.splitlines():
+            print(f"  {line}", file=sys.stderr)
 
 
 # --- subcommands --------------------------------------------------------------------------------
@@ -351,53 +398,58 @@ def _cmd_report(args: argparse.Namespace) -> int:
 def _cmd_batch(args: argparse.Namespace) -> int:
     """Assess many buildings; one result file each plus a summary CSV. Bad files are listed
     and skipped; the exit code is 2 if any file could not be assessed. Two files with the same
-    name get ``name.json`` and ``name-2.json``; the summary names each result file."""
+    name get ``name.json`` and ``name-2.json``; the summary names each result file. ``--jobs``
+    buildings are assessed at once in separate processes; the results are the same."""
     import csv
     import io
 
+    from petfall_audit.batch import BatchJob, discard, run_all
     from petfall_audit.cautions import CAUTIONS_SHORT
     from petfall_audit.injury import BANDS
     from petfall_audit.io.atomic import atomic_write_text
-    from petfall_audit.io.results_export import assessment_to_csv, assessment_to_dict
-    from petfall_audit.plan import make_plan
-    from petfall_audit.report import write_audit
+    from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
 
     _require_at_least("--budget", args.budget, 0)
+    _require_at_least("--portfolio-budget", args.portfolio_budget, 0)
+    _require_at_least("--jobs", args.jobs, 1)
     _check_sampling(args)
     out_dir = Path(args.out_dir)
     if out_dir.exists() and not out_dir.is_dir():
         raise _refuse(f"--out-dir {out_dir}: is a file, not a folder")
     out_dir.mkdir(parents=True, exist_ok=True)
+    jobs = [
+        BatchJob(index=n, path=name, out_dir=str(out_dir), fmt=args.format,
+                 samples=DEFAULT_SAMPLES if args.samples is None else args.samples,
+                 seed=DEFAULT_SEED if args.seed is None else args.seed, budget=args.budget,
+                 want_options=args.portfolio_budget is not None)
+        for n, name in enumerate(args.files)
+    ]
+    workers = args.jobs if args.jobs is not None else _default_jobs()
+    outcomes = run_all(jobs, workers=workers, progress=_stderr_progress("batch"))
     rows: list[list[object]] = []
+    done = []
     failed = 0
-    taken = {"summary"}  # result names in use (case-insensitive, as on some file systems)
-    for n, name in enumerate(args.files, 1):
-        try:
-            building = _load(name)
-            assessment = _assess(args, building,
-                                 label=f"[{n}/{len(args.files)}] {Path(name).stem}")
-        except _Stop:
-            failed += 1
-            continue
-        stem = _unique_stem(Path(name).stem, taken)
-        result_path = out_dir / f"{stem}.{args.format}"
-        if args.format == "json":
-            atomic_write_text(result_path, _dumps(assessment_to_dict(assessment)))
-        elif args.format == "csv":
-            atomic_write_text(result_path, assessment_to_csv(assessment))
-        plan = make_plan(assessment, args.budget) if args.budget is not None else None
-        if args.format == "pdf":
-            write_audit(assessment, plan, result_path, photo_root=Path(name).parent)
-        counts = [0] * len(BANDS)
-        for result in assessment.openings:
-            counts[result.expected_band] += 1
-        worst = assessment.ranked("risk")[0] if assessment.openings else None
-        rows.append([
-            name, building.info.name, len(building.openings), *counts,
-            worst.id if worst else "", f"{float(assessment.risk.sum()):.0f}",
-            f"{plan.total_cost:.0f}" if plan else "", f"{plan.risk_after:.0f}" if plan else "",
-            result_path.name,
-        ])
+    taken = {"summary", "portfolio-plan", "portfolio"}  # names in use (any case)
+    try:
+        for outcome in outcomes:
+            if outcome.error is not None:
+                print(outcome.error, file=sys.stderr)
+                failed += 1
+                continue
+            stem = _unique_stem(Path(outcome.path).stem, taken)
+            result_path = out_dir / f"{stem}.{args.format}"
+            os.replace(outcome.result_tmp, result_path)
+            done.append((outcome, result_path.name))
+            rows.append([
+                outcome.path, outcome.building_name, outcome.n_openings, *outcome.band_counts,
+                outcome.worst_id, f"{outcome.risk_total:.0f}",
+                f"{outcome.plan_cost:.0f}" if outcome.plan_cost is not None else "",
+                f"{outcome.plan_risk_after:.0f}" if outcome.plan_risk_after is not None else "",
+                result_path.name,
+            ])
+    finally:
+        for outcome in outcomes:
+            discard(outcome.result_tmp)
     buffer = io.StringIO()
     buffer.write(f"# {CAUTIONS_SHORT}\n")
     writer = csv.writer(buffer, lineterminator="\n")
@@ -407,7 +459,44 @@ def _cmd_batch(args: argparse.Namespace) -> int:
     writer.writerows(rows)
     atomic_write_text(out_dir / "summary.csv", buffer.getvalue())
     print(f"assessed {len(rows)} of {len(args.files)} building(s); wrote {out_dir / 'summary.csv'}")
+    if args.portfolio_budget is not None:
+        for path in _write_portfolio(done, args.portfolio_budget, out_dir):
+            print(f"wrote {path}")
     return EXIT_INVALID if failed else EXIT_OK
+
+
+def _write_portfolio(done: Sequence[tuple[BuildingOutcome, str]], budget: float,
+                     out_dir: Path) -> list[Path]:
+    """Plan ``budget`` over every opening of the assessed buildings; write DIR/portfolio-plan.json
+    and the estate summary DIR/portfolio.pdf."""
+    from petfall_audit.figures.budget import budget_grid
+    from petfall_audit.io.atomic import atomic_write_text
+    from petfall_audit.io.portfolio_export import portfolio_to_dict
+    from petfall_audit.portfolio import (
+        EstateBuilding,
+        estate_options,
+        plan_portfolio,
+        portfolio_curve,
+    )
+    from petfall_audit.report.portfolio import write_portfolio_report
+
+    estate = [EstateBuilding(file=o.path, name=o.building_name, result_file=name,
+                             options=o.options or {}, risk_before=o.risk_total)
+              for o, name in done]
+    currency = next((o.currency for o, _ in done if o.currency), "")
+    portfolio = plan_portfolio(estate, budget, currency=currency)
+    plan_path = out_dir / "portfolio-plan.json"
+    atomic_write_text(plan_path, _dumps(portfolio_to_dict(portfolio)))
+    grid = budget_grid(estate_options(estate), n_points=12)
+    budgets, removed = portfolio_curve(estate, sorted({*grid.tolist(), float(budget)}))
+    pdf_path = write_portfolio_report(portfolio, budgets, removed, out_dir / "portfolio.pdf")
+    return [plan_path, pdf_path]
+
+
+def _default_jobs() -> int:
+    from petfall_audit.batch import default_jobs
+
+    return default_jobs()
 
 
 def _unique_stem(stem: str, taken: set[str]) -> str:
@@ -706,6 +795,12 @@ def _build_parser() -> argparse.ArgumentParser:
                    help="result file per building (default: json)")
     p.add_argument("--budget", type=float, default=None, metavar="AMOUNT",
                    help="also plan fixes within AMOUNT per building")
+    p.add_argument("--portfolio-budget", type=float, default=None, metavar="AMOUNT",
+                   help="also plan one budget of AMOUNT over every opening of every building: "
+                        "writes DIR/portfolio-plan.json and the estate summary DIR/portfolio.pdf")
+    p.add_argument("--jobs", type=int, default=None, metavar="N",
+                   help="buildings assessed at once, in separate processes (default: the "
+                        "number of cores, fewer if memory is short)")
     _add_sampling_options(p)
     p.set_defaults(handler=_cmd_batch)
 
@@ -764,11 +859,23 @@ def main(argv: Sequence[str] | None = None) -> int:
         return int(exc.code or 0)
     if args.command is None:
         return _cmd_open(argparse.Namespace(file=None))
+    if args.handler is _cmd_open:
+        return _run(args)
+    with _library_chatter_held() as held:
+        try:
+            code = _run(args)
+        except BaseException:  # an unexpected error: its traceback follows on stderr
+            _show_held(held)
+            raise
+        if code != EXIT_OK:
+            _show_held(held)
+        return code
+
+
+def _run(args: argparse.Namespace) -> int:
+    """The subcommand's exit code; failures reported on stderr in plain words."""
     try:
-        if args.handler is _cmd_open:
-            return int(args.handler(args))
-        with _library_chatter_to_stderr():
-            return int(args.handler(args))
+        return int(args.handler(args))
     except _Stop as stop:
         return stop.code
     except PetfallError as exc:

@@ -16,6 +16,13 @@ best possible, far below the Monte Carlo noise of the risk scores. A very large 
 small budget can make the proof slow (a near-tie knapsack); the solve then stops after
 ``time_limit_s`` with the best plan found and :attr:`Plan.gap` reports its proven gap (0 otherwise).
 
+Large problems (more than :data:`LARGE_PROBLEM` options, e.g. a plan over many buildings): the
+linear relaxation is solved exactly first (the greedy over each opening's upper convex hull of
+cost against risk removed), every opening far from the relaxation's break keeps the relaxation's
+whole choice, and only the :data:`CORE_OPENINGS` openings nearest the break go to the MILP with
+the budget left ("core" method). The relaxation bounds the best possible plan, so the reported
+gap is proven against it (0 when within :data:`MIP_REL_GAP`).
+
 Tie-breaking, deterministic: within one opening, among options that remove the same risk (to a
 relative 1e-9), only the cheapest is kept, and among equally cheap ones the first in the catalogue;
 options that cost more and remove no more risk than another of the same opening are dropped before
@@ -38,6 +45,8 @@ from petfall_audit.risk import Assessment
 
 __all__ = [
     "MIP_REL_GAP",
+    "LARGE_PROBLEM",
+    "CORE_OPENINGS",
     "TIME_LIMIT_S",
     "Plan",
     "make_plan",
@@ -55,6 +64,10 @@ TIME_LIMIT_S = 10.0
 #: Objective scale: the largest single gain becomes this many units, so HiGHS' absolute gap
 #: (1e-6) resolves gains to about 1e-9 of the largest one.
 _OBJECTIVE_SCALE = 1e3
+#: Options above which the core method solves the knapsack (see the module docstring).
+LARGE_PROBLEM = 10_000
+#: Openings left to the MILP by the core method.
+CORE_OPENINGS = 300
 
 
 @dataclass(frozen=True, slots=True)
@@ -122,6 +135,7 @@ def solve_choice_knapsack(
     order: np.ndarray | None = None,
     mip_rel_gap: float = MIP_REL_GAP,
     time_limit_s: float = TIME_LIMIT_S,
+    large_problem: int = LARGE_PROBLEM,
 ) -> tuple[np.ndarray, float]:
     """Choose at most one option per group, total cost within ``budget``, most total gain.
 
@@ -130,7 +144,8 @@ def solve_choice_knapsack(
     are never chosen); ``order`` (k,) tie-break rank within a group (catalogue position; default
     0). Returns a boolean mask (k,) of the chosen options and the proven relative optimality gap
     (0 when optimal to ``mip_rel_gap``). Raises :class:`PlanError` when the solver fails or finds
-    no plan within ``time_limit_s`` seconds.
+    no plan within ``time_limit_s`` seconds. Above ``large_problem`` usable options the core
+    method of the module docstring is used.
     """
     budget = _check_budget(budget)
     group = np.asarray(group, dtype=np.int64)
@@ -160,6 +175,12 @@ def solve_choice_knapsack(
         chosen[usable[top]] = True
         return chosen, 0.0
 
+    if usable.size > large_problem:
+        mask, gap = _solve_with_core(inverse, c, v, order_a[usable], budget_c,
+                                     mip_rel_gap=mip_rel_gap, time_limit_s=time_limit_s)
+        chosen[usable[mask]] = True
+        return chosen, gap
+
     k = usable.size
     one_per_group = coo_array((np.ones(k), (inverse, np.arange(k))), shape=(groups.size, k)).tocsr()
     a = vstack([one_per_group, coo_array(c.astype(float)[None, :])]).tocsr()
@@ -170,7 +191,10 @@ def solve_choice_knapsack(
         integrality=np.ones(k),
         bounds=Bounds(0.0, 1.0),
         constraints=LinearConstraint(a, -np.inf, ub),
-        options={"mip_rel_gap": float(mip_rel_gap), "time_limit": float(time_limit_s)},
+        # disp=False: the solver prints no progress log (the command line also holds back what
+        # compiled libraries print on the terminal, see petfall_audit.cli)
+        options={"disp": False, "mip_rel_gap": float(mip_rel_gap),
+                 "time_limit": float(time_limit_s)},
     )
     if res.status not in (0, 1) or res.x is None:
         raise PlanError(f"the fix plan could not be solved: {res.message}")
@@ -182,6 +206,117 @@ def solve_choice_knapsack(
         )
     chosen[usable[x]] = True
     return chosen, gap
+
+
+def _hull_segments(
+    group: np.ndarray, cost_c: np.ndarray, gain: np.ndarray
+) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+    """The steps of every group's upper convex hull of (cost, gain) from "no option" (0, 0):
+    ``(group, to_option, prev_option or -1, d_cost, d_gain)`` per step, steps of one group in
+    increasing cost. The linear relaxation of the knapsack takes steps by falling efficiency."""
+    order = np.lexsort((-gain, cost_c, group))
+    seg_g: list[int] = []
+    seg_to: list[int] = []
+    seg_from: list[int] = []
+    start = 0
+    n = order.size
+    g_sorted = group[order]
+    bounds = np.flatnonzero(np.diff(g_sorted)) + 1
+    for end in [*bounds.tolist(), n]:  # O(options) once per solve; not a loop over samples
+        hull: list[int] = []  # option indices; the origin is implicit
+        for k in order[start:end].tolist():
+            ck, vk = float(cost_c[k]), float(gain[k])
+            if hull and vk <= float(gain[hull[-1]]):
+                continue  # costs no less, removes no more
+            while hull:
+                c1, v1 = (float(cost_c[hull[-2]]), float(gain[hull[-2]])) if len(hull) > 1 \
+                    else (0.0, 0.0)
+                c2, v2 = float(cost_c[hull[-1]]), float(gain[hull[-1]])
+                # drop the last point when it lies on or below the line from c1 to the new one
+                if (v2 - v1) * (ck - c1) <= (vk - v1) * (c2 - c1):
+                    hull.pop()
+                else:
+                    break
+            hull.append(k)
+        prev = -1
+        for k in hull:
+            seg_g.append(int(group[k]))
+            seg_to.append(k)
+            seg_from.append(prev)
+            prev = k
+        start = end
+    to = np.asarray(seg_to, dtype=np.intp)
+    frm = np.asarray(seg_from, dtype=np.intp)
+    d_cost = cost_c[to].astype(float) - np.where(frm >= 0, cost_c[np.maximum(frm, 0)], 0)
+    d_gain = gain[to] - np.where(frm >= 0, gain[np.maximum(frm, 0)], 0.0)
+    return np.asarray(seg_g, dtype=np.intp), to, frm, d_cost, d_gain
+
+
+def _solve_with_core(
+    group: np.ndarray, cost_c: np.ndarray, gain: np.ndarray, order: np.ndarray, budget_c: int,
+    *, mip_rel_gap: float, time_limit_s: float,
+) -> tuple[np.ndarray, float]:
+    """The core method (module docstring) on ``group`` (0..G-1), ``cost_c`` (whole cents),
+    ``gain`` and ``order``: the chosen mask and the gap proven against the relaxation."""
+    seg_g, seg_to, _, d_cost, d_gain = _hull_segments(group, cost_c, gain)
+    with np.errstate(divide="ignore"):
+        eff = np.where(d_cost > 0, d_gain / np.where(d_cost > 0, d_cost, 1.0), np.inf)
+    steps = np.lexsort((np.arange(eff.size), -eff))
+    spent = np.cumsum(d_cost[steps])
+    n_fit = int(np.searchsorted(spent, budget_c, side="right"))
+    taken = steps[:n_fit]
+    bound = float(d_gain[taken].sum())
+    if n_fit < steps.size:  # the step that does not fit, taken in part by the relaxation
+        brk = steps[n_fit]
+        left = budget_c - (float(spent[n_fit - 1]) if n_fit else 0.0)
+        bound += d_gain[brk] * left / d_cost[brk]
+        brk_eff = float(eff[brk])
+    else:
+        brk_eff = float(eff[steps[-1]])
+    n_groups = int(group.max()) + 1 if group.size else 0
+    greedy = np.full(n_groups, -1, dtype=np.intp)
+    last = taken[np.lexsort((cost_c[seg_to[taken]], seg_g[taken]))]  # by group, then cost
+    ends = np.flatnonzero(np.append(seg_g[last][1:] != seg_g[last][:-1], True))
+    greedy[seg_g[last[ends]]] = seg_to[last[ends]]  # a group's costliest step taken
+    # the openings whose hull steps are nearest the break in efficiency form the core
+    with np.errstate(divide="ignore", invalid="ignore"):
+        distance = np.abs(np.log(eff) - np.log(brk_eff))
+    distance = np.where(np.isfinite(distance), distance, np.inf)
+    near = np.lexsort((np.arange(eff.size), distance))
+    picked: list[int] = []
+    seen: set[int] = set()
+    for gi in seg_g[near].tolist():
+        if gi not in seen:
+            seen.add(gi)
+            picked.append(gi)
+            if len(picked) >= CORE_OPENINGS:
+                break
+    core_groups = np.asarray(sorted(picked), dtype=np.intp)
+    in_core = np.zeros(n_groups, dtype=bool)
+    in_core[core_groups] = True
+    chosen = np.zeros(group.size, dtype=bool)
+    fixed = greedy[(~in_core) & (greedy >= 0)]
+    chosen[fixed] = True
+    left_c = budget_c - int(cost_c[fixed].sum())
+    core = np.flatnonzero(in_core[group])
+    greedy_core = greedy[in_core & (greedy >= 0)]
+    greedy_value = float(gain[fixed].sum() + gain[greedy_core].sum())
+    if bound > 0 and (bound - greedy_value) / bound <= mip_rel_gap:
+        chosen[greedy_core] = True  # the relaxation's choice is already close enough
+    elif core.size and left_c >= 0:
+        # the core needs to close only the estate's gap, not a gap relative to itself
+        core_gain = max(bound - float(gain[fixed].sum()), 1e-300)
+        sub, _ = solve_choice_knapsack(
+            group[core], cost_c[core] / 100.0, gain[core], left_c / 100.0, order=order[core],
+            mip_rel_gap=min(0.5, mip_rel_gap * bound / core_gain), time_limit_s=time_limit_s,
+        )
+        chosen[core[sub]] = True
+        if float(gain[chosen].sum()) < greedy_value:  # never worse than the relaxation's choice
+            chosen[core] = False
+            chosen[greedy_core] = True
+    value = float(gain[chosen].sum())
+    gap = max(0.0, (bound - value) / bound) if bound > 0 else 0.0
+    return chosen, (gap if gap > mip_rel_gap else 0.0)
 
 
 def _flatten(

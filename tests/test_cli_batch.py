@@ -79,21 +79,70 @@ def test_batch_out_dir_that_is_a_file_is_refused(tmp_path: Path,
     assert "not a folder" in capsys.readouterr().err
 
 
-def test_library_chatter_on_descriptor_1_never_reaches_the_commands_output() -> None:
-    """A compiled library printing straight to file descriptor 1 (as some MILP solver builds do)
-    must not corrupt the JSON or CSV a command writes to standard output: it goes to stderr."""
-    import subprocess
-    import sys
+def _result_files(folder: Path) -> dict[str, bytes]:
+    return {p.name: p.read_bytes() for p in sorted(folder.iterdir())}
 
-    code = (
-        "import os\n"
-        "from petfall_audit.cli import _library_chatter_to_stderr\n"
-        "with _library_chatter_to_stderr():\n"
-        "    os.write(1, b'solver chatter\\n')\n"
-        "    print('{\"result\": 1}')\n"
-        "print('after')\n"
-    )
-    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
-                         check=True, cwd=Path(__file__).resolve().parents[1])
-    assert out.stdout == '{"result": 1}\nafter\n'
-    assert "solver chatter" in out.stderr
+
+def test_parallel_jobs_write_the_same_files_and_skip_a_failing_building(
+    tmp_path: Path, capsys: pytest.CaptureFixture[str]
+) -> None:
+    broken = tmp_path / "broken.json"
+    broken.write_text('{"format": "petfall-audit-building", "version": 1}', encoding="utf-8")
+    files = [str(sample_path("walkup")), str(broken), str(sample_path("block")),
+             str(sample_path("tower"))]
+    outputs = {}
+    for jobs in ("1", "2"):
+        out = tmp_path / f"jobs{jobs}"
+        code = main(["batch", *files, "--out-dir", str(out), "--samples", "200",
+                     "--budget", "1500", "--jobs", jobs])
+        assert code == 2  # one building could not be assessed
+        err = capsys.readouterr().err
+        assert "broken.json" in err
+        outputs[jobs] = _result_files(out)
+    assert outputs["1"] == outputs["2"]
+    assert sorted(outputs["1"]) == ["block.json", "summary.csv", "tower.json", "walkup.json"]
+    # no temporary file is left behind
+    assert not any(name.startswith(".") for name in outputs["2"])
+
+
+def test_jobs_must_be_at_least_one(tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
+    assert main(["batch", str(sample_path("walkup")), "--out-dir", str(tmp_path),
+                 "--jobs", "0"]) == 2
+    assert "--jobs must be at least 1" in capsys.readouterr().err
+
+
+def test_a_building_that_fails_while_assessed_is_reported_and_skipped(
+    tmp_path: Path, capsys: pytest.CaptureFixture[str], monkeypatch: pytest.MonkeyPatch
+) -> None:
+    import petfall_audit.risk as risk
+
+    real = risk.assess
+
+    def failing(building, **kw):  # type: ignore[no-untyped-def]
+        if building.info.name == sample_building("block").info.name:
+            raise ValueError("the simulation broke")
+        return real(building, **kw)
+
+    monkeypatch.setattr(risk, "assess", failing)
+    out = tmp_path / "out"
+    code = main(["batch", str(sample_path("block")), str(sample_path("walkup")),
+                 "--out-dir", str(out), "--samples", "100", "--jobs", "1"])
+    assert code == 2
+    assert "block.json: could not be assessed: the simulation broke" in capsys.readouterr().err
+    assert [Path(r["file"]).stem for r in _summary(out)] == ["walkup"]
+    assert sorted(p.name for p in out.iterdir()) == ["summary.csv", "walkup.json"]
+
+
+def test_default_jobs_follow_the_cores_but_fit_in_memory(monkeypatch: pytest.MonkeyPatch) -> None:
+    import os
+
+    import petfall_audit.batch as batch
+
+    monkeypatch.setattr(os, "sched_getaffinity", lambda pid: set(range(64)), raising=False)
+    pages = {"SC_PAGE_SIZE": 4096, "SC_PHYS_PAGES": 4_000_000_000 // 4096}
+    monkeypatch.setattr(os, "sysconf", lambda name: pages[name])
+    assert batch.default_jobs() == 4_000_000_000 // batch.WORKER_MEMORY_BYTES  # 2, not 64
+    pages["SC_PHYS_PAGES"] = 10**15 // 4096
+    assert batch.default_jobs() == 64
+    pages["SC_PHYS_PAGES"] = 1
+    assert batch.default_jobs() == 1

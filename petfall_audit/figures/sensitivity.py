@@ -143,7 +143,7 @@ def sensitivity_figure(assessment: Assessment, *, max_samples: int | None = None
     """The swings of ``assessment``'s top risks (``None`` for a building without openings).
 
     Uses ``assessment.sensitivity`` when it is filled in; otherwise runs the analysis (two
-    simulations of the building per parameter). With ``max_samples`` below the assessment's
+    simulations of the top openings per parameter). With ``max_samples`` below the assessment's
     count, the analysis runs on a fresh assessment with ``max_samples`` cats of the same seed
     (faster; the figure says so). ``cancelled()`` true before the work starts returns ``None``.
     """

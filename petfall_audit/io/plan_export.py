@@ -14,6 +14,7 @@ import textwrap
 from typing import Any
 
 from petfall_audit.cautions import CAUTIONS
+from petfall_audit.fixes import Option
 from petfall_audit.io.results_export import round_significant as _r
 from petfall_audit.plan import Plan
 
@@ -22,6 +23,7 @@ __all__ = [
     "PLAN_VERSION",
     "CSV_COLUMNS",
     "plan_to_dict",
+    "action_to_dict",
     "plan_to_csv",
     "plan_to_table",
 ]
@@ -57,19 +59,22 @@ def plan_to_dict(plan: Plan) -> dict[str, Any]:
         "risk_after": _r(plan.risk_after),
         "risk_removed": _r(plan.risk_removed),
         "gap": plan.gap,
-        "actions": [
-            {
-                "opening": a.opening_id,
-                "control": a.control_id,
-                "control_name": a.control_name,
-                "cost": round(a.cost, 2),
-                "risk_before": _r(a.risk_before),
-                "risk_after": _r(a.risk_after),
-                "conditions": list(a.conditions),
-            }
-            for a in plan.actions
-        ],
+        "actions": [action_to_dict(a) for a in plan.actions],
         "cautions": list(CAUTIONS),
+    }
+
+
+def action_to_dict(a: Option) -> dict[str, Any]:
+    """One action of a plan as a JSON-ready dict: opening, control, control_name, cost (to the
+    cent), risk_before, risk_after (4 significant digits) and conditions."""
+    return {
+        "opening": a.opening_id,
+        "control": a.control_id,
+        "control_name": a.control_name,
+        "cost": round(a.cost, 2),
+        "risk_before": _r(a.risk_before),
+        "risk_after": _r(a.risk_after),
+        "conditions": list(a.conditions),
     }
 
 

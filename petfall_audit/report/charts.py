@@ -32,6 +32,8 @@ __all__ = [
     "SENSITIVITY_LOW_FILL",
     "SENSITIVITY_HIGH_FILL",
     "band_legend",
+    "budget_curve_drawing",
+    "building_bars_drawing",
     "colour",
     "fit_label",
     "label_column_width",
@@ -363,4 +365,84 @@ def sensitivity_drawing(fig: SensitivityFigure, labels: tuple[str, ...],
         d.add(_text(label_w - 6, y + row / 2 - 7, ranges[i], 6, anchor="end", colour_=MUTED))
         d.add(_text(width - 2, y + row / 2 - 2.5, values[i], 7, anchor="end", bold=i == 0))
     d.add(Line(zero, bottom_pad, zero, y_plot_top, strokeColor=INK, strokeWidth=0.7))
+    return d
+
+
+def budget_curve_drawing(budgets: np.ndarray, risk_left: np.ndarray, *, chosen_budget: float,
+                         currency: str, width: float, height: float = 170) -> Drawing:
+    """Risk left (summed risk score) against budget (``currency``), a step line through the
+    solved budgets, with the chosen budget marked by a dashed line."""
+    d = Drawing(width, height)
+    left, bottom, top_pad, right_pad = 52.0, 28.0, 14.0, 10.0
+    w, h = width - left - right_pad, height - bottom - top_pad
+    order = np.argsort(budgets, kind="stable")
+    b, r = np.asarray(budgets, float)[order], np.asarray(risk_left, float)[order]
+    bmax = float(max(b.max(initial=0.0), chosen_budget)) or 1.0
+    rmax = float(r.max(initial=0.0)) or 1.0
+    xs, ys = _nice_step(bmax, 5), _nice_step(rmax, 4)
+    xtop, ytop = math.ceil(bmax / xs) * xs, math.ceil(rmax / ys) * ys
+
+    def x_of(v: float) -> float:
+        return left + v / xtop * w
+
+    def y_of(v: float) -> float:
+        return bottom + v / ytop * h
+
+    for v in np.arange(0, ytop + ys / 2, ys):
+        d.add(Line(left, y_of(v), left + w, y_of(v), strokeColor=RULE, strokeWidth=0.3))
+        d.add(_text(left - 3, y_of(v) - 2.2, f"{v:,.0f}", 6.5, anchor="end", colour_=MUTED))
+    for v in np.arange(0, xtop + xs / 2, xs):
+        d.add(Line(x_of(v), bottom, x_of(v), bottom - 2, strokeColor=INK, strokeWidth=0.4))
+        d.add(_text(x_of(v), bottom - 10, f"{v:,.0f}", 6.5, anchor="middle", colour_=MUTED))
+    d.add(Line(left, bottom, left + w, bottom, strokeColor=INK, strokeWidth=0.6))
+    d.add(Line(left, bottom, left, bottom + h, strokeColor=INK, strokeWidth=0.6))
+    pts: list[float] = []
+    for i, (bi, ri) in enumerate(zip(b.tolist(), r.tolist(), strict=True)):
+        if i:
+            pts += [x_of(bi), pts[-1]]  # risk left only drops when a larger budget is reached
+        pts += [x_of(bi), y_of(ri)]
+    if len(pts) >= 4:
+        d.add(PolyLine(pts, strokeColor=INK, strokeWidth=1.2))
+    if 0 <= chosen_budget <= xtop:
+        marker = Line(x_of(chosen_budget), bottom, x_of(chosen_budget), bottom + h,
+                      strokeColor=MUTED, strokeWidth=0.6)
+        marker.strokeDashArray = [2, 2]
+        d.add(marker)
+        d.add(_text(x_of(chosen_budget) + 2, bottom + h - 8, "this plan", 6, colour_=MUTED))
+    d.add(_text(left + w / 2, 2, f"budget ({currency})".strip(), 7, anchor="middle"))
+    d.add(_text(left - 40, bottom + h + 4, "risk score left in the estate", 7))
+    return d
+
+
+def building_bars_drawing(labels: tuple[str, ...], spend: np.ndarray, removed: np.ndarray, *,
+                          currency: str, width: float) -> Drawing:
+    """Per building (one row each, in the order given) a bar of its spend and a bar of the risk
+    removed there, each on its own scale (left: spend in ``currency``, right: risk score)."""
+    n = len(labels)
+    row, top_pad, bottom_pad = 16.0, 16.0, 10.0
+    label_w = min(max([_width(t, 7) for t in labels] + [40.0]) + 8, 0.3 * width)
+    gap = 16.0
+    half = (width - label_w - gap) / 2
+    h = n * row + top_pad + bottom_pad
+    d = Drawing(width, h)
+    smax = float(np.max(spend, initial=0.0)) or 1.0
+    rmax = float(np.max(removed, initial=0.0)) or 1.0
+    x_spend, x_risk = label_w, label_w + half + gap
+    d.add(_text(x_spend, h - 9, f"spend ({currency})".strip(), 7, bold=True))
+    d.add(_text(x_risk, h - 9, "risk score removed", 7, bold=True))
+    for i, label in enumerate(labels):
+        y = bottom_pad + (n - 1 - i) * row
+        bar_h = row * 0.55
+        y0 = y + (row - bar_h) / 2
+        d.add(_text(label_w - 6, y + row / 2 - 2.5, label, 7, anchor="end"))
+        for x0, value, top, text, fill in (
+            (x_spend, float(spend[i]), smax, f"{float(spend[i]):,.0f}", SENSITIVITY_LOW_FILL),
+            (x_risk, float(removed[i]), rmax, f"{float(removed[i]):,.0f}",
+             SENSITIVITY_HIGH_FILL),
+        ):
+            bar_w = max(value / top * (half - 40), 0.6 if value > 0 else 0.0)
+            if bar_w > 0:
+                d.add(Rect(x0, y0, bar_w, bar_h, fillColor=colour(fill), strokeColor=INK,
+                           strokeWidth=0.35))
+            d.add(_text(x0 + bar_w + 3, y + row / 2 - 2.5, text, 6.5, colour_=MUTED))
     return d

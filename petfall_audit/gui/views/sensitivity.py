@@ -1,10 +1,10 @@
 """Cat assumptions: how much the building's top risks move when one parameter of the cat
 profile is set low and then high (the audit report's "How much the result depends on the cat").
 
-The analysis simulates the building 14 more times, so it runs in the background and only on
-full results (never on the quick ones shown while editing), a short pause after they arrive and
-once the other views' background work is done; on a large building it waits until the tab is
-shown. Bars in % of the top openings' summed risk.
+The analysis simulates the top openings (and what lies below them) up to 14 more times, so it
+runs in the background and only on full results (never on the quick ones shown while editing),
+a short pause after they arrive and once the other views' background work is done; on a large
+building it waits until the tab is shown. Bars in % of the top openings' summed risk.
 """
 
 from __future__ import annotations
@@ -179,8 +179,8 @@ class SensitivityView(QWidget):
             self.task.cancel()
         self._generation[0] += 1
         gen, counter = self._generation[0], self._generation
-        self.note.setText(f"Testing the cat assumptions: {len(assessment.openings)} openings "
-                          "simulated 14 more times…")
+        self.note.setText("Testing the cat assumptions: the highest-risk openings simulated "
+                          "up to 14 more times…")
         self._set_stale(True)
         task = run_task(lambda: compute_sensitivity(assessment, lambda: counter[0] == gen),
                         parent=self)

@@ -1,0 +1,255 @@
+"""Assess many buildings, one after another or in parallel processes (the ``batch`` command).
+
+Each building is one :class:`BatchJob`; :func:`run_one` loads, assesses (and plans) it and
+writes its result file under a temporary name in the output folder; :func:`run_all` runs the
+jobs in ``jobs`` worker processes and returns the outcomes in input order, so the results do
+not depend on how many processes ran them. A building that fails is reported in plain words
+and skipped; the others go on. The caller gives each result its final name.
+"""
+
+from __future__ import annotations
+
+import json
+import os
+from collections.abc import Callable, Sequence
+from concurrent.futures import Future, ProcessPoolExecutor, as_completed
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:
+    from petfall_audit.errors import PetfallError
+    from petfall_audit.fixes import Option
+    from petfall_audit.model import Building
+
+__all__ = ["BatchJob", "BuildingOutcome", "default_jobs", "describe_problems", "json_text",
+           "run_one", "run_all", "discard"]
+
+
+@dataclass(frozen=True, slots=True)
+class BatchJob:
+    """One building of a batch: ``path`` its file, results of format ``fmt`` ("json", "csv" or
+    "pdf") go to ``out_dir``; ``budget`` (catalogue currency) plans it alone; ``want_options``
+    returns its fix options (for a plan over several buildings)."""
+
+    index: int
+    path: str
+    out_dir: str
+    fmt: str
+    samples: int
+    seed: int
+    budget: float | None = None
+    want_options: bool = False
+
+
+@dataclass(frozen=True, slots=True)
+class BuildingOutcome:
+    """What one job produced. ``error``: why it failed, in plain words (``None`` on success);
+    ``result_tmp``: the temporary file holding the result; ``band_counts``: openings per
+    expected band, mildest first; ``risk_total``: summed risk score; ``plan_cost`` and
+    ``plan_risk_after``: its own plan (``None`` without a budget); ``options``: per opening id
+    its fix options (when asked for), ``currency`` theirs."""
+
+    index: int
+    path: str
+    error: str | None = None
+    building_name: str = ""
+    n_openings: int = 0
+    band_counts: tuple[int, ...] = ()
+    worst_id: str = ""
+    risk_total: float = 0.0
+    plan_cost: float | None = None
+    plan_risk_after: float | None = None
+    result_tmp: str = ""
+    options: dict[str, list[Option]] | None = field(default=None)
+    currency: str = ""
+
+
+#: Memory one worker may need at most (bytes): the largest assessment (about 0.6 GB, see
+#: :data:`petfall_audit.risk.MAX_FALLS`) with its report and temporaries.
+WORKER_MEMORY_BYTES = 1_500_000_000
+
+
+def default_jobs() -> int:
+    """The number of cores this process may use, but no more workers than the machine's memory
+    holds at :data:`WORKER_MEMORY_BYTES` each (at least 1)."""
+    try:
+        cores = len(os.sched_getaffinity(0))
+    except AttributeError:  # not on every platform
+        cores = os.cpu_count() or 1
+    try:
+        memory = os.sysconf("SC_PAGE_SIZE") * os.sysconf("SC_PHYS_PAGES")
+    except (AttributeError, ValueError, OSError):  # not on every platform
+        memory = 0
+    fit = memory // WORKER_MEMORY_BYTES if memory > 0 else cores
+    return max(1, min(cores, fit))
+
+
+def json_text(doc: object) -> str:
+    """``doc`` as indented JSON text (UTF-8 characters kept), ending with a newline."""
+    return json.dumps(doc, indent=2, ensure_ascii=False) + "\n"
+
+
+def describe_problems(exc: PetfallError, path: str) -> str:
+    """The problems of a file that could not be used, one a line, for stderr."""
+    from petfall_audit.errors import CatalogueError, ValidationFailed
+
+    problems = getattr(exc, "problems", None)
+    if isinstance(exc, ValidationFailed | CatalogueError) and problems:
+        return "\n".join([f"{path}: {len(problems)} problem(s):",
+                          *(f"  {problem}" for problem in problems)])
+    return f"{path}: {exc}"
+
+
+def _too_many_samples(samples: int, n_open: int) -> str | None:
+    from petfall_audit.risk import MAX_FALLS, max_samples
+
+    most = max_samples(n_open)
+    if samples <= most:
+        return None
+    return (f"--samples {samples} is too many for {n_open} opening(s): at most {MAX_FALLS:,} "
+            f"simulated falls fit in memory at once; use --samples {most} or fewer")
+
+
+def run_one(job: BatchJob) -> BuildingOutcome:
+    """Load, assess and (with a budget) plan one building; write its result file under a
+    temporary name in ``job.out_dir``. Never raises for a problem of the building: the outcome
+    says what went wrong."""
+    from petfall_audit.errors import BuildingFileError, PetfallError
+
+    written: list[str] = []
+    try:
+        from petfall_audit.io.building_file import load_building
+
+        try:
+            building = load_building(Path(job.path))
+        except BuildingFileError as exc:
+            return BuildingOutcome(job.index, job.path, error=describe_problems(exc, job.path))
+        too_many = _too_many_samples(job.samples, len(building.openings))
+        if too_many:
+            return BuildingOutcome(job.index, job.path, error=f"{job.path}: {too_many}")
+        return _assess_and_write(job, building, written)
+    except PetfallError as exc:
+        error = f"{job.path}: {exc}"
+    except (ValueError, OSError, MemoryError) as exc:
+        error = f"{job.path}: could not be assessed: {exc}"
+    except Exception as exc:  # a fault of ours: report it and let the other buildings go on
+        error = f"{job.path}: could not be assessed ({type(exc).__name__}: {exc})"
+    for path in written:
+        discard(path)
+    return BuildingOutcome(job.index, job.path, error=error)
+
+
+def _assess_and_write(job: BatchJob, building: Building, written: list[str]) -> BuildingOutcome:
+    """The work of :func:`run_one` once the building is loaded; the temporary result file is
+    added to ``written`` as soon as it exists."""
+    import tempfile
+
+    from petfall_audit.fixes import load_catalogue, opening_options
+    from petfall_audit.injury import BANDS
+    from petfall_audit.io.atomic import atomic_write_text
+    from petfall_audit.io.results_export import assessment_to_csv, assessment_to_dict
+    from petfall_audit.plan import make_plan
+    from petfall_audit.risk import assess
+
+    assessment = assess(building, samples=job.samples, seed=job.seed)
+    catalogue = load_catalogue() if job.budget is not None or job.want_options else None
+    options = opening_options(assessment, catalogue) if catalogue is not None else None
+    plan = (make_plan(assessment, job.budget, catalogue=catalogue, options=options)
+            if job.budget is not None else None)
+    fd, tmp = tempfile.mkstemp(dir=job.out_dir, prefix=".partial-", suffix=f".{job.fmt}")
+    os.close(fd)
+    written.append(tmp)
+    if job.fmt == "json":
+        atomic_write_text(tmp, json_text(assessment_to_dict(assessment)))
+    elif job.fmt == "csv":
+        atomic_write_text(tmp, assessment_to_csv(assessment))
+    else:
+        from petfall_audit.report import write_audit
+
+        write_audit(assessment, plan, tmp, photo_root=Path(job.path).parent)
+    counts = [0] * len(BANDS)
+    for result in assessment.openings:
+        counts[result.expected_band] += 1
+    worst = assessment.ranked("risk")[0] if assessment.openings else None
+    return BuildingOutcome(
+        index=job.index,
+        path=job.path,
+        building_name=building.info.name,
+        n_openings=len(building.openings),
+        band_counts=tuple(counts),
+        worst_id=worst.id if worst else "",
+        risk_total=float(assessment.risk.sum()),
+        plan_cost=plan.total_cost if plan else None,
+        plan_risk_after=plan.risk_after if plan else None,
+        result_tmp=tmp,
+        options=options if job.want_options else None,
+        currency=catalogue.currency if catalogue is not None else "",
+    )
+
+
+def discard(path: str) -> None:
+    """Remove a temporary result file if it is still there."""
+    if path:
+        try:
+            os.remove(path)
+        except FileNotFoundError:
+            pass
+
+
+def run_all(
+    jobs: Sequence[BatchJob],
+    *,
+    workers: int = 1,
+    progress: Callable[[int, int], None] | None = None,
+) -> list[BuildingOutcome]:
+    """Every job's outcome, in the order of ``jobs``. ``workers`` > 1 runs them in that many
+    processes (fresh interpreters, the same on every platform); ``progress(done, total)`` is
+    called as buildings finish. On an interruption, the temporary files written so far are
+    removed."""
+    total = len(jobs)
+    outcomes: dict[int, BuildingOutcome] = {}
+    if progress is not None:
+        progress(0, total)
+    try:
+        if workers <= 1 or total <= 1:
+            for job in jobs:
+                outcomes[job.index] = run_one(job)
+                if progress is not None:
+                    progress(len(outcomes), total)
+        else:
+            _run_parallel(jobs, min(workers, total), outcomes, progress)
+    except BaseException:
+        for outcome in outcomes.values():
+            discard(outcome.result_tmp)
+        raise
+    return [outcomes[job.index] for job in jobs]
+
+
+def _run_parallel(jobs: Sequence[BatchJob], workers: int, outcomes: dict[int, BuildingOutcome],
+                  progress: Callable[[int, int], None] | None) -> None:
+    import multiprocessing
+
+    context = multiprocessing.get_context("spawn")
+    with ProcessPoolExecutor(max_workers=workers, mp_context=context) as pool:
+        futures: dict[Future[BuildingOutcome], BatchJob] = {
+            pool.submit(run_one, job): job for job in jobs
+        }
+        try:
+            for future in as_completed(futures):
+                job = futures[future]
+                try:
+                    outcomes[job.index] = future.result()
+                except Exception as exc:  # the worker process itself stopped
+                    outcomes[job.index] = BuildingOutcome(
+                        job.index, job.path,
+                        error=f"{job.path}: could not be assessed: the worker process stopped "
+                              f"({type(exc).__name__}: {exc})")
+                if progress is not None:
+                    progress(len(outcomes), len(jobs))
+        except BaseException:
+            pool.shutdown(wait=True, cancel_futures=True)
+            for future in futures:
+                if future.done() and not future.cancelled() and future.exception() is None:
+                    discard(future.result().result_tmp)
+            raise

@@ -1,0 +1,117 @@
+"""One budget over many buildings (petfall_audit.portfolio, plan's core method, batch
+--portfolio-budget)."""
+
+from __future__ import annotations
+
+import json
+from pathlib import Path
+
+import numpy as np
+import pytest
+from scipy.optimize import Bounds, LinearConstraint, milp
+
+import petfall_audit.plan as plan_module
+from petfall_audit._resources import sample_path
+from petfall_audit.cli import main
+from petfall_audit.demo import sample_building
+from petfall_audit.fixes import load_catalogue, opening_options
+from petfall_audit.plan import solve_choice_knapsack
+from petfall_audit.portfolio import EstateBuilding, equal_share_plans, plan_portfolio
+from petfall_audit.risk import assess
+
+
+@pytest.fixture(scope="module")
+def estate() -> list[EstateBuilding]:
+    catalogue = load_catalogue()
+    out = []
+    for name in ("walkup", "block", "tower"):
+        a = assess(sample_building(name), samples=300, seed=1)
+        out.append(EstateBuilding(file=f"{name}.json", name=a.building.info.name,
+                                  result_file=f"{name}.json",
+                                  options=opening_options(a, catalogue),
+                                  risk_before=float(a.risk.sum())))
+    return out
+
+
+@pytest.mark.parametrize("budget", [0.0, 150.0, 1_000.0, 4_000.0, 15_000.0, 60_000.0, 1e6])
+def test_one_budget_removes_at_least_equal_shares_and_stays_within_it(
+    estate: list[EstateBuilding], budget: float
+) -> None:
+    currency = load_catalogue().currency
+    portfolio = plan_portfolio(estate, budget, currency=currency)
+    alone = equal_share_plans(estate, budget, currency=currency)
+    # the equal-share plans together are one feasible plan for the whole budget, so the best
+    # plan over the estate removes at least as much (knapsack optimality; both solved to a
+    # relative gap of 1e-6)
+    assert portfolio.risk_removed >= sum(p.risk_removed for p in alone) * (1 - 2e-6) - 1e-9
+    assert portfolio.total_cost <= budget + 1e-9
+    assert sum(b.cost for b in portfolio.buildings) == pytest.approx(portfolio.total_cost)
+    assert sum(b.risk_removed for b in portfolio.buildings) == pytest.approx(
+        portfolio.risk_removed)
+    for share, building in zip(portfolio.buildings, estate, strict=True):
+        treated = [a.opening_id for a in share.actions]
+        assert len(treated) == len(set(treated))  # at most one control per opening
+        assert set(treated) <= set(building.options)
+
+
+def _exact(group: np.ndarray, cost: np.ndarray, gain: np.ndarray, budget: float) -> float:
+    """The best total gain, written straight as a scipy milp (the general-purpose reference)."""
+    groups = np.unique(group)
+    rows = (group[None, :] == groups[:, None]).astype(float)
+    a = np.vstack([rows, cost[None, :]])
+    ub = np.concatenate([np.ones(groups.size), [budget]])
+    res = milp(-gain, integrality=np.ones(gain.size), bounds=Bounds(0, 1),
+               constraints=LinearConstraint(a, -np.inf, ub), options={"mip_rel_gap": 1e-9})
+    assert res.status == 0
+    return float(-res.fun)
+
+
+@pytest.mark.parametrize("seed", [0, 1, 2])
+def test_the_core_method_is_within_its_reported_gap_of_the_best(
+    seed: int, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    rng = np.random.default_rng(seed)
+    n_groups, per = 120, 4
+    group = np.repeat(np.arange(n_groups), per)
+    cost = np.round(rng.uniform(5, 400, group.size), 2)
+    gain = np.round(cost * rng.uniform(0.2, 3.0, group.size) + rng.uniform(0, 50, group.size), 3)
+    budget = float(cost.reshape(n_groups, per).min(axis=1).sum() * 0.6)
+    monkeypatch.setattr(plan_module, "CORE_OPENINGS", 15)  # most openings fixed by the LP
+    chosen, gap = solve_choice_knapsack(group, cost, gain, budget, large_problem=10)
+    best = _exact(group, cost, gain, budget)
+    value = float(gain[chosen].sum())
+    assert float(np.round(cost[chosen] * 100).sum()) <= round(budget * 100)
+    assert np.bincount(group[chosen], minlength=n_groups).max() <= 1
+    assert value <= best * (1 + 1e-9)
+    assert (best - value) / best <= max(gap, 1e-6) + 1e-9
+    exact_chosen, exact_gap = solve_choice_knapsack(group, cost, gain, budget)
+    assert exact_gap == 0.0
+    assert float(gain[exact_chosen].sum()) == pytest.approx(best, rel=1e-6)
+
+
+def test_batch_writes_the_estate_plan_and_summary(tmp_path: Path) -> None:
+    files = [str(sample_path(n)) for n in ("walkup", "block", "tower")]
+    out = tmp_path / "out"
+    code = main(["batch", *files, "--out-dir", str(out), "--samples", "300",
+                 "--portfolio-budget", "5000", "--jobs", "1"])
+    assert code == 0
+    doc = json.loads((out / "portfolio-plan.json").read_text("utf-8"))
+    assert doc["format"] == "petfall-audit-portfolio-plan"
+    assert doc["total_cost"] <= 5000
+    assert doc["risk_after"] < doc["risk_before"]
+    assert [Path(b["file"]).stem for b in doc["buildings"]] == ["walkup", "block", "tower"]
+    assert sum(b["cost"] for b in doc["buildings"]) == pytest.approx(doc["total_cost"], abs=0.05)
+    assert all({"actions", "cost", "risk_before", "risk_after"} <= set(b)
+               for b in doc["buildings"])
+    assert doc["cautions"]
+    pdf = (out / "portfolio.pdf").read_bytes()
+    assert pdf.startswith(b"%PDF") and len(pdf) > 5000
+    summary = (out / "summary.csv").read_text("utf-8")
+    assert "portfolio" not in summary  # the estate files are not building results
+
+
+def test_portfolio_budget_must_not_be_negative(tmp_path: Path,
+                                               capsys: pytest.CaptureFixture[str]) -> None:
+    assert main(["batch", str(sample_path("walkup")), "--out-dir", str(tmp_path),
+                 "--portfolio-budget", "-1"]) == 2
+    assert "--portfolio-budget must be at least 0" in capsys.readouterr().err
