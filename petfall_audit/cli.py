@@ -330,12 +330,12 @@ def _cmd_batch(args: argparse.Namespace) -> int:
     """Assess many buildings; one result file each plus a summary CSV. Bad files are listed
     and skipped; the exit code is 2 if any file could not be assessed. Two files with the same
     name get ``name.json`` and ``name-2.json``; the summary names each result file."""
-    import csv
     import io
 
     from petfall_audit.cautions import CAUTIONS_SHORT
     from petfall_audit.injury import BANDS
     from petfall_audit.io.atomic import atomic_write_text
+    from petfall_audit.io.csv_safe import csv_writer
     from petfall_audit.io.results_export import assessment_to_csv, assessment_to_dict
     from petfall_audit.plan import make_plan
     from petfall_audit.report import write_audit
@@ -378,7 +378,7 @@ def _cmd_batch(args: argparse.Namespace) -> int:
         ])
     buffer = io.StringIO()
     buffer.write(f"# {CAUTIONS_SHORT}\n")
-    writer = csv.writer(buffer, lineterminator="\n")
+    writer = csv_writer(buffer)
     writer.writerow(["file", "building", "openings", *(f"expected_{b}" for b in BANDS),
                      "highest_risk_opening", "risk_total", "plan_cost", "risk_after_plan",
                      "result_file"])
