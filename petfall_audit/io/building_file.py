@@ -44,6 +44,7 @@ from petfall_audit.io._schema import (
 )
 from petfall_audit.io.atomic import atomic_write_text
 from petfall_audit.io.migrations import migrate
+from petfall_audit.io.photos import photo_problem
 from petfall_audit.model import (
     CAT_PRESETS,
     Building,
@@ -128,7 +129,17 @@ def load_building(path: str | Path) -> Building:
     except ValueError as exc:  # e.g. an integer with thousands of digits
         raise FileFormatError(f"not valid JSON: {exc}") from exc
     early = _duplicate_key_problems(doc, duplicates) if duplicates else []
-    return _parse(doc, early)
+    building = _parse(doc, early)
+    folder = Path(path).parent
+    refused = [
+        Problem(f"openings[{i}].photos[{k}]", f"photo {describe(photo)} refused: {why}")
+        for i, o in enumerate(building.openings)
+        for k, photo in enumerate(o.photos)
+        if (why := photo_problem(folder, photo)) is not None
+    ]
+    if refused:
+        raise ValidationFailed(refused)
+    return building
 
 
 def building_to_dict(building: Building) -> dict[str, object]:
