@@ -184,11 +184,46 @@ def validate_building(building: Building) -> list[Problem]:
 # --- parsing ---------------------------------------------------------------------------------
 
 
+_SURROGATE = re.compile("[\ud800-\udfff]")
+_MAX_SURROGATE_PROBLEMS = 20
+
+
+def _surrogate_problems(doc: object) -> list[Problem]:
+    """Every text (value or field name) in ``doc`` holding a lone surrogate (``"\\ud800"`` in
+    JSON): not a character, it cannot be printed, saved or exported, so it is refused with its
+    place. At most :data:`_MAX_SURROGATE_PROBLEMS` are listed."""
+    problems: list[Problem] = []
+    stack: list[tuple[object, tuple[Any, ...]]] = [(doc, ())]
+    while stack and len(problems) < _MAX_SURROGATE_PROBLEMS:
+        value, loc = stack.pop()
+        if isinstance(value, str):
+            m = _SURROGATE.search(value)
+            if m:
+                problems.append(Problem(
+                    _where(loc) or "(document)",
+                    f"text holds an invalid character (a lone surrogate, \\u{ord(m.group()):04x}, "
+                    f"at character {m.start() + 1}): replace it"))
+        elif isinstance(value, dict):
+            for key, item in reversed(list(value.items())):
+                if isinstance(key, str) and _SURROGATE.search(key):
+                    problems.append(Problem(
+                        _where(loc) or "(document)",
+                        "a field name holds an invalid character (a lone surrogate): replace it"))
+                    continue
+                stack.append((item, (*loc, key)))
+        elif isinstance(value, list):
+            stack.extend((item, (*loc, i)) for i, item in reversed(list(enumerate(value))))
+    return problems
+
+
 def _parse(doc: object, early: list[Problem]) -> Building:
     if not isinstance(doc, dict):
         raise FileFormatError(
             f"not a building file: expected a JSON object at the top, got {describe(doc)}"
         )
+    bad_text = _surrogate_problems(doc)
+    if bad_text:
+        raise ValidationFailed([*early, *bad_text])
     if "format" not in doc:
         raise FileFormatError(f'not a building file: "format" is missing (expected "{FORMAT}")')
     if doc["format"] != FORMAT:
