@@ -414,6 +414,8 @@ def _cmd_import(args: argparse.Namespace) -> int:
 
     building = _load(args.into)
     table = read_table(Path(args.schedule))
+    for note in table.notes:
+        print(f"{args.schedule}: {note}", file=sys.stderr)
     mapping = guess_mapping(table.headers)
     units = header_units(table.headers)
     if args.map:
