@@ -551,6 +551,9 @@ def _pydantic_problems(exc: ValidationError) -> list[Problem]:
             message = "must not be empty"
         elif kind == "string_too_long":
             message = f"must be at most {ctx.get('max_length')} characters long"
+        elif kind == "too_long":
+            message = (f"at most {ctx.get('max_length')} items allowed, "
+                       f"got {ctx.get('actual_length')}")
         elif kind == "string_pattern_mismatch":
             message = "expected a date written YYYY-MM-DD (or empty)" + got
         elif kind in ("distribution", "cat_profile"):
