@@ -32,6 +32,8 @@ __all__ = [
 from collections.abc import Sequence
 from dataclasses import dataclass
 
+from petfall_audit.safe_text import MAX_MESSAGE_CHARS, cut
+
 
 @dataclass(frozen=True, slots=True)
 class Problem:
@@ -39,6 +41,11 @@ class Problem:
 
     where: str
     message: str
+
+    def __post_init__(self) -> None:
+        # a message never grows with the value it is about (long values are cut)
+        object.__setattr__(self, "where", cut(self.where, 200))
+        object.__setattr__(self, "message", cut(self.message, MAX_MESSAGE_CHARS))
 
     def __str__(self) -> str:
         return f"{self.where}: {self.message}" if self.where else self.message

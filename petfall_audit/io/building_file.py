@@ -44,7 +44,7 @@ from petfall_audit.io._schema import (
 )
 from petfall_audit.io.atomic import atomic_write_text
 from petfall_audit.io.migrations import migrate
-from petfall_audit.io.photos import photo_problem
+from petfall_audit.io.photos import photo_problem, read_regular_file
 from petfall_audit.model import (
     CAT_PRESETS,
     Building,
@@ -75,7 +75,12 @@ __all__ = [
     "dumps_building",
     "save_building",
     "validate_building",
+    "MAX_FILE_BYTES",
 ]
+
+#: Largest building file read (bytes): 64 MiB, ten times a 200-storey tower with 50 openings on
+#: every floor.
+MAX_FILE_BYTES = 64 * 2**20
 
 _SECTIONS = ("building", "floors", "facades", "surfaces", "openings", "cat_profile")
 _LIST_SECTIONS: dict[str, type[BaseModel]] = {
@@ -105,7 +110,7 @@ def load_building(path: str | Path) -> Building:
     (placed at its line and column) and for every problem in the building.
     """
     try:
-        data = Path(path).read_bytes()
+        data = read_regular_file(Path(path), max_bytes=MAX_FILE_BYTES)
     except OSError as exc:
         raise FileFormatError(f"cannot read the file: {exc.strerror or exc}") from exc
     try:

@@ -50,6 +50,7 @@ from petfall_audit.model import (
     OpeningKind,
     Screen,
 )
+from petfall_audit.safe_text import MAX_MESSAGE_CHARS, cut
 from petfall_audit.units import parse_gap_mm, parse_length_m
 
 __all__ = [
@@ -937,6 +938,11 @@ class ImportProblem:
     column: str
     message: str
     letter: str = ""
+
+    def __post_init__(self) -> None:
+        # a message never grows with the cell it is about (long values are cut)
+        object.__setattr__(self, "column", cut(self.column))
+        object.__setattr__(self, "message", cut(self.message, MAX_MESSAGE_CHARS))
 
     def __str__(self) -> str:
         where = f"row {self.row}" if self.row else "file"
