@@ -26,7 +26,19 @@ HOSTILE = ["=HYPERLINK(\"http://example.invalid\")", "+1+cmd", "-2+3", "@SUM(A1)
 
 @pytest.mark.parametrize("text", HOSTILE)
 def test_formula_starts_get_an_apostrophe(text: str) -> None:
-    assert safe_cell(text) == "'" + text
+    assert safe_cell(text) == "'" + text.replace("\r", "\n")
+
+
+def test_a_carriage_return_never_starts_a_new_row_with_a_formula() -> None:
+    """RFC 4180 §2: a field holding a line break must be quoted; the csv module quotes only the
+    characters of its own line terminator, so a bare CR would end the row in a spreadsheet."""
+    from petfall_audit.io.csv_safe import csv_writer
+
+    buf = io.StringIO()
+    csv_writer(buf).writerow(["a\r=1+1", "b"])
+    rows = list(csv.reader(io.StringIO(buf.getvalue(), newline="")))
+    assert rows == [["a\n=1+1", "b"]]
+    assert "\r" not in buf.getvalue()
 
 
 @pytest.mark.parametrize("value", [-0.5, 3, "-0.5", "+3", "1e-3", "-1.5E+3", "plain", "", "a=b"])
@@ -44,8 +56,10 @@ def _hostile_building() -> object:
 
 
 def _cells(text: str) -> list[str]:
-    rows = csv.reader(io.StringIO("\n".join(
-        line for line in text.splitlines() if not line.startswith("#"))))
+    lines = text.split("\n")
+    while lines and lines[0].startswith("#"):
+        lines.pop(0)
+    rows = csv.reader(io.StringIO("\n".join(lines), newline=""))
     return [cell for row in rows for cell in row]
 
 

@@ -7,6 +7,8 @@ come from the user's files, so every CSV this tool writes passes each cell throu
 (``'=1+1``), which spreadsheet programs show as text and never evaluate (the neutralisation
 recommended by the OWASP "CSV Injection" page). Numbers stay numbers: an ``int`` or ``float``
 and a text that is a plain decimal number (``-0.5``, ``+3``, ``1e-3``) are written unchanged.
+Line breaks inside a cell are written as ``\n`` so that the cell is quoted: a bare carriage
+return would otherwise end the row in a spreadsheet program and start the next with a formula.
 
 Every CSV writer of the package calls :func:`csv_writer` (or :func:`safe_row`); there is no
 other way out.
@@ -22,7 +24,7 @@ from typing import IO, Any, Protocol
 __all__ = ["FORMULA_STARTS", "safe_cell", "safe_row", "csv_writer", "SafeWriter"]
 
 #: First characters that make a spreadsheet read a cell as a formula.
-FORMULA_STARTS: tuple[str, ...] = ("=", "+", "-", "@", "\t", "\r")
+FORMULA_STARTS: tuple[str, ...] = ("=", "+", "-", "@", "\t", "\r", "\n")
 
 _NUMBER = re.compile(r"[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?")
 
@@ -32,6 +34,11 @@ def safe_cell(value: object) -> object:
     gets a leading apostrophe; numbers (and text that is a plain number) are left alone."""
     if isinstance(value, bool) or not isinstance(value, str):
         return value
+    # A lone carriage return is not quoted by the csv module (only the line terminator's
+    # characters are) and spreadsheet programs read it as the end of a row: a cell
+    # "\r=1" would start a new row with a formula. Line breaks inside a cell become "\n",
+    # which is quoted.
+    value = value.replace("\r\n", "\n").replace("\r", "\n")
     if value.startswith(FORMULA_STARTS) and not _NUMBER.fullmatch(value):
         return "'" + value
     return value
