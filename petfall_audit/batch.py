@@ -65,8 +65,8 @@ class BuildingOutcome:
     currency: str = ""
 
 
-#: Memory one worker may need at most (bytes): the largest assessment (about 0.6 GB, see
-#: :data:`petfall_audit.risk.MAX_FALLS`) with its report and temporaries.
+#: Memory one worker may need at most (bytes): an assessment that keeps its falls (about 0.2 GB,
+#: see :data:`petfall_audit.risk.KEEP_FALLS_MAX`) with its report and temporaries.
 WORKER_MEMORY_BYTES = 1_500_000_000
 
 
@@ -102,13 +102,13 @@ def describe_problems(exc: PetfallError, path: str) -> str:
 
 
 def _too_many_samples(samples: int, n_open: int) -> str | None:
-    from petfall_audit.risk import MAX_FALLS, max_samples
+    """Why ``samples`` cannot be assessed, or ``None``: only the number of sampled cats is
+    limited (a building of any size is summarised block by block)."""
+    from petfall_audit.risk import MAX_SAMPLES
 
-    most = max_samples(n_open)
-    if samples <= most:
+    if samples <= MAX_SAMPLES:
         return None
-    return (f"--samples {samples} is too many for {n_open} opening(s): at most {MAX_FALLS:,} "
-            f"simulated falls fit in memory at once; use --samples {most} or fewer")
+    return f"--samples {samples} is too many: at most {MAX_SAMPLES:,} simulated cats per opening"
 
 
 def run_one(job: BatchJob) -> BuildingOutcome:

@@ -48,6 +48,15 @@ class _Stop(Exception):
 # --- shared pieces of the subcommands -----------------------------------------------------------
 
 
+def _say(*values: object, file: TextIO | None = None, end: str = "\n") -> None:
+    """``print`` for messages: names and ids from user files may hold control characters (an
+    ANSI escape sequence would act on the terminal), so they are shown as visible escapes."""
+    from petfall_audit.safe_text import terminal_safe
+
+    stream = file if file is not None else sys.stdout
+    stream.write(terminal_safe(" ".join(str(v) for v in values)) + end)
+
+
 def _stderr_progress(label: str) -> Callable[[int, int], None]:
     """A ``progress(done, total)`` callback that draws a one-line bar on stderr when it is a tty."""
     tty = sys.stderr.isatty()
@@ -68,11 +77,11 @@ def _stderr_progress(label: str) -> Callable[[int, int], None]:
 def _print_problems(exc: PetfallError, path: str) -> None:
     from petfall_audit.batch import describe_problems
 
-    print(describe_problems(exc, path), file=sys.stderr)
+    _say(describe_problems(exc, path), file=sys.stderr)
 
 
 def _refuse(message: str) -> _Stop:
-    print(f"petfall-audit: {message}", file=sys.stderr)
+    _say(f"petfall-audit: {message}", file=sys.stderr)
     return _Stop(EXIT_INVALID)
 
 
@@ -146,15 +155,19 @@ def _check_sampling(args: argparse.Namespace, building: Building | None = None) 
                       "cats per opening")
 
 
-def _emit(text: str, output: str | None) -> None:
-    """Write ``text`` atomically to ``output``, or to standard output."""
+def _emit(text: str, output: str | None, *, table: bool = False) -> None:
+    """Write ``text`` atomically to ``output``, or to standard output. A ``table`` for people,
+    and anything written to a terminal, shows control characters instead of obeying them."""
     if output:
         from petfall_audit.io.atomic import atomic_write_text
 
         atomic_write_text(output, text)
-        print(f"wrote {output}")
+        _say(f"wrote {output}")
     else:
-        sys.stdout.write(text)
+        from petfall_audit.safe_text import terminal_safe
+
+        # on a terminal, control characters from the file are shown, not obeyed
+        sys.stdout.write(terminal_safe(text) if table or sys.stdout.isatty() else text)
 
 
 def _count(items: Sized, noun: str) -> str:
@@ -282,7 +295,7 @@ def _cmd_check(args: argparse.Namespace) -> int:
     except BuildingFileError as exc:
         _print_problems(exc, args.file)
         return EXIT_INVALID
-    print(
+    _say(
         f"{args.file}: valid — {building.info.name}: {_count(building.floors, 'floor')}, "
         f"{_count(building.facades, 'facade')}, {_count(building.surfaces, 'surface')}, "
         f"{_count(building.openings, 'opening')}"
@@ -323,7 +336,7 @@ def _cmd_assess(args: argparse.Namespace) -> int:
         text = assessment_to_csv(assessment)
     else:
         text = assessment_to_table(assessment, by=args.by)
-    _emit(text, args.output)
+    _emit(text, args.output, table=args.format == "table")
     return EXIT_OK
 
 
@@ -351,7 +364,7 @@ def _cmd_plan(args: argparse.Namespace) -> int:
         text = plan_to_csv(plan)
     else:
         text = plan_to_table(plan)
-    _emit(text, args.output)
+    _emit(text, args.output, table=args.format == "table")
     return EXIT_OK
 
 
@@ -388,10 +401,10 @@ def _cmd_report(args: argparse.Namespace) -> int:
         if args.leaflet:
             written.append(write_leaflet(assessment, plan, args.leaflet, contact=contact))
     except ReportError as exc:
-        print(f"petfall-audit: {exc}", file=sys.stderr)
+        _say(f"petfall-audit: {exc}", file=sys.stderr)
         return EXIT_FAILURE
     for path in written:
-        print(f"wrote {path}")
+        _say(f"wrote {path}")
     return EXIT_OK
 
 
@@ -400,13 +413,13 @@ def _cmd_batch(args: argparse.Namespace) -> int:
     and skipped; the exit code is 2 if any file could not be assessed. Two files with the same
     name get ``name.json`` and ``name-2.json``; the summary names each result file. ``--jobs``
     buildings are assessed at once in separate processes; the results are the same."""
-    import csv
     import io
 
     from petfall_audit.batch import BatchJob, discard, run_all
     from petfall_audit.cautions import CAUTIONS_SHORT
     from petfall_audit.injury import BANDS
     from petfall_audit.io.atomic import atomic_write_text
+    from petfall_audit.io.csv_safe import csv_writer
     from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
 
     _require_at_least("--budget", args.budget, 0)
@@ -452,16 +465,16 @@ def _cmd_batch(args: argparse.Namespace) -> int:
             discard(outcome.result_tmp)
     buffer = io.StringIO()
     buffer.write(f"# {CAUTIONS_SHORT}\n")
-    writer = csv.writer(buffer, lineterminator="\n")
+    writer = csv_writer(buffer)
     writer.writerow(["file", "building", "openings", *(f"expected_{b}" for b in BANDS),
                      "highest_risk_opening", "risk_total", "plan_cost", "risk_after_plan",
                      "result_file"])
     writer.writerows(rows)
     atomic_write_text(out_dir / "summary.csv", buffer.getvalue())
-    print(f"assessed {len(rows)} of {len(args.files)} building(s); wrote {out_dir / 'summary.csv'}")
+    _say(f"assessed {len(rows)} of {len(args.files)} building(s); wrote {out_dir / 'summary.csv'}")
     if args.portfolio_budget is not None:
         for path in _write_portfolio(done, args.portfolio_budget, out_dir):
-            print(f"wrote {path}")
+            _say(f"wrote {path}")
     return EXIT_INVALID if failed else EXIT_OK
 
 
@@ -529,6 +542,8 @@ def _cmd_import(args: argparse.Namespace) -> int:
         raise _refuse("--facade and --ground are for a building model (.ifc) only")
     building = _load(args.into)
     table = read_table(Path(args.schedule))
+    for note in table.notes:
+        _say(f"{args.schedule}: {note}", file=sys.stderr)
     mapping = guess_mapping(table.headers)
     units = header_units(table.headers)
     if args.map:
@@ -537,9 +552,9 @@ def _cmd_import(args: argparse.Namespace) -> int:
         units = {**units, **loaded.units}
     preview = preview_import(table, mapping, building, units=units)
     if preview.problems:
-        print(f"{args.schedule}: {len(preview.problems)} problem(s):", file=sys.stderr)
+        _say(f"{args.schedule}: {len(preview.problems)} problem(s):", file=sys.stderr)
         for problem in preview.problems:
-            print(f"  {problem}", file=sys.stderr)
+            _say(f"  {problem}", file=sys.stderr)
         if not args.accept_valid or not preview.openings:
             hint = (
                 f"fix the rows above, or import the {len(preview.openings)} valid row(s) with "
@@ -547,24 +562,24 @@ def _cmd_import(args: argparse.Namespace) -> int:
                 if preview.openings
                 else "fix the problems above (a mapping file may help: --map MAPPING.json)"
             )
-            print(f"{args.schedule}: nothing imported; {hint}", file=sys.stderr)
+            _say(f"{args.schedule}: nothing imported; {hint}", file=sys.stderr)
             return EXIT_INVALID
     updated = apply_import(building, preview, mode=args.mode, accept_valid_rows=args.accept_valid)
     after = validate_building(updated)
     if after:  # never write a building file that would not load again
-        print(f"{args.into}: the imported building would have {len(after)} problem(s):",
+        _say(f"{args.into}: the imported building would have {len(after)} problem(s):",
               file=sys.stderr)
         for building_problem in after:
-            print(f"  {building_problem}", file=sys.stderr)
-        print(f"{args.into}: nothing imported", file=sys.stderr)
+            _say(f"  {building_problem}", file=sys.stderr)
+        _say(f"{args.into}: nothing imported", file=sys.stderr)
         return EXIT_INVALID
     save_building(updated, Path(args.into))
-    print(f"{args.schedule} -> {args.into} ({args.mode}): {preview.summary()}")
-    print(
+    _say(f"{args.schedule} -> {args.into} ({args.mode}): {preview.summary()}")
+    _say(
         f"{args.into}: {_count(updated.floors, 'floor')}, {_count(updated.facades, 'facade')}, "
         f"{_count(updated.openings, 'opening')}"
     )
-    print(CAUTIONS_SHORT)
+    _say(CAUTIONS_SHORT)
     return EXIT_OK
 
 
@@ -679,7 +694,7 @@ def _cmd_template(args: argparse.Namespace) -> int:
 
     _check_output(args.out)
     write_template(Path(args.out), system=args.units)
-    print(
+    _say(
         f"{args.out}: blank {args.units} schedule, {len(template_headers(args.units))} columns "
         "and one example row to replace"
     )
@@ -699,7 +714,7 @@ def _no_screen() -> bool:
 
 def _cmd_open(args: argparse.Namespace) -> int:
     if _no_screen():
-        print(
+        _say(
             "petfall-audit: there is no screen to show the app on (neither DISPLAY nor "
             "WAYLAND_DISPLAY is set). Start it from a desktop session, or use the commands "
             "that need no screen: petfall-audit --help",
@@ -879,14 +894,14 @@ def _run(args: argparse.Namespace) -> int:
     except _Stop as stop:
         return stop.code
     except PetfallError as exc:
-        print(f"petfall-audit: {exc}", file=sys.stderr)
+        _say(f"petfall-audit: {exc}", file=sys.stderr)
         return EXIT_INVALID
     except OSError as exc:
         where = f"{exc.filename}: " if exc.filename else ""
-        print(f"petfall-audit: {where}{exc.strerror or exc}", file=sys.stderr)
+        _say(f"petfall-audit: {where}{exc.strerror or exc}", file=sys.stderr)
         return EXIT_FAILURE
     except KeyboardInterrupt:
-        print("\npetfall-audit: interrupted; no output was left half-written", file=sys.stderr)
+        _say("\npetfall-audit: interrupted; no output was left half-written", file=sys.stderr)
         return 130
 
 

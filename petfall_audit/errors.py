@@ -35,6 +35,8 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 from typing import Literal
 
+from petfall_audit.safe_text import MAX_MESSAGE_CHARS, cut
+
 
 @dataclass(frozen=True, slots=True)
 class Problem:
@@ -52,6 +54,11 @@ class Problem:
     @property
     def is_warning(self) -> bool:
         return self.severity == "warning"
+
+    def __post_init__(self) -> None:
+        # a message never grows with the value it is about (long values are cut)
+        object.__setattr__(self, "where", cut(self.where, 200))
+        object.__setattr__(self, "message", cut(self.message, MAX_MESSAGE_CHARS))
 
     def __str__(self) -> str:
         text = f"{self.where}: {self.message}" if self.where else self.message

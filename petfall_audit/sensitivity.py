@@ -179,8 +179,9 @@ def _swings(
         if key in _cache:
             _cache.move_to_end(key)
             return _cache[key]
-    whole = base.falls.drop_m.shape == (len(building.openings), cat.n)
-    own_falls = _rows(base.falls, order) if whole else None
+    kept = base.falls
+    whole = kept is not None and kept.drop_m.shape == (len(building.openings), cat.n)
+    own_falls = _rows(kept, order) if kept is not None and whole else None
     profile = building.cat_profile
     simulated: dict[tuple[str, float], float] = {}
     swings: list[ParameterSwing] = []

@@ -106,3 +106,48 @@ def random_documents(draw: st.DrawFn) -> Any:
         if draw(st.booleans()):
             doc[section] = draw(json_values)
     return doc
+
+
+#: Text a hostile or unlucky user puts in a building file: spreadsheet formulas, terminal
+#: escape sequences, reportlab markup, a lone surrogate, control and bidirectional characters,
+#: right-to-left and CJK script, words longer than a table cell, paths out of the folder.
+HOSTILE_TEXTS: tuple[str, ...] = (
+    "=HYPERLINK(\"http://example.invalid\",\"x\")", "+1+1", "-2+3", "@SUM(A1)", "\tcmd", "\r=1",
+    "\x1b[2J\x1b[31mred", "\x1b]0;title\x07", "a\x00b", "\u202eevil\u202c",
+    "<b>bold</b>&amp;<font>", "</para><para>",
+    "\ud800", "x\udfffy", "שלום עולם", "東京タワー 展望台", "🐈‍⬛🙀", "\n\n\n",
+    "W" * 199, "W" * 200, "W" * 201, "word " * 300, "x" * 20_000, "x" * 20_001, "../secret.png",
+    "photos/../../x.png", "..\\x.png", "/etc/passwd", "C:\\x.png", "photos/ok.png",
+    "photos/fifo.png", "", " ",
+)
+
+
+#: Fields of free text (no id, reference, word from a list or date).
+FREE_TEXT_FIELDS = frozenset({"name", "label", "notes", "address", "auditor"})
+
+
+@st.composite
+def hostile_documents(draw: st.DrawFn, bases: list[dict[str, Any]] | None = None) -> Any:
+    """A valid document with one to four edits, most of them putting hostile text (see
+    :data:`HOSTILE_TEXTS`) or hostile photo paths where text was, the rest as in
+    :func:`mutated_documents`."""
+    doc = copy.deepcopy(draw(st.sampled_from(bases or base_documents())))
+    for _ in range(draw(st.integers(min_value=1, max_value=4))):
+        places = _places(doc) if isinstance(doc, dict | list) else []
+        texts = [(c, k) for c, k in places if isinstance(c[k], str) and k not in ("format",)]
+        free = [(c, k) for c, k in texts if k in FREE_TEXT_FIELDS]
+        choice = draw(st.integers(min_value=0, max_value=9))
+        if choice < 4 and free:  # free text: most such files still load
+            container, key = draw(st.sampled_from(free))
+            container[key] = draw(st.sampled_from(HOSTILE_TEXTS))
+        elif choice < 6 and texts:  # any text, ids and references too
+            container, key = draw(st.sampled_from(texts))
+            container[key] = draw(st.sampled_from(HOSTILE_TEXTS) | st.text(max_size=30))
+        elif choice < 7 and isinstance(doc, dict) and isinstance(doc.get("openings"), list) \
+                and doc["openings"]:
+            opening = draw(st.sampled_from(doc["openings"]))
+            if isinstance(opening, dict):
+                opening["photos"] = draw(st.lists(st.sampled_from(HOSTILE_TEXTS), max_size=3))
+        else:
+            doc = draw(mutated_documents([doc]))
+    return doc

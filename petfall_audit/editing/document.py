@@ -17,6 +17,7 @@ from collections.abc import Callable, Iterable
 from pathlib import Path
 
 from petfall_audit.errors import Problem
+from petfall_audit.io.atomic import FileStamp, changed_since, file_stamp
 from petfall_audit.model import Building
 
 __all__ = ["Document", "MODEL_KINDS", "KINDS", "ChangeCallback", "validate"]
@@ -70,6 +71,9 @@ class Document:
         self._revision = 0
         self._problems: tuple[int, list[Problem]] | None = None
         self._callbacks: dict[str, list[ChangeCallback]] = {}
+        self._disk: tuple[Path, FileStamp | None] | None = None
+        if path is not None:
+            self.remember_disk_state()
 
     # --- state ---------------------------------------------------------------------------------
 
@@ -111,6 +115,19 @@ class Document:
         if self._path is not None:
             return self._path.name
         return self._building.info.name or "Untitled"
+
+    def remember_disk_state(self) -> None:
+        """Record the file at :attr:`path` as it is now (call after opening or saving it), so
+        :meth:`changed_on_disk` can tell whether someone else wrote it since."""
+        self._disk = (self._path, file_stamp(self._path)) if self._path is not None else None
+
+    def changed_on_disk(self) -> bool:
+        """True when the document's file was written, created or removed by someone else
+        since it was opened or last saved here: saving now would overwrite their work, so ask
+        first. False for a new document and just after "Save as" to another file."""
+        if self._path is None or self._disk is None or self._disk[0] != self._path:
+            return False
+        return changed_since(self._path, self._disk[1])
 
     def problems(self) -> list[Problem]:
         """Problems of the current building, computed once per revision."""

@@ -14,6 +14,7 @@ from dataclasses import dataclass
 from enum import StrEnum
 from typing import Any
 
+from petfall_audit.io._schema import LIMITS
 from petfall_audit.model import (
     CatsPresent,
     OpenFrequency,
@@ -33,6 +34,7 @@ __all__ = [
     "INFO_FIELDS",
     "INJURY_FIELDS",
     "enum_label",
+    "max_chars",
     "field_spec",
     "format_value",
     "parse_value",
@@ -263,6 +265,17 @@ def _length_m(text: str, default_unit: str) -> float:
     return value
 
 
+def max_chars(spec: FieldSpec) -> int | None:
+    """The most characters a text, id or reference field holds (the loader's limits), or
+    ``None`` for a field that is not text."""
+    if spec.kind in ("id", "ref"):
+        return LIMITS.id_max_chars
+    if spec.kind != "text":
+        return None
+    return {"notes": LIMITS.notes_max_chars,
+            "address": LIMITS.address_max_chars}.get(spec.name, LIMITS.name_max_chars)
+
+
 def parse_value(spec: FieldSpec, text: str, system: str = "metric") -> Any:
     """Read typed ``text`` into a model value for ``spec``.
 
@@ -270,6 +283,10 @@ def parse_value(spec: FieldSpec, text: str, system: str = "metric") -> Any:
     """
     raw = text.strip()
     imperial = system == "imperial"
+    limit = max_chars(spec)
+    if limit is not None and len(raw) > limit:
+        raise ValueError(f"{spec.label} is {len(raw):,} characters long; at most {limit:,} "
+                         "are allowed")
     if spec.kind in ("length", "gap", "int", "temperature", "enum") and spec.optional and (
         raw.lower() in _NONE_WORDS
     ):

@@ -90,6 +90,21 @@ class Prompts:
             return "discard"
         return "cancel"
 
+    def ask_overwrite_changed(self, parent: QWidget, name: str) -> bool:
+        """True to save over ``name`` although it changed on disk since it was opened here
+        (another window or program saved it)."""
+        box = QMessageBox(parent)
+        box.setIcon(QMessageBox.Icon.Warning)
+        box.setWindowTitle(APP_TITLE)
+        box.setText(f"'{name}' was changed on disk since you opened it here, perhaps by another "
+                    "window or program.")
+        box.setInformativeText("Saving now replaces those changes with yours. Save anyway? "
+                               "(Cancel keeps the file on disk as it is; Save As keeps both.)")
+        box.setStandardButtons(QMessageBox.StandardButton.Save
+                               | QMessageBox.StandardButton.Cancel)
+        box.setDefaultButton(QMessageBox.StandardButton.Cancel)
+        return box.exec() == QMessageBox.StandardButton.Save
+
     def ask_recover(self, parent: QWidget, recovery: Recovery) -> bool:
         source = recovery.source_path.name if recovery.source_path else "an unsaved building"
         answer = QMessageBox.question(

@@ -9,6 +9,7 @@ A ``.ifc`` file goes to :mod:`petfall_audit.gui.model_import_dialog` instead.
 
 from __future__ import annotations
 
+import html
 from collections.abc import Mapping
 from pathlib import Path
 from typing import Any
@@ -104,8 +105,10 @@ class ImportDialog(QDialog):
 
         intro = QLabel(
             f"{len(table.rows)} rows and {len(table.headers)} columns read from "
-            f"<b>{table.source or 'the file'}</b>. Check what each column holds (fields marked * "
-            "are required) and the unit of bare numbers, then look at the problems below.")
+            f"<b>{html.escape(table.source or 'the file')}</b>. Check what each column holds "
+            "(fields marked * are required) and the unit of bare numbers, then look at the "
+            "problems below."
+            + "".join(f"<br>Note: {html.escape(n)}." for n in table.notes))
         intro.setWordWrap(True)
         self.mapping_table = QTableWidget(len(table.headers), 4)
         self.mapping_table.setObjectName("mapping_table")

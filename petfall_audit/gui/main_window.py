@@ -453,11 +453,15 @@ class MainWindow(QMainWindow):
         if self.document.path is None:
             return self.save_as()
         path = self.document.path
+        if self.document.changed_on_disk() and not self.prompts.ask_overwrite_changed(
+                self, path.name):
+            return False
         try:
             save_building(self.document.building, path)
         except (OSError, ValueError) as exc:
             self.prompts.show_error(self, "Cannot save", f"{path}:\n{exc}")
             return False
+        self.document.remember_disk_state()
         self.history.set_clean()
         autosave.discard_recovery()
         self.settings.add_recent(path)

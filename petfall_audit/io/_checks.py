@@ -12,7 +12,6 @@ import dataclasses
 import difflib
 import functools
 import math
-import re
 from collections.abc import Iterable, Sequence
 from typing import Any
 
@@ -20,6 +19,7 @@ import numpy as np
 
 from petfall_audit.errors import Problem
 from petfall_audit.io._schema import CAT_PARAMETERS, LIMITS, is_iso_date
+from petfall_audit.io.photos import photo_problem
 from petfall_audit.model import (
     BALCONY_LIKE,
     CAT_PRESETS,
@@ -360,14 +360,18 @@ def _check_openings(
                     f"{o.kind.value.replace('_', ' ')}",
                 )
             )
-        # Only the form of a photo path is checked here: a missing photo file never stops a
-        # building from loading; the app and the report say so where they show the photo.
+        # Only the form of a photo path is checked here (the file itself by load_building, which
+        # knows the folder): a missing photo file never stops a building from loading; the app
+        # and the report say so where they show the photo.
         for k, photo in enumerate(o.photos):
-            if not photo or photo.startswith(("/", "\\")) or re.match(r"^[A-Za-z]:", photo):
+            if photo_problem(None, photo) is not None:
                 problems.append(
                     Problem(
                         at(f"photos[{k}]"),
-                        f"expected a path relative to the building file, got {describe(photo)}",
+                        ("expected a path inside the building file's folder (no '..' parts)"
+                         if photo and ".." in photo.replace("\\", "/").split("/") else
+                         "expected a path relative to the building file")
+                        + f", got {describe(photo)}",
                     )
                 )
 

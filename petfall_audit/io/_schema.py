@@ -104,6 +104,14 @@ class Limits:
     cda_max_m2: float = 2.0
     righting_time_max_s: float = 5.0
     launch_speed_max_mps: float = 20.0
+    # Text limits (characters), so that every file the loader accepts prints: a name or label
+    # fits a table cell, a note a few pages.
+    id_max_chars: int = 100
+    name_max_chars: int = 200  # building name, auditor, floor, facade and surface labels
+    address_max_chars: int = 500
+    notes_max_chars: int = 20_000
+    photo_path_max_chars: int = 500
+    photos_max: int = 20  # photos per opening
 
 
 LIMITS = Limits()
@@ -135,8 +143,12 @@ class _Strict(BaseModel):
 
 _L = LIMITS
 _Id = Annotated[
-    str, Field(min_length=1, max_length=100, description="Identifier, unique in its list.")
+    str,
+    Field(min_length=1, max_length=_L.id_max_chars, description="Identifier, unique in its list."),
 ]
+_Name = Annotated[str, Field(max_length=_L.name_max_chars)]
+_Notes = Annotated[str, Field(max_length=_L.notes_max_chars)]
+_PhotoPath = Annotated[str, Field(max_length=_L.photo_path_max_chars)]
 _Level = Annotated[int, Field(ge=_L.level_min, le=_L.level_max)]
 _Elevation = Annotated[
     float,
@@ -169,8 +181,11 @@ PresetName = Literal["adult", "kitten", "heavy_adult"]
 class BuildingModel(_Strict):
     """The "building" section: who and what is audited."""
 
-    name: str = Field(description="Name of the building.")
-    address: str = Field(default=_default(BuildingInfo, "address"), description="Postal address.")
+    name: _Name = Field(description="Name of the building.")
+    address: str = Field(
+        default=_default(BuildingInfo, "address"), max_length=_L.address_max_chars,
+        description="Postal address.",
+    )
     site_altitude_m: float = Field(
         default=_default(BuildingInfo, "site_altitude_m"),
         ge=_L.altitude_min_m,
@@ -183,7 +198,7 @@ class BuildingModel(_Strict):
         le=_L.temperature_max_c,
         description="Design air temperature (°C).",
     )
-    auditor: str = Field(
+    auditor: _Name = Field(
         default=_default(BuildingInfo, "auditor"), description="Who carried out the audit."
     )
     audit_date: str = Field(
@@ -191,7 +206,7 @@ class BuildingModel(_Strict):
         pattern=r"^(\d{4}-\d{2}-\d{2})?$",
         description="Date of the audit, YYYY-MM-DD, or empty.",
     )
-    notes: str = Field(default=_default(BuildingInfo, "notes"), description="Free notes.")
+    notes: _Notes = Field(default=_default(BuildingInfo, "notes"), description="Free notes.")
 
     @field_validator("audit_date")
     @classmethod
@@ -205,7 +220,7 @@ class FloorModel(_Strict):
     """An item of "floors": a storey."""
 
     level: _Level = Field(description="Level number (0 = ground floor; negative below).")
-    label: str = Field(description="Label shown to people, e.g. 'Level 12'.")
+    label: _Name = Field(description="Label shown to people, e.g. 'Level 12'.")
     elevation_m: _Elevation = Field(description="Finished floor level above the datum (m).")
 
 
@@ -214,7 +229,7 @@ class FacadeModel(_Strict):
 
     id: _Id
     length_m: float = Field(gt=0.0, le=_L.length_max_m, description="Length of the face (m).")
-    label: str = Field(default=_default(Facade, "label"), description="Label shown to people.")
+    label: _Name = Field(default=_default(Facade, "label"), description="Label shown to people.")
 
 
 class SurfaceModel(_Strict):
@@ -225,6 +240,7 @@ class SurfaceModel(_Strict):
     elevation_m: _Elevation = Field(description="Top of the surface above the datum (m).")
     facade: str | None = Field(
         default=_default(Surface, "facade"),
+        max_length=_L.id_max_chars,
         description="Id of the facade it lies in front of; null for every facade.",
     )
     from_facade_m: float = Field(
@@ -239,7 +255,7 @@ class SurfaceModel(_Strict):
         le=_L.length_max_m,
         description="Where it ends, out from the facade (m); null for unbounded.",
     )
-    label: str = Field(default=_default(Surface, "label"), description="Label shown to people.")
+    label: _Name = Field(default=_default(Surface, "label"), description="Label shown to people.")
     x_from_m: float | None = Field(
         default=None,
         ge=0.0,
@@ -296,7 +312,7 @@ class OpeningModel(_Strict):
 
     id: _Id
     floor: _Level = Field(description="Level of the floor it is on.")
-    facade: str = Field(description="Id of its facade.")
+    facade: str = Field(max_length=_L.id_max_chars, description="Id of its facade.")
     kind: OpeningKindName = Field(description="Kind of opening.")
     x_m: float = Field(ge=0.0, le=_L.length_max_m, description="Left edge along the facade (m).")
     width_m: float = Field(gt=0.0, le=_L.width_max_m, description="Width along the facade (m).")
@@ -353,9 +369,10 @@ class OpeningModel(_Strict):
         default=_opening_default("escape_window"),
         description="An emergency escape window: never block it.",
     )
-    notes: str = Field(default=_opening_default("notes"), description="Free notes.")
-    photos: list[str] = Field(
-        default_factory=list, description="Photo files, relative to the building file."
+    notes: _Notes = Field(default=_opening_default("notes"), description="Free notes.")
+    photos: list[_PhotoPath] = Field(
+        default_factory=list, max_length=_L.photos_max,
+        description="Photo files, relative to the building file."
     )
 
 

@@ -45,6 +45,7 @@ from petfall_audit.io._schema import (
 )
 from petfall_audit.io.atomic import atomic_write_text
 from petfall_audit.io.migrations import migrate
+from petfall_audit.io.photos import photo_problem, read_regular_file
 from petfall_audit.model import (
     CAT_PRESETS,
     Building,
@@ -76,7 +77,12 @@ __all__ = [
     "dumps_building",
     "save_building",
     "validate_building",
+    "MAX_FILE_BYTES",
 ]
+
+#: Largest building file read (bytes): 64 MiB, ten times a 200-storey tower with 50 openings on
+#: every floor.
+MAX_FILE_BYTES = 64 * 2**20
 
 _SECTIONS = ("building", "floors", "facades", "surfaces", "openings", "cat_profile", "injury")
 _LIST_SECTIONS: dict[str, type[BaseModel]] = {
@@ -106,7 +112,7 @@ def load_building(path: str | Path) -> Building:
     (placed at its line and column) and for every problem in the building.
     """
     try:
-        data = Path(path).read_bytes()
+        data = read_regular_file(Path(path), max_bytes=MAX_FILE_BYTES)
     except OSError as exc:
         raise FileFormatError(f"cannot read the file: {exc.strerror or exc}") from exc
     try:
@@ -130,7 +136,17 @@ def load_building(path: str | Path) -> Building:
     except ValueError as exc:  # e.g. an integer with thousands of digits
         raise FileFormatError(f"not valid JSON: {exc}") from exc
     early = _duplicate_key_problems(doc, duplicates) if duplicates else []
-    return _parse(doc, early)
+    building = _parse(doc, early)
+    folder = Path(path).parent
+    refused = [
+        Problem(f"openings[{i}].photos[{k}]", f"photo {describe(photo)} refused: {why}")
+        for i, o in enumerate(building.openings)
+        for k, photo in enumerate(o.photos)
+        if (why := photo_problem(folder, photo)) is not None
+    ]
+    if refused:
+        raise ValidationFailed(refused)
+    return building
 
 
 def building_to_dict(building: Building) -> dict[str, object]:
@@ -176,11 +192,46 @@ def validate_building(building: Building) -> list[Problem]:
 # --- parsing ---------------------------------------------------------------------------------
 
 
+_SURROGATE = re.compile("[\ud800-\udfff]")
+_MAX_SURROGATE_PROBLEMS = 20
+
+
+def _surrogate_problems(doc: object) -> list[Problem]:
+    """Every text (value or field name) in ``doc`` holding a lone surrogate (``"\\ud800"`` in
+    JSON): not a character, it cannot be printed, saved or exported, so it is refused with its
+    place. At most :data:`_MAX_SURROGATE_PROBLEMS` are listed."""
+    problems: list[Problem] = []
+    stack: list[tuple[object, tuple[Any, ...]]] = [(doc, ())]
+    while stack and len(problems) < _MAX_SURROGATE_PROBLEMS:
+        value, loc = stack.pop()
+        if isinstance(value, str):
+            m = _SURROGATE.search(value)
+            if m:
+                problems.append(Problem(
+                    _where(loc) or "(document)",
+                    f"text holds an invalid character (a lone surrogate, \\u{ord(m.group()):04x}, "
+                    f"at character {m.start() + 1}): replace it"))
+        elif isinstance(value, dict):
+            for key, item in reversed(list(value.items())):
+                if isinstance(key, str) and _SURROGATE.search(key):
+                    problems.append(Problem(
+                        _where(loc) or "(document)",
+                        "a field name holds an invalid character (a lone surrogate): replace it"))
+                    continue
+                stack.append((item, (*loc, key)))
+        elif isinstance(value, list):
+            stack.extend((item, (*loc, i)) for i, item in reversed(list(enumerate(value))))
+    return problems
+
+
 def _parse(doc: object, early: list[Problem]) -> Building:
     if not isinstance(doc, dict):
         raise FileFormatError(
             f"not a building file: expected a JSON object at the top, got {describe(doc)}"
         )
+    bad_text = _surrogate_problems(doc)
+    if bad_text:
+        raise ValidationFailed([*early, *bad_text])
     if "format" not in doc:
         raise FileFormatError(f'not a building file: "format" is missing (expected "{FORMAT}")')
     if doc["format"] != FORMAT:
@@ -520,6 +571,9 @@ def _pydantic_problems(exc: ValidationError) -> list[Problem]:
             message = "must not be empty"
         elif kind == "string_too_long":
             message = f"must be at most {ctx.get('max_length')} characters long"
+        elif kind == "too_long":
+            message = (f"at most {ctx.get('max_length')} items allowed, "
+                       f"got {ctx.get('actual_length')}")
         elif kind == "string_pattern_mismatch":
             message = "expected a date written YYYY-MM-DD (or empty)" + got
         elif kind in ("distribution", "cat_profile"):

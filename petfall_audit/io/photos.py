@@ -3,16 +3,22 @@
 A building file stores each photo as a path relative to the file's own folder, written with
 forward slashes (``"photos/a11-guard.png"``), so the folder can be moved or shared as a whole.
 Whether the file exists is not checked on loading; the app and the report say so where they
-show it. No Qt here: the app and the report both use this module.
+show it. A photo is only ever read from inside that folder, after every link is followed, and
+only if it is a regular file (:func:`photo_problem`, :func:`read_photo`). No Qt here: the app
+and the report both use this module.
 """
 
 from __future__ import annotations
 
+import errno
 import filecmp
+import os
 import shutil
+import stat
 from pathlib import Path, PurePosixPath, PureWindowsPath
 
-__all__ = ["PHOTO_SUFFIXES", "PHOTO_FOLDER", "photo_name", "photo_file", "import_photo"]
+__all__ = ["PHOTO_SUFFIXES", "PHOTO_FOLDER", "MAX_PHOTO_BYTES", "photo_name", "photo_file",
+           "photo_problem", "read_photo", "read_regular_file", "import_photo"]
 
 #: File name endings of the photos the app accepts (compared in lower case).
 PHOTO_SUFFIXES: tuple[str, ...] = (".jpg", ".jpeg", ".png")
@@ -20,21 +26,105 @@ PHOTO_SUFFIXES: tuple[str, ...] = (".jpg", ".jpeg", ".png")
 #: Folder beside the building file that receives photos chosen from elsewhere.
 PHOTO_FOLDER = "photos"
 
+#: Largest photo file read (bytes): 64 MiB, well above a phone camera's largest JPEG.
+MAX_PHOTO_BYTES = 64 * 2**20
+
 
 def photo_name(stored: str) -> str:
     """The file name of a stored photo path (its last part, whichever slash it uses)."""
     return PureWindowsPath(stored).name or stored
 
 
-def photo_file(root: Path | None, stored: str) -> Path | None:
-    """The file of the photo stored as ``stored`` for a building file in folder ``root``;
-    ``None`` when the folder is not known or the stored path is absolute."""
-    if root is None or not stored:
+def _parts(stored: str) -> tuple[str, ...] | None:
+    """The parts of a stored relative path (either slash); ``None`` if it is absolute, has a
+    drive, a NUL or a ``..`` part, or is empty."""
+    if not stored or "\0" in stored or stored.startswith(("/", "\\")):
         return None
     parts = PureWindowsPath(stored)  # reads both "/" and "\" as separators
-    if parts.is_absolute() or parts.drive or stored.startswith(("/", "\\")):
+    if parts.is_absolute() or parts.drive or parts.root:
         return None
-    return Path(root, *parts.parts)
+    names = tuple(p for p in parts.parts if p not in ("", "."))
+    if not names or ".." in names:
+        return None
+    return names
+
+
+def photo_problem(root: Path | None, stored: str) -> str | None:
+    """Why the photo stored as ``stored`` may not be read for a building file in folder
+    ``root``, in plain words; ``None`` when it may (a photo that does not exist yet may: it is
+    reported as not found where it is shown).
+
+    A photo must stay inside the building file's folder after every link is followed and be a
+    regular file: ``..`` parts, absolute paths, links that lead out of the folder, folders,
+    pipes and devices are refused."""
+    names = _parts(stored)
+    if names is None:
+        return "expected a path inside the building file's folder, without '..' parts"
+    if root is None:
+        return None
+    base = Path(root).resolve()
+    try:
+        real = Path(base, *names).resolve()
+    except (OSError, RuntimeError):  # a loop of links
+        return "the path is a loop of links"
+    if real != base and base not in real.parents:
+        return "the path leads out of the building file's folder (through a link)"
+    try:
+        st = real.stat()
+    except FileNotFoundError:
+        return None
+    except OSError as exc:
+        return f"cannot be read ({exc.strerror or exc})"
+    if not stat.S_ISREG(st.st_mode):
+        return "not a regular file (a folder, pipe or device)"
+    return None
+
+
+def photo_file(root: Path | None, stored: str) -> Path | None:
+    """The file of the photo stored as ``stored`` for a building file in folder ``root``, with
+    every link followed; ``None`` when the folder is not known or :func:`photo_problem` refuses
+    the path (outside the folder, not a regular file). The file may not exist."""
+    if root is None or photo_problem(root, stored) is not None:
+        return None
+    names = _parts(stored)
+    assert names is not None  # checked by photo_problem
+    return Path(Path(root).resolve(), *names).resolve()
+
+
+def read_photo(root: Path | None, stored: str, *, max_bytes: int = MAX_PHOTO_BYTES) -> bytes:
+    """The bytes of the photo stored as ``stored`` for a building file in folder ``root``.
+
+    The file is opened without blocking and checked to be a regular file on the open handle,
+    so a pipe or device swapped in never hangs the caller. Raises ``OSError`` with a plain
+    message when the photo is refused (see :func:`photo_problem`), missing, larger than
+    ``max_bytes`` or unreadable."""
+    problem = photo_problem(root, stored)
+    path = photo_file(root, stored)
+    if problem is not None or path is None:
+        raise OSError(errno.EACCES, problem or "the building file's folder is not known", stored)
+    return read_regular_file(path, max_bytes=max_bytes)
+
+
+def read_regular_file(path: Path, *, max_bytes: int = MAX_PHOTO_BYTES) -> bytes:
+    """The bytes of ``path`` if it is a regular file of at most ``max_bytes``; opened without
+    blocking and checked on the open handle, so a pipe or device never hangs the caller.
+    Raises ``OSError`` otherwise."""
+    flags = os.O_RDONLY | getattr(os, "O_NONBLOCK", 0) | getattr(os, "O_BINARY", 0)
+    fd = os.open(path, flags)
+    try:
+        st = os.fstat(fd)
+        if not stat.S_ISREG(st.st_mode):
+            raise OSError(errno.EACCES, "not a regular file (a folder, pipe or device)",
+                          str(path))
+        if st.st_size > max_bytes:
+            raise OSError(errno.EFBIG, f"larger than {max_bytes // 2**20} MiB", str(path))
+        with os.fdopen(fd, "rb", closefd=False) as fh:
+            data = fh.read(max_bytes + 1)
+    finally:
+        os.close(fd)
+    if len(data) > max_bytes:
+        raise OSError(errno.EFBIG, f"larger than {max_bytes // 2**20} MiB", str(path))
+    return data
 
 
 def _relative_to(path: Path, root: Path) -> str | None:

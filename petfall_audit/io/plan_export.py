@@ -8,13 +8,13 @@ comment lines, e.g. ``pandas.read_csv(..., comment="#")``).
 
 from __future__ import annotations
 
-import csv
 import io
 import textwrap
 from typing import Any
 
 from petfall_audit.cautions import CAUTIONS
 from petfall_audit.fixes import Option
+from petfall_audit.io.csv_safe import csv_writer
 from petfall_audit.io.results_export import round_significant as _r
 from petfall_audit.plan import Plan
 
@@ -84,7 +84,7 @@ def plan_to_csv(plan: Plan) -> str:
     buf = io.StringIO()
     for caution in CAUTIONS:
         buf.write(f"# {caution}\n")
-    writer = csv.writer(buf, lineterminator="\n")
+    writer = csv_writer(buf)
     writer.writerow(CSV_COLUMNS)
     for a in plan.actions:
         writer.writerow(

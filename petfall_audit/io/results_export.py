@@ -7,7 +7,6 @@ severity index in g. Every output carries the cautions.
 
 from __future__ import annotations
 
-import csv
 import io
 import math
 import textwrap
@@ -16,6 +15,7 @@ from typing import Any
 from petfall_audit import __version__
 from petfall_audit.cautions import CAUTIONS, CAUTIONS_SHORT
 from petfall_audit.injury import BANDS
+from petfall_audit.io.csv_safe import csv_writer
 from petfall_audit.model import CatProfile, Distribution, Fixed, LogNormal, Normal, Uniform
 from petfall_audit.risk import Assessment, OpeningResult, Percentiles
 
@@ -173,7 +173,7 @@ def assessment_to_csv(a: Assessment) -> str:
     buf = io.StringIO()
     for line in CAUTIONS:
         buf.write(f"# {line}\n")
-    w = csv.writer(buf, lineterminator="\n")
+    w = csv_writer(buf)
     w.writerow(_CSV_COLUMNS)
     for o in a.ranked("band"):
         main = next(iter(o.landing), "")

@@ -7,7 +7,6 @@ in these columns imports with no mapping file; see ``docs/schedule-import.md``.
 
 from __future__ import annotations
 
-import csv
 import io
 from pathlib import Path
 from typing import Literal
@@ -15,6 +14,7 @@ from typing import Literal
 from petfall_audit.cautions import CAUTIONS
 from petfall_audit.errors import ScheduleImportError
 from petfall_audit.io.atomic import atomic_write_bytes
+from petfall_audit.io.csv_safe import csv_writer
 from petfall_audit.io.schedule import COLUMNS, ColumnSpec
 
 __all__ = ["template_headers", "template_example", "write_template"]
@@ -93,7 +93,7 @@ def write_template(path: str | Path, *, system: System = "metric") -> None:
 
 def _csv_bytes(system: System) -> bytes:
     out = io.StringIO(newline="")
-    writer = csv.writer(out, lineterminator="\r\n")
+    writer = csv_writer(out, lineterminator="\r\n")
     writer.writerow(template_headers(system))
     writer.writerow(template_example(system))
     for header, text in _notes(system):

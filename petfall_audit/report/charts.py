@@ -5,6 +5,7 @@ Every band fill is paired with its text mark so a grey printout still reads. Siz
 
 from __future__ import annotations
 
+import dataclasses
 import math
 
 import numpy as np
@@ -203,20 +204,41 @@ def facade_drawing(elev: FacadeElevation, width: float, max_height: float,
     return d
 
 
+_FLOOR_ROW_MIN_PT = 4.0
+_FLOOR_PADS_PT = 14.0 + 22.0  # above and below the floor rows
+
+
+def floors_per_chart(max_height: float) -> int:
+    """The most floors one floor chart of at most ``max_height`` (pt) holds; a taller building
+    is drawn as several charts (:func:`slice_floors`)."""
+    return max(1, int((max_height - _FLOOR_PADS_PT) // _FLOOR_ROW_MIN_PT))
+
+
+def slice_floors(fc: FloorComparison, start: int, stop: int) -> FloorComparison:
+    """The floors ``start:stop`` (lowest first) of ``fc``."""
+    cut = slice(start, stop)
+    return dataclasses.replace(
+        fc, levels=fc.levels[cut], labels=fc.labels[cut], elevation_m=fc.elevation_m[cut],
+        max_impact_p50_mps=fc.max_impact_p50_mps[cut], max_risk=fc.max_risk[cut],
+        n_openings=fc.n_openings[cut], band_counts=fc.band_counts[cut])
+
+
 def floor_chart(fc: FloorComparison, width: float, max_height: float,
-                palette: str = "standard") -> Drawing:
+                palette: str = "standard", *, count_max: int | None = None) -> Drawing:
     """Per floor (top floor at the top): openings stacked by expected band, and the floor's
-    highest median impact speed at the right."""
+    highest median impact speed at the right. ``count_max``: the count the axis runs to (the
+    same on every part of a tall building split over pages); the chart's own largest by
+    default. At most :func:`floors_per_chart` floors fit in ``max_height``."""
     n = len(fc.levels)
     label_size = 6.5
     label_w = label_column_width(fc.labels, label_size, gap=_LABEL_GAP,
                                  max_width=_LABEL_SHARE * width)
     right_w, top_pad, bottom_pad = 70.0, 14.0, 22.0
-    row = max(4.0, min(14.0, (max_height - top_pad - bottom_pad) / max(n, 1)))
+    row = max(_FLOOR_ROW_MIN_PT, min(14.0, (max_height - top_pad - bottom_pad) / max(n, 1)))
     h = n * row + top_pad + bottom_pad
     d = Drawing(width, h)
     plot_w = width - label_w - right_w
-    max_count = int(fc.n_openings.max(initial=1)) or 1
+    max_count = count_max or int(fc.n_openings.max(initial=1)) or 1
     step = _nice_step(max_count, 5)
     xmax = math.ceil(max_count / step) * step
     scale = plot_w / xmax

@@ -17,6 +17,7 @@ from typing import TYPE_CHECKING
 from reportlab.lib.units import mm
 from reportlab.platypus import Flowable, Image, Paragraph, Table, TableStyle
 
+from petfall_audit.io.photos import read_regular_file
 from petfall_audit.report.context import PhotoRef
 from petfall_audit.report.fonts import markup
 from petfall_audit.report.styles import RULE, Styles
@@ -50,7 +51,8 @@ def _load(path: Path, max_w_pt: float, max_h_pt: float) -> tuple[io.BytesIO, int
     try:
         with warnings.catch_warnings():  # a huge photo is fine: it is scaled down at once
             warnings.simplefilter("ignore", PILImage.DecompressionBombWarning)
-            with PILImage.open(path) as im:
+            data = read_regular_file(path)  # never a pipe or device: no hang
+            with PILImage.open(io.BytesIO(data)) as im:
                 if im.format not in ("JPEG", "PNG", "MPO"):  # MPO: some cameras' JPEG
                     return None
                 is_png = im.format == "PNG"

@@ -6,6 +6,7 @@ They only place strings from :mod:`petfall_audit.report.context` and drawings fr
 
 from __future__ import annotations
 
+import math
 from collections.abc import Sequence
 from dataclasses import replace
 from xml.sax.saxutils import escape
@@ -33,7 +34,9 @@ from petfall_audit.report.charts import (
     facade_scales,
     fall_profile_drawing,
     floor_chart,
+    floors_per_chart,
     sensitivity_drawing,
+    slice_floors,
 )
 from petfall_audit.report.context import AuditContext
 from petfall_audit.report.fonts import markup
@@ -73,10 +76,31 @@ def _p(text: str, style: object) -> Paragraph:
     return Paragraph(markup(text), style)
 
 
+#: Long text is cut into paragraphs of about this many characters (at a space where there is
+#: one): reportlab re-wraps the rest of a paragraph each time it splits it over a page, so one
+#: huge paragraph lays out in quadratic time, many small ones in linear time.
+_CHUNK_CHARS = 1500
+
+
+def _long_text(text: str, style: ParagraphStyle) -> list[Flowable]:
+    """``text`` as paragraphs (one per line of the text, long lines cut in chunks) whose layout
+    time grows linearly with the length of the text."""
+    out: list[Flowable] = []
+    for line in text.replace("\r\n", "\n").split("\n"):
+        while len(line) > _CHUNK_CHARS:
+            cut = line.rfind(" ", _CHUNK_CHARS // 2, _CHUNK_CHARS)
+            cut = cut if cut > 0 else _CHUNK_CHARS
+            piece, line = line[:cut], line[cut:].lstrip(" ")
+            out.append(Paragraph(markup(piece), ParagraphStyle(
+                "Joined", parent=style, spaceAfter=0)))
+        out.append(Paragraph(markup(line) or "&nbsp;", style))
+    return out
+
+
 def _kv_table(rows: Sequence[tuple[str, str]], st: Styles, width: float,
               key_frac: float = 0.32) -> Table:
     data = [[_p(k, st.cell_bold), _p(v, st.cell)] for k, v in rows]
-    t = Table(data, colWidths=[width * key_frac, width * (1 - key_frac)])
+    t = Table(data, colWidths=[width * key_frac, width * (1 - key_frac)], splitInRow=1)
     t.setStyle(TableStyle([*_GRID, ("BACKGROUND", (0, 0), (0, -1), HEADER_FILL)]))
     return t
 
@@ -97,7 +121,7 @@ def build_cover(ctx: AuditContext, st: Styles, width: float) -> list[Flowable]:
     out += [Spacer(1, 8 * mm), _kv_table(ctx.cover_facts, st, width), Spacer(1, 6 * mm),
             _p("Scope", st.h2), _p(ctx.scope, st.body)]
     if ctx.notes:
-        out += [_p("Notes", st.h2), _p(ctx.notes, st.body)]
+        out += [_p("Notes", st.h2), *_long_text(ctx.notes, st.body)]
     if ctx.issuer:
         out += [_p("Issued by", st.h2), _p("\n".join(ctx.issuer), st.body)]
     out += [Spacer(1, 6 * mm), _p(ctx.cautions[0], st.small), _p(ctx.cautions[1], st.small)]
@@ -139,7 +163,8 @@ def build_summary(ctx: AuditContext, st: Styles, width: float, palette: str) -> 
     rows = [[_p(h, st.cell_bold) for h in ("Opening", "Kind", "Expected band", "Risk score")]]
     rows += [[_p(a, st.cell), _p(b, st.cell), _p(c, st.cell), _p(d, st.cell)]
              for a, b, c, d in ctx.top_risks]
-    t = Table(rows, colWidths=[width * f for f in (0.25, 0.3, 0.25, 0.2)], repeatRows=1)
+    t = Table(rows, colWidths=[width * f for f in (0.25, 0.3, 0.25, 0.2)], repeatRows=1,
+              splitInRow=1)
     t.setStyle(TableStyle([*_GRID, ("BACKGROUND", (0, 0), (-1, 0), HEADER_FILL)]))
     out.append(t)
     return out
@@ -189,12 +214,25 @@ def build_facades(elevations: Sequence[FacadeElevation], ctx: AuditContext, st: 
 def build_floor_chart(fc: FloorComparison, ctx: AuditContext, st: Styles, width: float,
                       height: float, palette: str) -> list[Flowable]:
     """Floor-by-floor comparison chart."""
-    return [
-        PageBreak(), _p("Floor comparison", st.h1), band_legend(ctx.band_names, width, palette),
-        Spacer(1, 3 * mm), floor_chart(fc, width, height - 45 * mm, palette),
-        _p("Openings on each floor by expected injury band, and the floor's highest median "
-           "impact speed. Severity is not lower on higher floors.", st.caption),
-    ]
+    chart_h = height - 45 * mm
+    per = floors_per_chart(chart_h)
+    n = len(fc.levels)
+    count_max = int(fc.n_openings.max(initial=1)) or 1
+    out: list[Flowable] = []
+    # a tall building: several charts, the top floors first, on the same scale
+    for part, stop in enumerate(range(n, 0, -per)):
+        start = max(0, stop - per)
+        title = "Floor comparison" if n <= per else (
+            f"Floor comparison ({part + 1} of {math.ceil(n / per)})")
+        out += [PageBreak(), _p(title, st.h1), band_legend(ctx.band_names, width, palette),
+                Spacer(1, 3 * mm),
+                floor_chart(slice_floors(fc, start, stop), width, chart_h, palette,
+                            count_max=count_max)]
+    if not out:  # no floors
+        out += [PageBreak(), _p("Floor comparison", st.h1)]
+    out.append(_p("Openings on each floor by expected injury band, and the floor's highest "
+                  "median impact speed. Severity is not lower on higher floors.", st.caption))
+    return out
 
 
 _RANK_COLS = ("#", "Floor", "Opening", "Kind", "Drop (m)", "v p5", "v p50", "v p95")
@@ -225,9 +263,9 @@ def build_ranked_table(ctx: AuditContext, st: Styles, width: float, palette: str
             "Recommended control", "Cost"]
     hstyle = ParagraphStyle("RankHead", parent=st.cell_bold, fontSize=6.5, leading=7.5)
     band_w = [max(text_w(b, hstyle.fontName, hstyle.fontSize) + 8, 13 * mm) for b in bands]
-    id_w = max([text_w(r.opening_id) for r in ctx.ranked] + [12 * mm]) + 8
+    id_w = min(max([text_w(r.opening_id) for r in ctx.ranked] + [12 * mm]) + 8, 40 * mm)
     floor_w = min(max([text_w(r.floor) for r in ctx.ranked] + [10 * mm]) + 8, 30 * mm)
-    kind_w = max([text_w(r.kind) for r in ctx.ranked] + [14 * mm]) + 8
+    kind_w = min(max([text_w(r.kind) for r in ctx.ranked] + [14 * mm]) + 8, 35 * mm)
     marks = [f"{r.rank}  {band_style(r.band, palette).mark}" for r in ctx.ranked]
     rank_w = max([text_w(m) for m in marks] + [12 * mm]) + 8
     cols = [rank_w, floor_w, id_w, kind_w, 10 * mm, 9 * mm, 9 * mm, 9 * mm, *band_w,
@@ -246,13 +284,13 @@ def build_ranked_table(ctx: AuditContext, st: Styles, width: float, palette: str
         bs = band_style(row.band, palette)
         data.append([
             marks[r - 1], cell(row.floor, cols[1]), cell(row.opening_id, cols[2]),
-            row.kind, row.drop_m, row.v_p5, row.v_p50, row.v_p95, *row.band_probs,
+            cell(row.kind, cols[3]), row.drop_m, row.v_p5, row.v_p50, row.v_p95, *row.band_probs,
             row.likelihood, row.risk, cell(row.control, cols[-2]) if row.control else "",
             row.cost,
         ])
         style += [("BACKGROUND", (0, r), (0, r), colour(bs.fill)),
                   ("TEXTCOLOR", (0, r), (0, r), colour(bs.text))]
-    t = Table(data, colWidths=cols, repeatRows=1)
+    t = Table(data, colWidths=cols, repeatRows=1, splitInRow=1)
     t.setStyle(TableStyle(style))
     return [
         NextPageTemplate("landscape"), PageBreak(), _p("Ranked openings", st.h1),
@@ -295,7 +333,7 @@ def build_details(ctx: AuditContext, profiles: dict[str, FallProfileFigure], st:
         if det.code_notes:
             out += [_p("Code-compliant is not cat-safe", st.h2), *_bullets(det.code_notes, small)]
         if det.notes:
-            out += [_p("Auditor's notes", st.h2), _p(det.notes, st.body)]
+            out += [_p("Auditor's notes", st.h2), *_long_text(det.notes, st.body)]
     return out
 
 
@@ -314,7 +352,8 @@ def build_plan(ctx: AuditContext, st: Styles, width: float) -> list[Flowable]:
     for c in ctx.plan_controls:
         data.append([_p(c.control, st.cell), _p(c.openings, st.cell), _p(c.cost, st.cell),
                      _p(c.risk_removed, st.cell), _p(_refs(c.notes), st.cell)])
-    t = Table(data, colWidths=[width * f for f in (0.4, 0.12, 0.14, 0.14, 0.2)], repeatRows=1)
+    t = Table(data, colWidths=[width * f for f in (0.4, 0.12, 0.14, 0.14, 0.2)], repeatRows=1,
+              splitInRow=1)
     t.setStyle(TableStyle([*_GRID, ("BACKGROUND", (0, 0), (-1, 0), HEADER_FILL)]))
     out += [_p("Controls in the plan", st.h2), t]
     if ctx.plan_notes:
@@ -328,7 +367,7 @@ def build_plan(ctx: AuditContext, st: Styles, width: float) -> list[Flowable]:
                      _p(r.risk_before, st.cell), _p(r.risk_after, st.cell),
                      _p(_refs(r.notes), st.cell)])
     t = Table(data, colWidths=[width * f for f in (0.14, 0.38, 0.12, 0.12, 0.12, 0.12)],
-              repeatRows=1)
+              repeatRows=1, splitInRow=1)
     t.setStyle(TableStyle([*_GRID, ("BACKGROUND", (0, 0), (-1, 0), HEADER_FILL)]))
     out += [_p("Actions by opening", st.h2), t]
     return out

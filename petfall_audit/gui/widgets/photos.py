@@ -15,7 +15,7 @@ from html import escape
 from pathlib import Path
 from typing import Any, Protocol
 
-from PySide6.QtCore import QSize, Qt
+from PySide6.QtCore import QBuffer, QByteArray, QIODevice, QSize, Qt
 from PySide6.QtGui import QColor, QIcon, QImageReader, QPainter, QPen, QPixmap
 from PySide6.QtWidgets import (
     QAbstractItemView,
@@ -36,7 +36,13 @@ from petfall_audit.editing.document import Document
 from petfall_audit.editing.history import History
 from petfall_audit.gui.adapters import push_command
 from petfall_audit.gui.widgets.field_form import ERROR_STYLE
-from petfall_audit.io.photos import PHOTO_SUFFIXES, import_photo, photo_file, photo_name
+from petfall_audit.io.photos import (
+    PHOTO_SUFFIXES,
+    import_photo,
+    photo_file,
+    photo_name,
+    read_regular_file,
+)
 
 __all__ = ["PhotoStrip", "PhotoDialog", "PhotoHost", "PHOTO_FILTER", "THUMB_SIZE",
            "load_photo", "placeholder_pixmap"]
@@ -61,7 +67,14 @@ class PhotoHost(Protocol):
 def load_photo(path: Path, box: QSize | None = None) -> QPixmap | None:
     """The image at ``path`` turned upright (as the camera recorded), scaled to fit ``box``
     (aspect kept; ``None``: full size); ``None`` if it is missing or cannot be read."""
-    reader = QImageReader(str(path))
+    try:
+        data = read_regular_file(path)  # never a pipe or device: no hang
+    except OSError:
+        return None
+    buffer = QBuffer()
+    buffer.setData(QByteArray(data))
+    buffer.open(QIODevice.OpenModeFlag.ReadOnly)
+    reader = QImageReader(buffer)
     reader.setAutoTransform(True)
     size = reader.size()
     if box is not None and size.isValid():
