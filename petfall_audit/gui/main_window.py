@@ -262,7 +262,8 @@ class MainWindow(QMainWindow):
         self.document = doc
         self.history = History(doc)
         a = self.actions_
-        self.openings_panel = OpeningsPanel(doc, self.history, self.options, host=self)
+        self.openings_panel = OpeningsPanel(doc, self.history, self.options, host=self,
+                                            place_hint=self._place_hint)
         self.floors_panel = FloorsPanel(doc, self.history, self.options, actions=[a.copy_floor])
         self.site_panel = SitePanel(doc, self.history, self.options)
         self.building_panel = BuildingPanel(doc, self.history, self.options)
@@ -539,6 +540,10 @@ class MainWindow(QMainWindow):
     def add_opening(self) -> None:
         self.show_editor(self.openings_panel)
         self.openings_panel.add_opening()
+
+    def _place_hint(self) -> tuple[int | None, str | None]:
+        """The floor chosen in the floors table (if any) for a new opening; no facade."""
+        return self.floors_panel.selected_level(), None
 
     def _current_level(self) -> int | None:
         level = self.floors_panel.selected_level()

@@ -3,7 +3,7 @@ form ends with the selected opening's photos."""
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from typing import Any
 
 from PySide6.QtCore import QItemSelection, QItemSelectionModel, Qt
@@ -19,16 +19,21 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from petfall_audit.editing.commands import AddOpenings, RemoveOpenings, SetOpeningFields
+from petfall_audit.editing.commands import (
+    AddOpenings,
+    RemoveOpenings,
+    SetOpeningFields,
+    refusal_text,
+)
 from petfall_audit.editing.document import Document
 from petfall_audit.editing.fields import OPENING_FIELDS, FieldSpec
 from petfall_audit.editing.history import History
-from petfall_audit.editing.query import applicable_openings, unique_id
+from petfall_audit.editing.placement import new_opening
+from petfall_audit.editing.query import applicable_openings
 from petfall_audit.gui.adapters import RecordTableModel, ViewOptions, _runs, push_command
 from petfall_audit.gui.widgets.field_form import MIXED, FieldForm
 from petfall_audit.gui.widgets.photos import PhotoHost, PhotoStrip
 from petfall_audit.gui.widgets.tables import add_remove_bar, error_label, record_table
-from petfall_audit.model import Opening, OpeningKind
 
 __all__ = ["OpeningsPanel", "TABLE_FIELDS"]
 
@@ -41,8 +46,11 @@ class OpeningsPanel(QWidget):
 
     def __init__(self, doc: Document, history: History, options: ViewOptions, *,
                  actions: Sequence[QAction] = (), host: PhotoHost | None = None,
+                 place_hint: Callable[[], tuple[int | None, str | None]] | None = None,
                  parent: QWidget | None = None) -> None:
         super().__init__(parent)
+        #: The floor and facade the user works on, for a new opening when none is selected.
+        self._place_hint = place_hint
         self._doc = doc
         self._history = history
         self._options = options
@@ -66,6 +74,10 @@ class OpeningsPanel(QWidget):
         self.form_title = QLabel("No opening selected")
         self.form_title.setObjectName("form_title")
         self.table_error = error_label("table_error")
+        self.place_note = QLabel()
+        self.place_note.setObjectName("place_note")
+        self.place_note.setWordWrap(True)
+        self.place_note.hide()
 
         bar = add_remove_bar("Add opening", self.add_opening,
                              "Remove selected", self.remove_selected, actions)
@@ -79,6 +91,7 @@ class OpeningsPanel(QWidget):
         left_layout.addWidget(bar)
         left_layout.addWidget(self.table, 1)
         left_layout.addWidget(self.table_error)
+        left_layout.addWidget(self.place_note)
         right = QWidget()
         right_layout = QVBoxLayout(right)
         right_layout.setContentsMargins(4, 0, 0, 0)
@@ -142,6 +155,7 @@ class OpeningsPanel(QWidget):
 
     def _on_selection_changed(self, *_: Any) -> None:
         self.table_error.hide()
+        self.place_note.hide()
         self._refresh_form(keep_errors=False)
 
     def _refresh_form(self, *, keep_errors: bool) -> None:
@@ -199,31 +213,38 @@ class OpeningsPanel(QWidget):
         self.table_error.show()
 
     def add_opening(self) -> str | None:
-        """Add an opening next to the selected one (or on the first floor and facade)."""
+        """Add an opening on the selected opening's floor and facade (else the floor chosen in
+        the floors table, else the lowest floor), at a free place the rules accept; returns its
+        id, or ``None`` with the reason shown when no floor and facade accept one."""
         b = self._doc.building
         ids = self.selected_ids()
+        level: int | None = None
+        facade: str | None = None
         if ids:
             like = b.opening(ids[-1])
             level, facade = like.floor, like.facade
-        elif b.floors and b.facades:
-            level, facade = b.floors[0].level, b.facades[0].id
-        else:
-            self.table_error.setText("! Add a floor and a facade first")
+        elif self._place_hint is not None:
+            level, facade = self._place_hint()
+        opening, problems = new_opening(b, level=level, facade=facade)
+        if opening is None:
+            self.table_error.setText("! No opening added: " + refusal_text(problems))
             self.table_error.show()
             return None
-        new_id = unique_id((o.id for o in b.openings), f"{facade}-{level:02d}-new")
-        opening = Opening(id=new_id, floor=level, facade=facade, kind=OpeningKind.BALCONY,
-                          x_m=0.0, width_m=1.0, projection_m=1.0)
-        index = None
-        if ids:
-            index = self.model.row_of_key(ids[-1]) + 1
+        index = self.model.row_of_key(ids[-1]) + 1 if ids else None
         reason = push_command(self._history, AddOpenings([opening], index=index))
         if reason is not None:
             self.table_error.setText(f"! {reason}")
             self.table_error.show()
             return None
-        self.select_ids([new_id])
-        return new_id
+        self.select_ids([opening.id])
+        wanted = level if level is not None else min(f.level for f in b.floors)
+        if (opening.floor, opening.facade) != (wanted, facade or opening.facade):
+            self.place_note.setText(
+                f"Added {opening.id} on level {opening.floor}, facade {opening.facade}: the "
+                f"surfaces below do not allow an opening on level {wanted} there. Change its "
+                "floor, facade and place in the form.")
+            self.place_note.show()
+        return opening.id
 
     def remove_selected(self) -> None:
         ids = self.selected_ids()
