@@ -6,6 +6,7 @@ habits."""
 from __future__ import annotations
 
 import dataclasses
+from pathlib import Path
 from typing import Any
 
 import pytest
@@ -73,3 +74,133 @@ def _button(panel: Any, text: str) -> Any:
     from PySide6.QtWidgets import QPushButton
 
     return next(b for b in panel.findChildren(QPushButton) if b.text() == text)
+
+
+# --- item 2: recovery of every window's work ------------------------------------------------------
+
+def _copies() -> list[Any]:
+    from petfall_audit.editing import autosave
+
+    return autosave.find_recoveries(include_running=True)
+
+
+def test_steady_editing_is_recoverable_within_a_second(qtbot) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.demo import sample_building
+    from petfall_audit.editing import autosave
+
+    window = open_window(qtbot, sample_building("walkup"))
+    form = window.building_panel.form
+    # an edit every 0.2 s for 2 s: never a pause long enough for an idle-only timer
+    for k in range(10):
+        form.commit_text("name", f"Walk-up, edit {k}")
+        qtbot.wait(200)
+    (copy,) = _copies()
+    recovered = autosave.load_recovery(copy).info.name
+    assert recovered in {f"Walk-up, edit {k}" for k in range(5, 10)}  # at most ~1 s behind
+    # one more edit, then a crash 1 s later: the edit is in the copy
+    form.commit_text("name", "Walk-up, last edit")
+    qtbot.wait(1000)
+    (copy,) = _copies()
+    assert autosave.load_recovery(copy).info.name == "Walk-up, last edit"
+
+
+_CRASHING_APP = """
+import sys
+from pathlib import Path
+from PySide6.QtCore import QTimer
+from PySide6.QtWidgets import QApplication
+from petfall_audit.editing.document import Document
+from petfall_audit.gui.main_window import MainWindow
+from petfall_audit.io.building_file import load_building
+
+app = QApplication(sys.argv[:1])
+path = Path(sys.argv[1])
+window = MainWindow(Document(load_building(path), path), samples=16, refine_samples=0)
+window.show()
+window.building_panel.form.commit_text("name", sys.argv[2])
+
+def report():
+    if window.recovery.path is not None and window.recovery.path.exists():
+        print("copy written", flush=True)
+    else:
+        QTimer.singleShot(20, report)
+
+QTimer.singleShot(0, report)
+app.exec()
+"""
+
+
+def _crash_two_apps(tmp_path: Any) -> tuple[Any, Any]:
+    """Two apps, two files, an edit in each, both killed once their copies are written."""
+    import os
+    import select
+    import shutil
+    import subprocess
+    import sys
+
+    files = []
+    for name in ("walkup", "block"):
+        target = tmp_path / f"{name}.json"
+        shutil.copy(Path(__file__).parents[1] / "sample_buildings" / f"{name}.json", target)
+        files.append(target)
+    env = {**os.environ, "QT_QPA_PLATFORM": "offscreen"}
+    procs = [subprocess.Popen([sys.executable, "-c", _CRASHING_APP, str(f), f"Edited {f.stem}"],
+                              stdout=subprocess.PIPE, text=True, env=env) for f in files]
+    try:
+        for proc in procs:
+            assert proc.stdout is not None
+            ready, _, _ = select.select([proc.stdout], [], [], 90)
+            assert ready, "the app never wrote its recovery copy"
+            assert proc.stdout.readline().strip() == "copy written"
+    finally:
+        for proc in procs:
+            proc.kill()  # like a crash: nothing cleaned up
+            proc.wait(timeout=60)
+            assert proc.stdout is not None
+            proc.stdout.close()
+    return files[0], files[1]
+
+
+def test_two_crashed_apps_are_both_offered_and_recovered(qtbot, tmp_path) -> None:  # type: ignore[no-untyped-def]
+    walkup, block = _crash_two_apps(tmp_path)
+    window = open_window(qtbot)
+    assert window.offer_recovery()
+    assert window.prompts.asked == ["recover", "recover"]
+    windows = [window, *window.extra_windows]
+    for w in windows[1:]:
+        qtbot.addWidget(w)
+    names = {w.document.path: w.document.building.info.name for w in windows}
+    assert names == {walkup: "Edited walkup", block: "Edited block"}
+    assert all(w.document.dirty for w in windows)
+    # each recovered window now holds its own copy; the crashed apps' copies are gone
+    assert sorted(c.source_path for c in _copies()) == sorted([walkup, block])
+    assert {c.path for c in _copies()} == {w.recovery.path for w in windows}
+
+
+def test_answering_no_discards_only_that_copy(qtbot, tmp_path) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.editing import autosave
+
+    walkup, block = _crash_two_apps(tmp_path)
+    window = open_window(qtbot)
+    answers = iter([False, None])
+    offered: list[Any] = []
+
+    def ask(parent: Any, recovery: Any) -> bool:
+        offered.append(recovery.source_path)
+        answer = next(answers)
+        if answer is None:  # the app is killed again before the user answers
+            raise KeyboardInterrupt
+        return answer
+
+    window.prompts.ask_recover = ask  # type: ignore[method-assign]
+    with pytest.raises(KeyboardInterrupt):
+        window.offer_recovery()
+    declined, undecided = offered
+    left = autosave.find_recoveries()
+    assert [c.source_path for c in left] == [undecided]  # the undecided copy stays
+    assert declined != undecided
+    # the next start offers the one left, and only it
+    window.prompts.ask_recover = lambda parent, rec: offered.append(rec.source_path) or True  # type: ignore[method-assign]
+    assert window.offer_recovery()
+    assert offered[-1] == undecided and len(offered) == 3
+    assert window.document.building.info.name == f"Edited {undecided.stem}"

@@ -243,8 +243,8 @@ def test_recovery_file_after_edits_is_offered_on_the_next_start(qtbot, monkeypat
     panel.form.commit_text("width_m", "1.3 m")
     qtbot.waitUntil(lambda: bool(autosave.find_recoveries(include_running=True)), timeout=5000)
     edited = window.document.building
-    # the next start after a crash: the process that wrote the file is gone
-    monkeypatch.setattr(autosave, "_alive", lambda pid: False)
+    # the next start after a crash: the app that wrote the copy is gone
+    monkeypatch.setattr(autosave, "_owner_running", lambda owner, pid: False)
     second = make_window(qtbot)
     assert second.offer_recovery()
     assert second.prompts.asked == ["recover"]
@@ -259,7 +259,7 @@ def test_recovery_file_after_edits_is_offered_on_the_next_start(qtbot, monkeypat
 
 
 def test_declined_recovery_is_discarded(qtbot, monkeypatch) -> None:  # type: ignore[no-untyped-def]
-    autosave.write_recovery(sample_building("walkup"), None, pid=2**30)
+    autosave.write_recovery(sample_building("walkup"), None, owner="ended-app")
     window = make_window(qtbot)
     window.prompts.recover_answer = False
     assert not window.offer_recovery()

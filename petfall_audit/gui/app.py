@@ -32,10 +32,17 @@ def sample_document() -> Document:
     return Document(_sample_building())
 
 
+def _window_for(doc: Document) -> MainWindow:
+    """A main window with its views on ``doc``; further windows it opens get views too."""
+    window = MainWindow(doc)
+    install_views(window)
+    window.window_factory = _window_for
+    return window
+
+
 def create_window(path: Path | None = None) -> MainWindow:
     """A main window on the file at ``path``, or on the sample building."""
-    window = MainWindow(sample_document())
-    install_views(window)
+    window = _window_for(sample_document())
     if path is not None and not window.open_file(Path(path), confirm=False):
         window.status_label.setText(f"Could not open {path}; showing the sample building")
     return window
@@ -64,7 +71,13 @@ def run_app(path: Path | None = None) -> int:
     window.show()
     QTimer.singleShot(0, window.offer_recovery)
     code = int(app.exec())
-    close_window(window)
+    windows, pending = [], [window]
+    while pending:  # the windows opened for recovered work, and the ones they opened
+        w = pending.pop()
+        windows.append(w)
+        pending.extend(w.extra_windows)
+    for w in windows:
+        close_window(w)
     return code
 
 

@@ -106,11 +106,15 @@ class Prompts:
         return box.exec() == QMessageBox.StandardButton.Save
 
     def ask_recover(self, parent: QWidget, recovery: Recovery) -> bool:
-        source = recovery.source_path.name if recovery.source_path else "an unsaved building"
+        if recovery.source_path is not None:
+            what = f"{recovery.source_path.name} (in {recovery.source_path.parent})"
+        else:
+            what = f"an unsaved building, {recovery.building_name or 'without a name'}"
         answer = QMessageBox.question(
             parent, APP_TITLE,
-            f"Work on {source} was not saved when the app last closed "
-            f"(recovery copy from {recovery.saved_at_text}).\n\nRecover it now?",
+            f"Work on {what} was not saved when the app closed unexpectedly "
+            f"(recovery copy from {recovery.saved_at_text}).\n\nRecover it now? "
+            "No discards this copy only.",
         )
         return answer == QMessageBox.StandardButton.Yes
 

@@ -13,6 +13,7 @@ most of the height; the user's split is remembered.
 from __future__ import annotations
 
 import threading
+import time
 from pathlib import Path
 from typing import Any
 
@@ -101,7 +102,9 @@ class MainWindow(QMainWindow):
     def __init__(self, document: Document | None = None, *, settings: AppSettings | None = None,
                  prompts: Prompts | None = None, assess: AssessFn | None = None,
                  samples: int = INTERACTIVE_SAMPLES, refine_samples: int = REFINED_SAMPLES,
-                 refine_delay_ms: int = REFINE_DELAY_MS, autosave_delay_ms: int = 5000,
+                 refine_delay_ms: int = REFINE_DELAY_MS,
+                 autosave_delay_ms: int = int(autosave.IDLE_DELAY_S * 1000),
+                 autosave_max_wait_ms: int = int(autosave.MAX_WAIT_S * 1000),
                  parent: QWidget | None = None) -> None:
         super().__init__(parent)
         self.settings = settings or AppSettings(parent=self)
@@ -118,10 +121,17 @@ class MainWindow(QMainWindow):
         #: Simulated falls per opening behind the shown results (``None`` before the first).
         self.results_samples: int | None = None
         self._split_restored = False
+        #: This window's recovery copy and when to write it (a pause, or at most a second).
+        self.recovery = autosave.RecoveryCopy()
+        self._autosave_schedule = autosave.AutosaveSchedule(autosave_delay_ms / 1000,
+                                                            autosave_max_wait_ms / 1000)
         self._autosave_timer = QTimer(self)
         self._autosave_timer.setSingleShot(True)
-        self._autosave_timer.setInterval(autosave_delay_ms)
         self._autosave_timer.timeout.connect(self.autosave_now)
+        #: Windows opened for further recovered work (kept alive here).
+        self.extra_windows: list[MainWindow] = []
+        #: Makes the window for a further recovered document (the app sets one with its views).
+        self.window_factory: Any = None
         self._panels: list[Any] = []
         #: Called when the window closes, after the recomputation has stopped (the views stop
         #: their own background work here).
@@ -291,12 +301,14 @@ class MainWindow(QMainWindow):
     def _on_doc_changed(self, kind: str) -> None:
         if kind in MODEL_KINDS:
             self.recompute()
-            self._autosave_timer.start()  # the dirty flag is set just after this change
+            delay_s = self._autosave_schedule.edited(time.monotonic())
+            self._autosave_timer.start(int(delay_s * 1000))
         elif kind in ("dirty", "path"):
             self._update_title()
             if kind == "dirty" and not self.document.dirty:
                 self._autosave_timer.stop()
-                autosave.discard_recovery()
+                self._autosave_schedule.written()
+                self.recovery.discard()
 
     def _update_title(self) -> None:
         self.setWindowTitle(f"{self.document.display_name}[*] — {APP_TITLE}")
@@ -418,7 +430,7 @@ class MainWindow(QMainWindow):
     def new_document(self) -> bool:
         if not self.confirm_discard():
             return False
-        autosave.discard_recovery()
+        self.recovery.discard()
         self.load_document(Document(blank_building()))
         return True
 
@@ -441,7 +453,7 @@ class MainWindow(QMainWindow):
             self.prompts.show_error(self, "Cannot open the building file",
                                     f"{Path(path).name}:\n{exc}")
             return False
-        autosave.discard_recovery()
+        self.recovery.discard()
         self.load_document(Document(building, Path(path)))
         self.settings.add_recent(Path(path))
         self.status_label.setText(f"Opened {Path(path).name}")
@@ -464,7 +476,7 @@ class MainWindow(QMainWindow):
             return False
         self.document.remember_disk_state()
         self.history.set_clean()
-        autosave.discard_recovery()
+        self.recovery.discard()
         self.settings.add_recent(path)
         self.status_label.setStyleSheet("")
         self.status_label.setText(f"Saved {path.name}")
@@ -502,38 +514,61 @@ class MainWindow(QMainWindow):
     def autosave_now(self) -> Path | None:
         """Write the recovery copy of unsaved work now (or remove it if all is saved)."""
         self._autosave_timer.stop()
+        self._autosave_schedule.written()
         if not self.document.dirty:
-            autosave.discard_recovery()
+            self.recovery.discard()
             return None
         try:
-            return autosave.write_recovery(self.document.building, self.document.path)
+            return self.recovery.write(self.document.building, self.document.path)
         except (OSError, ValueError) as exc:
             self.status_label.setText(f"! Recovery copy not written: {exc}")
             return None
 
     def offer_recovery(self) -> bool:
-        """If an earlier session left unsaved work, offer it; True if it was recovered."""
-        found = autosave.find_recoveries()
-        if not found:
-            return False
-        newest = found[0]
-        building = None
-        if self.prompts.ask_recover(self, newest):
+        """Offer, one by one, the unsaved work that apps which ended left behind; True if any
+        was recovered. The first accepted copy opens here (unless this window has unsaved work),
+        the others in windows of their own. A copy is deleted only once the user has decided
+        about it, and a recovered copy only after its window has written its own."""
+        recovered = False
+        for rec in autosave.find_recoveries():
+            if not rec.path.exists():  # another window decided about it meanwhile
+                continue
+            if not self.prompts.ask_recover(self, rec):
+                autosave.discard_recovery(rec)
+                continue
             try:
-                building = autosave.load_recovery(newest)
+                building = autosave.load_recovery(rec)
             except BuildingFileError as exc:
                 self.prompts.show_error(
                     self, "Cannot recover",
-                    f"The recovery copy from {newest.saved_at_text} is damaged and cannot be "
+                    f"The recovery copy from {rec.saved_at_text} is damaged and cannot be "
                     f"opened; it has been discarded.\n\n{exc}")
-        for rec in found:  # offered once; older copies go too
-            autosave.discard_recovery(rec)
-        if building is None:
-            return False
-        self.load_document(Document(building, newest.source_path))
-        self.history.forget_clean()
-        self.autosave_now()  # this session's own copy, until it is saved
-        return True
+                autosave.discard_recovery(rec)
+                continue
+            doc = Document(building, rec.source_path)
+            if recovered or self.document.dirty:
+                target = self._open_extra_window(doc)
+            else:
+                self.load_document(doc)
+                target = self
+            target.history.forget_clean()
+            if target.autosave_now() is not None:  # its own copy first, then the old one goes
+                autosave.discard_recovery(rec)
+            recovered = True
+        return recovered
+
+    def _open_extra_window(self, doc: Document) -> MainWindow:
+        """A new window on ``doc`` (a further recovered building), shown beside this one."""
+        if self.window_factory is not None:
+            window: MainWindow = self.window_factory(doc)
+        else:
+            window = MainWindow(doc, settings=self.settings, prompts=self.prompts,
+                                samples=self.recomputer.samples,
+                                refine_samples=self.recomputer.refine_samples)
+        window.window_factory = self.window_factory
+        self.extra_windows.append(window)
+        window.show()
+        return window
 
     # --- edits with dialogs -----------------------------------------------------------------------
 
@@ -647,7 +682,7 @@ class MainWindow(QMainWindow):
         self.recomputer.shutdown()  # waits for the worker threads to end
         for stop in self.on_close:
             stop()
-        autosave.discard_recovery()
+        self.recovery.discard()
         self.settings.set_window_state(self.saveGeometry(), self.saveState())
         self.settings.set_splitter_state(self.splitter.saveState())
         self.settings.sync()
