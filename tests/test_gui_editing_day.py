@@ -204,3 +204,48 @@ def test_answering_no_discards_only_that_copy(qtbot, tmp_path) -> None:  # type:
     assert window.offer_recovery()
     assert offered[-1] == undecided and len(offered) == 3
     assert window.document.building.info.name == f"Edited {undecided.stem}"
+
+
+# --- item 3: columns fit what they show -----------------------------------------------------------
+
+def clipped_cells(table: Any, rows: int = 60) -> list[str]:
+    """Cells of ``table`` whose text is wider than its column (the last, stretched, column aside),
+    or any text at all when the table wraps words into its one-line rows."""
+    model = table.model()
+    metrics = table.fontMetrics()
+    header = table.horizontalHeader()
+    bad = []
+    for col in range(model.columnCount() - 1):
+        width = header.sectionSize(col)
+        for row in range(min(rows, model.rowCount())):
+            text = str(model.data(model.index(row, col)) or "")
+            if metrics.horizontalAdvance(text) + 8 > width:
+                bad.append(f"{model.headerData(col, Qt.Orientation.Horizontal)}: {text!r}")
+    return bad
+
+
+def test_result_columns_fit_at_the_default_size_after_the_full_results(qtbot) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.demo import sample_building
+
+    window = open_window(qtbot, sample_building("tower"), refine_samples=256,
+                         refine_delay_ms=10)
+    window.resize(1280, 720)
+    qtbot.waitSignal(window.results_refined, timeout=60000)
+    qtbot.waitUntil(lambda: window.results_samples == 256, timeout=60000)
+    qtbot.wait(50)
+    table = window.results_table
+    assert not table.wordWrap()
+    assert clipped_cells(table) == []
+
+
+def test_editor_columns_fit_after_a_new_building_fills(qtbot) -> None:  # type: ignore[no-untyped-def]
+    window = open_window(qtbot)
+    assert window.new_document()
+    window.floors_panel.add_floor()
+    window.floors_panel.add_floor()
+    window.actions_.add_opening.trigger()
+    assert window.copy_floor(0, [1, 2]) is None
+    qtbot.wait(50)
+    assert len(window.document.building.openings) == 3
+    assert clipped_cells(window.openings_panel.table) == []
+    assert clipped_cells(window.floors_panel.table) == []

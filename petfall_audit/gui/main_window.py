@@ -52,6 +52,7 @@ from petfall_audit.gui.widgets.field_form import ERROR_STYLE
 from petfall_audit.gui.widgets.floors import FloorsPanel
 from petfall_audit.gui.widgets.openings import OpeningsPanel
 from petfall_audit.gui.widgets.site import SitePanel
+from petfall_audit.gui.widgets.tables import keep_columns_fitted
 from petfall_audit.gui.worker import (
     INTERACTIVE_SAMPLES,
     REFINE_DELAY_MS,
@@ -185,9 +186,8 @@ class MainWindow(QMainWindow):
         self.results_table.verticalHeader().setDefaultSectionSize(22)
         header = self.results_table.horizontalHeader()
         header.setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
-        header.setResizeContentsPrecision(40)  # size columns from the first rows only
         header.setStretchLastSection(True)
-        self._results_sized = False
+        keep_columns_fitted(self.results_table)
         self.results_table.doubleClicked.connect(self._on_result_activated)
         self.results_state = QLabel("Computing results…")
         self.results_state.setObjectName("results_state")
@@ -381,9 +381,6 @@ class MainWindow(QMainWindow):
         self.results_samples = self.recomputer.samples
         self._show_samples("quick" if self.recomputer.refines else "final")
         self.results_model.set_assessment(assessment)
-        if not self._results_sized and self.results_model.rowCount():
-            self.results_table.resizeColumnsToContents()
-            self._results_sized = True
         self.progress.hide()
         self.results_state.setStyleSheet("")  # a failure shown before is over
         n = len(getattr(assessment, "openings", ()))

@@ -34,6 +34,7 @@ from PySide6.QtWidgets import (
 from petfall_audit.editing.fields import enum_label
 from petfall_audit.gui.result_cells import fmt_one_in, result_style, result_text
 from petfall_audit.gui.views.common import ViewContext, band_qstyle
+from petfall_audit.gui.widgets.tables import keep_columns_fitted
 from petfall_audit.injury import BAND_DESCRIPTIONS, BANDS
 
 __all__ = ["RankedModel", "RankedFilter", "RankedView", "SORT_ROLE", "ID_ROLE"]
@@ -255,6 +256,7 @@ class RankedView(QWidget):
         header = self.table.horizontalHeader()
         header.setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
         header.setStretchLastSection(True)
+        keep_columns_fitted(self.table)
         self.details = QTextBrowser()
         self.details.setObjectName("ranked_details")
         self.details.setOpenLinks(False)

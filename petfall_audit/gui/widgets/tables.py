@@ -5,6 +5,7 @@ from __future__ import annotations
 
 from collections.abc import Callable, Iterable
 
+from PySide6.QtCore import Qt, QTimer
 from PySide6.QtGui import QAction
 from PySide6.QtWidgets import QAbstractItemView, QLabel, QPushButton, QTableView, QToolBar
 
@@ -13,8 +14,8 @@ from petfall_audit.gui.adapters import RecordTableModel
 from petfall_audit.gui.widgets.delegates import FieldDelegate
 from petfall_audit.gui.widgets.field_form import ERROR_STYLE
 
-__all__ = [
-    "add_remove_bar","record_table", "error_label"]
+__all__ = ["add_remove_bar", "record_table", "error_label", "keep_columns_fitted",
+           "fit_columns"]
 
 ROW_HEIGHT_PX = 22
 
@@ -33,12 +34,57 @@ def record_table(model: RecordTableModel, name: str,
                            else QAbstractItemView.SelectionMode.SingleSelection)
     table.verticalHeader().hide()
     table.verticalHeader().setDefaultSectionSize(ROW_HEIGHT_PX)
-    table.setWordWrap(False)
     header = table.horizontalHeader()
-    header.setResizeContentsPrecision(40)  # size columns from the first rows only
-    table.resizeColumnsToContents()
     header.setStretchLastSection(stretch_last)
+    keep_columns_fitted(table)
     return table
+
+
+#: Rows read to size a column (the first ones, then a sample of the rest).
+_FIT_ROWS = 200
+#: Room (px) beside the text of a cell for its margins and focus frame.
+_CELL_PAD_PX = 12
+
+
+def fit_columns(table: QTableView) -> None:
+    """Widen every column that is narrower than its header or the cells it shows (never
+    narrower: a column the user widened stays). Reads at most :data:`_FIT_ROWS` rows, spread
+    over the whole table, so that a large building stays quick."""
+    model = table.model()
+    if model is None:
+        return
+    header = table.horizontalHeader()
+    metrics = table.fontMetrics()
+    rows = model.rowCount()
+    step = max(1, rows // _FIT_ROWS)
+    sample = range(0, rows, step)
+    last = model.columnCount() - 1
+    for col in range(model.columnCount()):
+        if header.isSectionHidden(col) or (col == last and header.stretchLastSection()):
+            continue
+        want = header.sectionSizeFromContents(col).width()
+        for row in sample:
+            text = model.data(model.index(row, col))
+            if text is not None:
+                want = max(want, metrics.horizontalAdvance(str(text)) + _CELL_PAD_PX)
+        if header.sectionSize(col) < want:
+            header.resizeSection(col, want)
+
+
+def keep_columns_fitted(table: QTableView) -> None:
+    """Fit ``table``'s columns now and whenever rows come, go or change (once per burst of
+    changes): columns never clip what they show, also when a table that started empty fills."""
+    table.setWordWrap(False)  # a wrapped cell in a one-line row shows only its first word
+    table.setTextElideMode(Qt.TextElideMode.ElideRight)
+    timer = QTimer(table)
+    timer.setSingleShot(True)
+    timer.setInterval(0)
+    timer.timeout.connect(lambda: fit_columns(table))
+    model = table.model()
+    for signal in (model.modelReset, model.rowsInserted, model.dataChanged,
+                   model.layoutChanged):
+        signal.connect(lambda *_: timer.start())
+    fit_columns(table)
 
 
 def error_label(name: str = "") -> QLabel:
