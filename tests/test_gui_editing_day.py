@@ -249,3 +249,55 @@ def test_editor_columns_fit_after_a_new_building_fills(qtbot) -> None:  # type: 
     assert len(window.document.building.openings) == 3
     assert clipped_cells(window.openings_panel.table) == []
     assert clipped_cells(window.floors_panel.table) == []
+
+
+# --- item 4: a refused cell edit is explained at the cell and kept for correction ---------
+
+def _type_into_cell(qtbot, table: Any, row: int, col: int, text: str) -> None:  # type: ignore[no-untyped-def]
+    from PySide6.QtWidgets import QLineEdit
+
+    index = table.model().index(row, col)
+    table.setCurrentIndex(index)
+    table.edit(index)
+    editor = table.viewport().findChild(QLineEdit)
+    assert editor is not None
+    editor.selectAll()
+    qtbot.keyClicks(editor, text)
+    qtbot.keyClick(editor, Qt.Key.Key_Return)
+
+
+def _open_cell_editor(table: Any) -> Any:
+    from PySide6.QtWidgets import QLineEdit
+
+    editors = [e for e in table.viewport().findChildren(QLineEdit) if e.isVisible()]
+    return editors[0] if editors else None
+
+
+def test_a_refused_floor_edit_is_explained_in_words_and_kept(qtbot) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.demo import sample_building
+
+    window = open_window(qtbot, sample_building("walkup"))
+    window.show_editor(window.floors_panel)
+    panel = window.floors_panel
+    before = window.document.building
+    row = panel.model.row_of_key(2)
+    col = panel.model.column_of("elevation_m")
+    _type_into_cell(qtbot, panel.table, row, col, "1 m")  # below the floor beneath
+    qtbot.waitUntil(panel.error.isVisible, timeout=3000)
+    qtbot.wait(20)
+    qtbot.waitUntil(lambda: _open_cell_editor(panel.table) is not None, timeout=3000)
+    assert window.document.building is before
+    editor = _open_cell_editor(panel.table)
+    assert editor.text() == "1 m"  # what was typed, to correct
+    assert panel.table.currentIndex().row() == row
+    message = panel.error.text()
+    assert panel.error.isVisible()
+    assert "floors[" not in message and "Floor 2" in message and "Floor 1" in message
+    # the reason sits above the table, so it is in view whenever the table is
+    assert panel.error.geometry().bottom() <= panel.table.geometry().top()
+    # correcting it in the same editor applies
+    editor.selectAll()
+    qtbot.keyClicks(editor, "7 m")
+    qtbot.keyClick(editor, Qt.Key.Key_Return)
+    qtbot.waitUntil(lambda: window.document.building.floors[row].elevation_m == 7.0,
+                    timeout=3000)

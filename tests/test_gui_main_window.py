@@ -133,10 +133,10 @@ def test_invalid_input_shows_an_error_and_keeps_the_old_value(qtbot) -> None:  #
     assert window.document.building is before and not window.history.can_undo
     assert form.commit_text("width_m", "1.5 m")  # corrected: the error goes away
     assert form.error_text("width_m") == ""
-    # the same in a table cell: nothing changes, the reason is shown under the table
+    # the same in a table cell: nothing changes, the reason is shown above the table
     model = panel.model
     assert not model.setData(model.index(0, model.column_of("width_m")), "abc")
-    assert panel.table_error.isVisibleTo(panel) and "old value is kept" in panel.table_error.text()
+    assert panel.table_error.isVisibleTo(panel) and "Esc keeps the old" in panel.table_error.text()
 
 
 def test_copy_a_typical_floor_to_ten_levels(qtbot) -> None:  # type: ignore[no-untyped-def]

@@ -67,8 +67,10 @@ DEFAULT_ID_PATTERN = "{facade}-{level:02d}-{n}"
 class EditRefused(PetfallError, ValueError):
     """An edit was refused because it would make the building invalid; ``problems`` says why."""
 
-    def __init__(self, problems: Sequence[Problem]) -> None:
+    def __init__(self, problems: Sequence[Problem], *, building: Building | None = None) -> None:
         self.problems = list(problems)
+        #: The building the problems' places refer to (the edit's result), if known.
+        self.building = building
         super().__init__("\n".join(str(p) for p in self.problems) or "edit refused")
 
 
@@ -147,7 +149,7 @@ class BuildingCommand(Command):
         after_problems = validate(after)
         added = new_problems(doc.problems(), after_problems)
         if added:
-            raise EditRefused(added)
+            raise EditRefused(added, building=after)
         self._before, self._after, self._after_problems = before, after, after_problems
         doc.set_building(after, problems=after_problems)
 

@@ -25,7 +25,7 @@ from PySide6.QtCore import (
     Signal,
 )
 
-from petfall_audit.editing.commands import Command, EditRefused, refusal_text
+from petfall_audit.editing.commands import Command, EditRefused
 from petfall_audit.editing.document import Document
 from petfall_audit.editing.fields import (
     FieldSpec,
@@ -33,6 +33,7 @@ from petfall_audit.editing.fields import (
     parse_value,
 )
 from petfall_audit.editing.history import History
+from petfall_audit.editing.words import problem_words
 from petfall_audit.gui.result_cells import result_style, result_text, units_of
 from petfall_audit.model import Building
 
@@ -104,7 +105,7 @@ def push_command(history: History, cmd: Command) -> str | None:
     try:
         history.push(cmd)
     except EditRefused as exc:
-        return refusal_text(exc.problems)
+        return problem_words(exc.problems, exc.building or history.doc.building)
     except ValueError as exc:
         return str(exc)
     return None
@@ -149,6 +150,10 @@ class RecordTableModel(QAbstractTableModel):
         self._extra = tuple(extra)
         self._editable_extra = editable_extra
         self._rows: list[Any] = list(items(doc.building))
+        #: The last refused cell edit: ``(row, column, text typed, reason)``, else ``None``.
+        self.refused: tuple[int, int, str, str] | None = None
+        self._editing: tuple[int, int, str] | None = None
+        self.edit_failed.connect(self._note_refusal)
         self._row_index: tuple[list[Any], dict[Any, int]] | None = None
         self._disconnects = [doc.on_changed(kind, self._on_changed)]
         for other in extra_kinds:  # computed columns may read other parts of the building
@@ -251,8 +256,10 @@ class RecordTableModel(QAbstractTableModel):
     # --- editing ---------------------------------------------------------------------------------
 
     def setData(self, index: Index, value: Any, role: int = Qt.ItemDataRole.EditRole) -> bool:
+        self.refused = None
         if not index.isValid():
             return False
+        self._editing = (index.row(), index.column(), str(value))
         item = self._rows[index.row()]
         key = getattr(item, self._key)
         col = index.column()
@@ -286,6 +293,10 @@ class RecordTableModel(QAbstractTableModel):
         if new == getattr(item, spec.name):
             return False
         return self._push(key, spec.name, self._make_command(key, {spec.name: new}))
+
+    def _note_refusal(self, _key: str, _field: str, message: str) -> None:
+        if self._editing is not None:
+            self.refused = (*self._editing, message)
 
     def _push(self, key: Any, field_name: str, cmd: Command) -> bool:
         reason = push_command(self._history, cmd)

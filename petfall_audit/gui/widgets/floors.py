@@ -23,7 +23,12 @@ from petfall_audit.editing.fields import FLOOR_FIELDS, FieldSpec, format_value, 
 from petfall_audit.editing.history import History
 from petfall_audit.editing.query import elevations_for_storey_height, next_floor, storey_heights_m
 from petfall_audit.gui.adapters import RecordTableModel, ViewOptions, push_command
-from petfall_audit.gui.widgets.tables import add_remove_bar, error_label, record_table
+from petfall_audit.gui.widgets.tables import (
+    add_remove_bar,
+    error_label,
+    record_table,
+    refusal_line,
+)
 from petfall_audit.model import Building, Floor
 
 __all__ = ["FloorsPanel"]
@@ -74,10 +79,10 @@ class FloorsPanel(QWidget):
         layout = QVBoxLayout(self)
         layout.setContentsMargins(0, 0, 0, 0)
         layout.addWidget(bar)
+        layout.addWidget(self.error)  # above the table, where the user looks
+        layout.addWidget(self.note)
         layout.addWidget(hint)
         layout.addWidget(self.table, 1)
-        layout.addWidget(self.error)
-        layout.addWidget(self.note)
 
     def detach(self) -> None:
         self.model.detach()
@@ -102,7 +107,9 @@ class FloorsPanel(QWidget):
         return SetFloorElevations(mapping, label=f"Set storey height of floor {floor.level}")
 
     def _on_edit_failed(self, key: str, field_name: str, message: str) -> None:
-        self._show_error(f"Floor {key}: {message} (the old value is kept)")
+        floor = next((f for f in self._doc.building.floors if str(f.level) == key), None)
+        thing = (floor.label or f"Level {floor.level}") if floor is not None else f"Level {key}"
+        self._show_error(refusal_line(thing, message))
 
     def _show_error(self, message: str) -> None:
         self.note.hide()

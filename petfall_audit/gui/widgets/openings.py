@@ -23,17 +23,22 @@ from petfall_audit.editing.commands import (
     AddOpenings,
     RemoveOpenings,
     SetOpeningFields,
-    refusal_text,
 )
 from petfall_audit.editing.document import Document
 from petfall_audit.editing.fields import OPENING_FIELDS, FieldSpec
 from petfall_audit.editing.history import History
 from petfall_audit.editing.placement import new_opening
 from petfall_audit.editing.query import applicable_openings
+from petfall_audit.editing.words import problem_words
 from petfall_audit.gui.adapters import RecordTableModel, ViewOptions, _runs, push_command
 from petfall_audit.gui.widgets.field_form import MIXED, FieldForm
 from petfall_audit.gui.widgets.photos import PhotoHost, PhotoStrip
-from petfall_audit.gui.widgets.tables import add_remove_bar, error_label, record_table
+from petfall_audit.gui.widgets.tables import (
+    add_remove_bar,
+    error_label,
+    record_table,
+    refusal_line,
+)
 
 __all__ = ["OpeningsPanel", "TABLE_FIELDS"]
 
@@ -89,9 +94,9 @@ class OpeningsPanel(QWidget):
         left_layout = QVBoxLayout(left)
         left_layout.setContentsMargins(0, 0, 0, 0)
         left_layout.addWidget(bar)
-        left_layout.addWidget(self.table, 1)
-        left_layout.addWidget(self.table_error)
+        left_layout.addWidget(self.table_error)  # above the table, where the user looks
         left_layout.addWidget(self.place_note)
+        left_layout.addWidget(self.table, 1)
         right = QWidget()
         right_layout = QVBoxLayout(right)
         right_layout.setContentsMargins(4, 0, 0, 0)
@@ -209,7 +214,7 @@ class OpeningsPanel(QWidget):
         return reason
 
     def _on_edit_failed(self, key: str, field_name: str, message: str) -> None:
-        self.table_error.setText(f"! Opening {key}: {message} (the old value is kept)")
+        self.table_error.setText("! " + refusal_line(f"Opening {key}", message))
         self.table_error.show()
 
     def add_opening(self) -> str | None:
@@ -227,7 +232,7 @@ class OpeningsPanel(QWidget):
             level, facade = self._place_hint()
         opening, problems = new_opening(b, level=level, facade=facade)
         if opening is None:
-            self.table_error.setText("! No opening added: " + refusal_text(problems))
+            self.table_error.setText("! No opening added: " + problem_words(problems, b))
             self.table_error.show()
             return None
         index = self.model.row_of_key(ids[-1]) + 1 if ids else None

@@ -27,7 +27,7 @@ from petfall_audit.editing.fields import FACADE_FIELDS, SURFACE_FIELDS, FieldSpe
 from petfall_audit.editing.history import History
 from petfall_audit.editing.query import unique_id
 from petfall_audit.gui.adapters import RecordTableModel, ViewOptions, push_command
-from petfall_audit.gui.widgets.tables import error_label, record_table
+from petfall_audit.gui.widgets.tables import error_label, record_table, refusal_line
 from petfall_audit.model import Facade, Surface, SurfaceKind
 
 __all__ = ["SitePanel"]
@@ -50,10 +50,10 @@ class SitePanel(QWidget):
         self.facades_table = record_table(self.facades_model, "facades_table", self._choices)
         self.surfaces_table = record_table(self.surfaces_model, "surfaces_table", self._choices)
         self.error = error_label()
-        for model in (self.facades_model, self.surfaces_model):
+        for model, noun in ((self.facades_model, "Facade"), (self.surfaces_model, "Surface")):
             model.edited.connect(lambda *_: self.error.hide())
             model.edit_failed.connect(
-                lambda key, _f, msg: self._show_error(f"{key}: {msg} (the old value is kept)"))
+                lambda key, _f, msg, n=noun: self._show_error(refusal_line(f"{n} {key}", msg)))
 
         facades = self._group("Facades", self.facades_table, self.add_facade,
                               self.remove_facade,
@@ -68,8 +68,8 @@ class SitePanel(QWidget):
         splitter.setStretchFactor(1, 2)
         layout = QVBoxLayout(self)
         layout.setContentsMargins(0, 0, 0, 0)
+        layout.addWidget(self.error)  # above the tables, where the user looks
         layout.addWidget(splitter, 1)
-        layout.addWidget(self.error)
 
     def detach(self) -> None:
         self.facades_model.detach()

@@ -87,6 +87,14 @@ def keep_columns_fitted(table: QTableView) -> None:
     fit_columns(table)
 
 
+def refusal_line(thing: str, message: str) -> str:
+    """The line shown for a refused edit of ``thing`` ("Opening S01-B1"): the reason in words,
+    without naming the thing twice, and what happens next."""
+    if not message.lower().startswith(thing.lower()):
+        message = f"{thing}: {message}"
+    return f"{message}. Correct the value in the cell (Esc keeps the old one)."
+
+
 def error_label(name: str = "") -> QLabel:
     """A hidden, word-wrapped label in the error style (shown with the reason of a refusal)."""
     label = QLabel()
