@@ -35,6 +35,7 @@ __all__ = [
     "InjuryThresholds",
     "Building",
     "BALCONY_LIKE",
+    "KIND_LABELS",
     "WINDOW_KINDS",
 ]
 
@@ -57,6 +58,18 @@ class OpeningKind(StrEnum):
 BALCONY_LIKE: frozenset[OpeningKind] = frozenset(
     {OpeningKind.BALCONY, OpeningKind.TERRACE, OpeningKind.GALLERY}
 )
+#: Each kind of opening in plain words.
+KIND_LABELS: dict[OpeningKind, str] = {
+    OpeningKind.BALCONY: "Balcony",
+    OpeningKind.TERRACE: "Roof terrace",
+    OpeningKind.GALLERY: "Walkway / access gallery",
+    OpeningKind.WINDOW_CASEMENT: "Casement window",
+    OpeningKind.WINDOW_SLIDING: "Sliding window",
+    OpeningKind.WINDOW_HUNG: "Hung (sash) window",
+    OpeningKind.WINDOW_TILT_TURN: "Tilt-and-turn window",
+    OpeningKind.WINDOW_TOP_HUNG: "Top-hung (awning) window",
+    OpeningKind.FIXED: "Fixed glazing",
+}
 #: Kinds that are windows in a wall (``projection_m`` is 0 for them).
 WINDOW_KINDS: frozenset[OpeningKind] = frozenset(
     {

@@ -248,7 +248,7 @@ def _set(doc: dict[str, Any], path: str, value: Any) -> dict[str, Any]:
         (
             "openings[1].projection_m",
             0.5,
-            "openings[1].projection_m: a window casement sits in the wall",
+            "openings[1].projection_m: a casement window sits in the wall",
         ),
         ("openings[0].escape_window", True, "openings[0].escape_window: only an opening window"),
         ("openings[1].photos", ["/home/x.jpg"], "openings[1].photos[0]: expected a path relative"),
@@ -609,7 +609,7 @@ def test_validate_building_on_edited_models() -> None:
         "openings[0].floor: level 40 does not exist",
         "openings[0].x_m: expected a finite number, got infinity",
         "openings[1].escape_window: only an opening window can be an emergency escape window, "
-        "not a fixed",
+        "not fixed glazing",
         "openings[1].photos[0]: expected a path relative to the building file, got 'C:/x.jpg'",
         "cat_profile.preset: unknown preset 'lion' (known: adult, kitten, heavy_adult)",
         "cat_profile.relax_fraction.max: must be less than 1, got 1.2 (a fraction of the terminal "

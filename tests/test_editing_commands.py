@@ -281,3 +281,19 @@ def test_applicable_openings_skips_kinds_a_value_does_not_fit() -> None:
     fits, skipped, _ = applicable_openings(b, ids, "projection_m", 1.2)
     assert skipped == ["north-01-1"]
     assert applicable_openings(b, ids, "netting_mesh_mm", 30.0) == (ids, [], "")
+
+
+def test_changing_the_kind_carries_fields_that_no_longer_apply() -> None:
+    """A window sits in the wall (projection 0); a limiter and the escape-window mark fit opening
+    windows only (the building file's own rules, docs/building-file.md)."""
+    from petfall_audit.editing.query import fields_for_kind
+    from petfall_audit.model import Opening, OpeningKind
+
+    balcony = Opening("b", 0, "f", OpeningKind.BALCONY, 0.0, 1.0, projection_m=1.2)
+    assert fields_for_kind(balcony, OpeningKind.WINDOW_HUNG) == {"projection_m": 0.0}
+    assert fields_for_kind(balcony, OpeningKind.TERRACE) == {}
+    window = Opening("w", 0, "f", OpeningKind.WINDOW_CASEMENT, 0.0, 1.0, limiter_gap_mm=90.0,
+                     escape_window=True)
+    assert fields_for_kind(window, OpeningKind.FIXED) == {"limiter_gap_mm": None,
+                                                          "escape_window": False}
+    assert fields_for_kind(window, OpeningKind.WINDOW_SLIDING) == {}

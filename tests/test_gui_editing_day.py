@@ -301,3 +301,49 @@ def test_a_refused_floor_edit_is_explained_in_words_and_kept(qtbot) -> None:  # 
     qtbot.keyClick(editor, Qt.Key.Key_Return)
     qtbot.waitUntil(lambda: window.document.building.floors[row].elevation_m == 7.0,
                     timeout=3000)
+
+
+# --- item 5: changing the kind carries the fields that no longer apply --------------------------
+
+def _choose(combo: Any, data: Any) -> None:
+    i = combo.findData(data)
+    assert i >= 0
+    combo.setCurrentIndex(i)
+    combo.activated.emit(i)  # what a click on the list entry sends
+
+
+def test_a_new_balcony_becomes_a_window_in_one_undo_step(qtbot) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.model import OpeningKind
+
+    window = open_window(qtbot)
+    panel = window.openings_panel
+    new_id = panel.add_opening()
+    assert new_id is not None
+    before = window.document.building
+    assert before.opening(new_id).projection_m > 0  # a new opening starts as a balcony
+    _choose(panel.form.editor("kind"), OpeningKind.WINDOW_SLIDING)
+    changed = window.document.building.opening(new_id)
+    assert changed.kind is OpeningKind.WINDOW_SLIDING and changed.projection_m == 0.0
+    assert panel.form.error_text("kind") == ""
+    assert "projection" in window.history.undo_label
+    window.actions_.undo.trigger()
+    assert window.document.building is before
+    # the escape-window mark and a limiter go when a window becomes fixed glazing
+    window.actions_.redo.trigger()
+    assert panel.form.commit_text("limiter_gap_mm", "100 mm")
+    panel.form.editor("escape_window").click()
+    assert window.document.building.opening(new_id).escape_window
+    _choose(panel.form.editor("kind"), OpeningKind.FIXED)
+    fixed = window.document.building.opening(new_id)
+    assert fixed.kind is OpeningKind.FIXED
+    assert fixed.limiter_gap_mm is None and not fixed.escape_window
+
+
+def test_the_window_message_reads_in_plain_order() -> None:
+    from petfall_audit.editing.document import validate
+    from petfall_audit.model import Opening, OpeningKind
+
+    b = dataclasses.replace(blank_building(), openings=(
+        Opening("w", 0, "front", OpeningKind.WINDOW_SLIDING, 0.0, 1.0, projection_m=0.5),))
+    (problem,) = [p for p in validate(b) if p.where.endswith("projection_m")]
+    assert "a sliding window sits in the wall" in problem.message

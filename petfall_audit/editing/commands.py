@@ -231,10 +231,30 @@ class SetOpeningFields(BuildingCommand):
             raise _refuse("openings.id", "several openings cannot take the same id")
         fields = ", ".join(n.replace("_", " ") for n in self.changes)
         target = self.ids[0] if len(self.ids) == 1 else _plural(len(self.ids), "opening")
-        super().__init__(label or f"Set {fields} of {target}", merge_key)
+        self._default_label = label is None
+        self._base_label = label or f"Set {fields} of {target}"
+        super().__init__(self._base_label, merge_key)
 
     def apply(self, building: Building) -> Building:
+        from petfall_audit.editing.query import fields_for_kind
+
         openings = _replace_items(building.openings, "id", self.ids, self.changes, "openings")
+        kind = self.changes.get("kind")
+        if kind is not None:  # fields that no longer apply to the new kind, in the same step
+            carried: set[str] = set()
+            wanted = set(self.ids)
+            out = []
+            for o in openings:
+                extra = {k: v for k, v in fields_for_kind(o, kind).items()
+                         if k not in self.changes} if o.id in wanted else {}
+                carried.update(extra)
+                out.append(dataclasses.replace(o, **extra) if extra else o)
+            openings = tuple(out)
+            if carried and self._default_label:
+                from petfall_audit.editing.fields import OPENING_FIELDS
+
+                names = [s.label.lower() for s in OPENING_FIELDS if s.name in carried]
+                self.label = f"{self._base_label} (and {', '.join(names)} to suit)"
         return dataclasses.replace(building, openings=openings)
 
 

@@ -16,6 +16,7 @@ from typing import Any
 
 from petfall_audit.io._schema import LIMITS
 from petfall_audit.model import (
+    KIND_LABELS,
     CatsPresent,
     OpenFrequency,
     OpeningKind,
@@ -43,15 +44,7 @@ __all__ = [
 ]
 
 ENUM_LABELS: dict[StrEnum, str] = {
-    OpeningKind.BALCONY: "Balcony",
-    OpeningKind.TERRACE: "Roof terrace",
-    OpeningKind.GALLERY: "Walkway / access gallery",
-    OpeningKind.WINDOW_CASEMENT: "Casement window",
-    OpeningKind.WINDOW_SLIDING: "Sliding window",
-    OpeningKind.WINDOW_HUNG: "Hung (sash) window",
-    OpeningKind.WINDOW_TILT_TURN: "Tilt-and-turn window",
-    OpeningKind.WINDOW_TOP_HUNG: "Top-hung (awning) window",
-    OpeningKind.FIXED: "Fixed glazing",
+    **KIND_LABELS,  # type: ignore[dict-item]
     Screen.NONE: "No screen",
     Screen.INSECT: "Insect screen",
     Screen.PET_RESISTANT: "Pet-resistant screen",

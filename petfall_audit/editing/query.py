@@ -5,9 +5,9 @@ from __future__ import annotations
 from collections.abc import Iterable
 from typing import Any
 
-from petfall_audit.model import BALCONY_LIKE, WINDOW_KINDS, Building, Floor, OpeningKind
+from petfall_audit.model import BALCONY_LIKE, WINDOW_KINDS, Building, Floor, Opening, OpeningKind
 
-__all__ = ["select_openings", "unique_id", "next_floor", "storey_heights_m",
+__all__ = ["fields_for_kind", "select_openings", "unique_id", "next_floor", "storey_heights_m",
            "elevations_for_storey_height", "applicable_openings"]
 
 _OPENING_WINDOWS = WINDOW_KINDS - {OpeningKind.FIXED}
@@ -21,6 +21,21 @@ _FITS: dict[str, tuple[frozenset[OpeningKind], Any, str]] = {
     "projection_m": (BALCONY_LIKE, lambda v: v is not None and v > 0,
                      "only balconies, terraces and galleries stand out from the facade"),
 }
+
+
+def fields_for_kind(opening: Opening, kind: OpeningKind) -> dict[str, Any]:
+    """The fields of ``opening`` that no longer apply once it becomes ``kind``, with the value
+    they take: a window sits in the wall (projection 0); a limiter and the escape-window mark fit
+    opening windows only. Empty when nothing has to change."""
+    changes: dict[str, Any] = {}
+    if kind in WINDOW_KINDS and opening.projection_m != 0:
+        changes["projection_m"] = 0.0
+    if kind not in _OPENING_WINDOWS:
+        if opening.limiter_gap_mm is not None:
+            changes["limiter_gap_mm"] = None
+        if opening.escape_window:
+            changes["escape_window"] = False
+    return changes
 
 
 def applicable_openings(building: Building, ids: Iterable[str], field: str,

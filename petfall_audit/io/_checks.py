@@ -23,6 +23,7 @@ from petfall_audit.io.photos import photo_problem
 from petfall_audit.model import (
     BALCONY_LIKE,
     CAT_PRESETS,
+    KIND_LABELS,
     WINDOW_KINDS,
     Building,
     BuildingInfo,
@@ -342,7 +343,7 @@ def _check_openings(
                 problems.append(
                     Problem(
                         at("projection_m"),
-                        f"a {o.kind.value.replace('_', ' ')} sits in the wall: its projection "
+                        f"a {KIND_LABELS[o.kind].lower()} sits in the wall: its projection "
                         f"must be 0, got {o.projection_m:g} m",
                     )
                 )
@@ -356,8 +357,8 @@ def _check_openings(
             problems.append(
                 Problem(
                     at("escape_window"),
-                    f"only an opening window can be an emergency escape window, not a "
-                    f"{o.kind.value.replace('_', ' ')}",
+                    f"only an opening window can be an emergency escape window, not "
+                    f"{KIND_LABELS[o.kind].lower()}",
                 )
             )
         # Only the form of a photo path is checked here (the file itself by load_building, which
