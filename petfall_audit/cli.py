@@ -345,11 +345,14 @@ def _cmd_plan(args: argparse.Namespace) -> int:
     from petfall_audit.io.plan_export import plan_to_csv, plan_to_dict, plan_to_table
     from petfall_audit.plan import make_plan
 
-    if not math.isfinite(args.budget) or args.budget < 0:
+    if args.budget is not None and (not math.isfinite(args.budget) or args.budget < 0):
         raise _refuse("--budget must be an amount of 0 or more")
     _check_output(args.output)
     _check_sampling(args)
     building = _load(args.file)
+    budget = _budget_of(args, building)
+    if budget is None:
+        raise _refuse(f"{args.file}: no budget is saved with this audit; give one with --budget")
     try:
         catalogue = load_catalogue(args.controls)
     except CatalogueError as exc:
@@ -357,7 +360,7 @@ def _cmd_plan(args: argparse.Namespace) -> int:
         return EXIT_INVALID
     except OSError as exc:
         raise _refuse(f"{args.controls}: {exc.strerror or exc}") from None
-    plan = make_plan(_assess(args, building), args.budget, catalogue=catalogue)
+    plan = make_plan(_assess(args, building), budget, catalogue=catalogue)
     if args.format == "json":
         text = _dumps(plan_to_dict(plan))
     elif args.format == "csv":
@@ -366,6 +369,11 @@ def _cmd_plan(args: argparse.Namespace) -> int:
         text = plan_to_table(plan)
     _emit(text, args.output, table=args.format == "table")
     return EXIT_OK
+
+
+def _budget_of(args: argparse.Namespace, building: Building) -> float | None:
+    """``--budget`` if given, else the budget saved with the audit (``None``: neither)."""
+    return float(args.budget) if args.budget is not None else building.plan.budget
 
 
 def _cmd_report(args: argparse.Namespace) -> int:
@@ -387,7 +395,8 @@ def _cmd_report(args: argparse.Namespace) -> int:
     _check_output(args.leaflet)
     building = _load(args.file)
     assessment = _assess(args, building)
-    plan = make_plan(assessment, args.budget) if args.budget is not None else None
+    budget = _budget_of(args, building)
+    plan = make_plan(assessment, budget) if budget is not None else None
     contact = ContactBlock.from_text(args.contact) if args.contact else ContactBlock()
     try:
         if fmt == "pdf":
@@ -768,8 +777,9 @@ def _build_parser() -> argparse.ArgumentParser:
         "risk is removed within AMOUNT. Indicative costs and model only.",
     )
     p.add_argument("file", help="building file (.json)")
-    p.add_argument("--budget", type=float, required=True, metavar="AMOUNT",
-                   help="budget in the control catalogue's currency")
+    p.add_argument("--budget", type=float, default=None, metavar="AMOUNT",
+                   help="budget in the control catalogue's currency (default: the budget "
+                        "saved with the audit)")
     _add_table_output_options(p)
     _add_sampling_options(p)
     p.add_argument("--controls", default=None, metavar="FILE",
@@ -787,7 +797,8 @@ def _build_parser() -> argparse.ArgumentParser:
     p.add_argument("--format", choices=("pdf", "csv", "json"), default=None,
                    help="output format (default: from the output file's extension, else pdf)")
     p.add_argument("--budget", type=float, default=None, metavar="AMOUNT",
-                   help="budget for the fix plan, in the control catalogue's currency")
+                   help="budget for the fix plan, in the control catalogue's currency "
+                        "(default: the budget saved with the audit; none: no plan)")
     p.add_argument("--leaflet", default=None, metavar="PDF", help="also write a tenant leaflet")
     p.add_argument("--contact", default=None, metavar="TEXT",
                    help="issuer's contact block: first line the organisation; separate lines "

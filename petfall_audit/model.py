@@ -22,6 +22,7 @@ __all__ = [
     "CatsPresent",
     "BuildingInfo",
     "Floor",
+    "PlanSettings",
     "Facade",
     "Surface",
     "Opening",
@@ -131,6 +132,16 @@ class BuildingInfo:
     auditor: str = ""
     audit_date: str = ""
     notes: str = ""
+
+
+@dataclass(frozen=True, slots=True)
+class PlanSettings:
+    """The fix plan's settings kept with the audit: ``budget`` (``None`` = none set yet: the app
+    proposes a default and says so) in ``currency`` (ISO 4217 code; empty = the control
+    catalogue's)."""
+
+    budget: float | None = None
+    currency: str = ""
 
 
 @dataclass(frozen=True, slots=True)
@@ -367,6 +378,7 @@ class Building:
     openings: tuple[Opening, ...] = ()
     cat_profile: CatProfile = field(default_factory=lambda: CAT_PRESETS["adult"])
     injury: InjuryThresholds = field(default_factory=InjuryThresholds)
+    plan: PlanSettings = field(default_factory=PlanSettings)
 
     def floor(self, level: int) -> Floor:
         """The floor at ``level``; ``KeyError`` if there is none."""

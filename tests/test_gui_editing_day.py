@@ -347,3 +347,59 @@ def test_the_window_message_reads_in_plain_order() -> None:
         Opening("w", 0, "front", OpeningKind.WINDOW_SLIDING, 0.0, 1.0, projection_m=0.5),))
     (problem,) = [p for p in validate(b) if p.where.endswith("projection_m")]
     assert "a sliding window sits in the wall" in problem.message
+
+
+# --- item 6: the plan's budget is kept with the audit ---------------------------------------------
+
+def _window_with_views(qtbot, building: Building | None = None, path: Any = None) -> Any:  # type: ignore[no-untyped-def]
+    from petfall_audit.demo import sample_building
+    from petfall_audit.gui.views import install_views
+
+    window = MainWindow(Document(building or sample_building("walkup"), path),
+                        prompts=FakePrompts(), samples=SAMPLES, refine_samples=0)
+    qtbot.addWidget(window)
+    views = install_views(window)
+    window.resize(1280, 720)
+    window.show()
+    qtbot.waitUntil(lambda: views.plan.plan is not None, timeout=30000)
+    return window, views
+
+
+def test_the_budget_typed_is_saved_with_the_audit_and_comes_back(qtbot, tmp_path) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.gui.views.common import wait_for_tasks
+    from petfall_audit.io.building_file import load_building
+
+    window, views = _window_with_views(qtbot)
+    plan = views.plan
+    assert plan.budget_is_default and "default" in plan.budget_note.text()
+    spin = plan.budget
+    spin.lineEdit().selectAll()
+    qtbot.keyClicks(spin.lineEdit(), "1200")
+    qtbot.keyClick(spin.lineEdit(), Qt.Key.Key_Return)
+    assert window.document.building.plan.budget == 1200.0
+    assert not plan.budget_is_default and window.document.dirty
+    qtbot.waitUntil(lambda: plan.plan is not None and plan.plan.budget == 1200.0, timeout=30000)
+    path = tmp_path / "walkup.json"
+    assert window.save_as(path)
+    assert load_building(path).plan.budget == 1200.0
+    # undo takes the budget back to the default
+    window.actions_.undo.trigger()
+    assert window.document.building.plan.budget is None and plan.budget_is_default
+    # opening the saved audit shows its budget, not a default
+    again, again_views = _window_with_views(qtbot, load_building(path), path)
+    assert again_views.plan.budget.value() == 1200.0
+    assert not again_views.plan.budget_is_default
+    qtbot.waitUntil(lambda: again_views.plan.plan.budget == 1200.0, timeout=30000)
+    for w in (window, again):
+        w.recomputer.cancel()
+        w.recomputer.wait(10000)
+    wait_for_tasks(20000)
+
+
+def test_a_file_without_plan_settings_loads_and_saves_as_before(tmp_path) -> None:
+    from petfall_audit.io.building_file import dumps_building, load_building
+
+    source = Path(__file__).parents[1] / "sample_buildings" / "walkup.json"
+    b = load_building(source)
+    assert b.plan.budget is None
+    assert '"plan"' not in dumps_building(b)

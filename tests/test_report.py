@@ -311,3 +311,22 @@ def test_sensitivity_section_with_fewer_cats_says_so_and_can_be_left_out(walkup)
     assert "instead of 600" in sens.caption
     off = rc.build_audit_context(a, plan, options=rc.ReportOptions(sensitivity_samples=0))
     assert off.sensitivity is None
+
+
+def test_the_plan_says_where_its_budget_came_from() -> None:
+    """A default budget is called one; a saved budget is named as saved (issue of trust, no
+    source needed: the wording is the tool's own)."""
+    from petfall_audit.demo import sample_building
+    from petfall_audit.model import PlanSettings
+    from petfall_audit.plan import make_plan
+    from petfall_audit.risk import assess
+
+    a = assess(sample_building("walkup"), samples=64)
+    plan = make_plan(a, 1200.0)
+    default = rc.build_audit_context(a, plan, options=rc.ReportOptions(budget_is_default=True))
+    assert "a default" in default.plan_summary[0]
+    given = rc.build_audit_context(a, plan)
+    assert "no budget is saved with the audit" in given.plan_summary[0]
+    saved = replace(a, building=replace(a.building, plan=PlanSettings(budget=1200.0)))
+    kept = rc.build_audit_context(saved, plan)
+    assert "the budget saved with the audit" in kept.plan_summary[0]

@@ -12,6 +12,7 @@ Commands are run by :class:`~petfall_audit.editing.history.History`; no Qt here.
 from __future__ import annotations
 
 import dataclasses
+import math
 import re
 from collections import Counter
 from collections.abc import Hashable, Iterable, Mapping, Sequence
@@ -28,6 +29,7 @@ from petfall_audit.model import (
     Floor,
     InjuryThresholds,
     Opening,
+    PlanSettings,
     Surface,
 )
 
@@ -53,6 +55,7 @@ __all__ = [
     "SetSurface",
     "SetCatProfile",
     "SetInjuryModel",
+    "SetPlanSettings",
     "ReplaceBuilding",
     "DEFAULT_ID_PATTERN",
     "copied_id",
@@ -634,6 +637,21 @@ class SetInjuryModel(BuildingCommand):
         except ValueError as exc:
             raise _refuse("injury", str(exc)) from None
         return dataclasses.replace(building, injury=injury)
+
+
+class SetPlanSettings(BuildingCommand):
+    """Keep the fix plan's budget (and its currency) with the audit. Steps of one spin box or
+    drag merge into one undo step."""
+
+    def __init__(self, settings: PlanSettings, *, label: str | None = None) -> None:
+        self.settings = settings
+        if settings.budget is not None and not (math.isfinite(settings.budget)
+                                                and settings.budget >= 0):
+            raise _refuse("building.plan.budget", "the budget must be an amount of 0 or more")
+        super().__init__(label or "Set the plan's budget", merge_key="plan-budget")
+
+    def apply(self, building: Building) -> Building:
+        return dataclasses.replace(building, plan=self.settings)
 
 
 class ReplaceBuilding(BuildingCommand):

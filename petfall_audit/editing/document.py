@@ -4,7 +4,8 @@ No Qt. Views subscribe with :meth:`Document.on_changed` to a kind of change and 
 the kind after it happened. Kinds:
 
 - ``"building"`` (the building details), ``"floors"``, ``"facades"``, ``"surfaces"``,
-  ``"openings"``, ``"profile"`` (the cat profile): the part of the model that changed;
+  ``"openings"``, ``"profile"`` (the cat profile), ``"plan"`` (the fix plan's settings): the
+  part of the model that changed;
 - ``"path"``: the file the document belongs to; ``"dirty"``: the unsaved-changes flag;
 - ``"*"`` subscribes to every kind.
 
@@ -20,10 +21,13 @@ from petfall_audit.errors import Problem
 from petfall_audit.io.atomic import FileStamp, changed_since, file_stamp
 from petfall_audit.model import Building
 
-__all__ = ["Document", "MODEL_KINDS", "KINDS", "ChangeCallback", "validate"]
+__all__ = ["Document", "MODEL_KINDS", "PLAN_ONLY_KINDS", "KINDS", "ChangeCallback", "validate"]
 
 #: Kinds of change to the model, one per part of a :class:`Building`.
-MODEL_KINDS: tuple[str, ...] = ("building", "floors", "facades", "surfaces", "openings", "profile")
+MODEL_KINDS: tuple[str, ...] = ("building", "floors", "facades", "surfaces", "openings", "profile",
+                                 "plan")
+#: Kinds of change that leave the assessment as it is (only the fix plan follows them).
+PLAN_ONLY_KINDS: frozenset[str] = frozenset({"plan"})
 #: Every kind a document reports.
 KINDS: tuple[str, ...] = (*MODEL_KINDS, "path", "dirty")
 
@@ -35,6 +39,7 @@ _FIELD_KIND = {
     "openings": "openings",
     "cat_profile": "profile",
     "injury": "profile",  # the assumptions about the cats: who falls, how they are hurt
+    "plan": "plan",
 }
 
 ChangeCallback = Callable[[str], None]

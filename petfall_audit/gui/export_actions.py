@@ -62,13 +62,15 @@ def report_inputs(building: Building, *, samples: int, seed: int, budget: float 
 
 
 def _write(kind: str, assessment: Any, plan: Any, path: Path, contact: dict[str, str],
-           photo_root: Path | None = None) -> list[Path]:
+           photo_root: Path | None = None, *, budget_is_default: bool = False) -> list[Path]:
     from petfall_audit.io.atomic import atomic_write_text
 
     if kind == "audit_pdf":
         from petfall_audit.report import write_audit
+        from petfall_audit.report.context import ReportOptions
 
-        return [write_audit(assessment, plan, path, photo_root=photo_root)]
+        options = ReportOptions(budget_is_default=budget_is_default)
+        return [write_audit(assessment, plan, path, photo_root=photo_root, options=options)]
     if kind == "leaflet_pdf":
         from petfall_audit.report import ContactBlock, write_leaflet
 
@@ -114,13 +116,15 @@ def _plain(message: str) -> str:
 class ExportActions(QObject):
     """The export actions of ``window`` and the File ▸ Export menu that holds them.
 
-    ``budget()`` gives the plan's budget (``None``: no plan). ``finished(paths)`` or
-    ``failed(message)`` after each export."""
+    ``budget()`` gives the plan's budget (``None``: no plan); ``budget_is_default()`` whether
+    it is a default the app proposed. ``finished(paths)`` or ``failed(message)`` after each
+    export."""
 
     finished = Signal(object)  # list[Path]
     failed = Signal(str)
 
     def __init__(self, window: Any, *, budget: Callable[[], float | None],
+                 budget_is_default: Callable[[], bool] = lambda: False,
                  prompts: ExportPrompts | None = None, samples: int | None = None,
                  parent: QObject | None = None) -> None:
         super().__init__(parent or window)
@@ -130,6 +134,7 @@ class ExportActions(QObject):
         self.prompts = prompts or ExportPrompts()
         self.samples = samples or DEFAULT_SAMPLES
         self._budget = budget
+        self._budget_is_default = budget_is_default
         self.task: Task | None = None
         self._dialog: QProgressDialog | None = None
         self.actions: dict[str, QAction] = {}
@@ -171,6 +176,7 @@ class ExportActions(QObject):
                 path = Path(path).with_suffix(suffix)
         path = Path(path)
         budget = self._budget()
+        is_default = bool(self._budget_is_default())
         if kind.startswith("plan") and budget is None:
             self.prompts.show_error(self.window, "Export", "Set a budget in the fix plan first.")
             return None
@@ -184,7 +190,8 @@ class ExportActions(QObject):
             assessment, plan = report_inputs(building, samples=samples, seed=seed,
                                              budget=budget, progress=progress)
             try:
-                return _write(kind, assessment, plan, path, contact, photo_root)
+                return _write(kind, assessment, plan, path, contact, photo_root,
+                              budget_is_default=is_default)
             except OSError as exc:  # the writers leave no partial file behind
                 raise OSError(_write_error(path, exc)) from None
 

@@ -38,7 +38,7 @@ from PySide6.QtWidgets import (
 from petfall_audit.cautions import CAUTIONS_SHORT
 from petfall_audit.editing import autosave
 from petfall_audit.editing.commands import CopyFloorOpenings, SetOpeningFields
-from petfall_audit.editing.document import MODEL_KINDS, Document
+from petfall_audit.editing.document import MODEL_KINDS, PLAN_ONLY_KINDS, Document
 from petfall_audit.editing.fields import OPENING_FIELDS, field_spec
 from petfall_audit.editing.history import History
 from petfall_audit.editing.query import applicable_openings
@@ -99,6 +99,7 @@ class MainWindow(QMainWindow):
     results_updated = Signal(object)  # the new assessment (quick or refined)
     results_refined = Signal(object)  # the full assessment, after results_updated
     results_failed = Signal(str)
+    plan_settings_changed = Signal(object)  # the document's PlanSettings (loaded or edited)
 
     def __init__(self, document: Document | None = None, *, settings: AppSettings | None = None,
                  prompts: Prompts | None = None, assess: AssessFn | None = None,
@@ -288,6 +289,7 @@ class MainWindow(QMainWindow):
                              self.history.on_changed(self._update_undo_actions)]
         self._update_title()
         self._update_undo_actions()
+        self.plan_settings_changed.emit(doc.building.plan)
         self.recompute()
 
     def show_editor(self, panel: QWidget) -> None:
@@ -299,8 +301,11 @@ class MainWindow(QMainWindow):
                 return
 
     def _on_doc_changed(self, kind: str) -> None:
-        if kind in MODEL_KINDS:
+        if kind in PLAN_ONLY_KINDS:
+            self.plan_settings_changed.emit(self.document.building.plan)
+        elif kind in MODEL_KINDS:
             self.recompute()
+        if kind in MODEL_KINDS:
             delay_s = self._autosave_schedule.edited(time.monotonic())
             self._autosave_timer.start(int(delay_s * 1000))
         elif kind in ("dirty", "path"):

@@ -112,6 +112,7 @@ class Limits:
     notes_max_chars: int = 20_000
     photo_path_max_chars: int = 500
     photos_max: int = 20  # photos per opening
+    budget_max: float = 1e12  # in the plan's currency: more than any building's fixes cost
 
 
 LIMITS = Limits()
@@ -178,6 +179,20 @@ CatsPresentName = Literal["yes", "no", "unknown"]
 PresetName = Literal["adult", "kitten", "heavy_adult"]
 
 
+class PlanSettingsModel(_Strict):
+    """The "plan" object of the "building" section: the fix plan's settings kept with the audit."""
+
+    budget: float | None = Field(
+        default=None, ge=0.0, le=_L.budget_max,
+        description="Budget for the fix plan; null or missing: none set (the app proposes a "
+                    "default and the PDF audit says it is one).",
+    )
+    currency: str = Field(
+        default="", pattern=r"^([A-Z]{3})?$",
+        description="ISO 4217 code of the budget's currency; empty: the control catalogue's.",
+    )
+
+
 class BuildingModel(_Strict):
     """The "building" section: who and what is audited."""
 
@@ -207,6 +222,9 @@ class BuildingModel(_Strict):
         description="Date of the audit, YYYY-MM-DD, or empty.",
     )
     notes: _Notes = Field(default=_default(BuildingInfo, "notes"), description="Free notes.")
+    plan: PlanSettingsModel | None = Field(
+        default=None, description="The fix plan's settings (optional; missing: none set)."
+    )
 
     @field_validator("audit_date")
     @classmethod
@@ -541,6 +559,7 @@ def _field_names(*models: type[BaseModel]) -> frozenset[str]:
 ALL_FIELD_NAMES: frozenset[str] = _field_names(
     DocumentModel,
     BuildingModel,
+    PlanSettingsModel,
     FloorModel,
     FacadeModel,
     SurfaceModel,

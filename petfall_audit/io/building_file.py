@@ -62,6 +62,7 @@ from petfall_audit.model import (
     OpenFrequency,
     Opening,
     OpeningKind,
+    PlanSettings,
     Screen,
     Surface,
     SurfaceKind,
@@ -154,7 +155,7 @@ def building_to_dict(building: Building) -> dict[str, object]:
     return {
         "format": FORMAT,
         "version": CURRENT_VERSION,
-        "building": _plain(building.info),
+        "building": _building_section(building),
         "floors": [_plain(f) for f in building.floors],
         "facades": [_plain(f) for f in building.facades],
         "surfaces": [_plain(s) for s in building.surfaces],
@@ -282,8 +283,10 @@ def _salvage(doc: dict[str, Any], exc: ValidationError) -> tuple[Building, Place
     incomplete = {section for section, _ in bad}
 
     info = BuildingInfo(name="")
+    plan = PlanSettings()
     if "building" not in incomplete:
-        info = _info(BuildingModel.model_validate(doc["building"]))
+        details = BuildingModel.model_validate(doc["building"])
+        info, plan = _info(details), _plan_settings(details)
     lists: dict[str, list[Any]] = {}
     places: dict[str, list[int]] = {}
     for section, item_model in _LIST_SECTIONS.items():
@@ -319,12 +322,28 @@ def _salvage(doc: dict[str, Any], exc: ValidationError) -> tuple[Building, Place
         cat_profile=profile,
         injury=(_injury(InjuryModel.model_validate(doc["injury"]))
                 if "injury" in doc and "injury" not in incomplete else InjuryThresholds()),
+        plan=plan,
     )
     return building, Places(places), frozenset(incomplete)
 
 
 def _info(m: BuildingModel) -> BuildingInfo:
-    return BuildingInfo(**m.model_dump())
+    return BuildingInfo(**m.model_dump(exclude={"plan"}))
+
+
+def _plan_settings(m: BuildingModel) -> PlanSettings:
+    if m.plan is None:
+        return PlanSettings()
+    return PlanSettings(budget=m.plan.budget, currency=m.plan.currency)
+
+
+def _building_section(building: Building) -> dict[str, object]:
+    """The "building" section: the details, and the plan's settings once any is set (so that
+    a building without them is written as before)."""
+    out = _plain(building.info)
+    if building.plan != PlanSettings():
+        out["plan"] = _plain(building.plan)
+    return out
 
 
 def _floor(m: FloorModel) -> Floor:
@@ -405,6 +424,7 @@ def _to_building(m: DocumentModel) -> Building:
         openings=tuple(_opening(o) for o in m.openings),
         cat_profile=_profile_from(m.cat_profile),
         injury=_injury(m.injury),
+        plan=_plan_settings(m.building),
     )
 
 

@@ -125,6 +125,8 @@ class ReportOptions:
     #: At most this many cats per simulation of the sensitivity section (``None``: as many as
     #: the assessment); ``0`` leaves the section out.
     sensitivity_samples: int | None = None
+    #: The plan's budget is a default the app proposed, not one set for this audit.
+    budget_is_default: bool = False
 
 
 # --- formatting ---------------------------------------------------------------------------------
@@ -453,14 +455,31 @@ def _plural(n: int, word: str) -> str:
     return f"{n} {word}" if n == 1 else f"{n} {word}s"
 
 
-def _plan_parts(plan: Plan | None) -> tuple[tuple[str, ...], tuple[PlanRow, ...]]:
+def budget_origin(plan: Plan, saved_budget: float | None, *, is_default: bool = False) -> str:
+    """Where the plan's budget came from, in words: the one saved with the audit, a default, or
+    one chosen for this report."""
+    if saved_budget is not None and abs(float(plan.budget) - saved_budget) < 0.005:
+        return "the budget saved with the audit"
+    if is_default:
+        return ("a default the app proposed (5 % of what fixing every opening would cost); no "
+                "budget has been set for this audit")
+    if saved_budget is None:
+        return "chosen for this report; no budget is saved with the audit"
+    return (f"chosen for this report; the audit's saved budget is "
+            f"{fmt_money(saved_budget, plan.currency)}")
+
+
+def _plan_parts(plan: Plan | None, saved_budget: float | None = None, *,
+                budget_is_default: bool = False
+                ) -> tuple[tuple[str, ...], tuple[PlanRow, ...]]:
     if plan is None:
         return (("No budget was given, so no fix plan was made.",), ())
     cur = plan.currency
     before, after = float(plan.risk_before), float(plan.risk_after)
     cut = (1 - after / before) if before > 0 else 0.0
+    origin = budget_origin(plan, saved_budget, is_default=budget_is_default)
     summary = (
-        f"Budget {fmt_money(float(plan.budget), cur)}; the plan spends "
+        f"Budget {fmt_money(float(plan.budget), cur)} ({origin}); the plan spends "
         f"{fmt_money(float(plan.total_cost), cur)} on "
         f"{_plural(len(plan.actions), 'control')}.",
         f"Total risk score {fmt_risk(before)} before and {fmt_risk(after)} after "
@@ -653,7 +672,8 @@ def build_audit_context(assessment: Assessment, plan: Plan | None, *,
          else "–", fmt_risk(float(o.risk)))
         for o in by_risk[: max(opts.top_n, 0)]
     )
-    plan_summary, plan_rows = _plan_parts(plan)
+    plan_summary, plan_rows = _plan_parts(plan, assessment.building.plan.budget,
+                                          budget_is_default=opts.budget_is_default)
     worst_v = max((o.impact_speed_mps.p95 for o in assessment.openings), default=float("nan"))
     summary = (
         f"{len(assessment.openings)} openings assessed on "

@@ -152,7 +152,8 @@ def install_views(window: Any, *, export_prompts: Any = None, import_prompts: An
     # menus: File ▸ Import schedule…, File ▸ Export ▸ …; View ▸ one shortcut per view
     exports = ExportActions(
         window, prompts=export_prompts,
-        budget=lambda: float(plan.budget.value()) if plan.catalogue is not None else None)
+        budget=lambda: float(plan.budget.value()) if plan.catalogue is not None else None,
+        budget_is_default=lambda: plan.budget_is_default)
     import_action = QAction("&Import schedule or model (CSV, XLSX, IFC)…", window)
     import_action.setObjectName("import_schedule")
     import_action.setShortcut(QKeySequence("Ctrl+I"))

@@ -100,8 +100,11 @@ class PlanView(QWidget):
         self.progress.hide()
         top = QHBoxLayout()
         top.setContentsMargins(0, 0, 0, 0)
+        self.budget_note = QLabel()
+        self.budget_note.setObjectName("budget_note")
         top.addWidget(budget_label)
         top.addWidget(self.budget)
+        top.addWidget(self.budget_note)
         top.addWidget(self.summary, 1)
         top.addWidget(self.progress)
 
@@ -192,6 +195,10 @@ class PlanView(QWidget):
         context.assessment_changed.connect(self._on_assessment)
         context.selection.changed.connect(self._on_selection)
         context.stale_changed.connect(self._on_stale)
+        saved = getattr(context.window, "plan_settings_changed", None)
+        if saved is not None:
+            saved.connect(self._on_saved_settings)
+            self._on_saved_settings(context.window.document.building.plan)
         if context.assessment is not None:
             self._on_assessment(context.assessment)
 
@@ -201,10 +208,41 @@ class PlanView(QWidget):
     def currency(self) -> str:
         return str(getattr(self.catalogue, "currency", ""))
 
+    @property
+    def budget_is_default(self) -> bool:
+        """True while the budget is the default the view proposed (none set for the audit)."""
+        return not self._budget_set_by_user
+
     def set_budget(self, amount: float) -> None:
-        """Set the budget (the plan follows)."""
-        self._budget_set_by_user = True
+        """Set the budget (the plan follows; it is kept with the audit)."""
         self.budget.setValue(float(amount))
+        self._on_budget_changed(float(amount))
+
+    def _on_saved_settings(self, settings: Any) -> None:
+        """The document's plan settings (loaded, edited, undone): show the saved budget."""
+        saved = getattr(settings, "budget", None)
+        if saved is None:
+            self._budget_set_by_user = False
+            if self._for is not None and self.options:
+                self._set_default_budget()
+        else:
+            self._budget_set_by_user = True
+            if abs(float(self.budget.value()) - saved) >= 0.005:
+                self.budget.blockSignals(True)
+                self.budget.setValue(float(saved))
+                self.budget.blockSignals(False)
+                self._place_line()
+                self._plan_timer.start()
+        self._show_budget_note()
+
+    def _show_budget_note(self) -> None:
+        if self._budget_set_by_user:
+            self.budget_note.setText("kept with the audit")
+            self.budget_note.setToolTip("Saved in the building file with the rest of the audit.")
+        else:
+            self.budget_note.setText("a default: type a budget to keep it with the audit")
+            self.budget_note.setToolTip("5 % of what fixing every opening would cost. The PDF "
+                                        "audit says when its budget is a default.")
 
     def option_for(self, opening_id: str, control_id: str) -> Any:
         for o in self.options.get(opening_id, []):
@@ -245,9 +283,9 @@ class PlanView(QWidget):
         self.options = result["options"]
         grid = result["grid"]
         self.budget.setSuffix(f" {self.currency}")
-        top = float(grid[-1]) if len(grid) else 0.0
-        if not self._budget_set_by_user and top > 0:
-            self._set_budget_quietly(0.05 * top)
+        self._grid_top = float(grid[-1]) if len(grid) else 0.0
+        if not self._budget_set_by_user:
+            self._set_default_budget()
         self.curve_plot.setLabel("bottom", f"budget ({self.currency}, log scale)",
                                  color="#1A1A1A")
         self.options_ready.emit()
@@ -309,6 +347,12 @@ class PlanView(QWidget):
         self.progress.setValue(done)
         self.progress.show()
 
+    def _set_default_budget(self) -> None:
+        top = getattr(self, "_grid_top", 0.0)
+        if top > 0:
+            self._set_budget_quietly(0.05 * top)
+        self._show_budget_note()
+
     def _set_budget_quietly(self, amount: float) -> None:
         """A default budget (rounded up to hundreds) that is not the user's choice."""
         self.budget.blockSignals(True)
@@ -322,10 +366,18 @@ class PlanView(QWidget):
         self.budget_line.setValue(float(np.log10(max(value, 1.0))))
         self.budget_line.blockSignals(False)
 
-    def _on_budget_changed(self, _value: float) -> None:
+    def _on_budget_changed(self, value: float) -> None:
         self._budget_set_by_user = True
         self._place_line()
         self._plan_timer.start()
+        self._show_budget_note()
+        doc = getattr(self._ctx.window, "document", None)
+        if doc is not None and doc.building.plan.budget != float(value):
+            from petfall_audit.editing.commands import SetPlanSettings
+            from petfall_audit.model import PlanSettings
+
+            self._ctx.push(SetPlanSettings(PlanSettings(budget=float(value),
+                                                        currency=self.currency)))
 
     def _on_line_moved(self, line: pg.InfiniteLine) -> None:
         value = float(10.0 ** float(line.value()))
