@@ -403,3 +403,27 @@ def test_a_file_without_plan_settings_loads_and_saves_as_before(tmp_path) -> Non
     b = load_building(source)
     assert b.plan.budget is None
     assert '"plan"' not in dumps_building(b)
+
+
+# --- item 7: copy a typical floor keeps the building's numbering -------------
+
+def test_copy_floor_keeps_the_numbering_and_previews_every_id(qtbot) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.gui.dialogs import CopyFloorDialog
+    from petfall_audit.model import Opening, OpeningKind
+
+    b = blank_building()
+    floors = tuple(Floor(k, f"Level {k}", 3.0 * k) for k in range(6))
+    openings = tuple(Opening(f"S01-B{n}", 1, "front", OpeningKind.BALCONY, 2.0 * n, 1.0, 1.0)
+                     for n in range(1, 4))
+    window = open_window(qtbot, dataclasses.replace(b, floors=floors, openings=openings))
+    dialog = CopyFloorDialog(window.document.building, 1, window)
+    qtbot.addWidget(dialog)
+    dialog.last.setValue(5)
+    text = dialog.preview.toPlainText()
+    assert "{" not in dialog.naming.currentText()  # no programmer syntax in the choice
+    assert len(text.splitlines()) == 3 * 4  # every new id, not just the first
+    assert "S01-B1  →  S05-B1" in text and "S01-B3  →  S02-B3" in text
+    req = dialog.request()
+    assert window.copy_floor(req.level, req.to_levels, id_pattern=req.id_pattern) is None
+    ids = {o.id for o in window.document.building.openings}
+    assert {"S02-B1", "S03-B2", "S05-B3"} <= ids and len(ids) == 15

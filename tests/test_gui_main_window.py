@@ -155,7 +155,7 @@ def test_copy_a_typical_floor_to_ten_levels(qtbot) -> None:  # type: ignore[no-u
     dialog.last.setValue(targets[-1])
     req = dialog.request()
     assert req.level == source and tuple(targets) == req.to_levels
-    assert "new openings" in dialog.preview.text()
+    assert "new openings" in dialog.summary.text()
     with qtbot.waitSignal(window.results_updated, timeout=20000):
         assert window.copy_floor(req.level, req.to_levels, id_pattern=req.id_pattern,
                                  replace_existing=True) is None

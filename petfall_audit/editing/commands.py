@@ -58,13 +58,21 @@ __all__ = [
     "SetPlanSettings",
     "ReplaceBuilding",
     "DEFAULT_ID_PATTERN",
+    "FACADE_LEVEL_PATTERN",
+    "KEEP_NUMBERING",
     "copied_id",
+    "copy_ids",
 ]
 
-#: Default pattern for the ids of copied openings. Fields: ``{facade}``, ``{level}``, ``{n}``
-#: (1-based position of the opening on its facade on the source floor), ``{id}`` (source id),
-#: ``{kind}`` and ``{label}`` (the target floor's label).
-DEFAULT_ID_PATTERN = "{facade}-{level:02d}-{n}"
+#: Pattern for the ids of copied openings by facade, level and number. Fields: ``{facade}``,
+#: ``{level}``, ``{n}`` (1-based position of the opening on its facade on the source floor),
+#: ``{id}`` (source id), ``{kind}`` and ``{label}`` (the target floor's label).
+FACADE_LEVEL_PATTERN = "{facade}-{level:02d}-{n}"
+#: The default: keep the copied ids' own numbering with the floor number replaced (``S01-B1``
+#: on level 5 becomes ``S05-B1``); when the source ids carry no floor number, by
+#: :data:`FACADE_LEVEL_PATTERN`.
+KEEP_NUMBERING = ""
+DEFAULT_ID_PATTERN = KEEP_NUMBERING
 
 
 class EditRefused(PetfallError, ValueError):
@@ -407,6 +415,33 @@ def copied_id(pattern: str, opening: Opening, *, level: int, n: int, floor_label
         ) from None
 
 
+def copy_ids(building: Building, level: int, to_levels: Sequence[int],
+             pattern: str = DEFAULT_ID_PATTERN) -> list[tuple[int, Opening, str]]:
+    """``(target level, source opening, new id)`` for each copy of floor ``level``'s openings,
+    by target level. With :data:`KEEP_NUMBERING` the ids keep their numbering with the floor
+    number replaced (by :data:`FACADE_LEVEL_PATTERN` when they carry none). Raises
+    :class:`EditRefused` for a pattern that is not valid."""
+    from petfall_audit.editing.numbering import level_digits, renumbered_id
+
+    floors = {f.level: f for f in building.floors}
+    source = [o for o in building.openings if o.floor == level]
+    run = level_digits([o.id for o in source], level) if pattern == KEEP_NUMBERING else None
+    if pattern == KEEP_NUMBERING and run is None:
+        pattern = FACADE_LEVEL_PATTERN
+    out: list[tuple[int, Opening, str]] = []
+    for lv in sorted(to_levels):
+        counter: Counter[str] = Counter()
+        for o in source:
+            counter[o.facade] += 1
+            if run is not None:
+                new_id = renumbered_id(o.id, run, lv)
+            else:
+                label = floors[lv].label if lv in floors else ""
+                new_id = copied_id(pattern, o, level=lv, n=counter[o.facade], floor_label=label)
+            out.append((lv, o, new_id))
+    return out
+
+
 def _overlaps(a: Opening, b: Opening) -> bool:
     """True when two openings on one facade share part of their width (1 mm tolerance)."""
     return (a.facade == b.facade and a.x_m < b.x_m + b.width_m - 1e-3
@@ -466,22 +501,17 @@ class CopyFloorOpenings(BuildingCommand):
                 if not (self.replace_existing and o.floor in targets)]
         used = {o.id for o in kept}
         copies: list[Opening] = []
-        for lv in sorted(self.to_levels):
-            counter: Counter[str] = Counter()
-            for o in source:
-                counter[o.facade] += 1
-                new_id = copied_id(self.id_pattern, o, level=lv, n=counter[o.facade],
-                                   floor_label=floors[lv].label)
-                if new_id in used:
-                    raise _refuse(
-                        "id pattern",
-                        f"the copy of {o.id} on floor {lv} would be {new_id!r}, an id already used"
-                        + ("" if self.replace_existing else
-                           "; tick 'replace the openings already on those floors' or change "
-                           "the pattern"),
-                    )
-                used.add(new_id)
-                copies.append(dataclasses.replace(o, id=new_id, floor=lv))
+        for lv, o, new_id in copy_ids(building, self.level, self.to_levels, self.id_pattern):
+            if new_id in used:
+                raise _refuse(
+                    "id pattern",
+                    f"the copy of {o.id} on floor {lv} would be {new_id!r}, an id already used"
+                    + ("" if self.replace_existing else
+                       "; tick 'replace the openings already on those floors' or choose "
+                       "another way to name the copies"),
+                )
+            used.add(new_id)
+            copies.append(dataclasses.replace(o, id=new_id, floor=lv))
         if not self.replace_existing:
             _refuse_overlaps(building, source, sorted(targets))
         return dataclasses.replace(building, openings=(*kept, *copies))

@@ -25,6 +25,7 @@ from PySide6.QtWidgets import (
     QLayout,
     QLineEdit,
     QMessageBox,
+    QPlainTextEdit,
     QRadioButton,
     QSpinBox,
     QTextBrowser,
@@ -35,8 +36,15 @@ from PySide6.QtWidgets import (
 from petfall_audit import __version__
 from petfall_audit.cautions import CAUTIONS, CAUTIONS_TITLE
 from petfall_audit.editing.autosave import Recovery
-from petfall_audit.editing.commands import DEFAULT_ID_PATTERN, EditRefused, copied_id
+from petfall_audit.editing.commands import (
+    DEFAULT_ID_PATTERN,
+    FACADE_LEVEL_PATTERN,
+    KEEP_NUMBERING,
+    EditRefused,
+    copy_ids,
+)
 from petfall_audit.editing.fields import OPENING_FIELDS, FieldSpec, enum_label, parse_value
+from petfall_audit.editing.numbering import level_digits
 from petfall_audit.editing.query import select_openings
 from petfall_audit.gui.settings import CONTACT_FIELDS
 from petfall_audit.gui.widgets.field_form import ERROR_STYLE
@@ -236,8 +244,19 @@ class CautionsDialog(QDialog):
         layout.addWidget(buttons)
 
 
+#: Ways to name the copies: label, pattern (``None``: the custom pattern typed).
+_NAMINGS: tuple[tuple[str, str | None], ...] = (
+    ("Keep the numbering of the copied ids, with the floor number changed", KEEP_NUMBERING),
+    ("Facade, level and number (front-05-1)", FACADE_LEVEL_PATTERN),
+    ("A pattern of my own", None),
+)
+#: Lines of the preview at most (the rest is counted).
+_PREVIEW_LINES = 2000
+
+
 class CopyFloorDialog(QDialog):
-    """Copy a typical floor's openings to a range of levels, with an id pattern and a preview."""
+    """Copy a typical floor's openings to a range of levels: how the copies are named, and a
+    preview of every new id."""
 
     def __init__(self, building: Building, level: int | None, parent: QWidget | None = None
                  ) -> None:
@@ -259,21 +278,35 @@ class CopyFloorDialog(QDialog):
         start = (level if level is not None else lo) + 1
         self.first.setValue(min(start, hi))
         self.last.setValue(hi)
-        self.pattern = QLineEdit(DEFAULT_ID_PATTERN)
+        self.naming = QComboBox()
+        for text, pattern in _NAMINGS:
+            self.naming.addItem(text, pattern)
+        self.pattern = QLineEdit("{id}-{level}")
+        self.pattern.setToolTip("{facade}, {level} ({level:02d} for 05), {n} (number on the "
+                                "facade), {id} (the copied id), {kind}, {label} (floor name)")
+        self.pattern_help = QLabel("In a pattern of your own, {id} is the copied id and {level} "
+                                   "the new floor's level; the tip lists the others.")
+        self.pattern_help.setWordWrap(True)
         self.replace = QCheckBox("Replace the openings already on those floors")
-        self.preview = QLabel()
-        self.preview.setWordWrap(True)
+        self.summary = QLabel()
+        self.summary.setWordWrap(True)
+        self.preview = QPlainTextEdit()
+        self.preview.setObjectName("copy_preview")
+        self.preview.setReadOnly(True)
+        self.preview.setMinimumSize(420, 160)
         form = QFormLayout()
         form.addRow("Copy the openings of floor", self.source)
         form.addRow("To levels", _span(self.first, self.last))
-        form.addRow("New ids", self.pattern)
-        form.addRow(QLabel("Fields: {facade}, {level} (e.g. {level:02d} for 05), {n} (number on "
-                           "the facade), {id} (the copied id), {kind}, {label}"))
+        form.addRow("Name the copies", self.naming)
+        form.addRow("Pattern", self.pattern)
+        form.addRow(self.pattern_help)
         form.addRow(self.replace)
-        form.addRow("Preview", self.preview)
+        form.addRow(self.summary)
+        form.addRow("New ids", self.preview)
         _dialog_layout(self, [form])
         for signal in (self.source.currentIndexChanged, self.first.valueChanged,
-                       self.last.valueChanged, self.pattern.textChanged):
+                       self.last.valueChanged, self.pattern.textChanged,
+                       self.naming.currentIndexChanged):
             signal.connect(self._update_preview)
         self._update_preview()
 
@@ -282,25 +315,44 @@ class CopyFloorDialog(QDialog):
         first, last = sorted((self.first.value(), self.last.value()))
         targets = tuple(f.level for f in self._building.floors
                         if first <= f.level <= last and f.level != level)
-        return CopyRequest(level, targets, self.pattern.text(), self.replace.isChecked())
+        chosen = self.naming.currentData()
+        pattern = self.pattern.text() if chosen is None else str(chosen)
+        return CopyRequest(level, targets, pattern, self.replace.isChecked())
 
     def _update_preview(self) -> None:
+        custom = self.naming.currentData() is None
+        self.pattern.setEnabled(custom)
+        self.pattern_help.setVisible(custom)
         req = self.request()
         source = [o for o in self._building.openings if o.floor == req.level]
         if not source or not req.to_levels:
-            self.preview.setText("Nothing to copy: choose a floor with openings and other "
+            self.summary.setText("Nothing to copy: choose a floor with openings and other "
                                  "levels.")
+            self.preview.setPlainText("")
             return
-        floor = next(f for f in self._building.floors if f.level == req.to_levels[0])
         try:
-            first = copied_id(req.id_pattern, source[0], level=floor.level, n=1,
-                              floor_label=floor.label)
+            copies = copy_ids(self._building, req.level, req.to_levels, req.id_pattern)
         except EditRefused as exc:
-            self.preview.setText(f"! {exc.problems[0].message}")
+            self.summary.setText(f"! {exc.problems[0].message}")
+            self.preview.setPlainText("")
             return
-        self.preview.setText(f"{len(source)} openings × {len(req.to_levels)} floors = "
-                             f"{len(source) * len(req.to_levels)} new openings; "
-                             f"{source[0].id} becomes {first} on level {floor.level}.")
+        note = ""
+        if req.id_pattern == KEEP_NUMBERING and \
+                level_digits([o.id for o in source], req.level) is None:
+            note = (" The copied ids carry no floor number, so the copies are named by facade, "
+                    "level and number.")
+        used = {o.id for o in self._building.openings
+                if not (req.replace_existing and o.floor in set(req.to_levels))}
+        clashes = sum(new_id in used for _lv, _o, new_id in copies)
+        clash_note = (f" ! {clashes} of the new ids are already used: tick 'replace' or name "
+                      "the copies another way." if clashes else "")
+        self.summary.setText(f"{len(source)} openings × {len(req.to_levels)} floors = "
+                             f"{len(copies)} new openings.{note}{clash_note}")
+        lines = [f"Level {lv}:  {o.id}  →  {new_id}"
+                 for lv, o, new_id in copies[:_PREVIEW_LINES]]
+        if len(copies) > _PREVIEW_LINES:
+            lines.append(f"… and {len(copies) - _PREVIEW_LINES} more")
+        self.preview.setPlainText("\n".join(lines))
 
 
 class BulkEditDialog(QDialog):
