@@ -427,3 +427,116 @@ def test_copy_floor_keeps_the_numbering_and_previews_every_id(qtbot) -> None:  #
     assert window.copy_floor(req.level, req.to_levels, id_pattern=req.id_pattern) is None
     ids = {o.id for o in window.document.building.openings}
     assert {"S02-B1", "S03-B2", "S05-B3"} <= ids and len(ids) == 15
+
+
+# --- item 9: keyboard and editing habits ---------------------------------------------------------
+
+def _focus(qtbot, widget: Any) -> None:  # type: ignore[no-untyped-def]
+    widget.window().activateWindow()
+    widget.setFocus()
+    qtbot.waitUntil(widget.hasFocus, timeout=3000)
+
+
+def test_delete_copy_paste_and_redo_keys_in_the_openings_table(qtbot) -> None:  # type: ignore[no-untyped-def]
+    from PySide6.QtGui import QGuiApplication
+
+    from petfall_audit.demo import sample_building
+
+    window = open_window(qtbot, sample_building("walkup"))
+    panel = window.openings_panel
+    table = panel.table
+    first, second = window.document.building.openings[:2]
+    panel.select_ids([first.id, second.id])
+    _focus(qtbot, table)
+    ctrl = Qt.KeyboardModifier.ControlModifier
+    # Ctrl+C: the rows as tab-separated text with a header, for a spreadsheet
+    qtbot.keyClick(table, Qt.Key.Key_C, ctrl)
+    text = QGuiApplication.clipboard().text()
+    lines = text.splitlines()
+    assert len(lines) == 3 and lines[0].split("\t")[0] == "Id"
+    assert lines[1].split("\t")[0] == first.id and "\t" in lines[2]
+    # Del removes the selected rows; Ctrl+Z brings them back; Ctrl+Y removes them again
+    qtbot.keyClick(table, Qt.Key.Key_Delete)
+    ids = {o.id for o in window.document.building.openings}
+    assert first.id not in ids and second.id not in ids
+    window.actions_.undo.trigger()
+    assert first.id in {o.id for o in window.document.building.openings}
+    _focus(qtbot, table)
+    qtbot.keyClick(table, Qt.Key.Key_Y, ctrl)
+    assert first.id not in {o.id for o in window.document.building.openings}
+    window.actions_.undo.trigger()
+    # Ctrl+V: a row edited in a spreadsheet changes its opening, a new row adds one, one step
+    cells = lines[1].split("\t")
+    cells[5] = "1.4 m"  # width
+    new = list(cells)
+    new[0], new[4] = "ST-NEW", "12 m"
+    QGuiApplication.clipboard().setText("\n".join([lines[0], "\t".join(cells),
+                                                   "\t".join(new)]) + "\n")
+    before = window.document.building
+    _focus(qtbot, table)
+    qtbot.keyClick(table, Qt.Key.Key_V, ctrl)
+    after = window.document.building
+    assert after.opening(first.id).width_m == pytest.approx(1.4)
+    assert after.opening("ST-NEW").x_m == pytest.approx(12.0)
+    assert set(panel.selected_ids()) == {first.id, "ST-NEW"}
+    window.actions_.undo.trigger()
+    assert window.document.building is before
+    # a row that cannot be read pastes nothing and says which line and column
+    assert panel.paste("Id\tWidth\nST-0A\twide\n") is not None
+    assert "line 2, Width" in panel.table_error.text()
+
+
+def test_duplicate_and_add_several_floors_at_once(qtbot) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.demo import sample_building
+
+    window = open_window(qtbot, sample_building("walkup"))
+    panel = window.openings_panel
+    source = window.document.building.openings[0]
+    panel.select_ids([source.id])
+    _focus(qtbot, panel.table)
+    qtbot.keyClick(panel.table, Qt.Key.Key_D,
+                   Qt.KeyboardModifier.ControlModifier | Qt.KeyboardModifier.ShiftModifier)
+    (copy_id,) = panel.selected_ids()
+    copy = window.document.building.opening(copy_id)
+    assert copy_id != source.id and copy.floor == source.floor and copy.kind == source.kind
+    assert copy.x_m >= source.x_m + source.width_m or copy.x_m + copy.width_m <= source.x_m
+    floors = window.floors_panel
+    n = len(window.document.building.floors)
+    floors.add_count.setValue(5)
+    qtbot.mouseClick(_button(floors, "Add floors on top"), Qt.MouseButton.LeftButton)
+    levels = [f.level for f in window.document.building.floors]
+    assert len(levels) == n + 5 and levels == sorted(levels)
+    heights = [b.elevation_m - a.elevation_m for a, b in
+               zip(window.document.building.floors[-6:-1], window.document.building.floors[-5:],
+                   strict=True)]
+    assert max(heights) - min(heights) < 1e-9  # one storey apart
+    window.actions_.undo.trigger()
+    assert len(window.document.building.floors) == n  # one undo step
+
+
+def test_notes_take_several_lines_and_the_audit_date_is_picked(qtbot) -> None:  # type: ignore[no-untyped-def]
+    from PySide6.QtCore import QDate
+    from PySide6.QtWidgets import QDateEdit, QPlainTextEdit
+
+    from petfall_audit.demo import sample_building
+
+    window = open_window(qtbot, sample_building("walkup"))
+    panel = window.openings_panel
+    oid = window.document.building.openings[0].id
+    panel.select_ids([oid])
+    notes = panel.form.editor("notes")
+    assert isinstance(notes, QPlainTextEdit)
+    window.show_editor(panel)
+    _focus(qtbot, notes)
+    notes.selectAll()
+    qtbot.keyClicks(notes, "Rail loose")
+    qtbot.keyClick(notes, Qt.Key.Key_Return)
+    qtbot.keyClicks(notes, "Planter by the guard")
+    panel.form.editor("width_m").setFocus()  # leaving the notes commits them
+    qtbot.waitUntil(lambda: window.document.building.opening(oid).notes ==
+                    "Rail loose\nPlanter by the guard", timeout=3000)
+    date = window.building_panel.form.editor("audit_date")
+    assert isinstance(date, QDateEdit) and date.calendarPopup()
+    date.calendarWidget().setSelectedDate(QDate(2026, 5, 14))
+    date.calendarWidget().clicked.emit(QDate(2026, 5, 14))  # a click on the day
+    assert window.document.building.info.audit_date == "2026-05-14"

@@ -41,6 +41,8 @@ __all__ = [
     "SetOpeningFields",
     "AddOpenings",
     "RemoveOpenings",
+    "PasteOpenings",
+    "AddFloors",
     "AddFloor",
     "RemoveFloor",
     "SetFloor",
@@ -291,6 +293,46 @@ class AddOpenings(BuildingCommand):
         return dataclasses.replace(building, openings=tuple(items))
 
 
+#: Fields a pasted row must give to make a new opening (an existing id needs only the id).
+_NEW_OPENING_NEEDS = ("floor", "facade", "kind", "x_m", "width_m")
+
+
+class PasteOpenings(BuildingCommand):
+    """Rows pasted from a spreadsheet, as one step: a row whose id exists changes that opening
+    (only the columns pasted), any other row adds an opening (it needs an id, floor, facade,
+    kind, position and width). ``added`` and ``updated`` hold the ids after :meth:`do`."""
+
+    def __init__(self, rows: Sequence[Mapping[str, Any]], *, label: str | None = None) -> None:
+        self.rows = [dict(r) for r in rows]
+        self.added: tuple[str, ...] = ()
+        self.updated: tuple[str, ...] = ()
+        super().__init__(label or f"Paste {_plural(len(self.rows), 'row')}")
+
+    def apply(self, building: Building) -> Building:
+        openings = list(building.openings)
+        where = {o.id: k for k, o in enumerate(openings)}
+        added: list[str] = []
+        updated: list[str] = []
+        for n, row in enumerate(self.rows, 1):
+            values = _coerce_changes(Opening, row, "openings")
+            oid = values.get("id")
+            if oid is not None and oid in where:
+                k = where[oid]
+                openings[k] = dataclasses.replace(openings[k], **values)
+                updated.append(oid)
+                continue
+            missing = [f for f in ("id", *_NEW_OPENING_NEEDS) if f not in values]
+            if missing:
+                names = ", ".join(m.replace("_m", "").replace("_", " ") for m in missing)
+                raise _refuse(f"row {n}", f"a new opening needs {names}; the row has none")
+            new = Opening(**values)
+            where[new.id] = len(openings)
+            openings.append(new)
+            added.append(new.id)
+        self.added, self.updated = tuple(added), tuple(updated)
+        return dataclasses.replace(building, openings=tuple(openings))
+
+
 class RemoveOpenings(BuildingCommand):
     """Remove the openings with ``ids``."""
 
@@ -327,6 +369,23 @@ class AddFloor(BuildingCommand):
         if any(f.level == self.floor.level for f in building.floors):
             raise _refuse("floors.level", f"there is already a floor at level {self.floor.level}")
         return dataclasses.replace(building, floors=_sorted_floors((*building.floors, self.floor)))
+
+
+class AddFloors(BuildingCommand):
+    """Add several floors at once (kept in level order), one undo step."""
+
+    def __init__(self, floors: Sequence[Floor], *, label: str | None = None) -> None:
+        self.floors = tuple(floors)
+        super().__init__(label or f"Add {_plural(len(self.floors), 'floor')}")
+
+    def apply(self, building: Building) -> Building:
+        taken = {f.level for f in building.floors}
+        clash = sorted({f.level for f in self.floors} & taken)
+        if clash or len({f.level for f in self.floors}) != len(self.floors):
+            raise _refuse("floors.level", "there is already a floor at level "
+                          + ", ".join(map(str, clash or [self.floors[0].level])))
+        return dataclasses.replace(building,
+                                   floors=_sorted_floors((*building.floors, *self.floors)))
 
 
 class RemoveFloor(BuildingCommand):

@@ -88,6 +88,9 @@ class FieldSpec:
     enum: type[StrEnum] | None = None
     optional: bool = False
     help: str = ""
+    #: How the app edits a ``text`` field: ``""`` one line, ``"lines"`` several lines,
+    #: ``"date"`` a date picker (the value stays ``YYYY-MM-DD`` text or empty).
+    editor: str = ""
 
 
 OPENING_FIELDS: tuple[FieldSpec, ...] = (
@@ -117,7 +120,7 @@ OPENING_FIELDS: tuple[FieldSpec, ...] = (
     FieldSpec("cats_present", "Cats live behind it", "enum", CatsPresent),
     FieldSpec("escape_window", "Emergency escape window", "bool",
               help="Never fit anything that blocks it"),
-    FieldSpec("notes", "Notes", "text", optional=True),
+    FieldSpec("notes", "Notes", "text", optional=True, editor="lines"),
 )
 
 FLOOR_FIELDS: tuple[FieldSpec, ...] = (
@@ -165,8 +168,9 @@ INFO_FIELDS: tuple[FieldSpec, ...] = (
     FieldSpec("site_altitude_m", "Site altitude above sea level", "length"),
     FieldSpec("air_temperature_c", "Design air temperature", "temperature"),
     FieldSpec("auditor", "Auditor", "text", optional=True),
-    FieldSpec("audit_date", "Audit date (YYYY-MM-DD)", "text", optional=True),
-    FieldSpec("notes", "Notes", "text", optional=True),
+    FieldSpec("audit_date", "Audit date", "text", optional=True, editor="date",
+              help="The day of the audit; clear it for none"),
+    FieldSpec("notes", "Notes", "text", optional=True, editor="lines"),
 )
 
 

@@ -11,7 +11,7 @@ from petfall_audit.editing.document import validate
 from petfall_audit.errors import Problem
 from petfall_audit.model import Building, Opening, OpeningKind
 
-__all__ = ["new_opening", "free_x_m"]
+__all__ = ["new_opening", "free_x_m", "duplicates"]
 
 #: Width (m) and projection (m) of a new balcony before the user measures it.
 NEW_WIDTH_M = 1.0
@@ -32,6 +32,23 @@ def free_x_m(building: Building, level: int, facade: str, width_m: float = NEW_W
     if length_m is not None and x + width_m > length_m + 1e-9:
         return 0.0
     return round(x, 3)
+
+
+def duplicates(building: Building, ids: Iterable[str]) -> list[Opening]:
+    """Copies of the openings ``ids``: same floor, facade and every field, a new id
+    (``<id>-copy``, ``<id>-copy-2``...) and the next free place along the facade."""
+    used = {o.id for o in building.openings}
+    trial = building
+    out: list[Opening] = []
+    for oid in ids:
+        source = building.opening(oid)
+        new_id = _unique(used, f"{source.id}-copy")
+        used.add(new_id)
+        x_m = free_x_m(trial, source.floor, source.facade, source.width_m)
+        copy = dataclasses.replace(source, id=new_id, x_m=x_m, photos=())
+        trial = dataclasses.replace(trial, openings=(*trial.openings, copy))
+        out.append(copy)
+    return out
 
 
 def _unique(existing: set[str], base: str) -> str:

@@ -8,7 +8,7 @@ from typing import Any
 from petfall_audit.model import BALCONY_LIKE, WINDOW_KINDS, Building, Floor, Opening, OpeningKind
 
 __all__ = ["fields_for_kind", "select_openings", "unique_id", "next_floor", "storey_heights_m",
-           "elevations_for_storey_height", "applicable_openings"]
+           "elevations_for_storey_height", "next_floors", "applicable_openings"]
 
 _OPENING_WINDOWS = WINDOW_KINDS - {OpeningKind.FIXED}
 
@@ -110,6 +110,17 @@ def elevations_for_storey_height(building: Building, level: int,
         raise ValueError("the top floor has no storey above it")
     delta = floors[index].elevation_m + height_m - floors[index + 1].elevation_m
     return {f.level: f.elevation_m + delta for f in floors[index + 1:]}
+
+
+def next_floors(building: Building, count: int) -> list[Floor]:
+    """``count`` new floors above the top one, each one storey up (see :func:`next_floor`)."""
+    out: list[Floor] = []
+    b = building
+    for _ in range(max(0, count)):
+        floor = next_floor(b)
+        out.append(floor)
+        b = Building(info=b.info, floors=(*b.floors, floor))
+    return out
 
 
 def next_floor(building: Building) -> Floor:

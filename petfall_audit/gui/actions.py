@@ -71,6 +71,11 @@ def create_actions(window) -> Actions:  # type: ignore[no-untyped-def]
         recent_menu=QMenu("Open &recent", w),
         palette_group=QActionGroup(w),
     )
+    # redo answers to Ctrl+Y and Ctrl+Shift+Z on every platform, beside the platform's own key
+    redo_keys = [*QKeySequence.keyBindings(SK.Redo), QKeySequence("Ctrl+Y"),
+                 QKeySequence("Ctrl+Shift+Z")]
+    unique = {k.toString(): k for k in redo_keys if not k.isEmpty()}
+    a.redo.setShortcuts(list(unique.values()))
     a.quit.setMenuRole(QAction.MenuRole.QuitRole)
     a.about.setMenuRole(QAction.MenuRole.AboutRole)
     units = QActionGroup(w)

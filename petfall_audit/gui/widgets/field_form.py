@@ -10,13 +10,16 @@ from __future__ import annotations
 from collections.abc import Callable, Mapping, Sequence
 from typing import Any
 
-from PySide6.QtCore import Qt, Signal
+from PySide6.QtCore import QDate, Qt, Signal
+from PySide6.QtGui import QFocusEvent
 from PySide6.QtWidgets import (
     QCheckBox,
     QComboBox,
+    QDateEdit,
     QFormLayout,
     QLabel,
     QLineEdit,
+    QPlainTextEdit,
     QVBoxLayout,
     QWidget,
 )
@@ -33,6 +36,61 @@ ERROR_STYLE = "color: #8C2D04;"
 _INVALID_EDIT = "QLineEdit { border: 2px solid #8C2D04; }"
 
 CommitFn = Callable[[str, Any], str | None]
+
+
+class _LinesEdit(QPlainTextEdit):
+    """Several lines of text (notes); ``editingFinished`` when the focus leaves it."""
+
+    editingFinished = Signal()
+
+    def __init__(self, parent: QWidget | None = None) -> None:
+        super().__init__(parent)
+        self.setTabChangesFocus(True)
+        self.setFixedHeight(self.fontMetrics().lineSpacing() * 4 + 12)
+
+    def focusOutEvent(self, event: QFocusEvent) -> None:
+        super().focusOutEvent(event)
+        self.editingFinished.emit()
+
+
+class _DateEdit(QDateEdit):
+    """A date with a calendar to pick it from; the lowest date means "no date"."""
+
+    NO_DATE = QDate(1900, 1, 1)
+
+    def __init__(self, parent: QWidget | None = None) -> None:
+        super().__init__(parent)
+        self.setCalendarPopup(True)
+        self.setDisplayFormat("yyyy-MM-dd")
+        self.setMinimumDate(self.NO_DATE)
+        self.setSpecialValueText("no date")
+
+    def text_value(self) -> str:
+        return "" if self.date() == self.NO_DATE else self.date().toString("yyyy-MM-dd")
+
+    def set_text_value(self, text: str) -> None:
+        date = QDate.fromString(text, "yyyy-MM-dd") if text else self.NO_DATE
+        self.setDate(date if date.isValid() else self.NO_DATE)
+
+
+def _text_of(editor: QWidget) -> str:
+    if isinstance(editor, _LinesEdit):
+        return editor.toPlainText()
+    if isinstance(editor, _DateEdit):
+        return editor.text_value()
+    assert isinstance(editor, QLineEdit)
+    return editor.text()
+
+
+def _set_text(editor: QWidget, text: str) -> None:
+    if isinstance(editor, _LinesEdit):
+        if editor.toPlainText() != text:
+            editor.setPlainText(text)
+    elif isinstance(editor, _DateEdit):
+        editor.set_text_value(text)
+    else:
+        assert isinstance(editor, QLineEdit)
+        editor.setText(text)
 
 
 class FieldForm(QWidget):
@@ -114,9 +172,7 @@ class FieldForm(QWidget):
 
     def commit_text(self, name: str, text: str) -> bool:
         """Type ``text`` into a text field and finish editing (used by tests and scripts)."""
-        editor = self._editors[name]
-        assert isinstance(editor, QLineEdit)
-        editor.setText(text)
+        _set_text(self._editors[name], text)
         return self._on_text_finished(self._spec(name))
 
     # --- editors ---------------------------------------------------------------------------------
@@ -134,6 +190,15 @@ class FieldForm(QWidget):
             combo.activated.connect(lambda _i, s=spec, c=combo: self._commit_value(
                 s, c.currentData()))
             return combo
+        if spec.editor == "lines":
+            lines = _LinesEdit()
+            lines.editingFinished.connect(lambda s=spec: self._on_text_finished(s))
+            return lines
+        if spec.editor == "date":
+            date = _DateEdit()
+            date.editingFinished.connect(lambda s=spec: self._on_text_finished(s))
+            date.calendarWidget().clicked.connect(lambda _d, s=spec: self._on_text_finished(s))
+            return date
         edit = QLineEdit()
         edit.editingFinished.connect(lambda s=spec: self._on_text_finished(s))
         return edit
@@ -169,10 +234,11 @@ class FieldForm(QWidget):
                     i = editor.count() - 1
                 editor.setCurrentIndex(i)
             return
-        assert isinstance(editor, QLineEdit)
         text = "" if mixed or spec.name not in self._values else format_value(spec, value, units)
-        editor.setText(text)
-        self._shown[spec.name] = text
+        _set_text(editor, text)
+        self._shown[spec.name] = _text_of(editor)
+        if not isinstance(editor, QLineEdit):
+            return
         hint = unit_hint(spec, units)
         if mixed:
             editor.setPlaceholderText("(several values)")
@@ -187,8 +253,7 @@ class FieldForm(QWidget):
         if self._loading:
             return False
         editor = self._editors[spec.name]
-        assert isinstance(editor, QLineEdit)
-        text = editor.text()
+        text = _text_of(editor)
         if text == self._shown.get(spec.name) and spec.name not in self._errors:
             return False
         try:
@@ -205,7 +270,7 @@ class FieldForm(QWidget):
         if reason is not None:
             self._set_error(spec.name, reason)
             editor = self._editors[spec.name]
-            if not isinstance(editor, QLineEdit):  # a choice cannot stay half-typed: show old
+            if isinstance(editor, (QComboBox, QCheckBox)):  # a choice cannot stay half-typed
                 self._set_error(spec.name, reason)
                 self._loading = True
                 self._show(spec, editor, self._values.get(spec.name))

@@ -4,15 +4,18 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 
-from PySide6.QtGui import QAction
+from PySide6.QtGui import QAction, QKeySequence
 from PySide6.QtWidgets import (
     QLabel,
+    QSpinBox,
     QVBoxLayout,
     QWidget,
 )
 
+from petfall_audit.editing.clipboard import rows_to_tsv
 from petfall_audit.editing.commands import (
     AddFloor,
+    AddFloors,
     Command,
     RemoveFloor,
     SetFloor,
@@ -21,13 +24,20 @@ from petfall_audit.editing.commands import (
 from petfall_audit.editing.document import Document
 from petfall_audit.editing.fields import FLOOR_FIELDS, FieldSpec, format_value, parse_value
 from petfall_audit.editing.history import History
-from petfall_audit.editing.query import elevations_for_storey_height, next_floor, storey_heights_m
+from petfall_audit.editing.query import (
+    elevations_for_storey_height,
+    next_floor,
+    next_floors,
+    storey_heights_m,
+)
 from petfall_audit.gui.adapters import RecordTableModel, ViewOptions, push_command
 from petfall_audit.gui.widgets.tables import (
     add_remove_bar,
     error_label,
     record_table,
     refusal_line,
+    set_clipboard_text,
+    table_action,
 )
 from petfall_audit.model import Building, Floor
 
@@ -71,8 +81,17 @@ class FloorsPanel(QWidget):
         self.model.edit_failed.connect(self._on_edit_failed)
         self.model.edited.connect(lambda *_: self._clear_messages())
 
-        bar = add_remove_bar("Add floor on top", self.add_floor,
+        bar = add_remove_bar("Add floors on top", self.add_floor,
                              "Remove selected floor", self.remove_selected, actions)
+        self.add_count = QSpinBox()
+        self.add_count.setObjectName("add_floor_count")
+        self.add_count.setRange(1, 200)
+        self.add_count.setSuffix(" floor(s)")
+        self.add_count.setToolTip("How many floors 'Add floors on top' adds, one storey apart")
+        bar.insertWidget(bar.actions()[1], self.add_count)
+        SK = QKeySequence.StandardKey
+        table_action(self.table, "Remove selected floor", SK.Delete, self.remove_selected)
+        table_action(self.table, "Copy rows (tab-separated)", SK.Copy, self.copy_selected)
         hint = QLabel("Floor levels are finished-floor heights above the building's datum. "
                       "Changing a storey height moves every floor above it.")
         hint.setWordWrap(True)
@@ -120,11 +139,25 @@ class FloorsPanel(QWidget):
         self.error.hide()
         self.note.hide()
 
-    def add_floor(self) -> None:
+    def add_floor(self, count: int | None = None) -> None:
+        """Add ``count`` floors on top (default: the number chosen beside the button), one
+        storey apart, as one undo step."""
         self._clear_messages()
-        reason = push_command(self._history, AddFloor(next_floor(self._doc.building)))
+        n = self.add_count.value() if count is None else count
+        cmd = (AddFloor(next_floor(self._doc.building)) if n == 1
+               else AddFloors(next_floors(self._doc.building, n)))
+        reason = push_command(self._history, cmd)
         if reason:
             self._show_error(reason)
+
+    def copy_selected(self) -> str:
+        """Put the selected floors on the clipboard as tab-separated rows."""
+        rows = {r.row() for r in self.table.selectionModel().selectedRows()}
+        floors = [f for k, f in enumerate(self._doc.building.floors) if k in rows]
+        text = rows_to_tsv(floors, FLOOR_FIELDS, self._options.units) if floors else ""
+        if text:
+            set_clipboard_text(text)
+        return text
 
     def remove_selected(self) -> str | None:
         """Remove the selected floor and its openings; the reason if refused."""

@@ -7,27 +7,30 @@ from collections.abc import Callable, Sequence
 from typing import Any
 
 from PySide6.QtCore import QItemSelection, QItemSelectionModel, Qt
-from PySide6.QtGui import QAction
+from PySide6.QtGui import QAction, QKeySequence
 from PySide6.QtWidgets import (
     QAbstractItemView,
     QFormLayout,
     QHBoxLayout,
     QLabel,
+    QPushButton,
     QScrollArea,
     QSplitter,
     QVBoxLayout,
     QWidget,
 )
 
+from petfall_audit.editing.clipboard import parse_tsv, rows_to_tsv
 from petfall_audit.editing.commands import (
     AddOpenings,
+    PasteOpenings,
     RemoveOpenings,
     SetOpeningFields,
 )
 from petfall_audit.editing.document import Document
 from petfall_audit.editing.fields import OPENING_FIELDS, FieldSpec
 from petfall_audit.editing.history import History
-from petfall_audit.editing.placement import new_opening
+from petfall_audit.editing.placement import duplicates, new_opening
 from petfall_audit.editing.query import applicable_openings
 from petfall_audit.editing.words import problem_words
 from petfall_audit.gui.adapters import RecordTableModel, ViewOptions, _runs, push_command
@@ -35,9 +38,12 @@ from petfall_audit.gui.widgets.field_form import MIXED, FieldForm
 from petfall_audit.gui.widgets.photos import PhotoHost, PhotoStrip
 from petfall_audit.gui.widgets.tables import (
     add_remove_bar,
+    clipboard_text,
     error_label,
     record_table,
     refusal_line,
+    set_clipboard_text,
+    table_action,
 )
 
 __all__ = ["OpeningsPanel", "TABLE_FIELDS"]
@@ -86,6 +92,10 @@ class OpeningsPanel(QWidget):
 
         bar = add_remove_bar("Add opening", self.add_opening,
                              "Remove selected", self.remove_selected, actions)
+        duplicate = QPushButton("Duplicate")
+        duplicate.setToolTip("A copy of each selected opening beside it (Ctrl+Shift+D)")
+        duplicate.clicked.connect(lambda _c=False: self.duplicate_selected())
+        bar.addWidget(duplicate)
         self.count_label = QLabel()
         bar.addSeparator()
         bar.addWidget(self.count_label)
@@ -120,6 +130,11 @@ class OpeningsPanel(QWidget):
         self.table.selectionModel().selectionChanged.connect(self._on_selection_changed)
         self._disconnects = [doc.on_changed(k, self._on_doc_changed)
                              for k in ("openings", "facades")]
+        SK = QKeySequence.StandardKey
+        table_action(self.table, "Remove selected openings", SK.Delete, self.remove_selected)
+        table_action(self.table, "Copy rows (tab-separated)", SK.Copy, self.copy_selected)
+        table_action(self.table, "Paste rows", SK.Paste, self.paste)
+        table_action(self.table, "Duplicate selected", "Ctrl+Shift+D", self.duplicate_selected)
         self._refresh_count()
 
     def detach(self) -> None:
@@ -250,6 +265,51 @@ class OpeningsPanel(QWidget):
                 "floor, facade and place in the form.")
             self.place_note.show()
         return opening.id
+
+    def copy_selected(self) -> str:
+        """Put the selected openings on the clipboard as tab-separated rows; returns the text."""
+        ids = set(self.selected_ids())
+        rows = [o for o in self._doc.building.openings if o.id in ids]
+        text = rows_to_tsv(rows, TABLE_FIELDS, self._options.units) if rows else ""
+        if text:
+            set_clipboard_text(text)
+        return text
+
+    def paste(self, text: str | None = None) -> str | None:
+        """Paste tab-separated rows (default: the clipboard) as one step: a row with an existing
+        id changes that opening, others are added. The reason if refused."""
+        text = clipboard_text() if text is None else text
+        rows, problems = parse_tsv(text, TABLE_FIELDS, self._options.units)
+        reason: str | None = None
+        if problems:
+            reason = "nothing pasted: " + problem_words(problems)
+        elif not rows:
+            reason = "nothing to paste: copy rows from a spreadsheet or this table first"
+        else:
+            cmd = PasteOpenings([r.values for r in rows])
+            reason = push_command(self._history, cmd)
+            if reason is None:
+                self.select_ids([*cmd.updated, *cmd.added])
+                return None
+        self.table_error.setText(f"! {reason}")
+        self.table_error.show()
+        return reason
+
+    def duplicate_selected(self) -> list[str]:
+        """Add a copy of each selected opening beside it; returns the new ids."""
+        ids = self.selected_ids()
+        if not ids:
+            return []
+        copies = duplicates(self._doc.building, ids)
+        index = max(self.model.row_of_key(i) for i in ids) + 1
+        label = f"Duplicate {ids[0]}" if len(ids) == 1 else f"Duplicate {len(ids)} openings"
+        reason = push_command(self._history, AddOpenings(copies, index=index, label=label))
+        if reason is not None:
+            self.table_error.setText(f"! {reason}")
+            self.table_error.show()
+            return []
+        self.select_ids([o.id for o in copies])
+        return [o.id for o in copies]
 
     def remove_selected(self) -> None:
         ids = self.selected_ids()

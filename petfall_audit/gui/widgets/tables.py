@@ -6,7 +6,7 @@ from __future__ import annotations
 from collections.abc import Callable, Iterable
 
 from PySide6.QtCore import Qt, QTimer
-from PySide6.QtGui import QAction
+from PySide6.QtGui import QAction, QGuiApplication, QKeySequence
 from PySide6.QtWidgets import QAbstractItemView, QLabel, QPushButton, QTableView, QToolBar
 
 from petfall_audit.editing.fields import FieldSpec
@@ -15,7 +15,7 @@ from petfall_audit.gui.widgets.delegates import FieldDelegate
 from petfall_audit.gui.widgets.field_form import ERROR_STYLE
 
 __all__ = ["add_remove_bar", "record_table", "error_label", "keep_columns_fitted",
-           "fit_columns"]
+           "fit_columns", "table_action", "clipboard_text", "set_clipboard_text", "refusal_line"]
 
 ROW_HEIGHT_PX = 22
 
@@ -85,6 +85,28 @@ def keep_columns_fitted(table: QTableView) -> None:
                    model.layoutChanged):
         signal.connect(lambda *_: timer.start())
     fit_columns(table)
+
+
+def table_action(table: QTableView, text: str, shortcut: QKeySequence | QKeySequence.StandardKey
+                 | str, handler: Callable[[], object]) -> QAction:
+    """An action of ``table`` with ``shortcut``, active while the table (not a cell editor in
+    it) has the focus, also in its context menu."""
+    action = QAction(text, table)
+    action.setShortcut(QKeySequence(shortcut))
+    action.setShortcutContext(Qt.ShortcutContext.WidgetShortcut)
+    action.triggered.connect(lambda _checked=False: handler())
+    table.addAction(action)
+    table.setContextMenuPolicy(Qt.ContextMenuPolicy.ActionsContextMenu)
+    return action
+
+
+def clipboard_text() -> str:
+    """The text on the clipboard (empty if none)."""
+    return QGuiApplication.clipboard().text()
+
+
+def set_clipboard_text(text: str) -> None:
+    QGuiApplication.clipboard().setText(text)
 
 
 def refusal_line(thing: str, message: str) -> str:
