@@ -34,7 +34,7 @@ from petfall_audit.editing.fields import (
 )
 from petfall_audit.editing.history import History
 from petfall_audit.editing.words import problem_words
-from petfall_audit.gui.result_cells import result_style, result_text, units_of
+from petfall_audit.gui.result_cells import result_style, result_text, two_line_title, units_of
 from petfall_audit.model import Building
 
 __all__ = [
@@ -421,7 +421,7 @@ class ResultsTableModel(QAbstractTableModel):
     def headerData(self, section: int, orientation: Qt.Orientation,
                    role: int = Qt.ItemDataRole.DisplayRole) -> Any:
         if role == Qt.ItemDataRole.DisplayRole and orientation == Qt.Orientation.Horizontal:
-            return self.COLUMNS[section]
+            return two_line_title(self.COLUMNS[section])
         return None
 
     def row_result(self, row: int) -> Any:

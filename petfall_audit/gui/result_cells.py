@@ -62,6 +62,16 @@ def units_of(system: str) -> Units:
 # --- formatting ---------------------------------------------------------------------------------
 
 
+def two_line_title(title: str, longest: int = 10) -> str:
+    """A column title on two lines when it is longer than ``longest`` characters (split at the
+    space nearest its middle), so that a column is as narrow as its numbers allow."""
+    if len(title) <= longest or " " not in title:
+        return title
+    spaces = [i for i, c in enumerate(title) if c == " "]
+    cut = min(spaces, key=lambda i: abs(i - len(title) / 2))
+    return title[:cut] + "\n" + title[cut + 1:]
+
+
 def fmt_one_in(n: float) -> str:
     """Likelihood over 12 months as "1 in N"."""
     if not math.isfinite(n) or n <= 0:

@@ -32,7 +32,7 @@ from PySide6.QtWidgets import (
 )
 
 from petfall_audit.editing.fields import enum_label
-from petfall_audit.gui.result_cells import fmt_one_in, result_style, result_text
+from petfall_audit.gui.result_cells import fmt_one_in, result_style, result_text, two_line_title
 from petfall_audit.gui.views.common import ViewContext, band_qstyle
 from petfall_audit.gui.widgets.tables import keep_columns_fitted
 from petfall_audit.injury import BAND_DESCRIPTIONS, BANDS
@@ -98,7 +98,7 @@ class RankedModel(QAbstractTableModel):
         if orientation != Qt.Orientation.Horizontal:
             return None
         if role == Qt.ItemDataRole.DisplayRole:
-            return self.COLUMNS[section]
+            return two_line_title(self.COLUMNS[section])
         if role == Qt.ItemDataRole.ToolTipRole:
             return {
                 0: "Rank by expected injury band, then by likelihood (1 = worst)",
@@ -299,21 +299,13 @@ class RankedView(QWidget):
 
     def _on_assessment(self, assessment: Any) -> None:
         self._fill_filters(assessment)
-        self.model.set_assessment(assessment)
-        self._resize_columns()
+        self.model.set_assessment(assessment)  # the columns fit themselves (tables.py)
         self._on_filter_changed()
         self._on_selection(self._ctx.selection.ids)
 
     def _on_options(self) -> None:
         self.model.refresh()
         self._show_details()
-
-    def _resize_columns(self) -> None:
-        fm = self.table.fontMetrics()
-        for col, title in enumerate(RankedModel.COLUMNS[:-1]):
-            self.table.resizeColumnToContents(col)
-            width = min(self.table.columnWidth(col), fm.horizontalAdvance("M" * 16))
-            self.table.setColumnWidth(col, max(width, fm.horizontalAdvance(title) + 24))
 
     def _fill_filters(self, assessment: Any) -> None:
         def fill(box: QComboBox, items: list[tuple[str, Any]]) -> None:

@@ -47,8 +47,8 @@ _CELL_PAD_PX = 12
 
 
 def fit_columns(table: QTableView) -> None:
-    """Widen every column that is narrower than its header or the cells it shows (never
-    narrower: a column the user widened stays). Reads at most :data:`_FIT_ROWS` rows, spread
+    """Size every column to its header and the cells it shows: a column the user has resized
+    is only ever widened, the others fit exactly. Reads at most :data:`_FIT_ROWS` rows, spread
     over the whole table, so that a large building stays quick."""
     model = table.model()
     if model is None:
@@ -59,16 +59,28 @@ def fit_columns(table: QTableView) -> None:
     step = max(1, rows // _FIT_ROWS)
     sample = range(0, rows, step)
     last = model.columnCount() - 1
-    for col in range(model.columnCount()):
-        if header.isSectionHidden(col) or (col == last and header.stretchLastSection()):
-            continue
-        want = header.sectionSizeFromContents(col).width()
-        for row in sample:
-            text = model.data(model.index(row, col))
-            if text is not None:
-                want = max(want, metrics.horizontalAdvance(str(text)) + _CELL_PAD_PX)
-        if header.sectionSize(col) < want:
-            header.resizeSection(col, want)
+    user_sized: set[int] = table.property("user_sized_columns") or set()
+    table.setProperty("fitting_columns", True)
+    try:
+        for col in range(model.columnCount()):
+            if header.isSectionHidden(col) or (col == last and header.stretchLastSection()):
+                continue
+            want = header.sectionSizeFromContents(col).width()
+            for row in sample:
+                text = model.data(model.index(row, col))
+                if text is not None:
+                    want = max(want, metrics.horizontalAdvance(str(text)) + _CELL_PAD_PX)
+            size = header.sectionSize(col)
+            if size < want or (col not in user_sized and size != want):
+                header.resizeSection(col, want)
+    finally:
+        table.setProperty("fitting_columns", False)
+
+
+def _note_user_resize(table: QTableView, col: int) -> None:
+    if not table.property("fitting_columns"):
+        sized: set[int] = table.property("user_sized_columns") or set()
+        table.setProperty("user_sized_columns", sized | {col})
 
 
 def keep_columns_fitted(table: QTableView) -> None:
@@ -84,6 +96,8 @@ def keep_columns_fitted(table: QTableView) -> None:
     for signal in (model.modelReset, model.rowsInserted, model.dataChanged,
                    model.layoutChanged):
         signal.connect(lambda *_: timer.start())
+    table.horizontalHeader().sectionResized.connect(
+        lambda col, _old, _new: _note_user_resize(table, col))
     fit_columns(table)
 
 
