@@ -272,9 +272,9 @@ def _show_held(held: _HeldChatter) -> None:
     """After a failed command, what libraries printed while it ran (it may explain the failure)."""
     text = held.text()
     if text:
-        print("petfall-audit: a library reported while the command ran:", file=sys.stderr)
+        _say("petfall-audit: a library reported while the command ran:", file=sys.stderr)
         for line in text.splitlines():
-            print(f"  {line}", file=sys.stderr)
+            _say(f"  {line}", file=sys.stderr)
 
 
 # --- subcommands --------------------------------------------------------------------------------
@@ -310,11 +310,11 @@ def _print_warnings(warnings: Sequence[object], path: str, *, stream: object = N
     if not warnings:
         return
     out = stream if stream is not None else sys.stderr
-    print(f"{path}: {len(warnings)} warning(s): information still missing", file=out)  # type: ignore[arg-type]
+    _say(f"{path}: {len(warnings)} warning(s): information still missing", file=out)  # type: ignore[arg-type]
     for warning in list(warnings)[:limit]:
-        print(f"  {warning}", file=out)  # type: ignore[arg-type]
+        _say(f"  {warning}", file=out)  # type: ignore[arg-type]
     if len(warnings) > limit:
-        print(f"  ... and {len(warnings) - limit} more", file=out)  # type: ignore[arg-type]
+        _say(f"  ... and {len(warnings) - limit} more", file=out)  # type: ignore[arg-type]
 
 
 def _cmd_assess(args: argparse.Namespace) -> int:
@@ -455,7 +455,7 @@ def _cmd_batch(args: argparse.Namespace) -> int:
     try:
         for outcome in outcomes:
             if outcome.error is not None:
-                print(outcome.error, file=sys.stderr)
+                _say(outcome.error, file=sys.stderr)
                 failed += 1
                 continue
             stem = _unique_stem(Path(outcome.path).stem, taken)
@@ -631,15 +631,15 @@ def _cmd_import_model(args: argparse.Namespace) -> int:
     if unknown:
         raise _refuse(f"--facade: the model has no facade {', '.join(map(repr, unknown))} "
                       f"(it has {', '.join(f.id for f in model.facades) or 'none'})")
-    print(model.summary())
+    _say(model.summary())
     for storey in model.storeys:
-        print(f"  storey level {storey.level}: {storey.label!r} at {storey.elevation_m:.3f} m")
+        _say(f"  storey level {storey.level}: {storey.label!r} at {storey.elevation_m:.3f} m")
     for facade in model.facades:
-        print(f"  facade {facade.id}: {facade.label}, {facade.length_m:g} m")
+        _say(f"  facade {facade.id}: {facade.label}, {facade.length_m:g} m")
     for note in model.assumptions:
-        print(f"  assumed: {note}")
+        _say(f"  assumed: {note}")
     for note in model.skipped:
-        print(f"  left out: {note}")
+        _say(f"  left out: {note}")
     if creating:
         if facade_map:
             raise _refuse("--facade applies when merging into an existing building file")
@@ -653,17 +653,17 @@ def _cmd_import_model(args: argparse.Namespace) -> int:
         assert building is not None
         preview = preview_model(model, building, facade_map=facade_map)
     if preview.problems:
-        print(f"{args.schedule}: {len(preview.problems)} problem(s) (row n is the model's "
+        _say(f"{args.schedule}: {len(preview.problems)} problem(s) (row n is the model's "
               "opening n - 1 in the list above):", file=sys.stderr)
         for problem in preview.problems:
-            print(f"  {problem}", file=sys.stderr)
+            _say(f"  {problem}", file=sys.stderr)
         if not args.accept_valid or not preview.openings:
-            print(f"{args.schedule}: nothing imported; fix the model, or import the "
+            _say(f"{args.schedule}: nothing imported; fix the model, or import the "
                   f"{len(preview.openings)} valid opening(s) with --accept-valid",
                   file=sys.stderr)
             return EXIT_INVALID
     if not preview.openings:
-        print(f"{args.schedule}: the model holds no window or balcony to import; nothing "
+        _say(f"{args.schedule}: the model holds no window or balcony to import; nothing "
               "written", file=sys.stderr)
         return EXIT_INVALID
     if not creating:
@@ -672,29 +672,29 @@ def _cmd_import_model(args: argparse.Namespace) -> int:
                               accept_valid_rows=args.accept_valid, facade_map=facade_map)
         after = validate_building(updated)
         if after:  # never turn a building file that loads into one that does not
-            print(f"{args.into}: the imported building would have {len(after)} problem(s):",
+            _say(f"{args.into}: the imported building would have {len(after)} problem(s):",
                   file=sys.stderr)
             for building_problem in after:
-                print(f"  {building_problem}", file=sys.stderr)
-            print(f"{args.into}: nothing imported", file=sys.stderr)
+                _say(f"  {building_problem}", file=sys.stderr)
+            _say(f"{args.into}: nothing imported", file=sys.stderr)
             return EXIT_INVALID
     save_building(updated, into)
     verb = "created" if creating else f"updated ({args.mode})"
-    print(f"{args.schedule} -> {args.into} {verb}: {preview.summary()}")
-    print(f"{args.into}: {_count(updated.floors, 'floor')}, "
+    _say(f"{args.schedule} -> {args.into} {verb}: {preview.summary()}")
+    _say(f"{args.into}: {_count(updated.floors, 'floor')}, "
           f"{_count(updated.facades, 'facade')}, {_count(updated.openings, 'opening')}")
     missing = validate_building(updated)
     if missing:
-        print(f"{args.into}: not ready to assess yet, {len(missing)} problem(s) (the model "
+        _say(f"{args.into}: not ready to assess yet, {len(missing)} problem(s) (the model "
               "does not hold what lies below each facade: add the surfaces, or import again "
               f"into a new file with --ground KIND), then run petfall-audit check {args.into}")
         for building_problem in missing:
-            print(f"  {building_problem}")
+            _say(f"  {building_problem}")
     warnings = survey_warnings(updated)
     if warnings:
-        print(f"{args.into}: {len(warnings)} opening(s) still to survey (guards, limiters, "
+        _say(f"{args.into}: {len(warnings)} opening(s) still to survey (guards, limiters, "
               "screens, netting, how often opened, cats); petfall-audit check lists them")
-    print(CAUTIONS_SHORT)
+    _say(CAUTIONS_SHORT)
     return EXIT_OK
 
 
