@@ -65,8 +65,8 @@ class BuildingOutcome:
     currency: str = ""
 
 
-#: Memory one worker may need at most (bytes): the largest assessment (about 0.6 GB, see
-#: :data:`petfall_audit.risk.MAX_FALLS`) with its report and temporaries.
+#: Memory one worker may need at most (bytes): an assessment held block by block, its report
+#: and temporaries, with room to spare.
 WORKER_MEMORY_BYTES = 1_500_000_000
 
 
@@ -101,16 +101,6 @@ def describe_problems(exc: PetfallError, path: str) -> str:
     return f"{path}: {exc}"
 
 
-def _too_many_samples(samples: int, n_open: int) -> str | None:
-    from petfall_audit.risk import MAX_FALLS, max_samples
-
-    most = max_samples(n_open)
-    if samples <= most:
-        return None
-    return (f"--samples {samples} is too many for {n_open} opening(s): at most {MAX_FALLS:,} "
-            f"simulated falls fit in memory at once; use --samples {most} or fewer")
-
-
 def run_one(job: BatchJob) -> BuildingOutcome:
     """Load, assess and (with a budget) plan one building; write its result file under a
     temporary name in ``job.out_dir``. Never raises for a problem of the building: the outcome
@@ -125,9 +115,6 @@ def run_one(job: BatchJob) -> BuildingOutcome:
             building = load_building(Path(job.path))
         except BuildingFileError as exc:
             return BuildingOutcome(job.index, job.path, error=describe_problems(exc, job.path))
-        too_many = _too_many_samples(job.samples, len(building.openings))
-        if too_many:
-            return BuildingOutcome(job.index, job.path, error=f"{job.path}: {too_many}")
         return _assess_and_write(job, building, written)
     except PetfallError as exc:
         error = f"{job.path}: {exc}"

@@ -179,8 +179,9 @@ def _swings(
         if key in _cache:
             _cache.move_to_end(key)
             return _cache[key]
-    whole = base.falls.drop_m.shape == (len(building.openings), cat.n)
-    own_falls = _rows(base.falls, order) if whole else None
+    falls0 = base.falls  # None when the assessment kept only block summaries
+    whole = falls0 is not None and falls0.drop_m.shape == (len(building.openings), cat.n)
+    own_falls = _rows(falls0, order) if falls0 is not None and whole else None
     profile = building.cat_profile
     simulated: dict[tuple[str, float], float] = {}
     swings: list[ParameterSwing] = []
