@@ -7,6 +7,7 @@
     │   ├── FileFormatError         not a building file, or from a newer version
     │   └── ValidationFailed        a list of located problems (``.problems``)
     ├── CatalogueError              a control catalogue cannot be read (``.problems``)
+    ├── CodeProfileError            a code profile cannot be read (``.problems``)
     ├── ScheduleImportError         a schedule spreadsheet cannot be imported
     ├── ModelImportError            a building model (IFC) cannot be imported
     ├── PlanError                   the budgeted fix plan cannot be solved
@@ -25,6 +26,7 @@ __all__ = [
     "ValidationFailed",
     "Problem",
     "CatalogueError",
+    "CodeProfileError",
     "ScheduleImportError",
     "ModelImportError",
     "PlanError",
@@ -98,6 +100,17 @@ class CatalogueError(PetfallError):
         head = f"{source}: " if source else ""
         super().__init__(
             head + "invalid control catalogue:\n" + "\n".join(f"  {p}" for p in self.problems)
+        )
+
+
+class CodeProfileError(PetfallError):
+    """A code profile cannot be read; ``problems`` lists each located problem."""
+
+    def __init__(self, problems: Sequence[Problem], source: str = "") -> None:
+        self.problems = list(problems)
+        head = f"{source}: " if source else ""
+        super().__init__(
+            head + "invalid code profile:\n" + "\n".join(f"  {p}" for p in self.problems)
         )
 
 

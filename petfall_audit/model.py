@@ -122,7 +122,9 @@ class BuildingInfo:
     """Who and what is audited.
 
     ``site_altitude_m`` above mean sea level; ``air_temperature_c`` the design air temperature;
-    ``audit_date`` an ISO 8601 date or empty.
+    ``audit_date`` an ISO 8601 date or empty; ``code_profile``: the jurisdiction whose code profile
+    (its rules, with clause and confidence) applies to the building (see
+    :mod:`petfall_audit.code_profile`; the physics never reads it).
     """
 
     name: str
@@ -132,6 +134,7 @@ class BuildingInfo:
     auditor: str = ""
     audit_date: str = ""
     notes: str = ""
+    code_profile: str = "generic"
 
 
 @dataclass(frozen=True, slots=True)

@@ -33,6 +33,10 @@ def test_installed_copy_finds_resources_and_samples(tmp_path: Path) -> None:
         "for name in ('building.schema.json', 'controls.json', 'palette.json'):\n"
         "    assert resource_path(name).is_file(), resource_path(name)\n"
         "assert sample_names() == ['block', 'tower', 'walkup'], sample_names()\n"
+        "from petfall_audit.code_profile import PROFILE_IDS, code_profile\n"
+        "assert resource_path('code_profiles/code_profile.schema.json').is_file()\n"
+        "assert all(code_profile(p).id == p for p in PROFILE_IDS)\n"
+        "assert code_profile('england').cite('guard_height')\n"
         "from petfall_audit.demo import sample_building\n"
         "print(sample_building('walkup').info.name)\n"
     )

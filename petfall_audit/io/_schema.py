@@ -61,6 +61,7 @@ __all__ = [
     "OpenFrequencyName",
     "CatsPresentName",
     "PresetName",
+    "CodeProfileName",
     "Distribution",
     "DISTRIBUTION_HELP",
     "NormalModel",
@@ -177,6 +178,9 @@ ScreenName = Literal["none", "insect", "pet_resistant"]
 OpenFrequencyName = Literal["never", "rarely", "seasonal", "daily", "always"]
 CatsPresentName = Literal["yes", "no", "unknown"]
 PresetName = Literal["adult", "kitten", "heavy_adult"]
+CodeProfileName = Literal[
+    "generic", "england", "us-ibc", "australia-ncc", "canada-nbc", "sweden-bbr"
+]
 
 
 class PlanSettingsModel(_Strict):
@@ -224,6 +228,11 @@ class BuildingModel(_Strict):
     notes: _Notes = Field(default=_default(BuildingInfo, "notes"), description="Free notes.")
     plan: PlanSettingsModel | None = Field(
         default=None, description="The fix plan's settings (optional; missing: none set)."
+    )
+    code_profile: CodeProfileName = Field(
+        default=_default(BuildingInfo, "code_profile"),
+        description="Jurisdiction whose code profile applies (resources/code_profiles/); absent: "
+        "'generic', which cites no clause. Version 2.",
     )
 
     @field_validator("audit_date")

@@ -7,9 +7,10 @@ the step here, and commit a fixture of the old version under ``tests/fixtures/``
 loading.
 
 Version 2 adds optional fields only: a surface's extent along its facade (``x_from_m``,
-``x_to_m``) and the ``"injury"`` section (the injury dose–response). A version-1 file means
-exactly what it meant: its surfaces run the whole length of their facade and it uses the default
-dose–response, so the step from 1 to 2 changes nothing but the version number.
+``x_to_m``), the ``"injury"`` section (the injury dose–response) and the building's
+``"code_profile"``. A version-1 file means exactly what it meant: its surfaces run the whole
+length of their facade, it uses the default dose–response and the generic code profile, so the
+step from 1 to 2 changes nothing but the version number.
 """
 
 from __future__ import annotations
