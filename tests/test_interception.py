@@ -49,10 +49,11 @@ def ivp_outward(drop_m: float, v0: float, m: float, c1: float, c2: float, f: flo
     return ivp_landing(drop_m, v0, m, c1, c2, f)[0]
 
 
-def ivp_landing(drop_m: float, v0: float, m: float, c1: float, c2: float, f: float
-                ) -> tuple[float, float]:
-    """The 2-D reference of :func:`ivp_outward`: outward distance (m) and speed (m/s) at the
-    drop."""
+def ivp_segments(drop_m: float, v0: float, m: float, c1: float, c2: float, f: float
+                 ) -> list:  # type: ignore[type-arg]
+    """The 2-D reference fall as solve_ivp solutions (dense output): tense until the downward
+    speed reaches f × the tense terminal speed, then spread (the same drag if it never relaxes),
+    up to the drop."""
     b1, b2 = RHO0 * c1 / (2 * m), RHO0 * c2 / (2 * m)
     v_switch = f * math.sqrt(G0 / b1)
 
@@ -70,12 +71,21 @@ def ivp_landing(drop_m: float, v0: float, m: float, c1: float, c2: float, f: flo
         return y[3] - v_switch
 
     land.terminal = switch.terminal = True  # type: ignore[attr-defined]
-    tol = {"rtol": 1e-10, "atol": 1e-10}
+    tol = {"rtol": 1e-10, "atol": 1e-10, "dense_output": True}
     sol = solve_ivp(rhs(b1), (0, 1e4), [0, 0, v0, 0], events=[land, switch], **tol)
+    segments = [sol]
     if sol.t_events[1].size and not sol.t_events[0].size:
         t0 = sol.t_events[1][0]
-        sol = solve_ivp(rhs(b2), (t0, t0 + 1e4), sol.y_events[1][0], events=[land], **tol)
-    y = sol.y_events[0][0]
+        segments.append(solve_ivp(rhs(b2), (t0, t0 + 1e4), sol.y_events[1][0], events=[land],
+                                  **tol))
+    return segments
+
+
+def ivp_landing(drop_m: float, v0: float, m: float, c1: float, c2: float, f: float
+                ) -> tuple[float, float]:
+    """The 2-D reference of :func:`ivp_outward`: outward distance (m) and speed (m/s) at the
+    drop."""
+    y = ivp_segments(drop_m, v0, m, c1, c2, f)[-1].y_events[0][0]
     return float(y[0]), float(math.hypot(y[2], y[3]))
 
 
@@ -590,32 +600,9 @@ def test_peak_speed_is_the_highest_speed_of_the_fall() -> None:
 
 
 def ivp_peak(drop_m: float, v0: float, m: float, c1: float, c2: float, f: float) -> float:
-    """Highest speed (m/s) over the 2-D fall of :func:`ivp_landing`, from dense output."""
-    b1, b2 = RHO0 * c1 / (2 * m), RHO0 * c2 / (2 * m)
-    v_switch = f * math.sqrt(G0 / b1)
-
-    def rhs(b: float):  # type: ignore[no-untyped-def]
-        def fn(t: float, y: np.ndarray) -> list[float]:
-            speed = math.hypot(y[2], y[3])
-            return [y[2], y[3], -b * speed * y[2], G0 - b * speed * y[3]]
-        return fn
-
-    def land(t: float, y: np.ndarray) -> float:
-        return y[1] - drop_m
-
-    def switch(t: float, y: np.ndarray) -> float:
-        return y[3] - v_switch
-
-    land.terminal = switch.terminal = True  # type: ignore[attr-defined]
-    tol = {"rtol": 1e-10, "atol": 1e-10, "dense_output": True}
+    """Highest speed (m/s) over the 2-D fall of :func:`ivp_segments`, from dense output."""
     best = 0.0
-    sol = solve_ivp(rhs(b1), (0, 1e4), [0, 0, v0, 0], events=[land, switch], **tol)
-    segments = [sol]
-    if sol.t_events[1].size and not sol.t_events[0].size:  # b2 == b1 if it does not relax
-        t0 = sol.t_events[1][0]
-        segments.append(solve_ivp(rhs(b2), (t0, t0 + 1e4), sol.y_events[1][0], events=[land],
-                                  **tol))
-    for seg in segments:
+    for seg in ivp_segments(drop_m, v0, m, c1, c2, f):
         t = np.linspace(seg.t[0], seg.t[-1], 2000)
         y = seg.sol(t)
         best = max(best, float(np.hypot(y[2], y[3]).max()))
