@@ -1,0 +1,60 @@
+"""The presentation layer's number formats (the one place numbers are written for people)."""
+
+from __future__ import annotations
+
+import datetime as dt
+import math
+
+import pytest
+
+from petfall_audit.present import (
+    NO_VALUE,
+    band_label,
+    fmt_date,
+    fmt_length,
+    fmt_money,
+    fmt_one_in,
+    fmt_percent,
+    fmt_speed,
+    kind_label,
+    preset_label,
+)
+
+
+@pytest.mark.parametrize(
+    ("n", "text"),
+    [(1234.0, "1 in 1,200"), (4999.0, "1 in 5,000"), (12.4, "1 in 12"), (2.54, "1 in 2.5"),
+     (4.0, "1 in 4"), (0.3, "1 in 1"), (math.inf, "negligible"), (2e8, "negligible"),
+     (math.nan, NO_VALUE), (0.0, NO_VALUE)],
+)
+def test_one_in(n: float, text: str) -> None:
+    assert fmt_one_in(n) == text
+
+
+def test_imperial_speed_and_length() -> None:
+    # 1 mph = 0.44704 m/s exactly (international yard and pound agreement, 1959).
+    assert fmt_speed(0.44704 * 41.4, "imperial") == "41.4 mph"
+    assert fmt_speed(18.46) == "18.5 m/s"
+    # 3.1 m = 122.05 in = 10 ft 2 in.
+    assert fmt_length(3.1, "imperial") == "10 ft 2 in"
+    assert fmt_length(0.095, small=True) == "95 mm"
+    assert fmt_length(3.048, "imperial", unit=False) == "10.0"
+
+
+def test_money_percent_and_dates() -> None:
+    assert fmt_money(33000.2, "EUR") == "33,000 EUR"
+    assert fmt_money(math.nan, "EUR") == NO_VALUE
+    assert fmt_percent(0.001) == "<1%"
+    assert fmt_percent(0.999) == ">99%"
+    assert fmt_percent(0.5) == "50%"
+    assert fmt_date(dt.date(2026, 3, 4), "dmy") == "4 March 2026"
+    assert fmt_date("2026-03-04", "mdy") == "March 4, 2026"
+    assert fmt_date("spring 2026") == "spring 2026"
+
+
+def test_labels() -> None:
+    assert kind_label("balcony") == "Balcony"
+    assert preset_label("heavy_adult").startswith("Heavy adult")
+    assert preset_label(None) == "Custom cat profile"
+    assert band_label(3) == "Life-threatening"
+    assert band_label(-1) == "No result"
