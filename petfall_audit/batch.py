@@ -9,7 +9,7 @@ and skipped; the others go on. The caller gives each result its final name.
 
 from __future__ import annotations
 
-import json
+import math
 import os
 from collections.abc import Callable, Sequence
 from concurrent.futures import Future, ProcessPoolExecutor, as_completed
@@ -17,12 +17,14 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import TYPE_CHECKING
 
+from petfall_audit.injury import BANDS
+
 if TYPE_CHECKING:
     from petfall_audit.errors import PetfallError
     from petfall_audit.fixes import Option
     from petfall_audit.model import Building
 
-__all__ = ["BatchJob", "BuildingOutcome", "default_jobs", "describe_problems", "json_text",
+__all__ = ["BatchJob", "BuildingOutcome", "SUMMARY_COLUMNS", "default_jobs", "describe_problems",
            "run_one", "run_all", "discard"]
 
 
@@ -64,6 +66,22 @@ class BuildingOutcome:
     options: dict[str, list[Option]] | None = field(default=None)
     currency: str = ""
 
+    def summary_row(self, result_file: str) -> list[object]:
+        """This building's line of the batch's ``summary.csv`` (:data:`SUMMARY_COLUMNS`):
+        risk and costs to the whole unit, empty cells where there is no plan."""
+        def whole(x: float | None) -> object:
+            return "" if x is None else int(math.floor(x + 0.5))
+
+        return [self.path, self.building_name, self.n_openings, *self.band_counts,
+                self.worst_id, whole(self.risk_total), whole(self.plan_cost),
+                whole(self.plan_risk_after), result_file]
+
+
+#: The columns of a batch's ``summary.csv``, one row per building assessed.
+SUMMARY_COLUMNS: tuple[str, ...] = (
+    "file", "building", "openings", *(f"expected_{b}" for b in BANDS), "highest_risk_opening",
+    "risk_total", "plan_cost", "risk_after_plan", "result_file")
+
 
 #: Memory one worker may need at most (bytes): an assessment that keeps its falls (about 0.2 GB,
 #: see :data:`petfall_audit.risk.KEEP_FALLS_MAX`) with its report and temporaries.
@@ -83,11 +101,6 @@ def default_jobs() -> int:
         memory = 0
     fit = memory // WORKER_MEMORY_BYTES if memory > 0 else cores
     return max(1, min(cores, fit))
-
-
-def json_text(doc: object) -> str:
-    """``doc`` as indented JSON text (UTF-8 characters kept), ending with a newline."""
-    return json.dumps(doc, indent=2, ensure_ascii=False) + "\n"
 
 
 def describe_problems(exc: PetfallError, path: str) -> str:
@@ -146,9 +159,9 @@ def _assess_and_write(job: BatchJob, building: Building, written: list[str]) -> 
     import tempfile
 
     from petfall_audit.fixes import load_catalogue, opening_options
-    from petfall_audit.injury import BANDS
     from petfall_audit.io.atomic import atomic_write_text
-    from petfall_audit.io.results_export import assessment_to_csv, assessment_to_dict
+    from petfall_audit.io.results_envelope import results_json_text
+    from petfall_audit.io.results_export import assessment_to_csv
     from petfall_audit.plan import make_plan
     from petfall_audit.risk import assess
 
@@ -161,23 +174,20 @@ def _assess_and_write(job: BatchJob, building: Building, written: list[str]) -> 
     os.close(fd)
     written.append(tmp)
     if job.fmt == "json":
-        atomic_write_text(tmp, json_text(assessment_to_dict(assessment)))
+        atomic_write_text(tmp, results_json_text(assessment=assessment, plan=plan))
     elif job.fmt == "csv":
         atomic_write_text(tmp, assessment_to_csv(assessment))
     else:
         from petfall_audit.report import write_audit
 
         write_audit(assessment, plan, tmp, photo_root=Path(job.path).parent)
-    counts = [0] * len(BANDS)
-    for result in assessment.openings:
-        counts[result.expected_band] += 1
-    worst = assessment.ranked("risk")[0] if assessment.openings else None
+    worst = assessment.ranked()[0] if assessment.openings else None
     return BuildingOutcome(
         index=job.index,
         path=job.path,
         building_name=building.info.name,
         n_openings=len(building.openings),
-        band_counts=tuple(counts),
+        band_counts=assessment.band_counts(),
         worst_id=worst.id if worst else "",
         risk_total=float(assessment.risk.sum()),
         plan_cost=plan.total_cost if plan else None,

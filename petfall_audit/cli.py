@@ -175,12 +175,6 @@ def _count(items: Sized, noun: str) -> str:
     return f"{len(items)} {noun}{'' if len(items) == 1 else 's'}"
 
 
-def _dumps(doc: object) -> str:
-    from petfall_audit.batch import json_text
-
-    return json_text(doc)
-
-
 def _flush_c_stdio() -> None:
     """Flush the C library's stdio buffers, where compiled libraries print."""
     try:
@@ -318,11 +312,9 @@ def _print_warnings(warnings: Sequence[object], path: str, *, stream: object = N
 
 
 def _cmd_assess(args: argparse.Namespace) -> int:
-    from petfall_audit.io.results_export import (
-        assessment_to_csv,
-        assessment_to_dict,
-        assessment_to_table,
-    )
+    from petfall_audit.io.results_envelope import results_json_text
+    from petfall_audit.io.results_export import assessment_to_csv
+    from petfall_audit.present.tables import assessment_to_table
 
     _check_output(args.output)
     _check_sampling(args)
@@ -331,7 +323,7 @@ def _cmd_assess(args: argparse.Namespace) -> int:
         args, building, sensitivity=args.format == "json" and not args.no_sensitivity
     )
     if args.format == "json":
-        text = _dumps(assessment_to_dict(assessment))
+        text = results_json_text(assessment=assessment)
     elif args.format == "csv":
         text = assessment_to_csv(assessment)
     else:
@@ -342,7 +334,8 @@ def _cmd_assess(args: argparse.Namespace) -> int:
 
 def _cmd_plan(args: argparse.Namespace) -> int:
     from petfall_audit.fixes import load_catalogue
-    from petfall_audit.io.plan_export import plan_to_csv, plan_to_dict, plan_to_table
+    from petfall_audit.io.plan_export import plan_to_csv, plan_to_table
+    from petfall_audit.io.results_envelope import results_json_text
     from petfall_audit.plan import make_plan
 
     if args.budget is not None and (not math.isfinite(args.budget) or args.budget < 0):
@@ -362,7 +355,7 @@ def _cmd_plan(args: argparse.Namespace) -> int:
         raise _refuse(f"{args.controls}: {exc.strerror or exc}") from None
     plan = make_plan(_assess(args, building), budget, catalogue=catalogue)
     if args.format == "json":
-        text = _dumps(plan_to_dict(plan))
+        text = results_json_text(plan=plan)
     elif args.format == "csv":
         text = plan_to_csv(plan)
     else:
@@ -424,9 +417,8 @@ def _cmd_batch(args: argparse.Namespace) -> int:
     buildings are assessed at once in separate processes; the results are the same."""
     import io
 
-    from petfall_audit.batch import BatchJob, discard, run_all
+    from petfall_audit.batch import SUMMARY_COLUMNS, BatchJob, discard, run_all
     from petfall_audit.cautions import CAUTIONS_SHORT
-    from petfall_audit.injury import BANDS
     from petfall_audit.io.atomic import atomic_write_text
     from petfall_audit.io.csv_safe import csv_writer
     from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
@@ -462,22 +454,14 @@ def _cmd_batch(args: argparse.Namespace) -> int:
             result_path = out_dir / f"{stem}.{args.format}"
             os.replace(outcome.result_tmp, result_path)
             done.append((outcome, result_path.name))
-            rows.append([
-                outcome.path, outcome.building_name, outcome.n_openings, *outcome.band_counts,
-                outcome.worst_id, f"{outcome.risk_total:.0f}",
-                f"{outcome.plan_cost:.0f}" if outcome.plan_cost is not None else "",
-                f"{outcome.plan_risk_after:.0f}" if outcome.plan_risk_after is not None else "",
-                result_path.name,
-            ])
+            rows.append(outcome.summary_row(result_path.name))
     finally:
         for outcome in outcomes:
             discard(outcome.result_tmp)
     buffer = io.StringIO()
     buffer.write(f"# {CAUTIONS_SHORT}\n")
     writer = csv_writer(buffer)
-    writer.writerow(["file", "building", "openings", *(f"expected_{b}" for b in BANDS),
-                     "highest_risk_opening", "risk_total", "plan_cost", "risk_after_plan",
-                     "result_file"])
+    writer.writerow(SUMMARY_COLUMNS)
     writer.writerows(rows)
     atomic_write_text(out_dir / "summary.csv", buffer.getvalue())
     _say(f"assessed {len(rows)} of {len(args.files)} building(s); wrote {out_dir / 'summary.csv'}")
@@ -493,7 +477,7 @@ def _write_portfolio(done: Sequence[tuple[BuildingOutcome, str]], budget: float,
     and the estate summary DIR/portfolio.pdf."""
     from petfall_audit.figures.budget import budget_grid
     from petfall_audit.io.atomic import atomic_write_text
-    from petfall_audit.io.portfolio_export import portfolio_to_dict
+    from petfall_audit.io.results_envelope import results_json_text
     from petfall_audit.portfolio import (
         EstateBuilding,
         estate_options,
@@ -508,7 +492,7 @@ def _write_portfolio(done: Sequence[tuple[BuildingOutcome, str]], budget: float,
     currency = next((o.currency for o, _ in done if o.currency), "")
     portfolio = plan_portfolio(estate, budget, currency=currency)
     plan_path = out_dir / "portfolio-plan.json"
-    atomic_write_text(plan_path, _dumps(portfolio_to_dict(portfolio)))
+    atomic_write_text(plan_path, results_json_text(portfolio=portfolio))
     grid = budget_grid(estate_options(estate), n_points=12)
     budgets, removed = portfolio_curve(estate, sorted({*grid.tolist(), float(budget)}))
     pdf_path = write_portfolio_report(portfolio, budgets, removed, out_dir / "portfolio.pdf")
@@ -764,8 +748,9 @@ def _build_parser() -> argparse.ArgumentParser:
     p.add_argument("file", help="building file (.json)")
     _add_table_output_options(p)
     _add_sampling_options(p)
-    p.add_argument("--by", choices=("band", "risk"), default="band",
-                   help="table order: expected injury band (default) or risk score")
+    p.add_argument("--by", choices=("band", "risk"), default="risk",
+                   help="table order: risk score (default; the order of the PDF, the app and "
+                        "the exports) or expected injury band")
     p.add_argument("--no-sensitivity", action="store_true",
                    help="leave the sensitivity summary out of the JSON (faster)")
     p.set_defaults(handler=_cmd_assess)

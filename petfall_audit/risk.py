@@ -9,6 +9,11 @@
   ``Σ_b weight_b × (100 × P(band b)) × annual_probability``, with our bands mapped onto the HHSRS
   harm classes (life-threatening → class I, 10 000; serious → II, 1 000; moderate → III, 300;
   minor → IV, 10). See ``docs/risk-model.md``.
+- **Default order** (:data:`DEFAULT_ORDER`, ``Assessment.ranked()``): the risk ranking, highest
+  score first; equal scores by the worse expected band, then the higher mean severity, then the
+  opening id (alphabetical), so that the order is total and the same on every run. The app's
+  ranked view, the PDF's ranked table, the command line's table and the JSON and CSV exports
+  all list the openings in this order.
 
 The whole building is computed in one pass over ``(n_openings, n_samples)`` arrays.
 """
@@ -52,7 +57,12 @@ __all__ = [
     "assess",
     "KEEP_FALLS_MAX",
     "MAX_SAMPLES",
+    "DEFAULT_ORDER",
 ]
+
+#: The order every listing of openings uses unless the user picks another: by risk score, see
+#: the module's docstring and docs/risk-model.md ("Default order").
+DEFAULT_ORDER: Literal["risk"] = "risk"
 
 #: Version of the injury, likelihood and risk model; changes whenever a default changes.
 MODEL_VERSION = "risk-model 2.0"
@@ -145,14 +155,21 @@ class Assessment:
     stops: StoppingDistances = DEFAULT_STOPS
     rho_kg_m3: float = 1.225
 
-    def ranked(self, by: Literal["band", "risk"] = "band") -> list[OpeningResult]:
-        """Openings worst first: ``"band"`` by expected band then likelihood; ``"risk"`` by
-        risk score."""
+    def ranked(self, by: Literal["band", "risk"] = DEFAULT_ORDER) -> list[OpeningResult]:
+        """Openings worst first: ``"risk"`` (the default order, :data:`DEFAULT_ORDER`) by risk
+        score; ``"band"`` by expected band then likelihood."""
         if by == "band":
             return sorted(self.openings, key=lambda o: o.rank)
         if by == "risk":
             return sorted(self.openings, key=lambda o: o.risk_rank)
         raise ValueError(f"by must be 'band' or 'risk', got {by!r}")
+
+    def band_counts(self) -> tuple[int, ...]:
+        """How many openings have each expected band, in the order of
+        :data:`~petfall_audit.injury.BANDS`."""
+        counts = np.bincount(np.array([o.expected_band for o in self.openings], dtype=np.intp),
+                             minlength=len(BANDS))
+        return tuple(int(c) for c in counts[: len(BANDS)])
 
     def result(self, opening_id: str) -> OpeningResult:
         """The result of one opening; ``KeyError`` if there is none."""
@@ -387,7 +404,10 @@ def _assessment(
 
     band_rank = _rank([-exp_band.astype(float), -lik.annual_probability, -mean_sev,
                        np.arange(n_open, dtype=float)])
-    risk_rank = _rank([-risk, -exp_band.astype(float), -mean_sev, np.arange(n_open, dtype=float)])
+    # the default order (see the module's docstring): the last key is each id's alphabetical place
+    by_id = np.argsort(np.argsort(np.array([o.id for o in building.openings], dtype=object),
+                                  kind="stable"), kind="stable").astype(float)
+    risk_rank = _rank([-risk, -exp_band.astype(float), -mean_sev, by_id])
 
     drop_pct, speed_pct = summary.drop_pct, summary.speed_pct
     water_share = summary.water_share

@@ -1,6 +1,8 @@
 """What each editable field is, how it is shown and how typed text is read. No Qt.
 
-Forms and tables share these specs, so a value typed in either is read the same way. Lengths are
+Forms and tables share these specs, so a value typed in either is read the same way. The
+formats here are the editor's round-trip formats (precise enough to read back unchanged); the
+names of enum values come from :mod:`petfall_audit.present`. Lengths are
 shown in the display system (``"metric"`` or ``"imperial"``) and read with units
 (``42 in``, ``1.1 m``, ``3'6"``); a bare number takes the system's unit (m or ft for lengths,
 mm or in for gaps). Files and the model stay SI.
@@ -16,61 +18,29 @@ from typing import Any
 
 from petfall_audit.io._schema import LIMITS
 from petfall_audit.model import (
-    KIND_LABELS,
     CatsPresent,
     OpenFrequency,
     OpeningKind,
     Screen,
     SurfaceKind,
 )
-from petfall_audit.units import FOOT_M, INCH_M, parse_length_m
+from petfall_audit.present.labels import enum_label
+from petfall_audit.units import INCH_M, parse_length_m
 
 __all__ = [
     "FieldSpec",
-    "ENUM_LABELS",
     "OPENING_FIELDS",
     "FLOOR_FIELDS",
     "FACADE_FIELDS",
     "SURFACE_FIELDS",
     "INFO_FIELDS",
     "INJURY_FIELDS",
-    "enum_label",
     "max_chars",
     "field_spec",
     "format_value",
     "parse_value",
-    "format_speed",
     "unit_hint",
 ]
-
-ENUM_LABELS: dict[StrEnum, str] = {
-    **KIND_LABELS,  # type: ignore[dict-item]
-    Screen.NONE: "No screen",
-    Screen.INSECT: "Insect screen",
-    Screen.PET_RESISTANT: "Pet-resistant screen",
-    OpenFrequency.NEVER: "Never",
-    OpenFrequency.RARELY: "Rarely",
-    OpenFrequency.SEASONAL: "In warm months",
-    OpenFrequency.DAILY: "Daily",
-    OpenFrequency.ALWAYS: "Always open",
-    CatsPresent.YES: "Yes",
-    CatsPresent.NO: "No",
-    CatsPresent.UNKNOWN: "Not known",
-    SurfaceKind.CONCRETE: "Concrete / paving",
-    SurfaceKind.ASPHALT: "Asphalt",
-    SurfaceKind.GRAVEL: "Gravel",
-    SurfaceKind.LAWN: "Lawn / soil",
-    SurfaceKind.PLANTING: "Planting bed / shrubs",
-    SurfaceKind.WATER: "Water",
-    SurfaceKind.ROOF: "Roof membrane",
-    SurfaceKind.DECK: "Timber deck",
-}
-
-
-def enum_label(value: StrEnum) -> str:
-    """Plain-words label of an enum member."""
-    return ENUM_LABELS.get(value, str(value.value).replace("_", " ").capitalize())
-
 
 @dataclass(frozen=True, slots=True)
 class FieldSpec:
@@ -336,12 +306,3 @@ def parse_value(spec: FieldSpec, text: str, system: str = "metric") -> Any:
     if not raw and not spec.optional:
         raise ValueError(f"{spec.label} cannot be empty")
     return raw if spec.kind != "text" else text.strip()
-
-
-def format_speed(speed_mps: float, system: str = "metric") -> str:
-    """A speed to 0.1 m/s (metric) or 0.1 mph (imperial)."""
-    if not math.isfinite(speed_mps):
-        return "—"
-    if system == "imperial":
-        return f"{speed_mps / (FOOT_M * 5280 / 3600):.1f} mph"
-    return f"{speed_mps:.1f} m/s"

@@ -51,10 +51,8 @@ from petfall_audit.figures.floors import (
     level_summary,
 )
 from petfall_audit.figures.sensitivity import (
-    PARAMETER_LABELS,
     SWING_DEFINITION,
     SensitivityFigure,
-    fmt_change_pct,
     sensitivity_figure,
     sensitivity_figure_from_result,
 )
@@ -71,7 +69,6 @@ __all__ = [
     "FloorSummary",
     "ImpactCurve",
     "LevelSummary",
-    "PARAMETER_LABELS",
     "PosturePath",
     "RepresentativeCat",
     "SWING_DEFINITION",
@@ -84,7 +81,6 @@ __all__ = [
     "fall_profile_figure",
     "floor_comparison",
     "floors_by_elevation",
-    "fmt_change_pct",
     "impact_speed_curve",
     "knee_budget",
     "level_summary",

@@ -11,6 +11,7 @@ from numpy.typing import NDArray
 
 from petfall_audit.figures.floors import floors_by_elevation
 from petfall_audit.model import BALCONY_LIKE, Building
+from petfall_audit.present.labels import surface_label
 
 if TYPE_CHECKING:
     from petfall_audit.risk import Assessment
@@ -190,7 +191,7 @@ def facade_context(building: Building, facade_id: str) -> FacadeContext:
         surfaces=tuple(
             SurfaceBand(s.id, str(s.kind), float(s.elevation_m), float(s.from_facade_m),
                         None if s.to_facade_m is None else float(s.to_facade_m),
-                        s.label or s.id, s.x_from_m, s.x_to_m)
+                        surface_label(s.label, s.kind), s.x_from_m, s.x_to_m)
             for s in surfaces
         ),
         catching=catching,

@@ -16,23 +16,14 @@ from typing import TYPE_CHECKING
 import numpy as np
 from numpy.typing import NDArray
 
+from petfall_audit.present import PARAMETER_LABELS, fmt_number, fmt_percent
+
 if TYPE_CHECKING:
     from petfall_audit.risk import Assessment
     from petfall_audit.sensitivity import SensitivityResult
 
-__all__ = ["PARAMETER_LABELS", "SWING_DEFINITION", "SensitivityFigure", "fmt_change_pct",
-           "sensitivity_figure", "sensitivity_figure_from_result"]
-
-#: Plain-words name of each swung parameter, as the assumptions table names it.
-PARAMETER_LABELS: dict[str, str] = {
-    "mass_kg": "Body mass",
-    "cda_tense_m2": "C_d·A tense",
-    "cda_spread_m2": "C_d·A spread out",
-    "relax_probability": "Chance of spreading out",
-    "relax_fraction": "Spreading-out point",
-    "righting_time_s": "Righting time",
-    "launch_speed_mps": "Outward launch speed",
-}
+__all__ = ["SWING_DEFINITION", "SensitivityFigure", "sensitivity_figure",
+           "sensitivity_figure_from_result"]
 
 #: Decimals of each parameter's value in the bar labels.
 _DECIMALS: dict[str, int] = {
@@ -96,9 +87,8 @@ class SensitivityFigure:
 
 def _value_text(name: str, unit: str, value: float, with_unit: bool = True) -> str:
     if name == "relax_probability":
-        return f"{value * 100:.0f}%" if with_unit else f"{value * 100:.0f}"
-    text = f"{value:.{_DECIMALS.get(name, 2)}f}"
-    return f"{text} {unit}".strip() if with_unit else text
+        return fmt_percent(value) if with_unit else fmt_number(value * 100, 0)
+    return fmt_number(value, _DECIMALS.get(name, 2), unit if with_unit else "")
 
 
 def _range_text(name: str, unit: str, lo: float, hi: float) -> str:
@@ -165,12 +155,3 @@ def sensitivity_figure(assessment: Assessment, *, max_samples: int | None = None
                       thresholds=assessment.thresholds, stops=assessment.stops)
     return sensitivity_figure_from_result(sensitivity_analysis(base), samples=int(base.samples),
                                           assessment_samples=n)
-
-
-def fmt_change_pct(pct: float) -> str:
-    """A signed change in % for a bar's label: "+43%", "-4.9%", "0%" (whole numbers from 10)."""
-    if not np.isfinite(pct):
-        return "–"
-    if abs(pct) < 0.05:
-        return "0%"
-    return f"{pct:+.0f}%" if abs(pct) >= 9.95 else f"{pct:+.1f}%"

@@ -34,8 +34,9 @@ from petfall_audit.editing.fields import (
 )
 from petfall_audit.editing.history import History
 from petfall_audit.editing.words import problem_words
-from petfall_audit.gui.result_cells import result_style, result_text, two_line_title, units_of
+from petfall_audit.gui.result_cells import result_style, result_text, two_line_title
 from petfall_audit.model import Building
+from petfall_audit.present import units_of
 
 __all__ = [
     "DocumentSignals",
@@ -380,7 +381,7 @@ class ResultsTableModel(QAbstractTableModel):
 
     COLUMNS = ("Rank", "Opening", "Floor", "Facade", "Kind", "Expected injury band",
                "Likelihood per year", "Impact speed (median)", "Risk score")
-    KEYS = ("rank", "id", "floor", "facade", "kind", "band", "likelihood", "speed", "risk")
+    KEYS = ("risk_rank", "id", "floor", "facade", "kind", "band", "likelihood", "speed", "risk")
 
     def __init__(self, options: ViewOptions, parent: QObject | None = None) -> None:
         super().__init__(parent)

@@ -43,13 +43,14 @@ from petfall_audit.editing.commands import (
     EditRefused,
     copy_ids,
 )
-from petfall_audit.editing.fields import OPENING_FIELDS, FieldSpec, enum_label, parse_value
+from petfall_audit.editing.fields import OPENING_FIELDS, FieldSpec, parse_value
 from petfall_audit.editing.numbering import level_digits
 from petfall_audit.editing.query import select_openings
 from petfall_audit.gui.settings import CONTACT_FIELDS
 from petfall_audit.gui.widgets.field_form import ERROR_STYLE
 from petfall_audit.gui.widgets.photos import PHOTO_FILTER, PhotoDialog
 from petfall_audit.model import Building, OpeningKind
+from petfall_audit.present import enum_label
 
 __all__ = ["Prompts", "CopyRequest", "BulkRequest", "CautionsDialog", "CopyFloorDialog",
            "BulkEditDialog", "ContactDialog", "FILE_FILTER", "APP_TITLE"]

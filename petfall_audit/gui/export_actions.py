@@ -10,7 +10,6 @@ progress, then calls the Qt-free writers: :func:`petfall_audit.report.write_audi
 
 from __future__ import annotations
 
-import json
 import re
 from collections.abc import Callable
 from pathlib import Path
@@ -88,8 +87,9 @@ def _write(kind: str, assessment: Any, plan: Any, path: Path, contact: dict[str,
         if kind == "plan_csv":
             atomic_write_text(path, plan_export.plan_to_csv(plan))
         else:
-            text = json.dumps(plan_export.plan_to_dict(plan), ensure_ascii=False, indent=2)
-            atomic_write_text(path, text + "\n")
+            from petfall_audit.io.results_envelope import write_results_json
+
+            write_results_json(path, plan=plan)
         return [path]
     raise ValueError(f"unknown export {kind!r}")
 

@@ -248,7 +248,7 @@ class MainWindow(QMainWindow):
     def set_editor_share(self, share: float) -> None:
         """Give the editors ``share`` (0–1) of the splitter's height, the views the rest."""
         total = sum(self.splitter.sizes()) or max(self.splitter.height(), 600)
-        editors = int(round(share * total))
+        editors = int(share * total + 0.5)  # pixels, to the nearest
         self.splitter.setSizes([editors, total - editors])
 
     def add_view(self, name: str, widget: QWidget) -> int:

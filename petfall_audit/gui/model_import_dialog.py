@@ -47,6 +47,8 @@ from petfall_audit.io.ifc_import import (
 )
 from petfall_audit.io.schedule import ImportPreview
 from petfall_audit.model import Building
+from petfall_audit.present import fmt_length, kind_label, length_unit, surface_label
+from petfall_audit.present.labels import surface_kind_label
 
 __all__ = ["ModelImportDialog", "import_model"]
 
@@ -72,9 +74,11 @@ class ModelImportDialog(QDialog):
     """Preview importing ``model`` into ``building``; after ``accept()``,
     :meth:`result_building` gives the new building."""
 
-    def __init__(self, building: Building, model: ModelRead, *,
+    def __init__(self, building: Building, model: ModelRead, *, units: str = "metric",
                  parent: QWidget | None = None) -> None:
         super().__init__(parent)
+        self.units = units
+        u = length_unit(units)
         self.setObjectName("model_import_dialog")
         self.setWindowTitle(f"Import building model: {model.source}")
         self.building = building
@@ -87,14 +91,15 @@ class ModelImportDialog(QDialog):
 
         levels = floor_levels(model, building)
         self.storeys = _table(
-            "storeys_table", ["Level", "Storey", "Elevation (m)", "In this building"],
-            [(str(levels[s.level]), s.label, f"{s.elevation_m:.3f}",
+            "storeys_table", ["Level", "Storey", f"Elevation ({u})", "In this building"],
+            [(str(levels[s.level]), s.label, self._survey(s.elevation_m, 3),
               self._floor_state(levels[s.level], s.elevation_m)) for s in model.storeys])
 
         existing = [f.id for f in building.facades]
         self.facades = _table("facades_table",
-                              ["Facade in the model", "Facing", "Length (m)", "Put on facade"],
-                              [(f.id, f.label, f"{f.length_m:.2f}", "") for f in model.facades])
+                              ["Facade in the model", "Facing", f"Length ({u})", "Put on facade"],
+                              [(f.id, f.label, self._survey(f.length_m), "")
+                               for f in model.facades])
         self.facade_boxes: list[QComboBox] = []
         for row, f in enumerate(model.facades):
             box = QComboBox()
@@ -109,11 +114,11 @@ class ModelImportDialog(QDialog):
 
         self.openings = _table(
             "openings_table",
-            ["Row", "Opening", "Level", "Facade", "Kind", "Position (m)", "Width (m)",
-             "Sill or rail (m)", "Projection (m)", "Assumed"],
-            [(str(i + 2), o.id, str(o.level), o.facade, o.kind.value.replace("_", " "),
-              f"{o.x_m:.2f}", f"{o.width_m:.2f}", f"{o.perch_height_m:.2f}",
-              f"{o.projection_m:.2f}", "; ".join(o.assumptions) or "—")
+            ["Row", "Opening", "Level", "Facade", "Kind", f"Position ({u})", f"Width ({u})",
+             f"Sill or rail ({u})", f"Projection ({u})", "Assumed"],
+            [(str(i + 2), o.id, str(o.level), o.facade, kind_label(o.kind),
+              self._survey(o.x_m), self._survey(o.width_m), self._survey(o.perch_height_m),
+              self._survey(o.projection_m), "; ".join(o.assumptions) or "—")
              for i, o in enumerate(model.openings)])
 
         self.assumptions = QPlainTextEdit()
@@ -175,15 +180,23 @@ class ModelImportDialog(QDialog):
 
     # --- what is shown ------------------------------------------------------------------------
 
+    def _survey(self, x_m: float, digits: int = 2) -> str:
+        """A surveyed length as the table shows it (the column names the unit)."""
+        return fmt_length(x_m, self.units, unit=False, digits=digits)
+
+    def _precise(self, x_m: float) -> str:
+        """A surveyed height with its unit, to the centimetre or 0.01 ft."""
+        return fmt_length(x_m, self.units, digits=2)
+
     def _floor_state(self, level: int, elevation_m: float) -> str:
         """What the storey does to the building's floor at ``level``."""
         for f in self.building.floors:
             if f.level != level:
                 continue
             if abs(f.elevation_m - elevation_m) <= 0.05:
-                return f"floor {f.level} '{f.label}' ({f.elevation_m:g} m)"
-            return (f"changes floor {f.level} '{f.label}' from {f.elevation_m:g} m to "
-                    f"{elevation_m:g} m")
+                return f"floor {f.level} '{f.label}' ({self._precise(f.elevation_m)})"
+            return (f"changes floor {f.level} '{f.label}' from {self._precise(f.elevation_m)} "
+                    f"to {self._precise(elevation_m)}")
         return "new floor"
 
     def assumption_text(self) -> str:
@@ -200,8 +213,8 @@ class ModelImportDialog(QDialog):
                      "Check lists them as warnings): guard or infill gaps, limiters, screens, "
                      "netting, how often each opening is opened, whether cats live behind it.")
         if self.building.surfaces:
-            below = ", ".join(f"{s.label or s.id} ({s.kind.value}, {s.elevation_m:g} m)"
-                              for s in self.building.surfaces)
+            below = ", ".join(f"{surface_label(s.label, s.kind)} ({surface_kind_label(s.kind)}, "
+                              f"{self._precise(s.elevation_m)})" for s in self.building.surfaces)
             lines.append(f"What lies below is not in the model either: this building's "
                          f"surfaces apply: {below}. Check them for the model's facades.")
         else:
@@ -271,7 +284,8 @@ def import_model(window: Any, path: Path, *, prompts: Any) -> str | None:
         prompts.show_error(window, "Cannot read the building model", str(exc))
         return str(exc)
     QApplication.restoreOverrideCursor()
-    dialog = ModelImportDialog(window.document.building, model, parent=window)
+    dialog = ModelImportDialog(window.document.building, model, units=window.options.units,
+                               parent=window)
     try:
         if not prompts.run(dialog):
             return "cancelled"

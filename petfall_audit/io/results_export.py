@@ -1,6 +1,8 @@
-"""An assessment as a JSON-ready dict, a CSV text or a terminal table.
+"""An assessment as a JSON-ready dict or a CSV text (the terminal table for people is
+:func:`petfall_audit.present.tables.assessment_to_table`).
 
-Openings are listed in band order (``rank``). Floats are rounded to 4 significant digits so the
+Openings are listed in the default order (:data:`petfall_audit.risk.DEFAULT_ORDER`, by risk
+score). Floats are rounded to 4 significant digits so the
 same seed gives byte-identical output. Units: metres, metres per second, probabilities 0..1,
 severity index in g. Every output carries the cautions.
 """
@@ -9,11 +11,10 @@ from __future__ import annotations
 
 import io
 import math
-import textwrap
 from typing import Any
 
 from petfall_audit import __version__
-from petfall_audit.cautions import CAUTIONS, CAUTIONS_SHORT
+from petfall_audit.cautions import CAUTIONS
 from petfall_audit.injury import BANDS
 from petfall_audit.io.csv_safe import csv_writer
 from petfall_audit.model import CatProfile, Distribution, Fixed, LogNormal, Normal, Uniform
@@ -24,13 +25,10 @@ __all__ = [
     "round_significant",
     "assessment_to_dict",
     "assessment_to_csv",
-    "assessment_to_table",
     "profile_to_dict",
 ]
 
 SIGNIFICANT_DIGITS = 4
-#: Prose under the terminal table (hazards, cautions) is wrapped to this many columns.
-TEXT_WIDTH = 80
 
 
 def round_significant(x: float) -> float | None:
@@ -127,7 +125,7 @@ def _sensitivity(a: Assessment) -> dict[str, Any] | None:
 
 def assessment_to_dict(a: Assessment) -> dict[str, Any]:
     """The assessment as JSON-ready values: building, cat profile, sample count, seed, model
-    version, the openings in band order, the sensitivity summary (or ``None``), cautions."""
+    version, the openings in the default order, the sensitivity summary (or ``None``), cautions."""
     info = a.building.info
     t = a.thresholds
     return {
@@ -151,9 +149,11 @@ def assessment_to_dict(a: Assessment) -> dict[str, Any]:
             "serious": _r(t.serious_g),
             "life-threatening": _r(t.life_threatening_g),
         },
-        "ranking": "rank: expected band (worst band reached by at least half of the falls), "
-        "then likelihood; risk_rank: HHSRS-style risk score",
-        "openings": [_opening(o) for o in a.ranked("band")],
+        "ranking": "openings listed by risk_rank (the default order): HHSRS-style risk score, "
+        "highest first; equal scores by the worse expected band, the higher mean severity, "
+        "then the opening id. rank: expected band (worst band reached by at least half of the "
+        "falls), then likelihood",
+        "openings": [_opening(o) for o in a.ranked()],
         "sensitivity": _sensitivity(a),
         "cautions": list(CAUTIONS),
     }
@@ -169,13 +169,13 @@ _CSV_COLUMNS = (
 
 
 def assessment_to_csv(a: Assessment) -> str:
-    """One row per opening in band order; the cautions first, as ``#`` comment lines."""
+    """One row per opening in the default order; the cautions first, as ``#`` comment lines."""
     buf = io.StringIO()
     for line in CAUTIONS:
         buf.write(f"# {line}\n")
     w = csv_writer(buf)
     w.writerow(_CSV_COLUMNS)
-    for o in a.ranked("band"):
+    for o in a.ranked():
         main = next(iter(o.landing), "")
         w.writerow([
             o.rank, o.risk_rank, o.id, o.floor, o.facade, str(o.kind), BANDS[o.expected_band],
@@ -186,68 +186,3 @@ def assessment_to_csv(a: Assessment) -> str:
             main, "; ".join(o.factors), "; ".join(o.hazards),
         ])
     return buf.getvalue()
-
-
-def _whole_percents(shares: list[float]) -> list[int]:
-    """Shares (summing to 1) as whole percentages summing to 100 (largest remainder)."""
-    raw = [100.0 * s for s in shares]
-    out = [math.floor(r) for r in raw]
-    by_remainder = sorted(range(len(raw)), key=lambda i: (out[i] - raw[i], i))
-    for i in by_remainder[: max(0, 100 - sum(out))]:
-        out[i] += 1
-    return out
-
-
-def _one_in(n: float) -> str:
-    if not math.isfinite(n) or n >= 1e5:
-        return "rare"
-    return f"1 in {n:,.0f}"
-
-
-def assessment_to_table(a: Assessment, *, by: str = "band", limit: int | None = None) -> str:
-    """A readable fixed-width table, worst first (``by`` ``"band"`` or ``"risk"``), with the
-    hazards and the cautions below it, wrapped to :data:`TEXT_WIDTH` columns. ``limit`` shows
-    only the first rows."""
-    rows = a.ranked("risk" if by == "risk" else "band")
-    shown = rows if limit is None else rows[:limit]
-    head = ("Rank", "Opening", "Floor", "Facade", "Expected band", "Min/Mod/Ser/Life %",
-            "Speed m/s", "Drop m", "Per year", "Risk")
-    body = []
-    for o in shown:
-        pct = "/".join(str(p) for p in _whole_percents([o.bands[n] for n in BANDS]))
-        body.append((
-            str(o.risk_rank if by == "risk" else o.rank), o.id, str(o.floor), o.facade,
-            BANDS[o.expected_band], pct, f"{o.impact_speed_mps.p50:.1f}", f"{o.drop_m.p50:.1f}",
-            _one_in(o.one_in_n), f"{o.risk:,.0f}",
-        ))
-    widths = [max(len(h), *(len(r[i]) for r in body)) if body else len(h)
-              for i, h in enumerate(head)]
-    right = {0, 2, 6, 7, 9}
-
-    def fmt(cells: tuple[str, ...]) -> str:
-        return "  ".join(c.rjust(w) if i in right else c.ljust(w)
-                         for i, (c, w) in enumerate(zip(cells, widths, strict=True))).rstrip()
-
-    info = a.building.info
-    lines = [
-        f"{info.name}: {len(a.openings)} openings, {a.samples} cats sampled (seed {a.seed}), "
-        f"{a.model_version}",
-        "Ranked by " + ("risk score" if by == "risk" else "expected injury band, then likelihood"),
-        "",
-        fmt(head),
-        fmt(tuple("-" * w for w in widths)),
-        *(fmt(r) for r in body),
-    ]
-    if limit is not None and len(rows) > limit:
-        lines.append(f"... {len(rows) - limit} more openings")
-    hazards = [(o.id, h) for o in shown for h in o.hazards]
-    if not rows:
-        lines.append("(no openings recorded: nothing to assess)")
-    if hazards:
-        lines += ["", "Other hazards:"]
-        for oid, h in hazards:
-            lines += textwrap.wrap(f"{oid}: {h}", TEXT_WIDTH, initial_indent="  ",
-                                   subsequent_indent="    ")
-    lines += ["", "Speed and drop are medians; 'Per year' is the chance of a fall in 12 months.",
-              "", *textwrap.wrap(CAUTIONS_SHORT, TEXT_WIDTH), ""]
-    return "\n".join(lines)

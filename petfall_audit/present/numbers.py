@@ -8,7 +8,9 @@ from __future__ import annotations
 
 import datetime as _dt
 import math
+from dataclasses import dataclass
 
+from petfall_audit.io.results_export import round_significant
 from petfall_audit.units import FOOT_M, format_length
 
 __all__ = [
@@ -22,6 +24,15 @@ __all__ = [
     "fmt_risk",
     "fmt_count",
     "fmt_date",
+    "fmt_number",
+    "fmt_int",
+    "fmt_tick",
+    "fmt_seconds",
+    "fmt_change_pct",
+    "length_unit",
+    "speed_unit",
+    "Units",
+    "units_of",
 ]
 
 #: What a missing or undefined number reads (an en dash).
@@ -36,6 +47,17 @@ DATE_STYLES = ("iso", "dmy", "mdy")
 
 def _finite(x: float | None) -> bool:
     return x is not None and math.isfinite(x)
+
+
+def _as_exported(x: float) -> float:
+    """``x`` rounded as the JSON/CSV exports round it, so printed and exported numbers agree."""
+    r = round_significant(x)
+    return x if r is None else r
+
+
+def _unsigned(text: str) -> str:
+    """``"-0.0"`` -> ``"0.0"``: a value that rounds to zero shows no sign."""
+    return text[1:] if text.startswith("-") and float(text.split(" ", 1)[0]) == 0.0 else text
 
 
 def fmt_one_in(n: float | None) -> str:
@@ -65,17 +87,21 @@ def fmt_money(amount: float | None, currency: str = "") -> str:
 
 
 def fmt_length(x_m: float | None, system: str = "metric", *, small: bool = False,
-               unit: bool = True) -> str:
+               unit: bool = True, digits: int = 1) -> str:
     """A length in metres: ``"3.1 m"`` / ``"10 ft 2 in"``; ``small`` for gaps and meshes
-    (``"95 mm"`` / ``"3.7 in"``). ``unit=False`` gives the bare number in metres or feet to 0.1
-    (for a table whose column header names the unit)."""
+    (``"95 mm"`` / ``"3.7 in"``). ``unit=False`` gives the bare number in metres or feet to
+    ``digits`` decimals (for a table whose column header names the unit); ``digits`` above 1
+    with a unit writes metres (``"4.500 m"``) or decimal feet (``"14.76 ft"``) for survey
+    values. Rounded from the exported value (4 significant digits) so print and export agree."""
     if not _finite(x_m):
         return NO_VALUE
     assert x_m is not None
-    if unit:
+    x_m = _as_exported(x_m)
+    if unit and (small or digits == 1):
         return format_length(x_m, system, small=small)
     value = x_m / FOOT_M if system == "imperial" else x_m
-    return f"{value:.1f}"
+    text = _unsigned(f"{value:.{digits}f}")
+    return f"{text} {length_unit(system)}" if unit else text
 
 
 def length_unit(system: str = "metric") -> str:
@@ -89,7 +115,8 @@ def fmt_speed(v_mps: float | None, system: str = "metric", *, unit: bool = True)
         return NO_VALUE
     assert v_mps is not None
     imperial = system == "imperial"
-    text = f"{v_mps / MPH_MPS if imperial else v_mps:.1f}"
+    v_mps = _as_exported(v_mps)
+    text = _unsigned(f"{v_mps / MPH_MPS if imperial else v_mps:.1f}")
     if not unit:
         return text
     return f"{text} {'mph' if imperial else 'm/s'}"
@@ -100,12 +127,14 @@ def speed_unit(system: str = "metric") -> str:
     return "mph" if system == "imperial" else "m/s"
 
 
-def fmt_percent(p: float | None) -> str:
-    """A probability 0..1 as a whole percentage; "<1%" for small non-zero values, ">99%" for
-    values just short of certain."""
+def fmt_percent(p: float | None, digits: int = 0) -> str:
+    """A probability 0..1 as a percentage to ``digits`` decimals (whole by default); "<1%" for
+    small non-zero values, ">99%" for values just short of certain."""
     if not _finite(p):
         return NO_VALUE
     assert p is not None
+    if digits:
+        return f"{p * 100:.{digits}f}%"
     if 0 < p < 0.005:
         return "<1%"
     if 0.995 <= p < 1:
@@ -121,6 +150,46 @@ def fmt_risk(score: float | None) -> str:
     if abs(score) >= 10:
         return f"{score:,.0f}"
     return f"{score:.3g}"
+
+
+def fmt_number(x: float | None, digits: int = 1, unit: str = "") -> str:
+    """A plain number to ``digits`` decimals with thousands separators and an optional unit
+    after it: ``fmt_number(1.2251, 3, "kg/m³")`` -> ``"1.225 kg/m³"``."""
+    if not _finite(x):
+        return NO_VALUE
+    assert x is not None
+    text = _unsigned(f"{x:,.{digits}f}")
+    return f"{text} {unit}" if unit else text
+
+
+def fmt_int(n: int) -> str:
+    """A whole number with thousands separators: ``"20,000"``."""
+    return f"{int(n):,}"
+
+
+def fmt_tick(v: float) -> str:
+    """A chart axis tick: the shortest exact form, thousands separated from 1,000
+    (``"0.5"``, ``"20"``, ``"5,000"``)."""
+    if not _finite(v):
+        return NO_VALUE
+    if abs(v) >= 1000 and float(v).is_integer():
+        return f"{v:,.0f}"
+    return f"{v:g}"
+
+
+def fmt_seconds(t_s: float | None) -> str:
+    """A short duration to 0.01 s: ``"0.52 s"``."""
+    return fmt_number(t_s, 2, "s")
+
+
+def fmt_change_pct(pct: float | None) -> str:
+    """A signed change in % for a bar's label: "+43%", "-4.9%", "0%" (whole numbers from 10)."""
+    if not _finite(pct):
+        return NO_VALUE
+    assert pct is not None
+    if abs(pct) < 0.05:
+        return "0%"
+    return f"{pct:+.0f}%" if abs(pct) >= 9.95 else f"{pct:+.1f}%"
 
 
 def fmt_count(n: int, one: str, many: str | None = None) -> str:
@@ -150,3 +219,31 @@ def fmt_date(value: _dt.date | str | None, style: str = "iso") -> str:
     if style == "mdy":
         return f"{_MONTHS[day.month - 1]} {day.day}, {day.year}"
     return day.isoformat()
+
+
+@dataclass(frozen=True, slots=True)
+class Units:
+    """A display system for plots and tables: divide metres by ``length_m`` to get ``length``
+    units and m/s by ``speed_mps`` to get ``speed`` units; the text goes through
+    :func:`fmt_length` and :func:`fmt_speed`."""
+
+    system: str
+    length: str
+    length_m: float
+    speed: str
+    speed_mps: float
+
+    def fmt_length(self, x_m: float | None, *, small: bool = False) -> str:
+        """:func:`fmt_length` in this system."""
+        return fmt_length(x_m, self.system, small=small)
+
+    def fmt_speed(self, v_mps: float | None) -> str:
+        """:func:`fmt_speed` in this system."""
+        return fmt_speed(v_mps, self.system)
+
+
+def units_of(system: str) -> Units:
+    """:class:`Units` of ``"metric"`` or ``"imperial"``."""
+    if system == "imperial":
+        return Units("imperial", "ft", FOOT_M, "mph", MPH_MPS)
+    return Units("metric", "m", 1.0, "m/s", 1.0)

@@ -21,6 +21,7 @@ from petfall_audit.figures import (
     SensitivityFigure,
 )
 from petfall_audit.palette import band_style, band_styles, rgb
+from petfall_audit.present import fmt_change_pct, fmt_money, fmt_risk, fmt_speed, fmt_tick
 from petfall_audit.report.fonts import fonts, plain
 from petfall_audit.report.styles import INK, MUTED, RULE
 
@@ -247,7 +248,7 @@ def floor_chart(fc: FloorComparison, width: float, max_height: float,
     for t in np.arange(0, xmax + step / 2, step):
         x = label_w + t * scale
         d.add(Line(x, bottom_pad, x, bottom_pad + n * row, strokeColor=RULE, strokeWidth=0.3))
-        d.add(_text(x, bottom_pad - 9, f"{t:g}", 6.5, anchor="middle", colour_=MUTED))
+        d.add(_text(x, bottom_pad - 9, fmt_tick(t), 6.5, anchor="middle", colour_=MUTED))
     d.add(_text(label_w + plot_w / 2, 2, "openings on the floor, by expected injury band", 7,
                 anchor="middle", colour_=MUTED))
     d.add(_text(width - 2, bottom_pad + n * row + 4, "max median impact", 6.5, anchor="end",
@@ -274,7 +275,7 @@ def floor_chart(fc: FloorComparison, width: float, max_height: float,
                         colour_=MUTED))
             v = float(fc.max_impact_p50_mps[i])
             if math.isfinite(v):
-                d.add(_text(width - 2, y + row / 2 - 2.2, f"{v:.1f} m/s", 6.5, anchor="end"))
+                d.add(_text(width - 2, y + row / 2 - 2.2, fmt_speed(v), 6.5, anchor="end"))
     return d
 
 
@@ -288,11 +289,11 @@ def _panel(d: Drawing, x0: float, y0: float, w: float, h: float, t: np.ndarray, 
     for v in np.arange(0, ytop + ys / 2, ys):
         yy = y0 + v / ytop * h
         d.add(Line(x0, yy, x0 + w, yy, strokeColor=RULE, strokeWidth=0.3))
-        d.add(_text(x0 - 3, yy - 2.2, f"{v:g}", 6.5, anchor="end", colour_=MUTED))
+        d.add(_text(x0 - 3, yy - 2.2, fmt_tick(v), 6.5, anchor="end", colour_=MUTED))
     for v in np.arange(0, xtop + xs / 2, xs):
         xx = x0 + v / xtop * w
         d.add(Line(xx, y0, xx, y0 - 2, strokeColor=INK, strokeWidth=0.4))
-        d.add(_text(xx, y0 - 10, f"{v:g}", 6.5, anchor="middle", colour_=MUTED))
+        d.add(_text(xx, y0 - 10, fmt_tick(v), 6.5, anchor="middle", colour_=MUTED))
     d.add(Line(x0, y0, x0 + w, y0, strokeColor=INK, strokeWidth=0.6))
     d.add(Line(x0, y0, x0, y0 + h, strokeColor=INK, strokeWidth=0.6))
     if marker_t is not None and 0 <= marker_t <= xtop:
@@ -362,8 +363,8 @@ def sensitivity_drawing(fig: SensitivityFigure, labels: tuple[str, ...],
     for t in np.arange(vmin, vmax + step / 2, step):
         x = x_of(float(t))
         d.add(Line(x, bottom_pad, x, y_plot_top, strokeColor=RULE, strokeWidth=0.3))
-        d.add(_text(x, bottom_pad - 9, f"{t:+g}%" if t else "0", 6.5, anchor="middle",
-                    colour_=MUTED))
+        d.add(_text(x, bottom_pad - 9, fmt_change_pct(float(t)) if t else "0", 6.5,
+                    anchor="middle", colour_=MUTED))
     d.add(_text(label_w + plot_w / 2, 2, "change of the top openings' summed risk score "
                 "(% of its value)", 7, anchor="middle", colour_=MUTED))
     # legend above the bars
@@ -412,10 +413,10 @@ def budget_curve_drawing(budgets: np.ndarray, risk_left: np.ndarray, *, chosen_b
 
     for v in np.arange(0, ytop + ys / 2, ys):
         d.add(Line(left, y_of(v), left + w, y_of(v), strokeColor=RULE, strokeWidth=0.3))
-        d.add(_text(left - 3, y_of(v) - 2.2, f"{v:,.0f}", 6.5, anchor="end", colour_=MUTED))
+        d.add(_text(left - 3, y_of(v) - 2.2, fmt_risk(float(v)), 6.5, anchor="end", colour_=MUTED))
     for v in np.arange(0, xtop + xs / 2, xs):
         d.add(Line(x_of(v), bottom, x_of(v), bottom - 2, strokeColor=INK, strokeWidth=0.4))
-        d.add(_text(x_of(v), bottom - 10, f"{v:,.0f}", 6.5, anchor="middle", colour_=MUTED))
+        d.add(_text(x_of(v), bottom - 10, fmt_money(float(v)), 6.5, anchor="middle", colour_=MUTED))
     d.add(Line(left, bottom, left + w, bottom, strokeColor=INK, strokeWidth=0.6))
     d.add(Line(left, bottom, left, bottom + h, strokeColor=INK, strokeWidth=0.6))
     pts: list[float] = []
@@ -458,8 +459,8 @@ def building_bars_drawing(labels: tuple[str, ...], spend: np.ndarray, removed: n
         y0 = y + (row - bar_h) / 2
         d.add(_text(label_w - 6, y + row / 2 - 2.5, label, 7, anchor="end"))
         for x0, value, top, text, fill in (
-            (x_spend, float(spend[i]), smax, f"{float(spend[i]):,.0f}", SENSITIVITY_LOW_FILL),
-            (x_risk, float(removed[i]), rmax, f"{float(removed[i]):,.0f}",
+            (x_spend, float(spend[i]), smax, fmt_money(float(spend[i])), SENSITIVITY_LOW_FILL),
+            (x_risk, float(removed[i]), rmax, fmt_risk(float(removed[i])),
              SENSITIVITY_HIGH_FILL),
         ):
             bar_w = max(value / top * (half - 40), 0.6 if value > 0 else 0.0)

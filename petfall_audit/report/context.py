@@ -1,14 +1,14 @@
 """The report service: an assessment and a plan turned into plain strings and numbers.
 
 Layout code (``sections``, ``charts``, ``leaflet``) only places what this module returns; every
-number is formatted here. Strings are plain text (user text untouched); the layout escapes them.
-Units: speeds in m/s (0.1), heights in m (0.1), costs to the unit of the plan's currency.
+number is formatted here, through :mod:`petfall_audit.present`. Strings are plain text (user text
+untouched); the layout escapes them. Units: speeds in m/s (0.1), heights in m (0.1) (the
+tables' headers name the unit), costs to the unit of the plan's currency.
 """
 
 from __future__ import annotations
 
 import datetime as _dt
-import math
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -25,6 +25,22 @@ from petfall_audit.model import (
     Normal,
     Uniform,
 )
+from petfall_audit.present import (
+    DRAG_AREA_NOTE,
+    PARAMETER_LABELS,
+    fmt_count,
+    fmt_int,
+    fmt_money,
+    fmt_number,
+    fmt_one_in,
+    fmt_percent,
+    fmt_risk,
+    kind_label,
+    preset_label,
+)
+from petfall_audit.present import fmt_length as _fmt_length
+from petfall_audit.present import fmt_speed as _fmt_speed
+from petfall_audit.present.labels import landing_names
 
 if TYPE_CHECKING:
     from petfall_audit.plan import Plan
@@ -44,27 +60,7 @@ __all__ = [
     "build_sensitivity_context",
     "build_audit_context",
     "build_leaflet_context",
-    "fmt_speed",
-    "fmt_length",
-    "fmt_percent",
-    "fmt_money",
-    "fmt_one_in",
-    "fmt_risk",
-    "kind_label",
 ]
-
-_KIND_LABELS = {
-    "balcony": "Balcony",
-    "terrace": "Roof terrace",
-    "gallery": "Access gallery",
-    "window_casement": "Casement window",
-    "window_sliding": "Sliding window",
-    "window_hung": "Hung sash window",
-    "window_tilt_turn": "Tilt-and-turn window",
-    "window_top_hung": "Top-hung window",
-    "fixed": "Fixed glazing",
-}
-
 
 # --- options ------------------------------------------------------------------------------------
 
@@ -132,75 +128,28 @@ class ReportOptions:
 # --- formatting ---------------------------------------------------------------------------------
 
 
-def _as_exported(x: float) -> float:
-    """``x`` rounded as the JSON/CSV export rounds it, so printed and exported numbers agree."""
-    from petfall_audit.io.results_export import SIGNIFICANT_DIGITS
-
-    return float(f"{x:.{SIGNIFICANT_DIGITS}g}")
+def fmt_length(x_m: float) -> str:
+    """A length for the report's tables: metres to 0.1, no unit (the header names it)."""
+    return _fmt_length(x_m, unit=False)
 
 
 def fmt_speed(v_mps: float) -> str:
-    """Speed to 0.1 m/s (no unit), rounded from the exported value."""
-    return "–" if not math.isfinite(v_mps) else f"{_as_exported(v_mps):.1f}"
+    """A speed for the report's tables: m/s to 0.1, no unit (the header names it)."""
+    return _fmt_speed(v_mps, unit=False)
 
 
-def fmt_length(x_m: float) -> str:
-    """Length to 0.1 m (no unit), rounded from the exported value."""
-    return "–" if not math.isfinite(x_m) else f"{_as_exported(x_m):.1f}"
+def _dist_text(d: Distribution, unit: str, digits: int = 2) -> str:
+    def n(x: float) -> str:
+        return fmt_number(x, digits)
 
-
-def fmt_percent(p: float) -> str:
-    """A probability 0..1 as a whole percentage, "<1%" for small non-zero values."""
-    if not math.isfinite(p):
-        return "–"
-    if 0 < p < 0.005:
-        return "<1%"
-    return f"{p * 100:.0f}%"
-
-
-def fmt_money(amount: float, currency: str = "") -> str:
-    """Amount to the unit with thousands separators, currency code after it."""
-    if not math.isfinite(amount):
-        return "–"
-    text = f"{amount:,.0f}"
-    return f"{text} {currency}".strip()
-
-
-def fmt_one_in(n: float) -> str:
-    """Annual likelihood as "1 in N" with N rounded to two significant figures."""
-    if not math.isfinite(n) or n <= 0:
-        return "negligible"
-    if n < 10:
-        return f"1 in {n:.1f}".replace(".0", "")
-    digits = int(math.floor(math.log10(n))) - 1
-    rounded = round(n, -digits)
-    return f"1 in {rounded:,.0f}"
-
-
-def fmt_risk(score: float) -> str:
-    """Risk score: whole numbers from 10 up, three significant figures below."""
-    if not math.isfinite(score):
-        return "–"
-    if abs(score) >= 10:
-        return f"{score:,.0f}"
-    return f"{score:.3g}"
-
-
-def kind_label(kind: object) -> str:
-    """Plain-words label of an opening kind."""
-    key = str(getattr(kind, "value", kind))
-    return _KIND_LABELS.get(key, key.replace("_", " ").capitalize())
-
-
-def _dist_text(d: Distribution, unit: str, fmt: str = ".2f") -> str:
     if isinstance(d, Fixed):
-        return f"{d.value:{fmt}} {unit}"
+        return f"{n(d.value)} {unit}".strip()
     if isinstance(d, Normal):
-        return f"normal, mean {d.mean:{fmt}} {unit}, sd {d.sd:{fmt}}"
+        return f"normal, mean {n(d.mean)} {unit}, sd {n(d.sd)}".replace("  ", " ")
     if isinstance(d, LogNormal):
-        return f"log-normal, mean {d.mean:{fmt}} {unit}, sd {d.sd:{fmt}}"
+        return f"log-normal, mean {n(d.mean)} {unit}, sd {n(d.sd)}".replace("  ", " ")
     if isinstance(d, Uniform):
-        return f"uniform {d.min:{fmt}}–{d.max:{fmt}} {unit}"
+        return f"uniform {n(d.min)}–{n(d.max)} {unit}".strip()
     return str(d)
 
 
@@ -351,7 +300,7 @@ def _ranked_rows(assessment: Assessment, plan: Plan | None, bands: tuple[str, ..
     currency = getattr(plan, "currency", "") if plan is not None else ""
     labels = _floor_labels(assessment)
     rows = []
-    for o in assessment.ranked("risk"):
+    for o in assessment.ranked():
         act = actions.get(o.id)
         rows.append(
             RankedRow(
@@ -375,14 +324,6 @@ def _ranked_rows(assessment: Assessment, plan: Plan | None, bands: tuple[str, ..
     return tuple(rows)
 
 
-def _landing_names(assessment: Assessment) -> dict[str, str]:
-    """Plain names of the places a cat can land: surface labels, "balcony S03-T1"."""
-    b = assessment.building
-    names = {o.id: f"{kind_label(o.kind).lower()} {o.id}" for o in b.openings}
-    names.update({s.id: s.label or s.id for s in b.surfaces})
-    return names
-
-
 def _landing_text(landing: dict[str, float], names: dict[str, str] | None = None) -> str:
     """Landing elements with their share of the falls, most likely first."""
     if not landing:
@@ -404,23 +345,23 @@ def _details(assessment: Assessment, plan: Plan | None, top_n: int, bands: tuple
     actions = _plan_by_opening(plan)
     currency = getattr(plan, "currency", "") if plan is not None else ""
     labels = _floor_labels(assessment)
-    landing_names = _landing_names(assessment)
+    names = landing_names(assessment.building)
     facade_names = {f.id: f.label or f.id for f in assessment.building.facades}
     out = []
-    for o in assessment.ranked("risk")[: max(top_n, 0)]:
+    for o in assessment.ranked()[: max(top_n, 0)]:
         op = assessment.building.opening(o.id)
         act = actions.get(o.id)
         facts = (
             ("Floor", labels.get(o.floor, str(o.floor))),
             ("Facade", facade_names.get(str(o.facade), str(o.facade))),
             ("Kind", kind_label(o.kind)),
-            ("Rail top or sill above floor", f"{fmt_length(op.perch_height_m)} m"),
+            ("Rail top or sill above floor", _fmt_length(op.perch_height_m)),
             ("Drop p5 / p50 / p95", f"{fmt_length(o.drop_m.p5)} / {fmt_length(o.drop_m.p50)} / "
                                     f"{fmt_length(o.drop_m.p95)} m"),
             ("Impact speed p5 / p50 / p95",
              f"{fmt_speed(o.impact_speed_mps.p5)} / {fmt_speed(o.impact_speed_mps.p50)} / "
              f"{fmt_speed(o.impact_speed_mps.p95)} m/s"),
-            ("Landing", _landing_text(dict(o.landing), landing_names)),
+            ("Landing", _landing_text(dict(o.landing), names)),
             ("Likelihood of a fall (12 months)",
              f"{fmt_one_in(float(o.one_in_n))} ({fmt_percent(float(o.annual_probability))})"),
             ("Risk score (rank)", f"{fmt_risk(float(o.risk))} (#{o.risk_rank})"),
@@ -451,10 +392,6 @@ def _details(assessment: Assessment, plan: Plan | None, top_n: int, bands: tuple
     return tuple(out)
 
 
-def _plural(n: int, word: str) -> str:
-    return f"{n} {word}" if n == 1 else f"{n} {word}s"
-
-
 def budget_origin(plan: Plan, saved_budget: float | None, *, is_default: bool = False) -> str:
     """Where the plan's budget came from, in words: the one saved with the audit, a default, or
     one chosen for this report."""
@@ -481,7 +418,7 @@ def _plan_parts(plan: Plan | None, saved_budget: float | None = None, *,
     summary = (
         f"Budget {fmt_money(float(plan.budget), cur)} ({origin}); the plan spends "
         f"{fmt_money(float(plan.total_cost), cur)} on "
-        f"{_plural(len(plan.actions), 'control')}.",
+        f"{fmt_count(len(plan.actions), 'control')}.",
         f"Total risk score {fmt_risk(before)} before and {fmt_risk(after)} after "
         f"({fmt_percent(cut)} lower).",
     )
@@ -534,7 +471,8 @@ def _method(assessment: Assessment) -> tuple[tuple[str, str], ...]:
     return (
         ("Fall physics",
          "Vertical fall with quadratic air drag, solved in closed form: from rest the speed after "
-         "a drop h is v = v_t·√(1 − exp(−2gh/v_t²)), with terminal speed v_t = √(2mg/(ρ·C_d·A)); "
+         "a drop h is v = v_t·√(1 − exp(−2gh/v_t²)), with terminal speed v_t = √(2mg/(ρ·C_d·A)) "
+         f"({DRAG_AREA_NOTE}); "
          "a cat that spreads out changes to a lower terminal speed part-way down (Taylor, "
          "Classical Mechanics, 2005, §2.4; checked against a numerical integrator)."),
         ("Where the cat lands",
@@ -567,7 +505,8 @@ def _method(assessment: Assessment) -> tuple[tuple[str, str], ...]:
          "weights applied to the injury-band probabilities, divided by the likelihood N. The "
          "adaptation to cats is ours; scores rank openings and are not HHSRS categories."),
         ("Uncertainty",
-         f"{assessment.samples:,} sampled cats (seed {assessment.seed}), the same cats for every "
+         f"{fmt_int(assessment.samples)} sampled cats (seed {assessment.seed}), the same cats "
+         "for every "
          f"opening so differences between openings are not noise; percentiles p5, p50, p95. "
          f"Model version {assessment.model_version}."),
     )
@@ -575,28 +514,30 @@ def _method(assessment: Assessment) -> tuple[tuple[str, str], ...]:
 
 def _injury_text(t: InjuryThresholds) -> str:
     fitted = t == InjuryThresholds()
-    return (f"{t.moderate_g:.1f} / {t.serious_g:.1f} / {t.life_threatening_g:.1f} g, spread "
-            f"{t.spread:.2f} (" + ("fitted to the case series" if fitted
+    return (f"{fmt_number(t.moderate_g)} / {fmt_number(t.serious_g)} / "
+            f"{fmt_number(t.life_threatening_g)} g, spread "
+            f"{fmt_number(t.spread, 2)} (" + ("fitted to the case series" if fitted
                                    else "set for this building; the fitted values differ") + ")")
 
 
 def _assumptions(profile: CatProfile, assessment: Assessment) -> tuple[tuple[str, str], ...]:
     info = assessment.building.info
     return (
-        ("Cat profile", profile.preset or "custom"),
-        ("Body mass", _dist_text(profile.mass_kg, "kg", ".1f")),
-        ("C_d·A tense", _dist_text(profile.cda_tense_m2, "m²", ".3f")),
-        ("C_d·A spread out", _dist_text(profile.cda_spread_m2, "m²", ".3f")),
-        ("Chance of spreading out", fmt_percent(profile.relax_probability)),
+        ("Cat profile", preset_label(profile.preset)),
+        (PARAMETER_LABELS["mass_kg"], _dist_text(profile.mass_kg, "kg", 1)),
+        (PARAMETER_LABELS["cda_tense_m2"], _dist_text(profile.cda_tense_m2, "m²", 3)),
+        (PARAMETER_LABELS["cda_spread_m2"], _dist_text(profile.cda_spread_m2, "m²", 3)),
+        (PARAMETER_LABELS["relax_probability"], fmt_percent(profile.relax_probability)),
         ("Spreads out at (fraction of tense terminal speed)",
-         _dist_text(profile.relax_fraction, "", ".2f").strip()),
-        ("Righting time", _dist_text(profile.righting_time_s, "s", ".2f")),
-        ("Outward launch speed", _dist_text(profile.launch_speed_mps, "m/s", ".1f")),
+         _dist_text(profile.relax_fraction, "", 2)),
+        (PARAMETER_LABELS["righting_time_s"], _dist_text(profile.righting_time_s, "s", 2)),
+        (PARAMETER_LABELS["launch_speed_mps"], _dist_text(profile.launch_speed_mps, "m/s", 1)),
         ("Injury bands: median dose of moderate / serious / life-threatening, spread",
          _injury_text(assessment.thresholds)),
         ("Site altitude / design air temperature",
-         f"{info.site_altitude_m:.0f} m / {info.air_temperature_c:.0f} °C "
-         f"(air density {float(assessment.rho_kg_m3):.3f} kg/m³)"),
+         f"{fmt_number(info.site_altitude_m, 0, 'm')} / "
+         f"{fmt_number(info.air_temperature_c, 0, '°C')} "
+         f"(air density {fmt_number(float(assessment.rho_kg_m3), 3, 'kg/m³')})"),
     )
 
 
@@ -661,12 +602,9 @@ def build_audit_context(assessment: Assessment, plan: Plan | None, *,
     bands = _band_names()
     generated = opts.generated_on or _dt.date.today().isoformat()
     date = info.audit_date or generated
-    counts = [0] * len(bands)
-    for o in assessment.openings:
-        if 0 <= o.expected_band < len(bands):
-            counts[o.expected_band] += 1
+    counts = assessment.band_counts()
     ranked = _ranked_rows(assessment, plan, bands)
-    by_risk = assessment.ranked("risk")
+    by_risk = assessment.ranked()
     top = tuple(
         (o.id, kind_label(o.kind), bands[o.expected_band] if 0 <= o.expected_band < len(bands)
          else "–", fmt_risk(float(o.risk)))
@@ -807,7 +745,7 @@ def _versus_base(pct: float, base: str) -> str:
     """A change in % against ``base``: "28% below it", "2% above it", "about it"."""
     if abs(pct) < 0.5:
         return f"about {base}"
-    return f"{abs(pct):.0f}% {'above' if pct > 0 else 'below'} {base}"
+    return f"{fmt_number(abs(pct), 0)}% {'above' if pct > 0 else 'below'} {base}"
 
 
 def build_sensitivity_context(assessment: Assessment, *, max_samples: int | None = None
@@ -815,11 +753,8 @@ def build_sensitivity_context(assessment: Assessment, *, max_samples: int | None
     """The sensitivity section of ``assessment`` (``None`` without openings). Runs the
     one-at-a-time analysis unless ``assessment.sensitivity`` is filled in; ``max_samples``
     caps the cats per simulation (the caption then says so)."""
-    from petfall_audit.figures.sensitivity import (
-        SWING_DEFINITION,
-        fmt_change_pct,
-        sensitivity_figure,
-    )
+    from petfall_audit.figures.sensitivity import SWING_DEFINITION, sensitivity_figure
+    from petfall_audit.present import fmt_change_pct
 
     fig = sensitivity_figure(assessment, max_samples=max_samples)
     if fig is None or not fig.parameters:
@@ -832,7 +767,7 @@ def build_sensitivity_context(assessment: Assessment, *, max_samples: int | None
                 "to move.")
     elif abs(big) < _SMALL_SWING_PCT:
         lead = (f"No parameter of the cat profile moves the summed risk score of {tops} by "
-                f"{_SMALL_SWING_PCT:.0f}% or more: the result rests little on the cat "
+                f"{fmt_number(_SMALL_SWING_PCT, 0)}% or more: the result rests little on the cat "
                 "assumptions.")
     else:
         how = ("0.2 below and above the profile's value"
@@ -842,19 +777,19 @@ def build_sensitivity_context(assessment: Assessment, *, max_samples: int | None
         end = _versus_base(float(fig.high_pct[0]), "it")
         lead = (f"The result depends most on the {_mid_sentence(fig.labels[0])}: from "
                 f"{fig.low_text[0]} to {fig.high_text[0]} ({how}) the summed risk score of "
-                f"{tops} goes from {start} to {end}, a swing of {abs(big):.0f}% "
+                f"{tops} goes from {start} to {end}, a swing of {fmt_number(abs(big), 0)}% "
                 f"of that value. Check this part of the cat profile "
                 "against the cats that live in the building before relying on the ranking.")
     caption = (
         f"Change of the summed risk score of {tops} ({', '.join(fig.opening_ids)}; "
         f"{fmt_risk(fig.base_risk)} with the profile as set) with each parameter at its low "
         "value (light bar) and its high value (dark bar), largest swing first, each with its "
-        f"swing (high minus low). {fig.samples:,} sampled cats per simulation, with the "
+        f"swing (high minus low). {fmt_int(fig.samples)} sampled cats per simulation, with the "
         "assessment's seed.")
     if fig.reduced:
-        caption += (f" To keep the report quick the analysis used {fig.samples:,} instead of "
-                    f"{fig.assessment_samples:,} cats, so its top openings can differ slightly "
-                    "from the ranked table.")
+        caption += (f" To keep the report quick the analysis used {fmt_int(fig.samples)} "
+                    f"instead of {fmt_int(fig.assessment_samples)} cats, so its top openings can "
+                    "differ slightly from the ranked table.")
     return SensitivityContext(
         title=SENSITIVITY_TITLE,
         lead=lead,

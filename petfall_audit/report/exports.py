@@ -1,16 +1,15 @@
 """CSV and JSON exports of the ranked results and the plan, reusing the ``io`` exporters.
 
-JSON: one document ``{"results": <the assess JSON>, "plan": <plan JSON or null>}``.
+JSON: the results envelope of :mod:`petfall_audit.io.results_envelope` (``"results"``: the
+assessment, ``"plan"``: the plan or null), the same document as every other results JSON.
 CSV: the ranked results in ``path``; the plan, if any, beside it as ``<stem>-plan.csv``.
 """
 
 from __future__ import annotations
 
-import json
 from pathlib import Path
 from typing import TYPE_CHECKING, Any, Literal
 
-from petfall_audit.cautions import CAUTIONS_SHORT
 from petfall_audit.io.atomic import atomic_write_text
 
 if TYPE_CHECKING:
@@ -39,13 +38,9 @@ def export_results(assessment: Assessment, plan: Plan | None, path: str | Path,
 
     path = Path(path)
     if fmt == "json":
-        doc: dict[str, Any] = {
-            "results": results_export.assessment_to_dict(assessment),
-            "plan": _plan_export().plan_to_dict(plan) if plan is not None else None,
-            "caution": CAUTIONS_SHORT,
-        }
-        atomic_write_text(path, json.dumps(doc, ensure_ascii=False, indent=2) + "\n")
-        return [path]
+        from petfall_audit.io.results_envelope import write_results_json
+
+        return [write_results_json(path, assessment=assessment, plan=plan)]
     if fmt == "csv":
         atomic_write_text(path, results_export.assessment_to_csv(assessment))
         written = [path]

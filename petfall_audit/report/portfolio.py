@@ -20,8 +20,9 @@ from reportlab.platypus import Flowable, PageBreak, Paragraph, Spacer, Table, Ta
 
 from petfall_audit.cautions import CAUTIONS, CAUTIONS_SHORT
 from petfall_audit.portfolio import PortfolioPlan
+from petfall_audit.present import fmt_money, fmt_percent, fmt_risk
 from petfall_audit.report.charts import budget_curve_drawing, building_bars_drawing
-from petfall_audit.report.context import LIMITS, fmt_money, fmt_percent, fmt_risk
+from petfall_audit.report.context import LIMITS
 from petfall_audit.report.fonts import markup
 from petfall_audit.report.styles import HEADER_FILL, RULE, Styles, audit_styles
 from petfall_audit.report.template import AuditDocTemplate, write_pdf_atomic
@@ -88,8 +89,8 @@ def build_portfolio_context(portfolio: PortfolioPlan, budgets: np.ndarray,
         "where it removes the most risk, whichever building that is.",
     ]
     if portfolio.gap > 0:
-        summary.append(f"The plan is proven within {portfolio.gap:.2%} of the best possible "
-                       "for this budget.")
+        summary.append(f"The plan is proven within {fmt_percent(portfolio.gap, 2)} of the best "
+                       "possible for this budget.")
     summary.append("Risk scores rank openings against each other; a building with less risk "
                    "left is not safe because of it. Every control still needs the conditions "
                    "listed in the building's plan, and escape windows keep releasable devices "

@@ -27,6 +27,7 @@ from reportlab.platypus import (
 
 from petfall_audit.figures import FacadeElevation, FallProfileFigure, FloorComparison
 from petfall_audit.palette import band_style
+from petfall_audit.present import fmt_length, fmt_number
 from petfall_audit.report.charts import (
     band_legend,
     colour,
@@ -200,10 +201,10 @@ def build_facades(elevations: Sequence[FacadeElevation], ctx: AuditContext, st: 
         drawing = facade_drawing(elev, width, height - 40 * mm, palette)
         sy, sx = facade_scales(elev, width, height - 40 * mm)
         caption = _p(
-            f"Elevation of facade {elev.label} ({elev.length_m:.1f} m long, "
+            f"Elevation of facade {elev.label} ({fmt_length(elev.length_m)} long, "
             f"{len(elev.opening_ids)} openings). Fill and mark show each opening's expected "
             "injury band; #n marks the highest-risk openings; a thick line marks a balcony rail."
-            + (f" Widths drawn {sx / sy:.1f}× the height scale for legibility."
+            + (f" Widths drawn {fmt_number(sx / sy)}× the height scale for legibility."
                if sx > 1.05 * sy else " Drawn to scale."),
             st.caption)
         out += [PageBreak(), title, band_legend(ctx.band_names, width, palette),
@@ -294,11 +295,13 @@ def build_ranked_table(ctx: AuditContext, st: Styles, width: float, palette: str
     t.setStyle(TableStyle(style))
     return [
         NextPageTemplate("landscape"), PageBreak(), _p("Ranked openings", st.h1),
-        _p("All openings by risk score, highest first. v = impact speed (m/s) at the 5th, 50th "
-           "and 95th percentile of the sampled cats; drop = median drop; P = probability of each "
-           "injury band; the mark in the first column is the expected band. Control and cost "
-           "come from the fix plan (– when the plan does not treat the opening or no budget was "
-           "given).", st.small),
+        _p("All openings by risk score, highest first (equal scores: the worse expected band "
+           "first, then the opening id), the order the app and the exports use. v = impact "
+           "speed (m/s) at the 5th, 50th and 95th percentile of the sampled cats (v p50, the "
+           "median, is the impact speed the app's tables show); drop = median drop; P = "
+           "probability of each injury band; the mark in the first column is the expected "
+           "band. Control and cost come from the fix plan (– when the plan does not treat the "
+           "opening or no budget was given).", st.small),
         t, NextPageTemplate("page"),
     ]
 

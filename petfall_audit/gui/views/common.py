@@ -1,5 +1,5 @@
 """Shared pieces of the result views: the selection every view follows, a background task
-runner, display units and band styling for Qt.
+runner and band styling for Qt (numbers and names: :mod:`petfall_audit.present`).
 
 The views reach the window only through :class:`ViewContext`: the latest assessment, the
 selection, the history to push edits to, the options (units, palette) and the settings.
@@ -15,8 +15,8 @@ from PySide6.QtCore import QObject, QRunnable, Qt, QThreadPool, Signal, Slot
 from PySide6.QtGui import QBrush, QColor, QFont
 from PySide6.QtWidgets import QLabel, QWidget
 
-from petfall_audit.gui.result_cells import Units, fmt_one_in, units_of
 from petfall_audit.palette import BandStyle, band_style
+from petfall_audit.present import Units, units_of
 
 __all__ = [
     "Selection",
@@ -24,13 +24,9 @@ __all__ = [
     "run_task",
     "wait_for_tasks",
     "stop_tasks",
-    "Units",
-    "units_of",
     "band_brush",
     "band_qstyle",
     "StaleLabel",
-    "fmt_one_in",
-    "fmt_money",
     "ViewContext",
 ]
 
@@ -184,14 +180,6 @@ def stop_tasks(msecs: int = 30000) -> bool:
         return True
     _POOL.clear()  # tasks not started yet never start
     return bool(_POOL.waitForDone(msecs))
-
-
-# --- formatting -----------------------------------------------------------------------------------
-
-
-def fmt_money(amount: float, currency: str) -> str:
-    """A cost to the unit: ``"1,250 EUR"``."""
-    return f"{amount:,.0f} {currency}".strip()
 
 
 # --- bands ----------------------------------------------------------------------------------------

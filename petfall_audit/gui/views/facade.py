@@ -49,9 +49,18 @@ from petfall_audit.figures import (
     facade_context,
     facade_elevations,
 )
-from petfall_audit.gui.views.common import ViewContext, band_qstyle, fmt_one_in
+from petfall_audit.gui.views.common import ViewContext, band_qstyle
 from petfall_audit.injury import BANDS
 from petfall_audit.model import BALCONY_LIKE, Opening, Screen
+from petfall_audit.present import (
+    SPEED_TERMS,
+    fmt_length,
+    fmt_one_in,
+    fmt_percent,
+    fmt_risk,
+    surface_kind_label,
+)
+from petfall_audit.present.labels import landing_names
 
 __all__ = ["FacadeView", "OpeningItem", "opening_tooltip", "SELECT_COLOUR", "is_protected"]
 
@@ -67,36 +76,42 @@ def is_protected(opening: Opening) -> bool:
             or opening.limiter_gap_mm is not None)
 
 
-def _protection_text(opening: Opening) -> str:
+def _protection_text(opening: Opening, system: str = "metric") -> str:
     parts = []
     if opening.netting_mesh_mm is not None:
-        parts.append(f"net, {opening.netting_mesh_mm:.0f} mm mesh")
+        parts.append(f"net, {fmt_length(opening.netting_mesh_mm / 1000, system, small=True)} mesh")
     if opening.screen == Screen.PET_RESISTANT:
         parts.append("pet-resistant screen")
     if opening.limiter_gap_mm is not None:
-        parts.append(f"limiter, {opening.limiter_gap_mm:.0f} mm gap")
+        parts.append(f"limiter, {fmt_length(opening.limiter_gap_mm / 1000, system, small=True)} "
+                     "gap")
     return ", ".join(parts) or "none recorded"
 
 
-def opening_tooltip(result: Any, opening: Opening | None, units: Any) -> str:
-    """Plain-text numbers of one opening for a tooltip or the hover line."""
+def opening_tooltip(result: Any, opening: Opening | None, units: Any,
+                    names: dict[str, str] | None = None) -> str:
+    """Plain-text numbers of one opening for a tooltip or the hover line; ``names``: what to
+    call the places a cat lands (:func:`petfall_audit.present.labels.landing_names`)."""
     lines = [
         f"{result.id} — floor {result.floor}, {result.facade}",
-        f"Expected injury: {BANDS[result.expected_band]} (rank {result.rank} by band, "
-        f"{result.risk_rank} by risk)",
-        "Chance of each band: " + ", ".join(f"{k} {v:.0%}" for k, v in result.bands.items()),
+        f"Expected injury: {BANDS[result.expected_band]} (rank {result.risk_rank} by risk "
+        f"score, {result.rank} by band)",
+        "Chance of each band: " + ", ".join(f"{k} {fmt_percent(v)}"
+                                             for k, v in result.bands.items()),
         f"Likelihood of a fall: {fmt_one_in(result.one_in_n)} over 12 months",
         f"Drop (median): {units.fmt_length(result.drop_m.p50)}; impact speed "
+        f"{units.fmt_speed(result.impact_speed_mps.p50)} (median), "
         f"{units.fmt_speed(result.impact_speed_mps.p5)} to "
-        f"{units.fmt_speed(result.impact_speed_mps.p95)} (median "
-        f"{units.fmt_speed(result.impact_speed_mps.p50)})",
-        f"Risk score: {result.risk:,.0f}",
+        f"{units.fmt_speed(result.impact_speed_mps.p95)} (5th–95th percentile)",
+        f"Risk score: {fmt_risk(result.risk)}",
     ]
     if result.landing:
         top = sorted(result.landing.items(), key=lambda kv: -kv[1])[:3]
-        lines.append("Lands on: " + ", ".join(f"{k} {v:.0%}" for k, v in top))
+        lines.append("Lands on: " + ", ".join(f"{(names or {}).get(k, k)} {fmt_percent(v)}"
+                                               for k, v in top))
     if opening is not None:
-        lines.append(f"Barrier against cats: {_protection_text(opening)}")
+        lines.append(f"Barrier against cats: {_protection_text(opening, units.system)}")
+    lines.append(SPEED_TERMS["impact_median"] + ".")
     return "\n".join(lines)
 
 
@@ -379,6 +394,7 @@ class FacadeView(QWidget):
         building = a.building
         openings = {o.id: o for o in building.openings}
         results = {o.id: o for o in a.openings}
+        names = landing_names(building)
         palette = self._ctx.palette
         units = self._ctx.units
         width = e.length_m
@@ -418,14 +434,15 @@ class FacadeView(QWidget):
             if s.x_from_m is not None or s.x_to_m is not None:
                 extent += (f", along the facade {units.fmt_length(lo if lo > 0 else 0.0)}–"
                            f"{units.fmt_length(min(hi, width))}")
-            strip.setToolTip(f"{s.label} ({s.kind}), top at {units.fmt_length(s.elevation_m)}, "
+            kind = surface_kind_label(s.kind)
+            strip.setToolTip(f"{s.label} ({kind}), top at {units.fmt_length(s.elevation_m)}, "
                              f"{extent}")
             strip.setZValue(5)
             self.scene.addItem(strip)
-            notes.append(f"{s.label} — {s.kind}, {extent}, at "
+            notes.append(f"{s.label} — {kind}, {extent}, at "
                          f"{units.fmt_length(s.elevation_m)}")
             if s.elevation_m > ground + 0.5:
-                t = _Text(f"{s.label.split(':')[0]} ({s.kind})", "#303030", anchor=(0.0, 1.1))
+                t = _Text(f"{s.label.split(':')[0]} ({kind})", "#303030", anchor=(0.0, 1.1))
                 t.setPos(width + 0.3, y(s.elevation_m))
                 self.scene.addItem(t)
         below = _Text("Below this facade, nearest first:\n" + "\n".join(notes)
@@ -449,7 +466,7 @@ class FacadeView(QWidget):
             style = band_qstyle(band, palette)
             opening = openings.get(oid)
             res = results.get(oid)
-            tip = opening_tooltip(res, opening, units) if res is not None else oid
+            tip = opening_tooltip(res, opening, units, names) if res is not None else oid
             g = float(e.guard_m[i])
             mark_y = y(0.5 * (g + z1)) if math.isfinite(g) else None  # above the rail
             item = OpeningItem(self, oid, QRectF(x0, y(z1), w, z1 - z0), band, style.mark,
@@ -465,7 +482,7 @@ class FacadeView(QWidget):
                 t = _Text("E", style.text, anchor=(0.0, 0.0), parent=item)
                 t.setPos(x0 + 0.05, y(z1) + 0.05)
                 t.setToolTip("Emergency escape window")
-        title = _Text(f"{e.label} — {width:.1f} m long, seen from outside", "#1A1A1A",
+        title = _Text(f"{e.label} — {units.fmt_length(width)} long, seen from outside", "#1A1A1A",
                       anchor=(0.0, 1.3), bold=True)
         title.setPos(0.0, y(top))
         self.scene.addItem(title)

@@ -33,7 +33,8 @@ from PySide6.QtWidgets import (
 )
 
 from petfall_audit.editing.commands import SetOpeningFields
-from petfall_audit.gui.views.common import Task, ViewContext, fmt_money, run_task
+from petfall_audit.gui.views.common import Task, ViewContext, run_task
+from petfall_audit.present import fmt_money, fmt_percent, fmt_risk
 
 __all__ = ["PlanView", "fit_command"]
 
@@ -403,13 +404,13 @@ class PlanView(QWidget):
         else:
             self.summary.setText(
                 f"{len(plan.actions)} fixes chosen for {fmt_money(plan.total_cost, cur)} of "
-                f"{fmt_money(plan.budget, cur)}. Summed risk score {plan.risk_before:,.0f} → "
-                f"{plan.risk_after:,.0f} ({share:.0%} less). Indicative costs; a fix needs the "
-                "conditions listed and competent installers.")
+                f"{fmt_money(plan.budget, cur)}. Summed risk score {fmt_risk(plan.risk_before)} → "
+                f"{fmt_risk(plan.risk_after)} ({fmt_percent(share)} less). Indicative costs; a "
+                "fix needs the conditions listed and competent installers.")
         self.chosen.setRowCount(len(plan.actions))
         for row, o in enumerate(sorted(plan.actions, key=lambda o: -o.risk_removed)):
             cells = [o.opening_id, o.control_name, fmt_money(o.cost, cur),
-                     f"{o.risk_before:,.0f}", f"{o.risk_after:,.0f}"]
+                     fmt_risk(o.risk_before), fmt_risk(o.risk_after)]
             for col, text in enumerate(cells):
                 item = QTableWidgetItem(text)
                 item.setData(Qt.ItemDataRole.UserRole, o.opening_id)
@@ -474,12 +475,12 @@ class PlanView(QWidget):
             self.options_title.setText(f"{current}: no control in the catalogue lowers its risk")
         else:
             self.options_title.setText(
-                f"{current}: {len(opts)} options, risk score now {opts[0].risk_before:,.0f}")
+                f"{current}: {len(opts)} options, risk score now {fmt_risk(opts[0].risk_before)}")
         self.options_table.setRowCount(len(opts))
         for row, o in enumerate(opts):
             in_plan = (o.opening_id, o.control_id) in chosen
             cells = [o.control_name, o.hierarchy, fmt_money(o.cost, cur),
-                     f"{o.risk_after:,.0f} ({o.share_removed:.0%} less)",
+                     f"{fmt_risk(o.risk_after)} ({fmt_percent(o.share_removed)} less)",
                      "yes" if in_plan else ""]
             for col, text in enumerate(cells):
                 item = QTableWidgetItem(text)

@@ -14,6 +14,7 @@ from PySide6.QtWidgets import QHBoxLayout, QLabel, QSplitter, QVBoxLayout, QWidg
 
 from petfall_audit.figures import ImpactCurve, PosturePath, impact_speed_curve, posture_paths
 from petfall_audit.gui.views.common import ViewContext, band_qstyle
+from petfall_audit.present import SPEED_TERMS, fmt_percent, fmt_seconds
 
 __all__ = ["ProfileView", "PATH_STYLES"]
 
@@ -155,7 +156,7 @@ class ProfileView(QWidget):
         r = a.result(self.opening_id)
         for path in self.paths:
             colour, dash = PATH_STYLES.get(path.name, ("#555555", Qt.PenStyle.SolidLine))
-            name = f"{path.name} ({path.share:.0%} of cats)"
+            name = f"{path.name} ({fmt_percent(path.share)} of cats)"
             pen = _pen(colour, 2.0, dash)
             self.height_plot.plot(path.t_s, path.height_m / units.length_m, pen=pen)
             self.speed_plot.plot(path.t_s, path.speed_mps / units.speed_mps, pen=pen, name=name)
@@ -171,20 +172,23 @@ class ProfileView(QWidget):
                     plot.addItem(line)
                     self.switch_lines.append(line)
         relaxing = [p for p in self.paths if p.switch_time_s is not None]
-        switch = (f"A relaxing cat spreads out after {relaxing[0].switch_time_s:.2f} s (dotted "
-                  "line)." if relaxing else "The drop is too short for a cat to spread out "
+        switch = (f"A relaxing cat spreads out after {fmt_seconds(relaxing[0].switch_time_s)} "
+                  "(dotted line)." if relaxing else "The drop is too short for a cat to spread out "
                   "before it lands." if len(self.paths) > 1
                   else "No cat in the profile spreads out.")
         speeds = "; ".join(f"{_GERUND.get(p.name, p.name)}, it lands at "
-                           f"{units.fmt_speed(p.impact_speed_mps)} after {p.fall_time_s:.2f} s"
-                           for p in self.paths)
+                           f"{units.fmt_speed(p.impact_speed_mps)} after "
+                           f"{fmt_seconds(p.fall_time_s)}" for p in self.paths)
         speeds = speeds[:1] + speeds[1:].replace("; S", "; s")
         self.caption.setText(
             f"Opening {r.id}: a typical cat (the profile's median) falling the median drop of "
             f"{units.fmt_length(r.drop_m.p50)}. {speeds}. {switch} One typical fall, not the "
-            f"range: across all simulated cats the impact speed runs from "
-            f"{units.fmt_speed(r.impact_speed_mps.p5)} to "
+            f"range: across all simulated cats the median impact speed (the one the tables "
+            f"show) is {units.fmt_speed(r.impact_speed_mps.p50)} and nine in ten land between "
+            f"{units.fmt_speed(r.impact_speed_mps.p5)} and "
             f"{units.fmt_speed(r.impact_speed_mps.p95)}.")
+        self.caption.setToolTip("\n".join(SPEED_TERMS[k] + "." for k in
+                                          ("typical_fall", "impact_median", "impact_range")))
 
     def _draw_curve(self) -> None:
         units = self._ctx.units
@@ -192,6 +196,7 @@ class ProfileView(QWidget):
         plot.clear()
         plot.setLabel("left", f"impact speed ({units.speed})")
         plot.setLabel("bottom", f"drop height ({units.length})")
+        plot.setToolTip(SPEED_TERMS["curve"] + ".")
         c = self.curve
         if c is None:
             return

@@ -31,11 +31,11 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from petfall_audit.editing.fields import enum_label
-from petfall_audit.gui.result_cells import fmt_one_in, result_style, result_text, two_line_title
+from petfall_audit.gui.result_cells import result_style, result_text, two_line_title
 from petfall_audit.gui.views.common import ViewContext, band_qstyle
 from petfall_audit.gui.widgets.tables import keep_columns_fitted
 from petfall_audit.injury import BAND_DESCRIPTIONS, BANDS
+from petfall_audit.present import SPEED_TERMS, enum_label, fmt_one_in, fmt_percent, fmt_risk
 
 __all__ = ["RankedModel", "RankedFilter", "RankedView", "SORT_ROLE", "ID_ROLE"]
 
@@ -105,6 +105,8 @@ class RankedModel(QAbstractTableModel):
                 1: "Rank by risk score: likelihood × severity (1 = worst)",
                 6: "The worst band that at least half of the simulated falls reach",
                 7: "Chance that a cat falls from here over 12 months",
+                8: "Median drop: half of the simulated falls are longer, half shorter",
+                9: SPEED_TERMS["impact_median"],
                 10: "Risk score adapted from England's HHSRS: orders openings, "
                     "not a rating of the building",
             }.get(section)
@@ -176,7 +178,7 @@ def _factors_html(r: Any, palette: str, units: Any) -> str:
     band = BANDS[r.expected_band]
     rows = "".join(
         f"<tr><td>{band_qstyle(i, palette).mark} {html.escape(name)}</td>"
-        f"<td align='right'>{r.bands.get(name, 0.0):.0%}</td></tr>"
+        f"<td align='right'>{fmt_percent(r.bands.get(name, 0.0))}</td></tr>"
         for i, name in enumerate(BANDS))
     factors = "".join(f"<li>{html.escape(f)}</li>" for f in r.factors)
     hazards = "".join(f"<li>{html.escape(h)}</li>" for h in r.hazards)
@@ -185,10 +187,14 @@ def _factors_html(r: Any, palette: str, units: Any) -> str:
         f"<p style='margin:2px 0'><span style='background:{style.fill}; color:{style.text}'>"
         f"&nbsp;{html.escape(style.mark)} {html.escape(band)}&nbsp;</span> expected: "
         f"{html.escape(BAND_DESCRIPTIONS.get(band, ''))}</p>"
-        f"<p style='margin:2px 0'>Rank {r.rank} by band, {r.risk_rank} by risk · likelihood "
-        f"{fmt_one_in(r.one_in_n)} over 12 months · risk score {r.risk:,.0f}</p>"
-        f"<p style='margin:2px 0'>Impact speed {units.fmt_speed(r.impact_speed_mps.p5)} to "
-        f"{units.fmt_speed(r.impact_speed_mps.p95)} (5th–95th percentile)</p>"
+        f"<p style='margin:2px 0'>Rank {r.risk_rank} by risk score, {r.rank} by band · "
+        f"likelihood {fmt_one_in(r.one_in_n)} over 12 months · risk score "
+        f"{fmt_risk(r.risk)}</p>"
+        f"<p style='margin:2px 0' title='{html.escape(SPEED_TERMS['impact_range'], True)}'>"
+        f"Impact speed {units.fmt_speed(r.impact_speed_mps.p50)} (median of the simulated "
+        f"cats), {units.fmt_speed(r.impact_speed_mps.p5)} to "
+        f"{units.fmt_speed(r.impact_speed_mps.p95)} for nine in ten of them (5th–95th "
+        f"percentile)</p>"
         f"<table cellspacing='0' cellpadding='1'>{rows}</table>"
         f"<p style='margin:4px 0 0 0'><b>Why it ranks here</b></p>"
         f"<ul style='margin:0'>{factors}</ul>"
@@ -211,8 +217,9 @@ class RankedView(QWidget):
 
         self.order_box = QComboBox()
         self.order_box.setObjectName("order_box")
-        self.order_box.addItem("Expected injury, then likelihood", 0)
+        # The default order (the PDF's, the command line's and the exports'): risk score.
         self.order_box.addItem("Risk score (likelihood × severity)", 1)
+        self.order_box.addItem("Expected injury, then likelihood", 0)
         self.floor_box = QComboBox()
         self.facade_box = QComboBox()
         self.kind_box = QComboBox()
@@ -280,7 +287,7 @@ class RankedView(QWidget):
         context.stale_changed.connect(self.model.set_stale)
         context.selection.changed.connect(self._on_selection)
         context.options.changed.connect(self._on_options)
-        self.table.sortByColumn(0, Qt.SortOrder.AscendingOrder)
+        self.table.sortByColumn(1, Qt.SortOrder.AscendingOrder)  # risk_rank: the default order
         self._fill_filters(None)
         if context.assessment is not None:
             self._on_assessment(context.assessment)
@@ -292,8 +299,8 @@ class RankedView(QWidget):
         return [self.proxy.index(r, 0).data(ID_ROLE) for r in range(self.proxy.rowCount())]
 
     def set_order(self, by: str) -> None:
-        """``"band"`` or ``"risk"``."""
-        self.order_box.setCurrentIndex(0 if by == "band" else 1)
+        """``"band"`` or ``"risk"`` (the default)."""
+        self.order_box.setCurrentIndex(self.order_box.findData(0 if by == "band" else 1))
 
     # --- handlers --------------------------------------------------------------------------------
 

@@ -21,15 +21,9 @@ from petfall_audit.editing.history import History
 from petfall_audit.gui.adapters import ViewOptions, push_command
 from petfall_audit.gui.widgets.field_form import FieldForm
 from petfall_audit.model import CAT_PRESETS, InjuryThresholds
+from petfall_audit.present import PRESET_LABELS
 
-__all__ = ["BuildingPanel", "PRESET_LABELS"]
-
-PRESET_LABELS = {
-    "adult": "Adult cats (about 4 kg)",
-    "kitten": "Kittens and young cats",
-    "heavy_adult": "Heavy adult cats (about 6 kg)",
-}
-
+__all__ = ["BuildingPanel"]
 
 class BuildingPanel(QWidget):
     """The building's details form and the cat-profile preset."""

@@ -15,8 +15,9 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from petfall_audit.editing.fields import FieldSpec, enum_label, format_value
+from petfall_audit.editing.fields import FieldSpec, format_value
 from petfall_audit.gui.adapters import SPEC_ROLE
+from petfall_audit.present import enum_label
 
 __all__ = ["FieldDelegate"]
 

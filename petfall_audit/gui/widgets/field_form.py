@@ -24,8 +24,9 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from petfall_audit.editing.fields import FieldSpec, enum_label, format_value, parse_value, unit_hint
+from petfall_audit.editing.fields import FieldSpec, format_value, parse_value, unit_hint
 from petfall_audit.gui.adapters import ViewOptions
+from petfall_audit.present import enum_label
 
 __all__ = ["FieldForm", "MIXED", "ERROR_STYLE"]
 

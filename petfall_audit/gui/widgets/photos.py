@@ -48,8 +48,7 @@ __all__ = ["PhotoStrip", "PhotoDialog", "PhotoHost", "PHOTO_FILTER", "THUMB_SIZE
            "load_photo", "placeholder_pixmap"]
 
 #: File dialog filter: the photo files the app accepts.
-PHOTO_FILTER = "Photos ({})".format(
-    " ".join(f"*{s} *{s.upper()}" for s in PHOTO_SUFFIXES))
+PHOTO_FILTER = "Photos (" + " ".join(f"*{s} *{s.upper()}" for s in PHOTO_SUFFIXES) + ")"
 #: Size of a thumbnail (px).
 THUMB_SIZE = QSize(96, 72)
 _GRID = QSize(THUMB_SIZE.width() + 12, THUMB_SIZE.height() + 28)

@@ -1,0 +1,83 @@
+"""The one envelope of every results JSON the tool writes.
+
+``assess --format json``, each ``batch`` result file, ``report -o x.json``, ``plan --format
+json``, the app's JSON exports and ``portfolio-plan.json`` are all this document, described by
+``resources/results.schema.json`` and docs/results-json.md::
+
+    {"format": "petfall-audit-results", "version": 1, "software_version": "...",
+     "contents": ["results", "plan"],          # which of the three parts are filled in
+     "results": <assessment> | null,           # petfall_audit.io.results_export
+     "plan": <a building's fix plan> | null,   # petfall_audit.io.plan_export
+     "portfolio": <an estate's plan> | null,   # petfall_audit.io.portfolio_export
+     "caution": "<one line>", "cautions": ["...", ...]}
+
+The parts keep the keys they always had, so a reader of ``doc["results"]["openings"]`` or
+``doc["plan"]["actions"]`` works on every file.
+"""
+
+from __future__ import annotations
+
+import json
+from pathlib import Path
+from typing import TYPE_CHECKING, Any
+
+from petfall_audit import __version__
+from petfall_audit.cautions import CAUTIONS, CAUTIONS_SHORT
+
+if TYPE_CHECKING:
+    from petfall_audit.plan import Plan
+    from petfall_audit.portfolio import PortfolioPlan
+    from petfall_audit.risk import Assessment
+
+__all__ = ["RESULTS_FORMAT", "RESULTS_VERSION", "RESULTS_SCHEMA", "results_document",
+           "results_json_text", "write_results_json"]
+
+RESULTS_FORMAT = "petfall-audit-results"
+RESULTS_VERSION = 1
+#: File name of the envelope's JSON Schema in ``resources/``.
+RESULTS_SCHEMA = "results.schema.json"
+
+
+def results_document(*, assessment: Assessment | None = None, plan: Plan | None = None,
+                     portfolio: PortfolioPlan | None = None) -> dict[str, Any]:
+    """The envelope holding whichever of ``assessment``, ``plan`` and ``portfolio`` are given
+    (at least one)."""
+    from petfall_audit.io.plan_export import plan_to_dict
+    from petfall_audit.io.portfolio_export import portfolio_to_dict
+    from petfall_audit.io.results_export import assessment_to_dict
+
+    if assessment is None and plan is None and portfolio is None:
+        raise ValueError("a results document needs an assessment, a plan or a portfolio")
+    parts = {
+        "results": assessment_to_dict(assessment) if assessment is not None else None,
+        "plan": plan_to_dict(plan) if plan is not None else None,
+        "portfolio": portfolio_to_dict(portfolio) if portfolio is not None else None,
+    }
+    return {
+        "format": RESULTS_FORMAT,
+        "version": RESULTS_VERSION,
+        "software_version": __version__,
+        "contents": [k for k, v in parts.items() if v is not None],
+        **parts,
+        "caution": CAUTIONS_SHORT,
+        "cautions": list(CAUTIONS),
+    }
+
+
+def results_json_text(*, assessment: Assessment | None = None, plan: Plan | None = None,
+                      portfolio: PortfolioPlan | None = None) -> str:
+    """:func:`results_document` as indented UTF-8 JSON text ending in a newline (the same
+    input gives the same bytes)."""
+    doc = results_document(assessment=assessment, plan=plan, portfolio=portfolio)
+    return json.dumps(doc, indent=2, ensure_ascii=False) + "\n"
+
+
+def write_results_json(path: str | Path, *, assessment: Assessment | None = None,
+                       plan: Plan | None = None, portfolio: PortfolioPlan | None = None) -> Path:
+    """Write the envelope to ``path`` atomically (a crash never leaves half a file)."""
+    from petfall_audit.io.atomic import atomic_write_text
+
+    path = Path(path)
+    atomic_write_text(path, results_json_text(assessment=assessment, plan=plan,
+                                              portfolio=portfolio))
+    return path

@@ -1,0 +1,95 @@
+"""The assessment as a fixed-width table for a terminal: the command line's ``assess`` table.
+
+Openings worst first in the default order (:data:`petfall_audit.risk.DEFAULT_ORDER`, by risk
+score) unless ``by="band"``; every number through :mod:`petfall_audit.present.numbers`.
+"""
+
+from __future__ import annotations
+
+import math
+import textwrap
+from typing import TYPE_CHECKING, Literal
+
+from petfall_audit.cautions import CAUTIONS_SHORT
+from petfall_audit.injury import BANDS
+from petfall_audit.present.numbers import (
+    fmt_int,
+    fmt_length,
+    fmt_one_in,
+    fmt_risk,
+    fmt_speed,
+    length_unit,
+    speed_unit,
+)
+
+if TYPE_CHECKING:
+    from petfall_audit.risk import Assessment
+
+__all__ = ["TEXT_WIDTH", "assessment_to_table", "whole_percents"]
+
+#: Prose under the terminal table (hazards, cautions) is wrapped to this many columns.
+TEXT_WIDTH = 80
+
+
+def whole_percents(shares: list[float]) -> list[int]:
+    """Shares (summing to 1) as whole percentages summing to 100 (largest remainder)."""
+    raw = [100.0 * s for s in shares]
+    out = [math.floor(r) for r in raw]
+    by_remainder = sorted(range(len(raw)), key=lambda i: (out[i] - raw[i], i))
+    for i in by_remainder[: max(0, 100 - sum(out))]:
+        out[i] += 1
+    return out
+
+
+def assessment_to_table(a: Assessment, *, by: Literal["band", "risk"] = "risk",
+                        limit: int | None = None, system: str = "metric") -> str:
+    """A readable fixed-width table, worst first (``by`` ``"risk"``, the default order, or
+    ``"band"``), with the hazards and the cautions below it, wrapped to :data:`TEXT_WIDTH`
+    columns. ``limit`` shows only the first rows; ``system`` ``"metric"`` or ``"imperial"``."""
+    rows = a.ranked(by)
+    shown = rows if limit is None else rows[:limit]
+    head = ("Rank", "Opening", "Floor", "Facade", "Expected band", "Min/Mod/Ser/Life %",
+            f"Speed {speed_unit(system)}", f"Drop {length_unit(system)}", "Per year", "Risk")
+    body = []
+    for o in shown:
+        pct = "/".join(str(p) for p in whole_percents([o.bands[n] for n in BANDS]))
+        body.append((
+            str(o.risk_rank if by == "risk" else o.rank), o.id, str(o.floor), o.facade,
+            BANDS[o.expected_band], pct, fmt_speed(o.impact_speed_mps.p50, system, unit=False),
+            fmt_length(o.drop_m.p50, system, unit=False), fmt_one_in(o.one_in_n),
+            fmt_risk(o.risk),
+        ))
+    widths = [max(len(h), *(len(r[i]) for r in body)) if body else len(h)
+              for i, h in enumerate(head)]
+    right = {0, 2, 6, 7, 9}
+
+    def fmt(cells: tuple[str, ...]) -> str:
+        return "  ".join(c.rjust(w) if i in right else c.ljust(w)
+                         for i, (c, w) in enumerate(zip(cells, widths, strict=True))).rstrip()
+
+    info = a.building.info
+    lines = [
+        f"{info.name}: {len(a.openings)} openings, {fmt_int(a.samples)} cats sampled (seed "
+        f"{a.seed}), {a.model_version}",
+        "Ranked by " + ("risk score (the default order)" if by == "risk"
+                        else "expected injury band, then likelihood"),
+        "",
+        fmt(head),
+        fmt(tuple("-" * w for w in widths)),
+        *(fmt(r) for r in body),
+    ]
+    if limit is not None and len(rows) > limit:
+        lines.append(f"... {len(rows) - limit} more openings")
+    hazards = [(o.id, h) for o in shown for h in o.hazards]
+    if not rows:
+        lines.append("(no openings recorded: nothing to assess)")
+    if hazards:
+        lines += ["", "Other hazards:"]
+        for oid, h in hazards:
+            lines += textwrap.wrap(f"{oid}: {h}", TEXT_WIDTH, initial_indent="  ",
+                                   subsequent_indent="    ")
+    note = ("Speed and drop are medians of the simulated cats; 'Per year' is the chance of a "
+            "fall in 12 months, as 1 in N.")
+    lines += ["", *textwrap.wrap(note, TEXT_WIDTH), "",
+              *textwrap.wrap(CAUTIONS_SHORT, TEXT_WIDTH), ""]
+    return "\n".join(lines)
