@@ -12,11 +12,7 @@ import pytest
 from petfall_audit.cli import main
 from petfall_audit.injury import BANDS
 from petfall_audit.io.building_file import save_building
-from petfall_audit.io.results_export import (
-    assessment_to_csv,
-    assessment_to_dict,
-    assessment_to_table,
-)
+from petfall_audit.io.results_export import assessment_to_csv, assessment_to_dict
 from petfall_audit.model import (
     Building,
     BuildingInfo,
@@ -29,6 +25,7 @@ from petfall_audit.model import (
     Surface,
     SurfaceKind,
 )
+from petfall_audit.present.tables import assessment_to_table, whole_percents
 from petfall_audit.risk import assess
 
 
@@ -82,14 +79,16 @@ def test_json_fields_and_same_seed_same_bytes(
     assert _run(capsys, *args, "-o", str(out1))[0] == 0
     assert _run(capsys, *args, "-o", str(out2))[0] == 0
     assert out1.read_bytes() == out2.read_bytes()
-    doc = json.loads(out1.read_text("utf-8"))
+    envelope = json.loads(out1.read_text("utf-8"))
+    assert envelope["format"] == "petfall-audit-results" and envelope["contents"] == ["results"]
+    doc = envelope["results"]
     assert doc["samples"] == 150 and doc["seed"] == 4 and doc["model_version"]
     assert doc["cat_profile"]["mass_kg"] == {"type": "lognormal", "mean": 4.1, "sd": 1.1}
     assert doc["cautions"]
     ops = doc["openings"]
     assert len(ops) == 16
-    assert [o["rank"] for o in ops] == list(range(1, 17))
-    assert sorted(o["risk_rank"] for o in ops) == list(range(1, 17))
+    assert [o["risk_rank"] for o in ops] == list(range(1, 17))  # the default order
+    assert sorted(o["rank"] for o in ops) == list(range(1, 17))
     for o in ops:
         for key in ("id", "floor", "rank", "risk_rank", "risk", "expected_band", "likelihood",
                     "drop_m", "impact_speed_mps", "landing", "bands", "factors", "hazards"):
@@ -107,7 +106,7 @@ def test_json_fields_and_same_seed_same_bytes(
     # a different seed gives a different draw
     code, out, _ = _run(capsys, "assess", str(building_file), "--format", "json",
                         "--samples", "150", "--seed", "5", "--no-sensitivity")
-    assert code == 0 and json.loads(out)["sensitivity"] is None
+    assert code == 0 and json.loads(out)["results"]["sensitivity"] is None
     assert out.encode() != out1.read_bytes()
 
 
@@ -117,7 +116,7 @@ def test_csv(building_file: Path, capsys: pytest.CaptureFixture[str]) -> None:
     lines = out.splitlines()
     assert lines[0].startswith("# ")
     rows = list(csv.DictReader(io.StringIO("\n".join(x for x in lines if not x.startswith("#")))))
-    assert len(rows) == 16 and rows[0]["rank"] == "1"
+    assert len(rows) == 16 and rows[0]["risk_rank"] == "1"
     assert float(rows[0]["impact_speed_mps_p50"]) > 0
 
 
@@ -134,7 +133,7 @@ def test_exporters_directly() -> None:
     a = assess(_building(), samples=100, seed=2)
     d = assessment_to_dict(a)
     assert json.dumps(d) == json.dumps(assessment_to_dict(assess(_building(), samples=100, seed=2)))
-    top = a.ranked("band")[0]
+    top = a.ranked("risk")[0]
     assert d["openings"][0]["id"] == top.id
     assert "life-threatening" in assessment_to_csv(a).splitlines()[len(d["cautions"])]
     table = assessment_to_table(a, by="risk", limit=3)
@@ -142,13 +141,11 @@ def test_exporters_directly() -> None:
 
 
 def test_table_percentages_add_up() -> None:
-    from petfall_audit.io.results_export import _whole_percents
-
     shares = [0.004, 0.006, 0.005, 0.985]
-    got = _whole_percents(shares)
+    got = whole_percents(shares)
     assert sum(got) == 100 and all(abs(g - 100 * s) < 1 for g, s in zip(got, shares, strict=True))
-    assert _whole_percents([0.0, 0.0, 0.014, 0.986]) == [0, 0, 1, 99]
-    assert sum(_whole_percents([1 / 3, 1 / 3, 1 / 3, 0.0])) == 100
+    assert whole_percents([0.0, 0.0, 0.014, 0.986]) == [0, 0, 1, 99]
+    assert sum(whole_percents([1 / 3, 1 / 3, 1 / 3, 0.0])) == 100
 
 
 # --- regressions found by exercising the command as a user --------------------------------------

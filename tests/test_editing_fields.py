@@ -12,13 +12,12 @@ from hypothesis import strategies as st
 from petfall_audit.editing.fields import (
     INFO_FIELDS,
     OPENING_FIELDS,
-    enum_label,
     field_spec,
-    format_speed,
     format_value,
     parse_value,
 )
 from petfall_audit.model import Opening, OpeningKind
+from petfall_audit.present import enum_label
 
 PERCH = field_spec(OPENING_FIELDS, "perch_height_m")
 MESH = field_spec(OPENING_FIELDS, "netting_mesh_mm")
@@ -78,12 +77,6 @@ def test_shown_gaps_read_back(value_mm: float, system: str) -> None:
     shown = format_value(MESH, value_mm, system)
     tolerance = 0.05 if system == "metric" else 0.005 * 25.4
     assert math.isclose(parse_value(MESH, shown, system), value_mm, abs_tol=tolerance + 1e-9)
-
-
-def test_speeds() -> None:
-    # 26.8224 m/s = 60 mph (1 mile = 1609.344 m exactly)
-    assert format_speed(26.8224, "imperial") == "60.0 mph"
-    assert format_speed(15.54) == "15.5 m/s"
 
 
 @pytest.mark.parametrize("name", ["width_m", "largest_gap_mm"])

@@ -245,7 +245,7 @@ def swings(assessment):  # type: ignore[no-untyped-def]
 
 
 def test_sensitivity_bars_are_sorted_and_cover_every_parameter(swings) -> None:  # type: ignore[no-untyped-def]
-    from petfall_audit.figures import PARAMETER_LABELS
+    from petfall_audit.present import PARAMETER_LABELS
     from petfall_audit.sensitivity import PARAMETERS
 
     assert set(swings.parameters) == {name for name, _ in PARAMETERS}
@@ -313,7 +313,8 @@ def test_sensitivity_reuses_a_filled_in_analysis_and_can_use_fewer_cats(assessme
 def test_sensitivity_of_a_building_without_openings_is_none() -> None:
     from dataclasses import replace
 
-    from petfall_audit.figures import fmt_change_pct, sensitivity_figure
+    from petfall_audit.figures import sensitivity_figure
+    from petfall_audit.present import fmt_change_pct
 
     empty = assess(replace(small_building(), openings=()), samples=10, seed=1)
     assert sensitivity_figure(empty) is None

@@ -41,6 +41,12 @@ def test_imperial_speed_and_length() -> None:
     assert fmt_length(3.048, "imperial", unit=False) == "10.0"
 
 
+def test_speeds() -> None:
+    # 26.8224 m/s = 60 mph (1 mile = 1609.344 m exactly)
+    assert fmt_speed(26.8224, "imperial") == "60.0 mph"
+    assert fmt_speed(15.54) == "15.5 m/s"
+
+
 def test_money_percent_and_dates() -> None:
     assert fmt_money(33000.2, "EUR") == "33,000 EUR"
     assert fmt_money(math.nan, "EUR") == NO_VALUE

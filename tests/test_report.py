@@ -12,6 +12,15 @@ from pypdf import PdfReader
 from reportlab.platypus import Paragraph, SimpleDocTemplate
 
 from petfall_audit.cautions import CAUTIONS
+from petfall_audit.present import (
+    fmt_length,
+    fmt_money,
+    fmt_one_in,
+    fmt_percent,
+    fmt_risk,
+    fmt_speed,
+    kind_label,
+)
 from petfall_audit.report import context as rc
 from petfall_audit.report.context import ContactBlock
 from petfall_audit.report.fonts import fonts, markup, plain
@@ -21,42 +30,45 @@ from petfall_audit.report.styles import audit_styles
 
 
 def test_speed_and_length_round_to_a_tenth() -> None:
-    # Conventions: speeds to 0.1 m/s, heights to 0.1 m.
-    assert rc.fmt_speed(15.54) == "15.5"
-    assert rc.fmt_speed(9.96) == "10.0"
-    assert rc.fmt_length(3.04) == "3.0"
-    assert rc.fmt_speed(float("nan")) == "–"
+    # Conventions: speeds to 0.1 m/s, heights to 0.1 m; the report's tables print them bare
+    # (the header names the unit).
+    assert fmt_speed(15.54, unit=False) == "15.5"
+    assert fmt_speed(9.96, unit=False) == "10.0"
+    assert fmt_length(3.04, unit=False) == "3.0"
+    assert fmt_speed(float("nan"), unit=False) == "–"
 
 
 def test_percent_keeps_small_probabilities_visible() -> None:
-    assert rc.fmt_percent(0.0) == "0%"
-    assert rc.fmt_percent(0.004) == "<1%"
-    assert rc.fmt_percent(0.256) == "26%"
-    assert rc.fmt_percent(1.0) == "100%"
+    assert fmt_percent(0.0) == "0%"
+    assert fmt_percent(0.004) == "<1%"
+    assert fmt_percent(0.256) == "26%"
+    assert fmt_percent(1.0) == "100%"
 
 
 def test_money_to_the_unit_with_currency() -> None:
-    assert rc.fmt_money(12345.6, "EUR") == "12,346 EUR"
-    assert rc.fmt_money(0, "") == "0"
+    assert fmt_money(12345.6, "EUR") == "12,346 EUR"
+    assert fmt_money(0, "") == "0"
 
 
 def test_one_in_n_two_significant_figures() -> None:
     # HHSRS writes likelihood as "1 in N over 12 months" (Housing Health and Safety Rating
     # System, England, Housing Act 2004).
-    assert rc.fmt_one_in(1234.0) == "1 in 1,200"
-    assert rc.fmt_one_in(56.0) == "1 in 56"
-    assert rc.fmt_one_in(3.0) == "1 in 3"
-    assert rc.fmt_one_in(float("inf")) == "negligible"
+    assert fmt_one_in(1234.0) == "1 in 1,200"
+    assert fmt_one_in(56.0) == "1 in 56"
+    assert fmt_one_in(3.0) == "1 in 3"
+    assert fmt_one_in(float("inf")) == "negligible"
 
 
 def test_risk_score_precision() -> None:
-    assert rc.fmt_risk(1234.4) == "1,234"
-    assert rc.fmt_risk(0.012345) == "0.0123"
+    assert fmt_risk(1234.4) == "1,234"
+    assert fmt_risk(0.012345) == "0.0123"
 
 
 def test_kind_labels_are_plain_words() -> None:
-    assert rc.kind_label("window_tilt_turn") == "Tilt-and-turn window"
-    assert rc.kind_label("balcony") == "Balcony"
+    # One table for the app and the paper (the model's wording).
+    assert kind_label("window_tilt_turn") == "Tilt-and-turn window"
+    assert kind_label("balcony") == "Balcony"
+    assert kind_label("gallery") == "Walkway / access gallery"
 
 
 def test_contact_block_from_text_and_settings() -> None:
@@ -278,7 +290,7 @@ def test_plan_lists_each_condition_once_and_rows_refer_to_it() -> None:
 
 
 def test_audit_shows_how_much_the_result_depends_on_the_cat(audit_text) -> None:  # type: ignore[no-untyped-def]
-    from petfall_audit.figures import PARAMETER_LABELS
+    from petfall_audit.present import PARAMETER_LABELS
 
     squashed = _squash(audit_text)
     assert _squash(rc.SENSITIVITY_TITLE) in squashed

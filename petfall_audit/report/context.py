@@ -30,16 +30,16 @@ from petfall_audit.present import (
     PARAMETER_LABELS,
     fmt_count,
     fmt_int,
+    fmt_length,
     fmt_money,
     fmt_number,
     fmt_one_in,
     fmt_percent,
     fmt_risk,
+    fmt_speed,
     kind_label,
     preset_label,
 )
-from petfall_audit.present import fmt_length as _fmt_length
-from petfall_audit.present import fmt_speed as _fmt_speed
 from petfall_audit.present.labels import landing_names
 
 if TYPE_CHECKING:
@@ -128,14 +128,14 @@ class ReportOptions:
 # --- formatting ---------------------------------------------------------------------------------
 
 
-def fmt_length(x_m: float) -> str:
-    """A length for the report's tables: metres to 0.1, no unit (the header names it)."""
-    return _fmt_length(x_m, unit=False)
+def _bare_length(x_m: float) -> str:
+    """A length in a table whose header names the unit (m, to 0.1)."""
+    return fmt_length(x_m, unit=False)
 
 
-def fmt_speed(v_mps: float) -> str:
-    """A speed for the report's tables: m/s to 0.1, no unit (the header names it)."""
-    return _fmt_speed(v_mps, unit=False)
+def _bare_speed(v_mps: float) -> str:
+    """A speed in a table whose header names the unit (m/s, to 0.1)."""
+    return fmt_speed(v_mps, unit=False)
 
 
 def _dist_text(d: Distribution, unit: str, digits: int = 2) -> str:
@@ -308,10 +308,10 @@ def _ranked_rows(assessment: Assessment, plan: Plan | None, bands: tuple[str, ..
                 floor=labels.get(o.floor, str(o.floor)),
                 opening_id=o.id,
                 kind=kind_label(o.kind),
-                drop_m=fmt_length(o.drop_m.p50),
-                v_p5=fmt_speed(o.impact_speed_mps.p5),
-                v_p50=fmt_speed(o.impact_speed_mps.p50),
-                v_p95=fmt_speed(o.impact_speed_mps.p95),
+                drop_m=_bare_length(o.drop_m.p50),
+                v_p5=_bare_speed(o.impact_speed_mps.p5),
+                v_p50=_bare_speed(o.impact_speed_mps.p50),
+                v_p95=_bare_speed(o.impact_speed_mps.p95),
                 band_probs=tuple(fmt_percent(float(o.bands.get(b, 0.0))) for b in bands),
                 band=int(o.expected_band),
                 band_name=bands[int(o.expected_band)] if 0 <= o.expected_band < len(bands) else "",
@@ -355,12 +355,13 @@ def _details(assessment: Assessment, plan: Plan | None, top_n: int, bands: tuple
             ("Floor", labels.get(o.floor, str(o.floor))),
             ("Facade", facade_names.get(str(o.facade), str(o.facade))),
             ("Kind", kind_label(o.kind)),
-            ("Rail top or sill above floor", _fmt_length(op.perch_height_m)),
-            ("Drop p5 / p50 / p95", f"{fmt_length(o.drop_m.p5)} / {fmt_length(o.drop_m.p50)} / "
-                                    f"{fmt_length(o.drop_m.p95)} m"),
-            ("Impact speed p5 / p50 / p95",
-             f"{fmt_speed(o.impact_speed_mps.p5)} / {fmt_speed(o.impact_speed_mps.p50)} / "
-             f"{fmt_speed(o.impact_speed_mps.p95)} m/s"),
+            ("Rail top or sill above floor", fmt_length(op.perch_height_m)),
+            ("Drop: p5 / median / p95",
+             f"{_bare_length(o.drop_m.p5)} / {_bare_length(o.drop_m.p50)} / "
+             f"{_bare_length(o.drop_m.p95)} m"),
+            ("Impact speed: p5 / median / p95 of the simulated cats",
+             f"{_bare_speed(o.impact_speed_mps.p5)} / {_bare_speed(o.impact_speed_mps.p50)} / "
+             f"{_bare_speed(o.impact_speed_mps.p95)} m/s"),
             ("Landing", _landing_text(dict(o.landing), names)),
             ("Likelihood of a fall (12 months)",
              f"{fmt_one_in(float(o.one_in_n))} ({fmt_percent(float(o.annual_probability))})"),
@@ -616,7 +617,7 @@ def build_audit_context(assessment: Assessment, plan: Plan | None, *,
     summary = (
         f"{len(assessment.openings)} openings assessed on "
         f"{len(assessment.building.floors)} floors.",
-        f"The highest 95th-percentile impact speed is {fmt_speed(float(worst_v))} m/s.",
+        f"The highest 95th-percentile impact speed is {fmt_speed(float(worst_v))}.",
         *plan_summary,
     )
     name = info.name or "Unnamed building"
