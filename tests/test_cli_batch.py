@@ -35,9 +35,12 @@ def test_batch_writes_one_result_per_building_and_a_summary(tmp_path: Path) -> N
         assert counts == len(building.openings)
         assert float(row["plan_cost"]) <= 2000
         # The per-building file is the same document `assess --format json` writes (same seed).
+        # (in the results envelope, with the building's own plan beside it)
         written = json.loads((tmp_path / f"{name}.json").read_text(encoding="utf-8"))
         expected = assessment_to_dict(assess(building, samples=300, seed=1))
-        assert written["openings"] == expected["openings"]
+        assert written["results"]["openings"] == expected["openings"]
+        assert written["contents"] == ["results", "plan"]
+        assert written["plan"]["total_cost"] == pytest.approx(float(row["plan_cost"]), abs=0.5)
 
 
 def test_batch_skips_a_broken_file_and_exits_2(tmp_path: Path,

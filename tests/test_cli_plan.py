@@ -38,7 +38,7 @@ def test_json_has_the_promised_fields_and_respects_the_budget(capsys) -> None:  
         "2",
     )
     assert code == 0
-    doc = json.loads(out)
+    doc = json.loads(out)["plan"]
     for key in ("budget", "total_cost", "risk_before", "risk_after", "actions", "currency"):
         assert key in doc
     assert doc["budget"] == 600 and doc["total_cost"] <= 600
@@ -111,7 +111,7 @@ def test_user_catalogue_changes_currency_and_choice(capsys, tmp_path: Path) -> N
         str(path),
     )
     assert code == 0
-    result = json.loads(out)
+    result = json.loads(out)["plan"]
     assert result["currency"] == "GBP"
     assert {a["control"] for a in result["actions"]} == {"tenant_guidance"}
 
@@ -154,7 +154,7 @@ def test_plan_json_rounds_risks_like_the_results_json(tmp_path: Path) -> None:
     out = tmp_path / "plan.json"
     assert main(["plan", str(sample_path("walkup")), "--budget", "800", "--samples", "200",
                  "--format", "json", "-o", str(out)]) == 0
-    doc = json.loads(out.read_text(encoding="utf-8"))
+    doc = json.loads(out.read_text(encoding="utf-8"))["plan"]
     numbers = [doc["risk_before"], doc["risk_after"]]
     numbers += [a[k] for a in doc["actions"] for k in ("risk_before", "risk_after")]
     assert numbers and all(float(f"{x:.4g}") == x for x in numbers)

@@ -56,7 +56,7 @@ def test_solver_chatter_reaches_neither_stdout_nor_stderr(tmp_path: Path) -> Non
                 "--samples", "300", "--format", "json"], script=CHATTY)
     assert out.returncode == 0, out.stderr
     assert marker.exists(), "the budget must make the solver run"
-    doc = json.loads(out.stdout)  # nothing but the plan on standard output
+    doc = json.loads(out.stdout)["plan"]  # nothing but the plan on standard output
     assert doc["total_cost"] <= 3000
     assert out.stderr == ""
 

@@ -28,8 +28,9 @@ from petfall_audit.io.building_file import (
 )
 from petfall_audit.io.csv_safe import FORMULA_STARTS
 from petfall_audit.io.plan_export import plan_to_csv
-from petfall_audit.io.results_export import assessment_to_csv, assessment_to_table
+from petfall_audit.io.results_export import assessment_to_csv
 from petfall_audit.plan import make_plan
+from petfall_audit.present.tables import assessment_to_table
 from petfall_audit.report import ReportOptions, write_audit, write_leaflet
 from petfall_audit.risk import assess
 from tests.strategies import base_documents, hostile_documents

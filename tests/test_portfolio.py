@@ -95,7 +95,7 @@ def test_batch_writes_the_estate_plan_and_summary(tmp_path: Path) -> None:
     code = main(["batch", *files, "--out-dir", str(out), "--samples", "300",
                  "--portfolio-budget", "5000", "--jobs", "1"])
     assert code == 0
-    doc = json.loads((out / "portfolio-plan.json").read_text("utf-8"))
+    doc = json.loads((out / "portfolio-plan.json").read_text("utf-8"))["portfolio"]
     assert doc["format"] == "petfall-audit-portfolio-plan"
     assert doc["total_cost"] <= 5000
     assert doc["risk_after"] < doc["risk_before"]
