@@ -87,7 +87,9 @@ def _refuse(message: str) -> _Stop:
 
 def _require_at_least(name: str, value: float | None, low: float) -> None:
     if value is not None and not (math.isfinite(value) and value >= low):
-        raise _refuse(f"{name} must be at least {low:g}")
+        from petfall_audit.present import fmt_tick
+
+        raise _refuse(f"{name} must be at least {fmt_tick(low)}")
 
 
 def _check_output(path: str | Path | None) -> None:
@@ -151,8 +153,10 @@ def _check_sampling(args: argparse.Namespace, building: Building | None = None) 
     _require_at_least("--samples", args.samples, 1)
     _require_at_least("--seed", args.seed, 0)
     if args.samples is not None and args.samples > MAX_SAMPLES:
-        raise _refuse(f"--samples {args.samples} is too many: at most {MAX_SAMPLES:,} simulated "
-                      "cats per opening")
+        from petfall_audit.present import fmt_int
+
+        raise _refuse(f"--samples {args.samples} is too many: at most {fmt_int(MAX_SAMPLES)} "
+                      "simulated cats per opening")
 
 
 def _emit(text: str, output: str | None, *, table: bool = False) -> None:
@@ -615,11 +619,14 @@ def _cmd_import_model(args: argparse.Namespace) -> int:
     if unknown:
         raise _refuse(f"--facade: the model has no facade {', '.join(map(repr, unknown))} "
                       f"(it has {', '.join(f.id for f in model.facades) or 'none'})")
+    from petfall_audit.present import fmt_survey_length
+
     _say(model.summary())
     for storey in model.storeys:
-        _say(f"  storey level {storey.level}: {storey.label!r} at {storey.elevation_m:.3f} m")
+        _say(f"  storey level {storey.level}: {storey.label!r} at "
+             f"{fmt_survey_length(storey.elevation_m)}")
     for facade in model.facades:
-        _say(f"  facade {facade.id}: {facade.label}, {facade.length_m:g} m")
+        _say(f"  facade {facade.id}: {facade.label}, {fmt_survey_length(facade.length_m)}")
     for note in model.assumptions:
         _say(f"  assumed: {note}")
     for note in model.skipped:

@@ -9,9 +9,11 @@ import json
 from pathlib import Path
 from typing import Any
 
+import jsonschema
 import pytest
 from pypdf import PdfReader
 
+from petfall_audit._resources import resource_path
 from petfall_audit.cautions import CAUTIONS_SHORT
 from petfall_audit.demo import sample_building
 from petfall_audit.editing.document import Document
@@ -24,6 +26,8 @@ from petfall_audit.gui.views.common import wait_for_tasks
 pytestmark = pytest.mark.gui
 
 SAMPLES = 64
+RESULTS_VALIDATOR = jsonschema.Draft202012Validator(
+    json.loads(resource_path("results.schema.json").read_text("utf-8")))
 
 
 class QuietPrompts(Prompts):
@@ -100,6 +104,7 @@ def test_results_and_plan_as_csv_and_json(qtbot, window, tmp_path: Path) -> None
     n = len(window.document.building.openings)
     results_json = _export(qtbot, window, "results_json", tmp_path / "r.json")[0]
     data = json.loads(results_json.read_text("utf-8"))
+    RESULTS_VALIDATOR.validate(data)  # the one results envelope (resources/results.schema.json)
     assert data["plan"] is None and data["caution"] == CAUTIONS_SHORT
     results_csv = _export(qtbot, window, "results_csv", tmp_path / "r.csv")
     assert results_csv == [tmp_path / "r.csv"]  # results only: the plan has its own export
@@ -109,7 +114,10 @@ def test_results_and_plan_as_csv_and_json(qtbot, window, tmp_path: Path) -> None
     budget = 2500.0
     window.views.plan.set_budget(budget)
     plan_json = _export(qtbot, window, "plan_json", tmp_path / "p.json")[0]
-    plan = json.loads(plan_json.read_text("utf-8"))
+    envelope = json.loads(plan_json.read_text("utf-8"))
+    RESULTS_VALIDATOR.validate(envelope)
+    assert envelope["contents"] == ["plan"]
+    plan = envelope["plan"]
     assert plan["budget"] == budget and 0 < plan["total_cost"] <= budget
     assert plan["risk_after"] < plan["risk_before"]
     plan_csv = _export(qtbot, window, "plan_csv", tmp_path / "p.csv")[0]

@@ -159,6 +159,7 @@ def test_netting_a_balcony_changes_its_fill_and_its_place(app_window, qtbot) -> 
     item = views.facade.opening_item(balcony.id)
     assert item is not None and not item.protected
     assert item.overlay.brush().style() == Qt.BrushStyle.NoBrush
+    views.ranked.set_order("band")
     before_place = views.ranked.visible_ids().index(balcony.id)
     views.ranked.set_order("risk")
     before_risk_place = views.ranked.visible_ids().index(balcony.id)
@@ -221,6 +222,8 @@ def test_ranked_filters_and_orders(app_window) -> None:  # type: ignore[no-untyp
     window, views = app_window()
     ranked = views.ranked
     a = views.context.assessment
+    assert ranked.visible_ids() == [r.id for r in a.ranked("risk")]  # the default order
+    ranked.set_order("band")
     assert ranked.visible_ids() == [r.id for r in a.ranked("band")]
     ranked.set_order("risk")
     assert ranked.visible_ids() == [r.id for r in a.ranked("risk")]
@@ -292,7 +295,8 @@ def test_cat_assumptions_panel_fills_after_the_results(app_window, qtbot) -> Non
     fig = panel.section.figure
     assert fig.samples == a.samples == SAMPLES and len(fig.opening_ids) == 5
     ticks = panel.plot.getAxis("left")._tickLevels[0]
-    assert [t[1].split(" (")[0] for t in ticks] == list(fig.labels)  # largest swing on top
+    assert [t[1] for t in ticks] == [f"{label} ({r}): swing {v}" for label, r, v in zip(
+        fig.labels, panel.section.ranges, panel.section.values, strict=True)]  # largest on top
     assert ticks[0][1].endswith(f"swing {panel.section.values[0]}")
     assert panel.note.text() == panel.section.lead and "depends most on" in panel.section.lead
     assert panel.plot.isEnabled() and panel.plot.isVisible()

@@ -47,7 +47,13 @@ from petfall_audit.io.ifc_import import (
 )
 from petfall_audit.io.schedule import ImportPreview
 from petfall_audit.model import Building
-from petfall_audit.present import fmt_length, kind_label, length_unit, surface_label
+from petfall_audit.present import (
+    fmt_length,
+    fmt_survey_length,
+    kind_label,
+    length_unit,
+    surface_label,
+)
 from petfall_audit.present.labels import surface_kind_label
 
 __all__ = ["ModelImportDialog", "import_model"]
@@ -185,8 +191,8 @@ class ModelImportDialog(QDialog):
         return fmt_length(x_m, self.units, unit=False, digits=digits)
 
     def _precise(self, x_m: float) -> str:
-        """A surveyed height with its unit, to the centimetre or 0.01 ft."""
-        return fmt_length(x_m, self.units, digits=2)
+        """A surveyed height with its unit, no trailing zeros."""
+        return fmt_survey_length(x_m, self.units)
 
     def _floor_state(self, level: int, elevation_m: float) -> str:
         """What the storey does to the building's floor at ``level``."""

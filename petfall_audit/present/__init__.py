@@ -36,9 +36,11 @@ from petfall_audit.present.numbers import (
     fmt_risk,
     fmt_seconds,
     fmt_speed,
+    fmt_survey_length,
     fmt_tick,
     length_unit,
     speed_unit,
+    units_in_text,
     units_of,
 )
 
@@ -65,6 +67,7 @@ __all__ = [
     "fmt_risk",
     "fmt_seconds",
     "fmt_speed",
+    "fmt_survey_length",
     "fmt_tick",
     "kind_label",
     "length_unit",
@@ -72,5 +75,6 @@ __all__ = [
     "speed_unit",
     "surface_kind_label",
     "surface_label",
+    "units_in_text",
     "units_of",
 ]

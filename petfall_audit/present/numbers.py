@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import datetime as _dt
 import math
+import re
 from dataclasses import dataclass
 
 from petfall_audit.io.results_export import round_significant
@@ -29,6 +30,8 @@ __all__ = [
     "fmt_tick",
     "fmt_seconds",
     "fmt_change_pct",
+    "fmt_survey_length",
+    "units_in_text",
     "length_unit",
     "speed_unit",
     "Units",
@@ -102,6 +105,17 @@ def fmt_length(x_m: float | None, system: str = "metric", *, small: bool = False
     value = x_m / FOOT_M if system == "imperial" else x_m
     text = _unsigned(f"{value:.{digits}f}")
     return f"{text} {length_unit(system)}" if unit else text
+
+
+def fmt_survey_length(x_m: float | None, system: str = "metric") -> str:
+    """A surveyed length as read from a drawing or a model, to the millimetre (0.001 ft) with
+    no trailing zeros: ``"4.5 m"``, ``"3 m"``, ``"12.275 m"`` / ``"14.76 ft"``."""
+    if not _finite(x_m):
+        return NO_VALUE
+    assert x_m is not None
+    value = x_m / FOOT_M if system == "imperial" else x_m
+    text = f"{value:.3f}".rstrip("0").rstrip(".")
+    return f"{_unsigned(text if text not in ('', '-') else '0')} {length_unit(system)}"
 
 
 def length_unit(system: str = "metric") -> str:
@@ -247,3 +261,27 @@ def units_of(system: str) -> Units:
     if system == "imperial":
         return Units("imperial", "ft", FOOT_M, "mph", MPH_MPS)
     return Units("metric", "m", 1.0, "m/s", 1.0)
+
+
+#: A metric quantity written in a sentence of data text (a catalogue name, a condition):
+#: a number, a space and mm, m, m/s or km/h, not followed by another letter.
+_METRIC_IN_TEXT = re.compile(r"(?<![\w.])(\d+(?:[.,]\d+)?)\s?(mm|m/s|km/h|m)(?![\w/²³])")
+
+
+def units_in_text(text: str, system: str = "metric") -> str:
+    """``text`` (written in metric, such as a control's name "net, 30 mm mesh") with each
+    quantity in it shown in ``system``: in imperial "net, 1.2 in mesh". Metric text is
+    returned as it is."""
+    if system != "imperial" or not text:
+        return text
+
+    def convert(m: re.Match[str]) -> str:
+        value = float(m.group(1).replace(",", "."))
+        unit = m.group(2)
+        if unit == "mm":
+            return fmt_length(value / 1000.0, system, small=True)
+        if unit == "m":
+            return fmt_length(value, system)
+        return fmt_speed(value / 3.6 if unit == "km/h" else value, system)
+
+    return _METRIC_IN_TEXT.sub(convert, text)

@@ -34,7 +34,7 @@ from PySide6.QtWidgets import (
 
 from petfall_audit.editing.commands import SetOpeningFields
 from petfall_audit.gui.views.common import Task, ViewContext, run_task
-from petfall_audit.present import fmt_money, fmt_percent, fmt_risk
+from petfall_audit.present import fmt_count, fmt_money, fmt_percent, fmt_risk, units_in_text
 
 __all__ = ["PlanView", "fit_command"]
 
@@ -409,7 +409,7 @@ class PlanView(QWidget):
                 "fix needs the conditions listed and competent installers.")
         self.chosen.setRowCount(len(plan.actions))
         for row, o in enumerate(sorted(plan.actions, key=lambda o: -o.risk_removed)):
-            cells = [o.opening_id, o.control_name, fmt_money(o.cost, cur),
+            cells = [o.opening_id, self._text(o.control_name), fmt_money(o.cost, cur),
                      fmt_risk(o.risk_before), fmt_risk(o.risk_after)]
             for col, text in enumerate(cells):
                 item = QTableWidgetItem(text)
@@ -417,7 +417,7 @@ class PlanView(QWidget):
                 if col in (2, 3, 4):
                     item.setTextAlignment(Qt.AlignmentFlag.AlignRight
                                           | Qt.AlignmentFlag.AlignVCenter)
-                item.setToolTip("\n".join([o.control_name, *o.conditions]))
+                item.setToolTip(self._text("\n".join([o.control_name, *o.conditions])))
                 self.chosen.setItem(row, col, item)
         self._fill_options()
         self._show_conditions()
@@ -479,13 +479,13 @@ class PlanView(QWidget):
         self.options_table.setRowCount(len(opts))
         for row, o in enumerate(opts):
             in_plan = (o.opening_id, o.control_id) in chosen
-            cells = [o.control_name, o.hierarchy, fmt_money(o.cost, cur),
+            cells = [self._text(o.control_name), o.hierarchy, fmt_money(o.cost, cur),
                      f"{fmt_risk(o.risk_after)} ({fmt_percent(o.share_removed)} less)",
                      "yes" if in_plan else ""]
             for col, text in enumerate(cells):
                 item = QTableWidgetItem(text)
                 item.setData(Qt.ItemDataRole.UserRole, o.control_id)
-                item.setToolTip("\n".join(o.conditions) or o.control_name)
+                item.setToolTip(self._text("\n".join(o.conditions) or o.control_name))
                 if col in (2, 3):
                     item.setTextAlignment(Qt.AlignmentFlag.AlignRight
                                           | Qt.AlignmentFlag.AlignVCenter)
@@ -511,15 +511,19 @@ class PlanView(QWidget):
             self.fit_button.setToolTip("This control changes nothing recorded on the opening")
         self._show_conditions()
 
+    def _text(self, text: str) -> str:
+        """Catalogue text (written in metric) in the display units."""
+        return units_in_text(text, self._ctx.units.system)
+
     def _show_conditions(self) -> None:
         parts: list[str] = []
         option = self._selected_option()
         if option is not None:
             control = self.catalogue.control(option.control_id)
-            parts.append(f"<p><b>{html.escape(option.control_name)}</b> on "
-                         f"{html.escape(option.opening_id)}: {html.escape(control.description)}"
-                         "</p>")
-            parts.append("<ul>" + "".join(f"<li>{html.escape(c)}</li>"
+            parts.append(f"<p><b>{html.escape(self._text(option.control_name))}</b> on "
+                         f"{html.escape(option.opening_id)}: "
+                         f"{html.escape(self._text(control.description))}</p>")
+            parts.append("<ul>" + "".join(f"<li>{html.escape(self._text(c))}</li>"
                                           for c in option.conditions) + "</ul>")
         if self.plan is not None and self.plan.actions:
             by: dict[str, list[str]] = {}
@@ -527,8 +531,8 @@ class PlanView(QWidget):
                 for c in o.conditions:
                     by.setdefault(c, []).append(o.opening_id)
             items = "".join(
-                f"<li>{html.escape(c)} <i>({len(ids)} fix{'es' if len(ids) != 1 else ''})</i></li>"
-                for c, ids in sorted(by.items(), key=lambda kv: -len(kv[1])))
+                f"<li>{html.escape(self._text(c))} <i>({fmt_count(len(ids), 'fix', 'fixes')})"
+                "</i></li>" for c, ids in sorted(by.items(), key=lambda kv: -len(kv[1])))
             parts.append(f"<p><b>Conditions of the chosen fixes</b></p><ul>{items}</ul>")
         parts.append("<p><i>Never fit a fixed limiter or a permanent net on an emergency escape "
                      "window: the plan never offers one. Local building and fire codes and "
