@@ -390,7 +390,7 @@ class MainWindow(QMainWindow):
         self.results_state.setStyleSheet("")  # a failure shown before is over
         n = len(getattr(assessment, "openings", ()))
         self.results_state.setText(
-            f"{n} openings ranked, worst first (by expected injury band, then likelihood). "
+            f"{n} openings ranked, worst first (by risk score, as in the PDF and the exports). "
             f"Double-click a row to edit the opening.")
         self.results_updated.emit(assessment)
 

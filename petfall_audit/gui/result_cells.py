@@ -36,7 +36,8 @@ def two_line_title(title: str, longest: int = 10) -> str:
 
 
 def result_text(r: Any, column: str, units: Units, palette: str,
-                floor_labels: Mapping[int, str] | None = None) -> str:
+                floor_labels: Mapping[int, str] | None = None,
+                facade_labels: Mapping[str, str] | None = None) -> str:
     """The text of result ``r`` (an ``OpeningResult``) in the column ``column``: one of
     ``rank risk_rank id floor facade kind band likelihood drop speed risk factor``."""
     if column == "rank":
@@ -48,7 +49,7 @@ def result_text(r: Any, column: str, units: Units, palette: str,
     if column == "floor":
         return (floor_labels or {}).get(r.floor, str(r.floor))
     if column == "facade":
-        return str(r.facade)
+        return (facade_labels or {}).get(r.facade, str(r.facade))
     if column == "kind":
         return enum_label(r.kind)
     if column == "band":

@@ -364,7 +364,7 @@ def _details(assessment: Assessment, plan: Plan | None, top_n: int, bands: tuple
              f"{_bare_speed(o.impact_speed_mps.p95)} m/s"),
             ("Landing", _landing_text(dict(o.landing), names)),
             ("Likelihood of a fall (12 months)",
-             f"{fmt_one_in(float(o.one_in_n))} ({fmt_percent(float(o.annual_probability))})"),
+             fmt_one_in(float(o.one_in_n))),
             ("Risk score (rank)", f"{fmt_risk(float(o.risk))} (#{o.risk_rank})"),
             ("Expected band", bands[o.expected_band] if 0 <= o.expected_band < len(bands) else "–"),
         )

@@ -89,11 +89,12 @@ def _protection_text(opening: Opening, system: str = "metric") -> str:
 
 
 def opening_tooltip(result: Any, opening: Opening | None, units: Any,
-                    names: dict[str, str] | None = None) -> str:
+                    names: dict[str, str] | None = None, where: str | None = None) -> str:
     """Plain-text numbers of one opening for a tooltip or the hover line; ``names``: what to
-    call the places a cat lands (:func:`petfall_audit.present.labels.landing_names`)."""
+    call the places a cat lands (:func:`petfall_audit.present.labels.landing_names`);
+    ``where``: its floor and facade in words (default: level number and facade id)."""
     lines = [
-        f"{result.id} — floor {result.floor}, {result.facade}",
+        f"{result.id} — {where or f'floor {result.floor}, {result.facade}'}",
         f"Expected injury: {BANDS[result.expected_band]} (rank {result.risk_rank} by risk "
         f"score, {result.rank} by band)",
         "Chance of each band: " + ", ".join(f"{k} {fmt_percent(v)}"
@@ -395,6 +396,7 @@ class FacadeView(QWidget):
         openings = {o.id: o for o in building.openings}
         results = {o.id: o for o in a.openings}
         names = landing_names(building)
+        floor_names = {f.level: f.label or f"Level {f.level}" for f in building.floors}
         palette = self._ctx.palette
         units = self._ctx.units
         width = e.length_m
@@ -466,7 +468,8 @@ class FacadeView(QWidget):
             style = band_qstyle(band, palette)
             opening = openings.get(oid)
             res = results.get(oid)
-            tip = opening_tooltip(res, opening, units, names) if res is not None else oid
+            where = f"{floor_names.get(res.floor, res.floor)}, {e.label}" if res else ""
+            tip = opening_tooltip(res, opening, units, names, where) if res is not None else oid
             g = float(e.guard_m[i])
             mark_y = y(0.5 * (g + z1)) if math.isfinite(g) else None  # above the rail
             item = OpeningItem(self, oid, QRectF(x0, y(z1), w, z1 - z0), band, style.mark,

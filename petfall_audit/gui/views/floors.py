@@ -25,6 +25,7 @@ from PySide6.QtWidgets import (
 from petfall_audit.figures import LevelSummary, align_levels, level_summary
 from petfall_audit.gui.views.common import Task, ViewContext, band_qstyle, run_task
 from petfall_audit.injury import BANDS
+from petfall_audit.present import fmt_one_in
 
 __all__ = ["FloorsView", "EarlierAudit"]
 
@@ -113,7 +114,8 @@ class FloorsView(QWidget):
         self.lik_plot = _plot("Likelihood of a fall over 12 months (sum of the level's openings)")
         self.lik_plot.setYLink(self.band_plot)
         self.lik_plot.getAxis("left").setStyle(showValues=False)
-        self.lik_plot.setLabel("bottom", "expected falls per year", color="#1A1A1A")
+        self.lik_plot.setLabel("bottom", "expected falls per year (each bar says it as 1 in N)",
+                               color="#1A1A1A")
         for p in (self.band_plot, self.lik_plot):  # the scale stays in sight when scrolled
             p.showAxis("top")
             p.getAxis("top").setTextPen("#1A1A1A")
@@ -293,11 +295,17 @@ class FloorsView(QWidget):
                                    width=s.falls_per_year, brush=lik_brush,
                                    pen=pg.mkPen("#303030"))
             self.lik_plot.addItem(bars)
+            for yy, rate in zip(y, s.falls_per_year, strict=True):
+                if rate > 0:  # the one likelihood scale of the app: "1 in N"
+                    t = pg.TextItem(fmt_one_in(1.0 / float(rate)), color="#1A1A1A",
+                                    anchor=(0, 0.5))
+                    t.setPos(float(rate), float(yy) + offset)
+                    self.lik_plot.addItem(t)
         _levels_axis(self.band_plot.getPlotItem(), sa)
         self.band_plot.setXRange(0, 4.9, padding=0)
         self.band_plot.setYRange(-0.6, n - 0.4, padding=0)
         top = float(max(sa.falls_per_year.max(initial=0.0), sb.falls_per_year.max(initial=0.0)))
-        self.lik_plot.setXRange(0, max(top * 1.1, 1e-3), padding=0)
+        self.lik_plot.setXRange(0, max(top * 1.5, 1e-3), padding=0)  # room for "1 in N"
         self.note.setText(f"{self.note.text()} {self._bands_text()}")
         ticks = [[(i + 1.0, band_qstyle(i, palette).mark) for i in range(len(BANDS))]]
         self.band_plot.getAxis("bottom").setTicks(ticks)

@@ -59,6 +59,7 @@ class RankedModel(QAbstractTableModel):
         self._ctx = context
         self._rows: list[Any] = []
         self._floor_labels: dict[int, str] = {}
+        self._facade_labels: dict[str, str] = {}
         self.stale = True
 
     def set_assessment(self, assessment: Any) -> None:
@@ -66,6 +67,8 @@ class RankedModel(QAbstractTableModel):
         self._rows = list(assessment.openings) if assessment is not None else []
         self._floor_labels = ({f.level: f.label for f in assessment.building.floors}
                               if assessment is not None else {})
+        self._facade_labels = ({f.id: f.label or f.id for f in assessment.building.facades}
+                               if assessment is not None else {})
         self.stale = False
         self.endResetModel()
 
@@ -125,7 +128,8 @@ class RankedModel(QAbstractTableModel):
                     -r.expected_band * 1e6 + r.rank, -r.annual_probability, -r.drop_m.p50,
                     -r.impact_speed_mps.p50, -r.risk, r.factors[0] if r.factors else "")[col]
         if role == Qt.ItemDataRole.DisplayRole:
-            return result_text(r, self.KEYS[col], units, self._ctx.palette, self._floor_labels)
+            return result_text(r, self.KEYS[col], units, self._ctx.palette, self._floor_labels,
+                               self._facade_labels)
         return result_style(r, self.KEYS[col], role, stale=self.stale, palette=self._ctx.palette)
 
 
