@@ -11,6 +11,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from petfall_audit.model import CatProfile, Distribution, Fixed, LogNormal, Normal, Uniform
+from petfall_audit.present import fmt_length, fmt_number, fmt_percent
 
 if TYPE_CHECKING:
     from petfall_audit.risk import Assessment
@@ -147,15 +148,17 @@ def fall_profile_figure(assessment: Assessment, opening_id: str) -> FallProfileF
     rho = float(assessment.rho_kg_m3)
     trace = _trace(drop, cat, cat.cda_spread_m2 if cat.relaxes else cat.cda_tense_m2, rho)
     posture = (
-        f"spreads out at {cat.relax_fraction:.0%} of its tense terminal speed"
+        f"spreads out at {fmt_percent(cat.relax_fraction)} of its tense terminal speed"
         if cat.relaxes
         else "stays tense (fewer than half the cats in the profile relax)"
     )
     caption = (
         f"Fall profile for opening {opening_id}: a representative cat (the profile's median "
-        f"values: {cat.mass_kg:.1f} kg, C_d·A {cat.cda_tense_m2:.3f} m² tense) falling the "
-        f"opening's median drop of {drop:.1f} m; it {posture}. Air density "
-        f"{rho:.3f} kg/m³. One typical fall, not the range: see the table for p5-p95."
+        f"values: {fmt_number(cat.mass_kg, 1, 'kg')}, air drag when tense "
+        f"{fmt_number(cat.cda_tense_m2, 3, 'm²')} C_d·A) falling the opening's median drop of "
+        f"{fmt_length(drop)}; it {posture}. Air density {fmt_number(rho, 3, 'kg/m³')}. One "
+        "typical fall, so its landing speed differs a little from the median impact speed of "
+        "all simulated cats given above with their range (p5–p95)."
     )
     return FallProfileFigure(opening_id=opening_id, drop_m=drop, cat=cat, rho_kg_m3=rho,
                              caption=caption, **trace)

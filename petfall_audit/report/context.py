@@ -359,7 +359,7 @@ def _details(assessment: Assessment, plan: Plan | None, top_n: int, bands: tuple
             ("Drop: p5 / median / p95",
              f"{_bare_length(o.drop_m.p5)} / {_bare_length(o.drop_m.p50)} / "
              f"{_bare_length(o.drop_m.p95)} m"),
-            ("Impact speed: p5 / median / p95 of the simulated cats",
+            ("Impact speed: p5 / median / p95",
              f"{_bare_speed(o.impact_speed_mps.p5)} / {_bare_speed(o.impact_speed_mps.p50)} / "
              f"{_bare_speed(o.impact_speed_mps.p95)} m/s"),
             ("Landing", _landing_text(dict(o.landing), names)),

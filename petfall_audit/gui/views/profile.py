@@ -148,6 +148,7 @@ class ProfileView(QWidget):
         self.switch_lines = []
         self.height_plot.setLabel("left", f"height ({units.length})")
         self.speed_plot.setLabel("left", f"speed ({units.speed})")
+        self.accel_plot.setLabel("left", f"acceleration ({units.length}/s²)")
         if not self.paths or self.opening_id is None:
             self.caption.setText("Select an opening (in the list, on a facade or on the curve) to "
                                  "see how a cat falls from it.")
@@ -160,7 +161,7 @@ class ProfileView(QWidget):
             pen = _pen(colour, 2.0, dash)
             self.height_plot.plot(path.t_s, path.height_m / units.length_m, pen=pen)
             self.speed_plot.plot(path.t_s, path.speed_mps / units.speed_mps, pen=pen, name=name)
-            self.accel_plot.plot(path.t_s, path.accel_mps2, pen=pen)
+            self.accel_plot.plot(path.t_s, path.accel_mps2 / units.length_m, pen=pen)
             if path.switch_time_s is not None:
                 for plot in (self.height_plot, self.speed_plot, self.accel_plot):
                     line = pg.InfiniteLine(

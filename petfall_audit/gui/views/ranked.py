@@ -47,10 +47,10 @@ Index = QModelIndex | QPersistentModelIndex
 class RankedModel(QAbstractTableModel):
     """Every opening of an assessment, one row each, in building order (the view sorts)."""
 
-    COLUMNS = ("Band order", "Risk order", "Opening", "Floor", "Facade", "Kind",
+    COLUMNS = ("Risk order", "Band order", "Opening", "Floor", "Facade", "Kind",
                "Expected injury", "Likelihood (12 months)", "Median drop", "Impact speed (median)",
                "Risk score", "Main factor")
-    KEYS = ("rank", "risk_rank", "id", "floor", "facade", "kind", "band", "likelihood", "drop",
+    KEYS = ("risk_rank", "rank", "id", "floor", "facade", "kind", "band", "likelihood", "drop",
             "speed", "risk", "factor")
     BAND_COL = 6
 
@@ -104,8 +104,9 @@ class RankedModel(QAbstractTableModel):
             return two_line_title(self.COLUMNS[section])
         if role == Qt.ItemDataRole.ToolTipRole:
             return {
-                0: "Rank by expected injury band, then by likelihood (1 = worst)",
-                1: "Rank by risk score: likelihood × severity (1 = worst)",
+                0: "Rank by risk score: likelihood × severity (1 = worst); the default order, "
+                   "as in the PDF and the exports",
+                1: "Rank by expected injury band, then by likelihood (1 = worst)",
                 6: "The worst band that at least half of the simulated falls reach",
                 7: "Chance that a cat falls from here over 12 months",
                 8: "Median drop: half of the simulated falls are longer, half shorter",
@@ -124,7 +125,7 @@ class RankedModel(QAbstractTableModel):
         if role == ID_ROLE:
             return r.id
         if role == SORT_ROLE:
-            return (r.rank, r.risk_rank, r.id, r.floor, r.facade, str(r.kind),
+            return (r.risk_rank, r.rank, r.id, r.floor, r.facade, str(r.kind),
                     -r.expected_band * 1e6 + r.rank, -r.annual_probability, -r.drop_m.p50,
                     -r.impact_speed_mps.p50, -r.risk, r.factors[0] if r.factors else "")[col]
         if role == Qt.ItemDataRole.DisplayRole:
@@ -222,8 +223,8 @@ class RankedView(QWidget):
         self.order_box = QComboBox()
         self.order_box.setObjectName("order_box")
         # The default order (the PDF's, the command line's and the exports'): risk score.
-        self.order_box.addItem("Risk score (likelihood × severity)", 1)
-        self.order_box.addItem("Expected injury, then likelihood", 0)
+        self.order_box.addItem("Risk score (likelihood × severity)", 0)
+        self.order_box.addItem("Expected injury, then likelihood", 1)
         self.floor_box = QComboBox()
         self.facade_box = QComboBox()
         self.kind_box = QComboBox()
@@ -291,7 +292,7 @@ class RankedView(QWidget):
         context.stale_changed.connect(self.model.set_stale)
         context.selection.changed.connect(self._on_selection)
         context.options.changed.connect(self._on_options)
-        self.table.sortByColumn(1, Qt.SortOrder.AscendingOrder)  # risk_rank: the default order
+        self.table.sortByColumn(0, Qt.SortOrder.AscendingOrder)  # risk_rank: the default order
         self._fill_filters(None)
         if context.assessment is not None:
             self._on_assessment(context.assessment)
@@ -304,7 +305,7 @@ class RankedView(QWidget):
 
     def set_order(self, by: str) -> None:
         """``"band"`` or ``"risk"`` (the default)."""
-        self.order_box.setCurrentIndex(self.order_box.findData(0 if by == "band" else 1))
+        self.order_box.setCurrentIndex(self.order_box.findData(1 if by == "band" else 0))
 
     # --- handlers --------------------------------------------------------------------------------
 
