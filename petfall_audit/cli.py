@@ -338,9 +338,10 @@ def _cmd_assess(args: argparse.Namespace) -> int:
 
 def _cmd_plan(args: argparse.Namespace) -> int:
     from petfall_audit.fixes import load_catalogue
-    from petfall_audit.io.plan_export import plan_to_csv, plan_to_table
+    from petfall_audit.io.plan_export import plan_to_csv
     from petfall_audit.io.results_envelope import results_json_text
     from petfall_audit.plan import make_plan
+    from petfall_audit.present.tables import plan_to_table
 
     if args.budget is not None and (not math.isfinite(args.budget) or args.budget < 0):
         raise _refuse("--budget must be an amount of 0 or more")

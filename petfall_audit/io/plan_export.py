@@ -1,4 +1,5 @@
-"""Export a fix plan as a JSON-ready dict, CSV text or a plain-text table.
+"""Export a fix plan as a JSON-ready dict or CSV text (the terminal table for people is
+:func:`petfall_audit.present.tables.plan_to_table`).
 
 Costs in the plan's currency (to the cent in JSON and CSV); risk in summed risk-score units of
 :mod:`petfall_audit.risk`. Every format carries the cautions: JSON under ``"cautions"``, the table
@@ -9,7 +10,6 @@ comment lines, e.g. ``pandas.read_csv(..., comment="#")``).
 from __future__ import annotations
 
 import io
-import textwrap
 from typing import Any
 
 from petfall_audit.cautions import CAUTIONS
@@ -25,7 +25,6 @@ __all__ = [
     "plan_to_dict",
     "action_to_dict",
     "plan_to_csv",
-    "plan_to_table",
 ]
 
 PLAN_FORMAT = "petfall-audit-plan"
@@ -39,8 +38,6 @@ CSV_COLUMNS = (
     "risk_after",
     "conditions",
 )
-#: Conditions and cautions in the terminal table are wrapped to this many columns.
-TEXT_WIDTH = 80
 #: Separator of several conditions in one CSV cell.
 CONDITION_SEPARATOR = " | "
 
@@ -99,46 +96,3 @@ def plan_to_csv(plan: Plan) -> str:
             ]
         )
     return buf.getvalue()
-
-
-def plan_to_table(plan: Plan) -> str:
-    """A plain-text table for a terminal: summary, one line per action with its conditions
-    below it, then the cautions; prose wrapped to :data:`TEXT_WIDTH` columns."""
-    cur = plan.currency
-    share = plan.risk_removed / plan.risk_before if plan.risk_before > 0 else 0.0
-    lines = [
-        f"Fix plan: budget {plan.budget:,.0f} {cur}, cost {plan.total_cost:,.0f} {cur}, "
-        f"{len(plan.actions)} action(s)",
-        f"Risk score {plan.risk_before:,.1f} -> {plan.risk_after:,.1f} ({share:.0%} removed)",
-    ]
-    if plan.gap > 0:
-        lines.append(
-            f"The solver stopped at its time limit: this plan is within {plan.gap:.2%} "
-            "of the best possible."
-        )
-    lines.append("")
-    if plan.actions:
-        w_open = max(len("Opening"), *(len(a.opening_id) for a in plan.actions))
-        w_ctrl = max(len("Control"), *(len(a.control_name) for a in plan.actions))
-        w_cost = max(len("Cost"), *(len(f"{a.cost:,.0f}") for a in plan.actions))
-        w_risk = max(len("Risk before"), *(len(f"{a.risk_before:,.1f}") for a in plan.actions))
-        lines.append(
-            f"{'Opening':<{w_open}}  {'Control':<{w_ctrl}}  {'Cost':>{w_cost}}  "
-            f"{'Risk before':>{w_risk}}  {'Risk after':>{w_risk}}"
-        )
-        for a in plan.actions:
-            lines.append(
-                f"{a.opening_id:<{w_open}}  {a.control_name:<{w_ctrl}}  {a.cost:>{w_cost},.0f}  "
-                f"{a.risk_before:>{w_risk},.1f}  {a.risk_after:>{w_risk},.1f}"
-            )
-            for c in a.conditions:
-                lines += textwrap.wrap(f"condition: {c}", TEXT_WIDTH,
-                                       initial_indent=" " * (w_open + 4),
-                                       subsequent_indent=" " * (w_open + 6))
-    else:
-        lines.append("No action fits the budget or lowers the risk.")
-    lines.append("")
-    lines.append("Cautions:")
-    for c in CAUTIONS:
-        lines += textwrap.wrap(c, TEXT_WIDTH, initial_indent="- ", subsequent_indent="  ")
-    return "\n".join(lines) + "\n"

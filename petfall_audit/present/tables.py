@@ -1,4 +1,4 @@
-"""The assessment as a fixed-width table for a terminal: the command line's ``assess`` table.
+"""Fixed-width tables for a terminal: the command line's ``assess`` and ``plan`` tables.
 
 Openings worst first in the default order (:data:`petfall_audit.risk.DEFAULT_ORDER`, by risk
 score) unless ``by="band"``; every number through :mod:`petfall_audit.present.numbers`.
@@ -10,12 +10,15 @@ import math
 import textwrap
 from typing import TYPE_CHECKING, Literal
 
-from petfall_audit.cautions import CAUTIONS_SHORT
+from petfall_audit.cautions import CAUTIONS, CAUTIONS_SHORT
 from petfall_audit.injury import BANDS
 from petfall_audit.present.numbers import (
+    fmt_count,
     fmt_int,
     fmt_length,
+    fmt_money,
     fmt_one_in,
+    fmt_percent,
     fmt_risk,
     fmt_speed,
     length_unit,
@@ -23,9 +26,10 @@ from petfall_audit.present.numbers import (
 )
 
 if TYPE_CHECKING:
+    from petfall_audit.plan import Plan
     from petfall_audit.risk import Assessment
 
-__all__ = ["TEXT_WIDTH", "assessment_to_table", "whole_percents"]
+__all__ = ["TEXT_WIDTH", "assessment_to_table", "plan_to_table", "whole_percents"]
 
 #: Prose under the terminal table (hazards, cautions) is wrapped to this many columns.
 TEXT_WIDTH = 80
@@ -93,3 +97,44 @@ def assessment_to_table(a: Assessment, *, by: Literal["band", "risk"] = "risk",
     lines += ["", *textwrap.wrap(note, TEXT_WIDTH), "",
               *textwrap.wrap(CAUTIONS_SHORT, TEXT_WIDTH), ""]
     return "\n".join(lines)
+
+
+def plan_to_table(plan: Plan) -> str:
+    """A plain-text table for a terminal: summary, one line per action with its conditions
+    below it, then the cautions; prose wrapped to :data:`TEXT_WIDTH` columns."""
+    cur = plan.currency
+    share = plan.risk_removed / plan.risk_before if plan.risk_before > 0 else 0.0
+    lines = [
+        f"Fix plan: budget {fmt_money(plan.budget, cur)}, cost {fmt_money(plan.total_cost, cur)}"
+        f", {fmt_count(len(plan.actions), 'action')}",
+        f"Risk score {fmt_risk(plan.risk_before)} -> {fmt_risk(plan.risk_after)} "
+        f"({fmt_percent(share)} removed)",
+    ]
+    if plan.gap > 0:
+        lines.append(f"The solver stopped at its time limit: this plan is within "
+                     f"{fmt_percent(plan.gap, 2)} of the best possible.")
+    lines.append("")
+    if plan.actions:
+        rows = [(a.opening_id, a.control_name, fmt_money(a.cost), fmt_risk(a.risk_before),
+                 fmt_risk(a.risk_after)) for a in plan.actions]
+        head = ("Opening", "Control", "Cost", "Risk before", "Risk after")
+        widths = [max(len(h), *(len(r[i]) for r in rows)) for i, h in enumerate(head)]
+
+        def line(cells: tuple[str, ...]) -> str:
+            return "  ".join(c.ljust(w) if i < 2 else c.rjust(w)
+                             for i, (c, w) in enumerate(zip(cells, widths, strict=True)))
+
+        lines.append(line(head))
+        for a, row in zip(plan.actions, rows, strict=True):
+            lines.append(line(row))
+            for c in a.conditions:
+                lines += textwrap.wrap(f"condition: {c}", TEXT_WIDTH,
+                                       initial_indent=" " * (widths[0] + 4),
+                                       subsequent_indent=" " * (widths[0] + 6))
+    else:
+        lines.append("No action fits the budget or lowers the risk.")
+    lines.append("")
+    lines.append("Cautions:")
+    for c in CAUTIONS:
+        lines += textwrap.wrap(c, TEXT_WIDTH, initial_indent="- ", subsequent_indent="  ")
+    return "\n".join(lines) + "\n"
