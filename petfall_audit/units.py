@@ -41,7 +41,6 @@ __all__ = [
     "SYSTEMS",
     "parse_length_m",
     "parse_gap_mm",
-    "format_length",
     "to_display",
     "from_display",
 ]
@@ -298,35 +297,6 @@ def parse_gap_mm(text: str | float, *, default_unit: str = "mm") -> float:
 def _check_system(system: str) -> None:
     if system not in SYSTEMS:
         raise ValueError(f"system must be one of {SYSTEMS}, not {system!r}")
-
-
-def format_length(value_m: float, system: str = "metric", *, small: bool = False) -> str:
-    """Show a length in metres for people.
-
-    ``metric``: ``"3.1 m"`` (to 0.1 m), ``small=True``: ``"95 mm"`` (to 1 mm).
-    ``imperial``: ``"10 ft 2 in"`` (to the inch), ``small=True``: ``"3.7 in"`` (to 0.1 in).
-    """
-    _check_system(system)
-    if not math.isfinite(value_m):
-        return "—"
-    if system == "metric":
-        text = f"{value_m * 1000.0:.0f} mm" if small else f"{value_m:.1f} m"
-    elif small:
-        text = f"{value_m / INCH_M:.1f} in"
-    else:
-        inches = round(abs(value_m) / INCH_M)
-        feet, inch = divmod(inches, 12)
-        sign = "-" if value_m < 0 and inches else ""
-        text = f"{sign}{feet} ft {inch} in" if feet else f"{sign}{inch} in"
-    return _unsigned_zero(text)
-
-
-def _unsigned_zero(text: str) -> str:
-    """``"-0.0 m"`` -> ``"0.0 m"``: a value that rounds to zero shows no sign."""
-    number = text.split(" ", 1)[0]
-    if number.startswith("-") and float(number) == 0.0:
-        return text[1:]
-    return text
 
 
 def to_display(value_m: float, system: str) -> float:

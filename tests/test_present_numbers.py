@@ -64,3 +64,46 @@ def test_labels() -> None:
     assert preset_label(None) == "Custom cat profile"
     assert band_label(3) == "Life-threatening"
     assert band_label(-1) == "No result"
+
+
+def test_metric_quantities_in_catalogue_text_read_in_imperial() -> None:
+    from petfall_audit.present import units_in_text
+
+    # 30 mm = 1.18 in; 40 mm = 1.57 in; 3.1 m = 10 ft 2 in (1 in = 25.4 mm exactly).
+    assert units_in_text("Clamp-pole balcony net, 30 mm mesh", "imperial") == (
+        "Clamp-pole balcony net, 1.2 in mesh")
+    assert units_in_text("limiter, 40 mm gap; drop 3.1 m", "imperial") == (
+        "limiter, 1.6 in gap; drop 10 ft 2 in")
+    assert units_in_text("0.05 m² of net, 5 mins", "imperial") == "0.05 m² of net, 5 mins"
+    assert units_in_text("net, 30 mm mesh", "metric") == "net, 30 mm mesh"
+
+
+def test_survey_lengths_ticks_and_changes() -> None:
+    from petfall_audit.present import fmt_change_pct, fmt_survey_length, fmt_tick
+
+    assert fmt_survey_length(3.0) == "3 m" and fmt_survey_length(4.5) == "4.5 m"
+    assert fmt_survey_length(3.048, "imperial") == "10 ft"  # 10 ft = 3.048 m exactly
+    assert [fmt_tick(v) for v in (0.5, 20.0, 5000.0)] == ["0.5", "20", "5,000"]
+    assert [fmt_change_pct(v) for v in (43.2, -4.94, 0.01)] == ["+43%", "-4.9%", "0%"]
+
+
+def test_a_reader_never_meets_a_surface_id() -> None:
+    from petfall_audit.model import Building, BuildingInfo, Facade, Floor, Surface, SurfaceKind
+    from petfall_audit.present.labels import landing_names, surface_label
+
+    b = Building(info=BuildingInfo(name="Invented House"), floors=(Floor(0, "G", 0.0),), facades=(Facade("south", 10.0),),
+                 surfaces=(Surface("podium_roof", SurfaceKind.ROOF, 4.5),
+                           Surface("yard", SurfaceKind.LAWN, 0.0, label="Shared lawn")))
+    names = landing_names(b)
+    assert names["podium_roof"] == "Roof membrane" and names["yard"] == "Shared lawn"
+    assert names["ground"] == "the ground"
+    assert surface_label("", "concrete") == "Concrete / paving"
+
+
+def test_presets_and_drag_terms_are_explained() -> None:
+    from petfall_audit.present import DRAG_AREA_NOTE, PARAMETER_LABELS
+
+    assert preset_label("heavy_adult") == "Heavy adult cats (about 6 kg)"
+    assert preset_label(None) == "Custom cat profile"
+    assert all("C_d·A" in PARAMETER_LABELS[k] for k in ("cda_tense_m2", "cda_spread_m2"))
+    assert "drag coefficient" in DRAG_AREA_NOTE and "area" in DRAG_AREA_NOTE

@@ -342,3 +342,19 @@ def test_the_plan_says_where_its_budget_came_from() -> None:
     saved = replace(a, building=replace(a.building, plan=PlanSettings(budget=1200.0)))
     kept = rc.build_audit_context(saved, plan)
     assert "the budget saved with the audit" in kept.plan_summary[0]
+
+
+def test_the_cat_profile_is_named_in_words_not_by_its_preset_key() -> None:
+    # The PDF once printed the preset key `heavy_adult`.
+    import dataclasses
+
+    from petfall_audit.demo import sample_building
+    from petfall_audit.model import CAT_PRESETS
+    from petfall_audit.risk import assess
+
+    b = dataclasses.replace(sample_building("walkup"), cat_profile=CAT_PRESETS["heavy_adult"])
+    ctx = rc.build_audit_context(assess(b, samples=50, seed=1), None,
+                                 options=rc.ReportOptions(sensitivity_samples=0))
+    rows = dict(ctx.assumptions)
+    assert rows["Cat profile"] == "Heavy adult cats (about 6 kg)"
+    assert not any("heavy_adult" in v for _, v in ctx.assumptions)

@@ -1,4 +1,5 @@
-"""Tests for petfall_audit.units: reading and showing lengths."""
+"""Tests for petfall_audit.units (reading lengths) and petfall_audit.present.fmt_length
+(showing them)."""
 
 from __future__ import annotations
 
@@ -9,10 +10,10 @@ import pytest
 from hypothesis import given
 from hypothesis import strategies as st
 
+from petfall_audit.present import fmt_length
 from petfall_audit.units import (
     FOOT_M,
     INCH_M,
-    format_length,
     from_display,
     parse_gap_mm,
     parse_length_m,
@@ -143,22 +144,22 @@ def test_parse_gap_mm() -> None:
         (-3 * FT_M, "imperial", False, "-3 ft 0 in"),
     ],
 )
-def test_format_length(value_m: float, system: str, small: bool, expected: str) -> None:
-    assert format_length(value_m, system, small=small) == expected
+def test_fmt_length(value_m: float, system: str, small: bool, expected: str) -> None:
+    assert fmt_length(value_m, system, small=small) == expected
 
 
 def test_format_length_rejects_unknown_system() -> None:
     with pytest.raises(ValueError, match="system"):
-        format_length(1.0, "cubits")
+        fmt_length(1.0, "cubits")
 
 
 @given(st.floats(min_value=0.0, max_value=300.0))
 def test_format_then_parse_round_trips(value_m: float) -> None:
     # imperial to the nearest inch, metric to 1 mm
-    assert parse_length_m(format_length(value_m, "imperial")) == pytest.approx(
+    assert parse_length_m(fmt_length(value_m, "imperial")) == pytest.approx(
         value_m, abs=IN_M / 2 + 1e-9
     )
-    assert parse_length_m(format_length(value_m, "metric", small=True)) == pytest.approx(
+    assert parse_length_m(fmt_length(value_m, "metric", small=True)) == pytest.approx(
         value_m, abs=0.0005 + 1e-9
     )
 

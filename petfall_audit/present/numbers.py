@@ -12,7 +12,7 @@ import re
 from dataclasses import dataclass
 
 from petfall_audit.io.results_export import round_significant
-from petfall_audit.units import FOOT_M, format_length
+from petfall_audit.units import FOOT_M, INCH_M, SYSTEMS
 
 __all__ = [
     "NO_VALUE",
@@ -96,15 +96,33 @@ def fmt_length(x_m: float | None, system: str = "metric", *, small: bool = False
     ``digits`` decimals (for a table whose column header names the unit); ``digits`` above 1
     with a unit writes metres (``"4.500 m"``) or decimal feet (``"14.76 ft"``) for survey
     values. Rounded from the exported value (4 significant digits) so print and export agree."""
+    if system not in SYSTEMS:
+        raise ValueError(f"system must be one of {SYSTEMS}, not {system!r}")
     if not _finite(x_m):
         return NO_VALUE
     assert x_m is not None
-    x_m = _as_exported(x_m)
+    if system == "metric" and not small:  # the exports hold metres: print what they hold
+        x_m = _as_exported(x_m)
     if unit and (small or digits == 1):
-        return format_length(x_m, system, small=small)
+        return _length_text(x_m, system, small)
     value = x_m / FOOT_M if system == "imperial" else x_m
     text = _unsigned(f"{value:.{digits}f}")
     return f"{text} {length_unit(system)}" if unit else text
+
+
+def _length_text(x_m: float, system: str, small: bool) -> str:
+    """``metric``: ``"3.1 m"`` (to 0.1 m), ``small``: ``"95 mm"`` (to 1 mm); ``imperial``:
+    ``"10 ft 2 in"`` (to the inch), ``small``: ``"3.7 in"`` (to 0.1 in)."""
+    if system == "metric":
+        text = f"{x_m * 1000.0:.0f} mm" if small else f"{x_m:.1f} m"
+    elif small:
+        text = f"{x_m / INCH_M:.1f} in"
+    else:
+        inches = int(math.floor(abs(x_m) / INCH_M + 0.5))
+        feet, inch = divmod(inches, 12)
+        sign = "-" if x_m < 0 and inches else ""
+        text = f"{sign}{feet} ft {inch} in" if feet else f"{sign}{inch} in"
+    return _unsigned(text)
 
 
 def fmt_survey_length(x_m: float | None, system: str = "metric") -> str:
