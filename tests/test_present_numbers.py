@@ -91,7 +91,8 @@ def test_a_reader_never_meets_a_surface_id() -> None:
     from petfall_audit.model import Building, BuildingInfo, Facade, Floor, Surface, SurfaceKind
     from petfall_audit.present.labels import landing_names, surface_label
 
-    b = Building(info=BuildingInfo(name="Invented House"), floors=(Floor(0, "G", 0.0),), facades=(Facade("south", 10.0),),
+    b = Building(info=BuildingInfo(name="Invented House"), floors=(Floor(0, "G", 0.0),),
+                 facades=(Facade("south", 10.0),),
                  surfaces=(Surface("podium_roof", SurfaceKind.ROOF, 4.5),
                            Surface("yard", SurfaceKind.LAWN, 0.0, label="Shared lawn")))
     names = landing_names(b)
