@@ -388,6 +388,8 @@ class ResultsTableModel(QAbstractTableModel):
         self._options = options
         self._rows: list[Any] = []
         self._assessment: Any = None
+        self._floor_labels: dict[int, str] = {}
+        self._facade_labels: dict[str, str] = {}
         self.stale = True
         options.changed.connect(self._on_options_changed)
 
@@ -400,6 +402,10 @@ class ResultsTableModel(QAbstractTableModel):
         self.beginResetModel()
         self._assessment = assessment
         self._rows = list(assessment.ranked()) if assessment is not None else []
+        b = getattr(assessment, "building", None)
+        self._floor_labels = {f.level: f.label for f in b.floors} if b is not None else {}
+        self._facade_labels = ({f.id: f.label or f.id for f in b.facades} if b is not None
+                               else {})
         self.stale = False
         self.endResetModel()
 
@@ -436,5 +442,6 @@ class ResultsTableModel(QAbstractTableModel):
         if role == KEY_ROLE:
             return r.id
         if role == Qt.ItemDataRole.DisplayRole:
-            return result_text(r, column, units_of(self._options.units), self._options.palette)
+            return result_text(r, column, units_of(self._options.units), self._options.palette,
+                               self._floor_labels, self._facade_labels)
         return result_style(r, column, role, stale=self.stale, palette=self._options.palette)

@@ -17,7 +17,7 @@ from petfall_audit.model import (
 
 __all__ = ["DRAG_AREA_NOTE", "ENUM_LABELS", "PRESET_LABELS", "BAND_LABELS", "PARAMETER_LABELS",
            "SPEED_TERMS", "enum_label", "kind_label", "preset_label", "band_label", "surface_label",
-           "surface_kind_label", "landing_names"]
+           "surface_kind_label", "landing_names", "HIERARCHY_LABELS", "hierarchy_label"]
 
 #: Every enum value a user picks or reads, in plain words.
 ENUM_LABELS: dict[StrEnum, str] = {
@@ -80,6 +80,13 @@ SPEED_TERMS: dict[str, str] = {
              "can differ slightly",
 }
 
+#: The hierarchy of controls (:data:`petfall_audit.fixes.HIERARCHY`) in plain words.
+HIERARCHY_LABELS: dict[str, str] = {
+    "remove": "Remove the exposure",
+    "engineer": "Fitted barrier",
+    "inform": "Guidance for residents",
+}
+
 #: The injury bands as a reader sees them (index = band number).
 BAND_LABELS: tuple[str, ...] = tuple(b.capitalize() for b in BANDS)
 
@@ -138,3 +145,9 @@ def landing_names(building: Building) -> dict[str, str]:
     names.update({s.id: surface_label(s.label, s.kind) for s in building.surfaces})
     names.setdefault("ground", "the ground")
     return names
+
+
+def hierarchy_label(level: str) -> str:
+    """Plain words of a control's place in the hierarchy of controls (``"engineer"`` ->
+    ``"Fitted barrier"``)."""
+    return HIERARCHY_LABELS.get(level, _plain(level))

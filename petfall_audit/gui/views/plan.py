@@ -34,7 +34,14 @@ from PySide6.QtWidgets import (
 
 from petfall_audit.editing.commands import SetOpeningFields
 from petfall_audit.gui.views.common import Task, ViewContext, run_task
-from petfall_audit.present import fmt_count, fmt_money, fmt_percent, fmt_risk, units_in_text
+from petfall_audit.present import (
+    fmt_count,
+    fmt_money,
+    fmt_percent,
+    fmt_risk,
+    hierarchy_label,
+    units_in_text,
+)
 
 __all__ = ["PlanView", "fit_command"]
 
@@ -479,7 +486,8 @@ class PlanView(QWidget):
         self.options_table.setRowCount(len(opts))
         for row, o in enumerate(opts):
             in_plan = (o.opening_id, o.control_id) in chosen
-            cells = [self._text(o.control_name), o.hierarchy, fmt_money(o.cost, cur),
+            cells = [self._text(o.control_name), hierarchy_label(o.hierarchy),
+                     fmt_money(o.cost, cur),
                      f"{fmt_risk(o.risk_after)} ({fmt_percent(o.share_removed)} less)",
                      "yes" if in_plan else ""]
             for col, text in enumerate(cells):
