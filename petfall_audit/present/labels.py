@@ -70,7 +70,7 @@ DRAG_AREA_NOTE = ("C_d·A, the drag area, is the cat's drag coefficient times it
 #: reader meets for one opening (range, median, one typical cat, the curve) are told apart.
 SPEED_TERMS: dict[str, str] = {
     "impact_median": "Impact speed (median): half of the simulated cats land faster, half "
-                     "slower; the figure the tables rank by",
+                     "slower; the speed the tables show",
     "impact_range": "Impact speed range (5th–95th percentile): nine in ten simulated cats land "
                     "within it",
     "typical_fall": "Typical fall: one cat with the profile's median body falling the median "

@@ -234,6 +234,9 @@ class ProfileView(QWidget):
         x = float(c.opening_drop_m[i]) / units.length_m
         y = float(c.opening_speed_mps[i]) / units.speed_mps
         self.marker.setData([x], [y])
-        self.marker_label.setText(f"{self.opening_id}: {units.fmt_length(c.opening_drop_m[i])}, "
+        self.marker_label.setText(f"{self.opening_id} (typical cat): "
                                   f"{units.fmt_speed(c.opening_speed_mps[i])}")
+        x_max = float(np.nanmax(c.drop_m)) / units.length_m if len(c.drop_m) else x
+        # right of the mark in the left half of the plot, left of it in the right half
+        self.marker_label.setAnchor((0, 1.2) if x < 0.5 * x_max else (1, 1.2))
         self.marker_label.setPos(x, y)
