@@ -154,8 +154,8 @@ def fall_profile_figure(assessment: Assessment, opening_id: str) -> FallProfileF
     )
     caption = (
         f"Fall profile for opening {opening_id}: a representative cat (the profile's median "
-        f"values: {fmt_number(cat.mass_kg, 1, 'kg')}, air drag when tense "
-        f"{fmt_number(cat.cda_tense_m2, 3, 'm²')} C_d·A) falling the opening's median drop of "
+        f"values: {fmt_number(cat.mass_kg, 1, 'kg')}, air drag (C_d·A) when tense "
+        f"{fmt_number(cat.cda_tense_m2, 3, 'm²')}) falling the opening's median drop of "
         f"{fmt_length(drop)}; it {posture}. Air density {fmt_number(rho, 3, 'kg/m³')}. One "
         "typical fall, so its landing speed differs a little from the median impact speed of "
         "all simulated cats given above with their range (p5–p95)."
