@@ -337,7 +337,9 @@ class ScheduleColumnDef:
     @property
     def aliases(self) -> tuple[str, ...]:
         """Headers that name this column: the field's own names and aliases."""
-        base = (self.key, self.field.label, *self.field.aliases)
+        # a floor column is named for the floor ("floor label"), never by the bare field label
+        own = (self.field.label,) if self.field.section == "openings" else ()
+        base = (self.key, *own, *self.field.aliases)
         if self.words:
             base = (self.words, *base)
         return base

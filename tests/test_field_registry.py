@@ -107,3 +107,23 @@ def test_field_words_join_like_a_sentence() -> None:
     assert field_words("openings", ["width_m"]) == "width"
     assert field_words("openings", ["width_m", "notes", "netting_mesh_mm"]) == (
         "width, notes and netting mesh")
+
+
+def test_the_schedule_columns_take_their_names_limits_and_words_from_the_registry() -> None:
+    from petfall_audit.field_registry import SCHEDULE_COLUMNS
+    from petfall_audit.io.schedule import COLUMNS, guess_mapping
+
+    assert [c.field for c in COLUMNS] == [d.key for d in SCHEDULE_COLUMNS]
+    for spec, d in zip(COLUMNS, SCHEDULE_COLUMNS, strict=True):
+        if spec.kind in ("length", "gap"):
+            assert (spec.min_value, spec.max_value, spec.positive) == (
+                d.field.minimum, d.field.maximum, d.field.exclusive_minimum)
+        assert spec.choices is d.field.enum
+        # every registry alias of the field is recognised as a header for this column
+        for alias in d.aliases:
+            assert guess_mapping([alias]) == {alias: d.key}
+        assert guess_mapping([d.header]) == {d.header: d.key}
+    assert guess_mapping(["Rail or sill height (in)"]) == {
+        "Rail or sill height (in)": "perch_height_m"}
+    # a floor column is not taken for a bare "Name" header
+    assert guess_mapping(["Name"]) == {}
