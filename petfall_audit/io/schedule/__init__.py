@@ -32,6 +32,7 @@ from petfall_audit.io.schedule.columns import (
     Kind,
     column_letter,
 )
+from petfall_audit.io.schedule.grid import GridCell, PreviewGrid, preview_grid
 from petfall_audit.io.schedule.mapping import (
     LoadedMapping,
     combine_mapping,
@@ -72,4 +73,7 @@ __all__ = [
     "preview_import",
     "apply_import",
     "column_letter",
+    "GridCell",
+    "PreviewGrid",
+    "preview_grid",
 ]

@@ -15,7 +15,7 @@ from dataclasses import dataclass, field
 from enum import StrEnum
 from typing import Any, NamedTuple
 
-from petfall_audit.io.schedule.apply import merged, new_facades, opening_of
+from petfall_audit.io.schedule.apply import merged, new_facades, opening_of, unused_facades
 from petfall_audit.io.schedule.columns import (
     COLUMNS,
     FLOOR_FIELDS,
@@ -40,9 +40,9 @@ from petfall_audit.io.schedule.mapping import header_units
 from petfall_audit.io.schedule.read import RawTable
 from petfall_audit.model import WINDOW_KINDS, Building, Facade, Floor, Opening
 from petfall_audit.safe_text import MAX_MESSAGE_CHARS, cut
-from petfall_audit.units import parse_gap_mm, parse_length_m
+from petfall_audit.units import FOOT_M, INCH_M, format_length, parse_gap_mm, parse_length_m
 
-__all__ = ["ImportProblem", "ImportPreview", "preview_import"]
+__all__ = ["ImportProblem", "ImportPreview", "preview_import", "in_system"]
 
 
 
@@ -81,7 +81,10 @@ class ImportPreview:
     :class:`Opening` objects built on the model defaults. ``floors``: floors the schedule adds
     or changes. ``facades``: facades the import would create. ``updates``: ids of openings the
     building already has (a merge changes them; a replace drops all others). ``problems``: every
-    bad cell and row. ``bad_rows``: rows that will not be imported.
+    bad cell and row. ``bad_rows``: rows that will not be imported. ``removed_facades``: ids of
+    the unused facades of a blank building that the import removes. ``system``: ``"imperial"``
+    when the file gives lengths in feet or inches (messages and the summary then say lengths in
+    feet and inches), else ``"metric"``.
     """
 
     openings: tuple[Opening, ...]
@@ -95,6 +98,8 @@ class ImportPreview:
     ignored_columns: tuple[str, ...]
     rows_read: int
     mapping: Mapping[str, str] = field(default_factory=dict)
+    removed_facades: tuple[str, ...] = ()
+    system: str = "metric"
 
     @property
     def ok(self) -> bool:
@@ -117,8 +122,12 @@ class ImportPreview:
             parts.append(f"{len(self.floors)} floor(s) added or changed")
         if self.facades:
             parts.append(
-                f"{len(self.facades)} new facade(s): " + ", ".join(f.id for f in self.facades)
+                f"{len(self.facades)} new facade(s): "
+                + ", ".join(f"{f.id} ({format_length(f.length_m, self.system)} long)"
+                            for f in self.facades)
             )
+        if self.removed_facades:
+            parts.append("unused facade(s) removed: " + ", ".join(self.removed_facades))
         if self.bad_rows:
             parts.append(f"{len(self.bad_rows)} row(s) with problems")
         return "; ".join(parts)
@@ -257,25 +266,72 @@ def _parse_cell(text: str, col: _Column, floor_labels: Mapping[str, int]) -> Any
         if text.strip().lower() in NONE_WORDS:
             return None
         value = parse_gap_mm(text, default_unit=col.unit)
-        unit_label = "mm"
     else:
         value = parse_length_m(text, default_unit=col.unit)
-        unit_label = "m"
     name = human(spec.field)
+
+    def show(v: float) -> str:  # in the column's own system: feet and inches for a file in feet
+        return _show(v, col)
+
     if spec.min_value is not None:
         if value < 0 <= spec.min_value:
-            raise ValueError(f"negative {name} ({value:g} {unit_label})")
+            raise ValueError(f"negative {name} ({show(value)})")
         if value < spec.min_value or (spec.positive and value <= spec.min_value):
             bound = "more than" if spec.positive else "at least"
-            raise ValueError(
-                f"{name} must be {bound} {spec.min_value:g} {unit_label} (got {value:g})"
-            )
+            raise ValueError(f"{name} must be {bound} {show(spec.min_value)} (got {show(value)})")
     if spec.max_value is not None and value > spec.max_value:
         raise ValueError(
-            f"{name} of {value:g} {unit_label} is implausible; check the unit "
-            f"(a bare number in this column is read in {col.unit})"
+            f"{name} of {show(value)} is implausible (at most {show(spec.max_value)}); check "
+            f"the unit (a bare number in this column is read in {col.unit})"
         )
     return value
+
+
+_IMPERIAL_M = (INCH_M, FOOT_M, 3 * FOOT_M)  # inch, foot, yard
+
+
+def _is_imperial(unit: str | None) -> bool:
+    """True for a unit of the imperial system (in, ft, yd and their spellings)."""
+    if not unit:
+        return False
+    try:
+        one_m = parse_length_m("1", default_unit=unit)
+    except ValueError:
+        return False
+    return any(math.isclose(one_m, k, rel_tol=1e-9) for k in _IMPERIAL_M)
+
+
+def _show(value: float, col: _Column) -> str:
+    """``value`` (m, or mm for a gap) as the column's file writes it: ``3.2 m`` / ``95 mm``, or
+    ``10 ft 6 in`` / ``3.7 in`` for a column in feet or inches."""
+    gap = col.spec.kind == "gap"
+    if _is_imperial(col.unit):
+        return format_length(value / 1000.0 if gap else value, "imperial", small=gap)
+    return f"{value:g} {'mm' if gap else 'm'}"
+
+
+_SI_LENGTH = re.compile(r"(?<![\w.])(-?\d+(?:\.\d+)?(?:e[+-]?\d+)?) (mm|m)(?![\w²³/])")
+
+
+def in_system(message: str, system: str) -> str:
+    """``message`` with its lengths (``12.3 m``, ``95 mm``) in ``system``: unchanged for
+    ``metric``, feet and inches for ``imperial`` (``40 ft 4 in``, ``3.7 in``)."""
+    if system != "imperial":
+        return message
+
+    def feet(m: re.Match[str]) -> str:
+        value, unit = float(m.group(1)), m.group(2)
+        if unit == "mm":
+            return format_length(value / 1000.0, "imperial", small=True)
+        return format_length(value, "imperial")
+
+    return _SI_LENGTH.sub(feet, message)
+
+
+def _file_system(columns: Sequence[_Column]) -> str:
+    """``imperial`` when any length column of the file is read in feet or inches."""
+    lengths = [c for c in columns if c.spec.kind in ("length", "gap")]
+    return "imperial" if any(_is_imperial(c.unit) for c in lengths) else "metric"
 
 
 def preview_import(
@@ -334,11 +390,12 @@ def preview_import(
         parsed.append((row_number, values, row_problems))
 
     header_of = {c.spec.field: c for c in columns}
-    floors, floor_rows = _schedule_floors(parsed, header_of, building_levels)
+    system = _file_system(columns)
+    floors, floor_rows = _schedule_floors(parsed, header_of, building_levels, system)
     known_levels = set(building_levels) | set(floors)
     _check_rows(parsed, header_of, known_levels)
     if not fatal:
-        _checkmerged(parsed, header_of, building, floors, floor_rows)
+        _check_merged(parsed, header_of, building, floors, floor_rows, system)
 
     good = [(n, v) for n, v, p in parsed if not p and not fatal]
     for _, _, row_problems in parsed:
@@ -359,6 +416,8 @@ def preview_import(
         ignored_columns=tuple(ignored),
         rows_read=len(table.rows),
         mapping=dict(mapping),
+        removed_facades=unused_facades(building, openings) if openings else (),
+        system=system,
     )
 
 
@@ -380,12 +439,13 @@ def _floors_to_apply(
 _WHERE = re.compile(r"^(?P<section>openings|floors|facades)\[(?P<index>\d+)\](?:\.(?P<field>\w+))?")
 
 
-def _checkmerged(
+def _check_merged(
     parsed: list[tuple[int, dict[str, Any], list[ImportProblem]]],
     header_of: Mapping[str, _Column],
     building: Building,
     floors: Mapping[int, Floor],
     floor_rows: Mapping[int, int],
+    system: str = "metric",
 ) -> None:
     """Check the building the good rows would make (facade lengths, floor order, escape
     windows...) with :func:`validate_building`; add each problem of an imported opening or floor
@@ -435,7 +495,7 @@ def _checkmerged(
                 ImportProblem(
                     row,
                     col.header if col else "",
-                    message,
+                    in_system(message, system),
                     column_letter(col.position) if col else "",
                 )
             )
@@ -450,6 +510,7 @@ def _schedule_floors(
     parsed: list[tuple[int, dict[str, Any], list[ImportProblem]]],
     header_of: Mapping[str, _Column],
     building_levels: Mapping[int, Floor],
+    system: str = "metric",
 ) -> tuple[dict[int, Floor], dict[int, int]]:
     """Floors that rows define with an elevation, and the row that first defines each; a
     second, different definition is a problem."""
@@ -475,8 +536,9 @@ def _schedule_floors(
                     ImportProblem(
                         row_number,
                         col.header,
-                        f"floor {level} was given elevation {prev.elevation_m:g} m and label "
-                        f"'{prev.label}' in row {first_row[level]}; rows disagree",
+                        in_system(f"floor {level} was given elevation {prev.elevation_m:g} m "
+                                  f"and label '{prev.label}' in row {first_row[level]}; rows "
+                                  "disagree", system),
                         column_letter(col.position),
                     )
                 )
