@@ -17,7 +17,7 @@ from dataclasses import dataclass
 from enum import StrEnum
 from typing import Any
 
-from petfall_audit.field_registry import FieldDef, section_fields
+from petfall_audit.field_registry import ENUM_SYNONYMS, FieldDef, section_fields
 from petfall_audit.limits import LIMITS
 from petfall_audit.model import (
     KIND_LABELS,
@@ -282,6 +282,9 @@ def parse_value(spec: FieldSpec, text: str, system: str = "metric") -> Any:
         for member in spec.enum:
             if lowered in (member.value, enum_label(member).lower()):
                 return member
+        synonym = ENUM_SYNONYMS.get(lowered)  # the trade's words, as a schedule reads them
+        if synonym is not None and synonym in {m.value for m in spec.enum}:
+            return spec.enum(synonym)
         choices = ", ".join(enum_label(m) for m in spec.enum)
         raise ValueError(f"'{text}' is not one of: {choices}")
     if spec.kind == "bool":
