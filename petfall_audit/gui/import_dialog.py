@@ -218,7 +218,7 @@ class ImportDialog(QDialog):
             box.setObjectName(f"field_{row}")
             box.addItem(_IGNORE, "")
             for field, label in FIELD_CHOICES:
-                box.addItem(f"{label} ({field})", field)
+                box.addItem(label, field)
             box.setCurrentIndex(max(box.findData(guessed.get(head, "")), 0))
             box.currentIndexChanged.connect(self._on_mapping_changed)
             self.mapping_table.setCellWidget(row, 2, box)
