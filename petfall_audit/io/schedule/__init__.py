@@ -15,7 +15,7 @@ Four steps, each usable on its own (the desktop dialog drives them one by one), 
    openings. It refuses a preview with problems unless the caller accepts the valid rows; a row
    with any problem is never applied in part.
 
-The columns (:mod:`.columns`) come from the field registry
+Each cell is read by :mod:`.cells`. The columns (:mod:`.columns`) come from the field registry
 (:mod:`petfall_audit.field_registry`). Lengths are read with :mod:`petfall_audit.units`: a unit
 in the cell wins over a unit in the header, which wins over the column's own default (metres, or
 millimetres for gaps). The file format, the column list and the rules are described in

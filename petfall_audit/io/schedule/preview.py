@@ -2,8 +2,9 @@
 
 :func:`preview_import` returns an :class:`ImportPreview`: the openings, floors and facades an
 import would add or change and every problem, located by spreadsheet row (the header is row 1)
-and column. Lengths are read with :mod:`petfall_audit.units`: a unit in the cell wins over a
-unit in the header, which wins over the column's own default (metres, or millimetres for gaps).
+and column. Each cell is read by :mod:`.cells` (lengths with :mod:`petfall_audit.units`: a unit
+in the cell wins over a unit in the header, which wins over the column's own default: metres,
+or millimetres for gaps); the rows are then checked together and against the building.
 """
 
 from __future__ import annotations
@@ -12,14 +13,13 @@ import math
 import re
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
-from enum import StrEnum
-from typing import Any, NamedTuple
+from typing import Any
 
 from petfall_audit.io.schedule.apply import merged, new_facades, opening_of, unused_facades
+from petfall_audit.io.schedule.cells import Column, file_system, in_system, parse_cell
 from petfall_audit.io.schedule.columns import (
     COLUMNS,
     FLOOR_FIELDS,
-    NONE_WORDS,
     OPENING_DEFAULTS,
     SPEC,
     ColumnSpec,
@@ -27,23 +27,13 @@ from petfall_audit.io.schedule.columns import (
     human,
     norm,
 )
-from petfall_audit.io.schedule.columns import (
-    ENUM_SYNONYMS as _ENUM_SYNONYMS,
-)
-from petfall_audit.io.schedule.columns import (
-    FALSE_WORDS as _FALSE,
-)
-from petfall_audit.io.schedule.columns import (
-    TRUE_WORDS as _TRUE,
-)
 from petfall_audit.io.schedule.mapping import header_units
 from petfall_audit.io.schedule.read import RawTable
 from petfall_audit.model import WINDOW_KINDS, Building, Facade, Floor, Opening
 from petfall_audit.safe_text import MAX_MESSAGE_CHARS, cut
-from petfall_audit.units import FOOT_M, INCH_M, format_length, parse_gap_mm, parse_length_m
+from petfall_audit.units import format_length, parse_length_m
 
-__all__ = ["ImportProblem", "ImportPreview", "preview_import", "in_system"]
-
+__all__ = ["ImportProblem", "ImportPreview", "preview_import"]
 
 
 @dataclass(frozen=True, slots=True)
@@ -133,18 +123,11 @@ class ImportPreview:
         return "; ".join(parts)
 
 
-class _Column(NamedTuple):
-    position: int  # 0-based column index in the table
-    header: str
-    spec: ColumnSpec
-    unit: str | None
-
-
 def _resolve_columns(
     table: RawTable, mapping: Mapping[str, str], units: Mapping[str, str]
-) -> tuple[list[_Column], list[ImportProblem], list[str]]:
+) -> tuple[list[Column], list[ImportProblem], list[str]]:
     problems: list[ImportProblem] = []
-    columns: list[_Column] = []
+    columns: list[Column] = []
     ignored: list[str] = []
     seen_headers: dict[str, int] = {}
     by_field: dict[str, str] = {}
@@ -190,7 +173,7 @@ def _resolve_columns(
             except ValueError as exc:
                 problems.append(ImportProblem(1, header, f"header unit: {exc}", letter))
                 continue
-        columns.append(_Column(index, header, spec, unit or spec.default_unit))
+        columns.append(Column(index, header, spec, unit or spec.default_unit))
     for spec in COLUMNS:
         if spec.required and spec.field not in by_field:
             problems.append(
@@ -202,136 +185,6 @@ def _resolve_columns(
                 )
             )
     return columns, problems, ignored
-
-
-def _parse_enum(text: str, choices: type[StrEnum]) -> StrEnum:
-    key = norm(text)
-    candidates = (
-        key,
-        key.replace(" ", "_"),
-        _ENUM_SYNONYMS.get(key, ""),
-        _ENUM_SYNONYMS.get(text.strip().lower(), ""),
-    )
-    for candidate in candidates:
-        if candidate:
-            try:
-                return choices(candidate)
-            except ValueError:
-                continue
-    allowed = ", ".join(m.value for m in choices)
-    raise ValueError(f"unknown value '{text}' (use one of: {allowed})")
-
-
-def _parse_bool(text: str) -> bool:
-    key = text.strip().lower()
-    if key in _TRUE:
-        return True
-    if key in _FALSE:
-        return False
-    raise ValueError(f"'{text}' is not yes or no")
-
-
-def _parse_int(text: str) -> int:
-    try:
-        value = float(text.replace(",", "."))
-    except ValueError:
-        raise ValueError(f"'{text}' is not a whole number") from None
-    if not value.is_integer():
-        raise ValueError(f"'{text}' is not a whole number")
-    return int(value)
-
-
-def _parse_cell(text: str, col: _Column, floor_labels: Mapping[str, int]) -> Any:
-    """The value of one cell for its field; ``ValueError`` with a plain message."""
-    spec = col.spec
-    if spec.kind == "text":
-        return text
-    if spec.kind == "bool":
-        return _parse_bool(text)
-    if spec.kind == "enum":
-        assert spec.choices is not None
-        return _parse_enum(text, spec.choices)
-    if spec.kind == "int":
-        try:
-            return _parse_int(text)
-        except ValueError:
-            level = floor_labels.get(norm(text))
-            if level is None:
-                raise ValueError(
-                    f"unknown floor '{text}' (give a level number or a known floor label)"
-                ) from None
-            return level
-    assert col.unit is not None
-    if spec.kind == "gap":
-        if text.strip().lower() in NONE_WORDS:
-            return None
-        value = parse_gap_mm(text, default_unit=col.unit)
-    else:
-        value = parse_length_m(text, default_unit=col.unit)
-    name = human(spec.field)
-
-    def show(v: float) -> str:  # in the column's own system: feet and inches for a file in feet
-        return _show(v, col)
-
-    if spec.min_value is not None:
-        if value < 0 <= spec.min_value:
-            raise ValueError(f"negative {name} ({show(value)})")
-        if value < spec.min_value or (spec.positive and value <= spec.min_value):
-            bound = "more than" if spec.positive else "at least"
-            raise ValueError(f"{name} must be {bound} {show(spec.min_value)} (got {show(value)})")
-    if spec.max_value is not None and value > spec.max_value:
-        raise ValueError(
-            f"{name} of {show(value)} is implausible (at most {show(spec.max_value)}); check "
-            f"the unit (a bare number in this column is read in {col.unit})"
-        )
-    return value
-
-
-_IMPERIAL_M = (INCH_M, FOOT_M, 3 * FOOT_M)  # inch, foot, yard
-
-
-def _is_imperial(unit: str | None) -> bool:
-    """True for a unit of the imperial system (in, ft, yd and their spellings)."""
-    if not unit:
-        return False
-    try:
-        one_m = parse_length_m("1", default_unit=unit)
-    except ValueError:
-        return False
-    return any(math.isclose(one_m, k, rel_tol=1e-9) for k in _IMPERIAL_M)
-
-
-def _show(value: float, col: _Column) -> str:
-    """``value`` (m, or mm for a gap) as the column's file writes it: ``3.2 m`` / ``95 mm``, or
-    ``10 ft 6 in`` / ``3.7 in`` for a column in feet or inches."""
-    gap = col.spec.kind == "gap"
-    if _is_imperial(col.unit):
-        return format_length(value / 1000.0 if gap else value, "imperial", small=gap)
-    return f"{value:g} {'mm' if gap else 'm'}"
-
-
-_SI_LENGTH = re.compile(r"(?<![\w.])(-?\d+(?:\.\d+)?(?:e[+-]?\d+)?) (mm|m)(?![\w²³/])")
-
-
-def in_system(message: str, system: str) -> str:
-    """``message`` with its lengths (``12.3 m``, ``95 mm``) in ``system``: unchanged for
-    ``metric``, feet and inches for ``imperial`` (``40 ft 4 in``, ``3.7 in``)."""
-    if system != "imperial":
-        return message
-
-    def feet(m: re.Match[str]) -> str:
-        value, unit = float(m.group(1)), m.group(2)
-        if unit == "mm":
-            return format_length(value / 1000.0, "imperial", small=True)
-        return format_length(value, "imperial")
-
-    return _SI_LENGTH.sub(feet, message)
-
-
-def _file_system(columns: Sequence[_Column]) -> str:
-    """``imperial`` when any length column of the file is read in feet or inches."""
-    lengths = [c for c in columns if c.spec.kind in ("length", "gap")]
-    return "imperial" if any(_is_imperial(c.unit) for c in lengths) else "metric"
 
 
 def preview_import(
@@ -373,7 +226,7 @@ def preview_import(
                     values[col.spec.field] = _blank_value(col.spec)
                 continue
             try:
-                values[col.spec.field] = _parse_cell(text, col, floor_labels)
+                values[col.spec.field] = parse_cell(text, col, floor_labels)
             except ValueError as exc:
                 row_problems.append(ImportProblem(row_number, col.header, str(exc), letter))
         extra = [i for i in range(len(table.headers), len(cells)) if cells[i]]
@@ -390,7 +243,7 @@ def preview_import(
         parsed.append((row_number, values, row_problems))
 
     header_of = {c.spec.field: c for c in columns}
-    system = _file_system(columns)
+    system = file_system(columns)
     floors, floor_rows = _schedule_floors(parsed, header_of, building_levels, system)
     known_levels = set(building_levels) | set(floors)
     _check_rows(parsed, header_of, known_levels)
@@ -441,7 +294,7 @@ _WHERE = re.compile(r"^(?P<section>openings|floors|facades)\[(?P<index>\d+)\](?:
 
 def _check_merged(
     parsed: list[tuple[int, dict[str, Any], list[ImportProblem]]],
-    header_of: Mapping[str, _Column],
+    header_of: Mapping[str, Column],
     building: Building,
     floors: Mapping[int, Floor],
     floor_rows: Mapping[int, int],
@@ -508,7 +361,7 @@ def _blank_value(spec: ColumnSpec) -> Any:
 
 def _schedule_floors(
     parsed: list[tuple[int, dict[str, Any], list[ImportProblem]]],
-    header_of: Mapping[str, _Column],
+    header_of: Mapping[str, Column],
     building_levels: Mapping[int, Floor],
     system: str = "metric",
 ) -> tuple[dict[int, Floor], dict[int, int]]:
@@ -554,7 +407,7 @@ def _default_label(level: int) -> str:
 
 def _check_rows(
     parsed: list[tuple[int, dict[str, Any], list[ImportProblem]]],
-    header_of: Mapping[str, _Column],
+    header_of: Mapping[str, Column],
     known_levels: set[int],
 ) -> None:
     """Row-level checks: unknown floor, duplicate id, a window with a projection."""
