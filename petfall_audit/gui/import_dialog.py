@@ -253,6 +253,8 @@ class ImportDialog(QDialog):
         self.grid_view.setModel(self.grid_model)
         self.grid_view.setEditTriggers(QAbstractItemView.EditTrigger.NoEditTriggers)
         self.grid_view.setWordWrap(False)
+        self.grid_view.verticalHeader().setDefaultSectionSize(
+            self.grid_view.fontMetrics().height() + 8)  # compact rows: more of the file in view
         self.preview_tabs = QTabWidget()
         self.preview_tabs.setObjectName("preview_tabs")
         self.preview_tabs.addTab(self.grid_view, "Rows")
@@ -302,6 +304,8 @@ class ImportDialog(QDialog):
         splitter = QSplitter(Qt.Orientation.Vertical)
         splitter.addWidget(top)
         splitter.addWidget(bottom)
+        splitter.setStretchFactor(0, 2)
+        splitter.setStretchFactor(1, 3)  # the rows of the preview get the larger share
         layout = QVBoxLayout(self)
         layout.addWidget(splitter, 1)
         layout.addWidget(how)
