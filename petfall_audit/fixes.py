@@ -4,7 +4,8 @@ A control is data (``resources/controls.json``, editable by the user): where it 
 kinds, floor heights), its effect as changes to an :class:`~petfall_audit.model.Opening`'s
 fields (plus an optional likelihood multiplier for controls that change no field, such as tenant
 guidance), an indicative cost, the conflict rules that apply to it and its fixed conditions.
-The conflict rules live here in code, named by id in the data:
+The catalogue is read and checked in :mod:`petfall_audit.io.controls`; the conflict rules live
+here in code, named by id in the data:
 
 ``escape_window``
     On an emergency escape window (``Opening.escape_window``) a control that is not releasable
@@ -27,27 +28,30 @@ in metres above the building's datum.
 
 from __future__ import annotations
 
-import json
 import math
 from collections.abc import Mapping, Sequence
-from dataclasses import dataclass, replace
-from pathlib import Path
-from typing import Any
+from dataclasses import dataclass
 
 import numpy as np
 
-from petfall_audit._resources import resource_path
-from petfall_audit.errors import CatalogueError, Problem
+from petfall_audit.errors import CatalogueError
 from petfall_audit.guard_rules import why_code_compliant_is_not_cat_safe
+from petfall_audit.io.controls import (
+    BLOCKING_FIELDS,
+    CATALOGUE_FORMAT,
+    CATALOGUE_VERSION,
+    HIERARCHY,
+    RULES,
+    Catalogue,
+    Control,
+    load_catalogue,
+    parse_catalogue,
+)
 from petfall_audit.likelihood import assess_likelihood
 from petfall_audit.model import (
-    BALCONY_LIKE,
-    WINDOW_KINDS,
     Building,
-    OpenFrequency,
     Opening,
     OpeningKind,
-    Screen,
 )
 from petfall_audit.risk import Assessment, risk_score
 
@@ -56,6 +60,7 @@ __all__ = [
     "CATALOGUE_VERSION",
     "HIERARCHY",
     "RULES",
+    "BLOCKING_FIELDS",
     "ESCAPE_CONDITION",
     "WIND_CONDITION",
     "TALL_BUILDING_CONDITION",
@@ -75,11 +80,6 @@ __all__ = [
     "recommend",
     "recommendation_lines",
 ]
-
-CATALOGUE_FORMAT = "petfall-audit-controls"
-CATALOGUE_VERSION = 1
-#: Hierarchy of controls, most effective first (ISO 45001:2018 8.1.2 order, adapted).
-HIERARCHY: tuple[str, ...] = ("remove", "engineer", "inform")
 
 ESCAPE_CONDITION = (
     "Escape window: the device must release without a key or tool and keep the escape opening "
@@ -103,103 +103,6 @@ FIRE_ACCESS_CONDITION = (
     "Access gallery: keep fire-service access, the escape route and smoke vents clear; ask the "
     "fire-safety adviser before enclosing or infilling it."
 )
-#: Conflict and condition rules that a control may name in ``conflicts``.
-RULES: tuple[str, ...] = ("escape_window", "wind_load", "exterior_permission", "fire_access")
-
-#: Opening fields whose change can stand in the way of escaping through a window: a limiter, a
-#: screen or a net. A control that sets one is never offered on an emergency escape window
-#: unless it is releasable by hand, whatever its catalogue entry says.
-BLOCKING_FIELDS: frozenset[str] = frozenset({"limiter_gap_mm", "screen", "netting_mesh_mm"})
-
-#: Opening fields a control may change, with the kind of value each takes.
-_EFFECT_FIELDS: dict[str, str] = {
-    "netting_mesh_mm": "mm",
-    "limiter_gap_mm": "mm",
-    "largest_gap_mm": "mm",
-    "bottom_gap_mm": "mm",
-    "screen": "screen",
-    "open_frequency": "frequency",
-    "climbable_infill": "bool",
-    "flat_rail_top": "bool",
-    "climbing_aids": "bool",
-}
-
-
-@dataclass(frozen=True, slots=True)
-class Control:
-    """One control of the catalogue.
-
-    ``kinds``: opening kinds it applies to; ``min_height_m`` / ``max_height_m``: floor height
-    range above the datum (m, ``None`` = open). ``effect``: (field, value) pairs applied to the
-    opening; ``likelihood_multiplier``: extra factor on the yearly fall probability (1 = none).
-    ``adherence``: share of the time a control that relies on people is kept to (1 = always);
-    the rest of the time the opening stays as it was.
-    ``releasable``: for devices, whether a person releases it by hand without key or tool
-    (``None`` for non-devices). Costs in the catalogue's currency: ``cost_fixed`` per opening,
-    ``cost_per_m_width`` per metre of opening width, ``cost_per_m2`` per square metre covered.
-    ``conflicts``: rule ids from :data:`RULES`; ``conditions``: text carried into every output.
-    """
-
-    id: str
-    name: str
-    hierarchy: str
-    description: str
-    kinds: frozenset[OpeningKind]
-    effect: tuple[tuple[str, Any], ...] = ()
-    likelihood_multiplier: float = 1.0
-    adherence: float = 1.0
-    releasable: bool | None = None
-    min_height_m: float | None = None
-    max_height_m: float | None = None
-    cost_fixed: float = 0.0
-    cost_per_m_width: float = 0.0
-    cost_per_m2: float = 0.0
-    conflicts: tuple[str, ...] = ()
-    conditions: tuple[str, ...] = ()
-
-    def apply(self, opening: Opening) -> Opening:
-        """The opening as it would be with this control fitted."""
-        return replace(opening, **dict(self.effect)) if self.effect else opening
-
-
-@dataclass(frozen=True, slots=True)
-class Catalogue:
-    """The controls in catalogue order, their ``currency`` and the cost and rule settings.
-
-    ``enclosure_height_m``: height of a balcony enclosure for costing nets (m);
-    ``window_height_m``: window height for costing screens (m); ``wind_rated_above_m``: floor
-    height above which nets need wind-rated fixings (m).
-    """
-
-    controls: tuple[Control, ...]
-    currency: str = "EUR"
-    description: str = ""
-    enclosure_height_m: float = 2.4
-    window_height_m: float = 1.2
-    wind_rated_above_m: float = 18.0
-
-    def control(self, control_id: str) -> Control:
-        """The control with ``control_id``; ``KeyError`` if there is none."""
-        for c in self.controls:
-            if c.id == control_id:
-                return c
-        raise KeyError(control_id)
-
-    def cost(self, control: Control, opening: Opening) -> float:
-        """Indicative cost of ``control`` on ``opening`` in the catalogue's currency, to the cent.
-
-        Covered area: ``(width + 2 × projection) × enclosure_height_m`` for balconies, terraces
-        and galleries; ``width × window_height_m`` for windows."""
-        if opening.kind in BALCONY_LIKE:
-            area_m2 = (opening.width_m + 2.0 * opening.projection_m) * self.enclosure_height_m
-        else:
-            area_m2 = opening.width_m * self.window_height_m
-        total = (
-            control.cost_fixed
-            + control.cost_per_m_width * opening.width_m
-            + control.cost_per_m2 * area_m2
-        )
-        return round(total, 2)
 
 
 @dataclass(frozen=True, slots=True)
@@ -231,235 +134,6 @@ class Option:
     def share_removed(self) -> float:
         """Share (0..1) of the opening's risk the control removes."""
         return self.risk_removed / self.risk_before if self.risk_before > 0 else 0.0
-
-
-# --- loading -----------------------------------------------------------------------------------
-
-
-def _number(value: Any, where: str, problems: list[Problem], *, minimum: float = 0.0) -> float:
-    if isinstance(value, bool) or not isinstance(value, int | float) or not math.isfinite(value):
-        problems.append(Problem(where, f"expected a number, got {value!r}"))
-        return 0.0
-    if value < minimum:
-        problems.append(Problem(where, f"must be >= {minimum:g}, got {value!r}"))
-    return float(value)
-
-
-def _text(value: Any, where: str, problems: list[Problem], *, required: bool = True) -> str:
-    if not isinstance(value, str) or (required and not value.strip()):
-        problems.append(Problem(where, f"expected a non-empty text, got {value!r}"))
-        return ""
-    return value
-
-
-def _effect(raw: Any, where: str, problems: list[Problem]) -> tuple[tuple[str, Any], ...]:
-    if not isinstance(raw, Mapping):
-        problems.append(Problem(where, "expected an object of opening field changes"))
-        return ()
-    out: list[tuple[str, Any]] = []
-    for key, value in raw.items():
-        at = f"{where}.{key}"
-        kind = _EFFECT_FIELDS.get(key)
-        if kind is None:
-            problems.append(
-                Problem(
-                    at, f"not a field a control can change (one of {', '.join(_EFFECT_FIELDS)})"
-                )
-            )
-        elif kind == "mm":
-            out.append((key, None if value is None else _number(value, at, problems, minimum=1.0)))
-        elif kind == "bool":
-            if not isinstance(value, bool):
-                problems.append(Problem(at, f"expected true or false, got {value!r}"))
-            out.append((key, bool(value)))
-        else:
-            enum = Screen if kind == "screen" else OpenFrequency
-            try:
-                out.append((key, enum(value)))
-            except ValueError:
-                allowed = ", ".join(e.value for e in enum)
-                problems.append(Problem(at, f"expected one of {allowed}, got {value!r}"))
-    return tuple(out)
-
-
-def _control(raw: Any, where: str, problems: list[Problem]) -> Control | None:
-    if not isinstance(raw, Mapping):
-        problems.append(Problem(where, "expected an object"))
-        return None
-    cid = _text(raw.get("id"), f"{where}.id", problems)
-    hierarchy = raw.get("hierarchy")
-    if hierarchy not in HIERARCHY:
-        problems.append(
-            Problem(
-                f"{where}.hierarchy", f"expected one of {', '.join(HIERARCHY)}, got {hierarchy!r}"
-            )
-        )
-    applies = raw.get("applies_to", {})
-    kinds: set[OpeningKind] = set()
-    limits: dict[str, float | None] = {"min_height_m": None, "max_height_m": None}
-    if not isinstance(applies, Mapping):
-        problems.append(Problem(f"{where}.applies_to", "expected an object"))
-    else:
-        raw_kinds = applies.get("kinds")
-        if not isinstance(raw_kinds, list) or not raw_kinds:
-            problems.append(Problem(f"{where}.applies_to.kinds", "expected a non-empty list"))
-        else:
-            for j, k in enumerate(raw_kinds):
-                try:
-                    kinds.add(OpeningKind(k))
-                except ValueError:
-                    problems.append(
-                        Problem(f"{where}.applies_to.kinds[{j}]", f"unknown opening kind {k!r}")
-                    )
-        for key in limits:
-            if applies.get(key) is not None:
-                limits[key] = _number(applies[key], f"{where}.applies_to.{key}", problems)
-    cost = raw.get("cost")
-    costs = {"fixed": 0.0, "per_m_width": 0.0, "per_m2": 0.0}
-    if not isinstance(cost, Mapping):
-        problems.append(
-            Problem(f"{where}.cost", "expected an object with fixed, per_m_width, per_m2")
-        )
-    else:
-        for key in cost:
-            if key not in costs:
-                problems.append(Problem(f"{where}.cost.{key}", "unknown cost item"))
-        for key in costs:
-            if key in cost:
-                costs[key] = _number(cost[key], f"{where}.cost.{key}", problems)
-    conflicts = raw.get("conflicts", [])
-    if not isinstance(conflicts, list):
-        problems.append(Problem(f"{where}.conflicts", "expected a list of rule ids"))
-        conflicts = []
-    for j, rule_id in enumerate(conflicts):
-        if rule_id not in RULES:
-            problems.append(
-                Problem(
-                    f"{where}.conflicts[{j}]",
-                    f"unknown rule {rule_id!r} (one of {', '.join(RULES)})",
-                )
-            )
-    releasable = raw.get("releasable")
-    if releasable is not None and not isinstance(releasable, bool):
-        problems.append(
-            Problem(f"{where}.releasable", f"expected true, false or null, got {releasable!r}")
-        )
-        releasable = None
-    if "escape_window" in conflicts and releasable is None:
-        problems.append(
-            Problem(f"{where}.releasable", "required (true or false) with the escape_window rule")
-        )
-    effect_raw = raw.get("effect", {})
-    touches = set(effect_raw) & BLOCKING_FIELDS if isinstance(effect_raw, Mapping) else set()
-    if touches and "escape_window" not in conflicts and isinstance(raw.get("applies_to"), Mapping):
-        kinds_raw = raw["applies_to"].get("kinds", [])
-        if isinstance(kinds_raw, list) and set(map(str, kinds_raw)) & {
-            k.value for k in WINDOW_KINDS
-        }:
-            problems.append(
-                Problem(
-                    f"{where}.conflicts",
-                    f"a control that sets {', '.join(sorted(touches))} on windows must name the "
-                    "escape_window rule, so that it is never fitted as a fixed device on an "
-                    "emergency escape window",
-                )
-            )
-    conditions = raw.get("conditions", [])
-    if not isinstance(conditions, list):
-        problems.append(Problem(f"{where}.conditions", "expected a list of texts"))
-        conditions = []
-    texts = tuple(_text(c, f"{where}.conditions[{j}]", problems) for j, c in enumerate(conditions))
-    multiplier = _number(
-        raw.get("likelihood_multiplier", 1.0), f"{where}.likelihood_multiplier", problems
-    )
-    if multiplier > 1.0:
-        problems.append(Problem(f"{where}.likelihood_multiplier", "must be at most 1"))
-    adherence = _number(raw.get("adherence", 1.0), f"{where}.adherence", problems)
-    if not 0.0 < adherence <= 1.0:
-        problems.append(Problem(f"{where}.adherence", "must be more than 0 and at most 1"))
-    return Control(
-        id=cid,
-        name=_text(raw.get("name"), f"{where}.name", problems),
-        hierarchy=str(hierarchy),
-        description=_text(
-            raw.get("description", ""), f"{where}.description", problems, required=False
-        ),
-        kinds=frozenset(kinds),
-        effect=_effect(raw.get("effect", {}), f"{where}.effect", problems),
-        likelihood_multiplier=multiplier,
-        adherence=adherence,
-        releasable=releasable,
-        min_height_m=limits["min_height_m"],
-        max_height_m=limits["max_height_m"],
-        cost_fixed=costs["fixed"],
-        cost_per_m_width=costs["per_m_width"],
-        cost_per_m2=costs["per_m2"],
-        conflicts=tuple(str(c) for c in conflicts),
-        conditions=texts,
-    )
-
-
-def parse_catalogue(doc: Any, *, source: str = "") -> Catalogue:
-    """A :class:`Catalogue` from a parsed JSON document. Raises :class:`CatalogueError` listing
-    every problem with its place (``controls[3].cost.per_m_width: ...``)."""
-    problems: list[Problem] = []
-    if not isinstance(doc, Mapping) or doc.get("format") != CATALOGUE_FORMAT:
-        raise CatalogueError(
-            [Problem("format", f"not a control catalogue (expected {CATALOGUE_FORMAT!r})")], source
-        )
-    version = doc.get("version")
-    if version != CATALOGUE_VERSION:
-        raise CatalogueError(
-            [Problem("version", f"unsupported version {version!r} (expected {CATALOGUE_VERSION})")],
-            source,
-        )
-    currency = _text(doc.get("currency"), "currency", problems)
-    basis = doc.get("cost_basis", {})
-    settings = {"enclosure_height_m": 2.4, "window_height_m": 1.2}
-    if not isinstance(basis, Mapping):
-        problems.append(Problem("cost_basis", "expected an object"))
-    else:
-        for key in settings:
-            if key in basis:
-                settings[key] = _number(basis[key], f"cost_basis.{key}", problems)
-    wind_m = _number(doc.get("wind_rated_above_m", 18.0), "wind_rated_above_m", problems)
-    raw_controls = doc.get("controls")
-    controls: list[Control] = []
-    if not isinstance(raw_controls, list) or not raw_controls:
-        problems.append(Problem("controls", "expected a non-empty list"))
-    else:
-        seen: set[str] = set()
-        for i, raw in enumerate(raw_controls):
-            c = _control(raw, f"controls[{i}]", problems)
-            if c is None:
-                continue
-            if c.id in seen:
-                problems.append(Problem(f"controls[{i}].id", f"duplicate id {c.id!r}"))
-            seen.add(c.id)
-            controls.append(c)
-    if problems:
-        raise CatalogueError(problems, source)
-    return Catalogue(
-        controls=tuple(controls),
-        currency=currency,
-        description=str(doc.get("description", "")),
-        enclosure_height_m=settings["enclosure_height_m"],
-        window_height_m=settings["window_height_m"],
-        wind_rated_above_m=wind_m,
-    )
-
-
-def load_catalogue(path: str | Path | None = None) -> Catalogue:
-    """Read a control catalogue file (default: the shipped ``resources/controls.json``).
-
-    Raises :class:`CatalogueError` for a malformed file and ``OSError`` when it cannot be read."""
-    p = resource_path("controls.json") if path is None else Path(path)
-    text = p.read_text(encoding="utf-8")
-    try:
-        doc = json.loads(text)
-    except json.JSONDecodeError as exc:
-        raise CatalogueError([Problem(f"line {exc.lineno}", exc.msg)], p.name) from None
-    return parse_catalogue(doc, source=p.name)
 
 
 # --- applicability, conflicts, conditions ------------------------------------------------------

@@ -91,3 +91,18 @@ def test_a_number_too_large_for_a_float_is_a_plain_error(name: str) -> None:
 def test_a_temperature_must_be_a_finite_number(text: str) -> None:
     with pytest.raises(ValueError, match="temperature"):
         parse_value(field_spec(INFO_FIELDS, "air_temperature_c"), text)
+
+
+def test_enum_fields_read_the_trades_words_as_the_schedule_does() -> None:
+    """The editor and the schedule import share the registry's value synonyms ("casement",
+    "sash", "fly screen" are trade words for these kinds and screens; common practice)."""
+    from petfall_audit.editing.fields import OPENING_FIELDS, field_spec, parse_value
+    from petfall_audit.model import CatsPresent, OpeningKind, Screen
+
+    kind = field_spec(OPENING_FIELDS, "kind")
+    assert parse_value(kind, "casement") is OpeningKind.WINDOW_CASEMENT
+    assert parse_value(kind, "Sash window") is OpeningKind.WINDOW_HUNG
+    assert parse_value(field_spec(OPENING_FIELDS, "screen"), "fly screen") is Screen.INSECT
+    assert parse_value(field_spec(OPENING_FIELDS, "cats_present"), "y") is CatsPresent.YES
+    with pytest.raises(ValueError, match="is not one of"):
+        parse_value(kind, "no")  # "no" is a screen's synonym, never a kind

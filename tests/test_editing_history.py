@@ -29,7 +29,7 @@ def test_undo_redo_walk_the_steps_and_restore_the_model_exactly() -> None:
     h.push(SetOpeningFields(["E-1"], {"width_m": 1.5}))
     middle = h.doc.building
     h.push(SetOpeningFields(["E-1"], {"width_m": 2.0}))
-    assert h.undo_label == "Set width m of E-1" and width(h) == 2.0
+    assert h.undo_label == "Set width of E-1" and width(h) == 2.0
     assert h.undo() and h.doc.building is middle
     assert h.undo() and h.doc.building is start
     assert not h.undo() and not h.can_undo

@@ -103,8 +103,9 @@ def test_imported_values() -> None:
     assert window.projection_m == 0.0
     # floor 4 is new: the schedule gives its elevation (45 ft = 13.716 m) and label
     assert preview.floors == (Floor(4, "Roof terrace level", 13.716),)
-    # facade "east" is new; it is as long as its openings reach
-    assert [(f.id, f.length_m) for f in preview.facades] == [("east", 12.192)]
+    # facade "east" is new: its opening reaches 40 ft = 12.192 m from x = 0, plus the 1 m least
+    # margin, rounded up to 0.1 m (the documented rule; common practice, no source)
+    assert [(f.id, f.length_m) for f in preview.facades] == [("east", 13.2)]
     assert preview.rows == (2, 3, 4, 5, 6)
 
 

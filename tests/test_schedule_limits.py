@@ -13,7 +13,7 @@ import openpyxl
 import pytest
 
 from petfall_audit.errors import ScheduleImportError
-from petfall_audit.io import schedule
+from petfall_audit.io.schedule import read as schedule  # the reading step holds the limits
 from petfall_audit.io.schedule import read_table
 
 FIXTURES = Path(__file__).parent / "fixtures" / "schedules"

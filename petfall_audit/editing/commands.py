@@ -21,6 +21,7 @@ from typing import Any, get_type_hints
 
 from petfall_audit.editing.document import Document, validate
 from petfall_audit.errors import PetfallError, Problem
+from petfall_audit.field_registry import field_words, section_fields
 from petfall_audit.model import (
     Building,
     BuildingInfo,
@@ -224,6 +225,14 @@ def _replace_items(items: tuple[Any, ...], key: str, wanted: Iterable[Any], chan
     return tuple(out)
 
 
+def _named(noun: str, item_id: str) -> str:
+    """``"surface P1"``; just ``"surface"`` when the id is the noun the app numbers new items
+    with (``surface``, ``surface-2``), so that a label never reads "Add surface surface"."""
+    if re.fullmatch(rf"{re.escape(noun)}(?:[-_ ]?\d+)?", item_id.strip().lower()):
+        return noun
+    return f"{noun} {item_id}"
+
+
 def _plural(n: int, word: str) -> str:
     return f"{n} {word}" if n == 1 else f"{n} {word}s"
 
@@ -242,7 +251,7 @@ class SetOpeningFields(BuildingCommand):
         self.changes = _coerce_changes(Opening, changes, "openings")
         if "id" in self.changes and len(self.ids) > 1:
             raise _refuse("openings.id", "several openings cannot take the same id")
-        fields = ", ".join(n.replace("_", " ") for n in self.changes)
+        fields = field_words("openings", self.changes)
         target = self.ids[0] if len(self.ids) == 1 else _plural(len(self.ids), "opening")
         self._default_label = label is None
         self._base_label = label or f"Set {fields} of {target}"
@@ -264,10 +273,8 @@ class SetOpeningFields(BuildingCommand):
                 out.append(dataclasses.replace(o, **extra) if extra else o)
             openings = tuple(out)
             if carried and self._default_label:
-                from petfall_audit.editing.fields import OPENING_FIELDS
-
-                names = [s.label.lower() for s in OPENING_FIELDS if s.name in carried]
-                self.label = f"{self._base_label} (and {', '.join(names)} to suit)"
+                names = [f.name for f in section_fields("openings") if f.name in carried]
+                self.label = f"{self._base_label} (and {field_words('openings', names)} to suit)"
         return dataclasses.replace(building, openings=openings)
 
 
@@ -323,7 +330,7 @@ class PasteOpenings(BuildingCommand):
                 continue
             missing = [f for f in ("id", *_NEW_OPENING_NEEDS) if f not in values]
             if missing:
-                names = ", ".join(m.replace("_m", "").replace("_", " ") for m in missing)
+                names = field_words("openings", missing)
                 raise _refuse(f"row {n}", f"a new opening needs {names}; the row has none")
             new = Opening(**values)
             where[new.id] = len(openings)
@@ -420,7 +427,7 @@ class SetFloor(BuildingCommand):
     def __init__(self, level: int, changes: Mapping[str, Any], *, label: str | None = None) -> None:
         self.level = level
         self.changes = _coerce_changes(Floor, changes, "floors")
-        fields = ", ".join(n.replace("_", " ") for n in self.changes)
+        fields = field_words("floors", self.changes)
         super().__init__(label or f"Set {fields} of floor {level}")
 
     def apply(self, building: Building) -> Building:
@@ -585,7 +592,7 @@ class SetBuildingInfo(BuildingCommand):
     def __init__(self, changes: Mapping[str, Any], *, label: str | None = None,
                  merge_key: Hashable | None = None) -> None:
         self.changes = _coerce_changes(BuildingInfo, changes, "info")
-        fields = ", ".join(n.replace("_", " ") for n in self.changes)
+        fields = field_words("info", self.changes)
         super().__init__(label or f"Set building {fields}", merge_key)
 
     def apply(self, building: Building) -> Building:
@@ -598,7 +605,7 @@ class AddFacade(BuildingCommand):
 
     def __init__(self, facade: Facade, *, label: str | None = None) -> None:
         self.facade = facade
-        super().__init__(label or f"Add facade {facade.id}")
+        super().__init__(label or f"Add {_named('facade', facade.id)}")
 
     def apply(self, building: Building) -> Building:
         if any(f.id == self.facade.id for f in building.facades):
@@ -611,7 +618,7 @@ class RemoveFacade(BuildingCommand):
 
     def __init__(self, facade_id: str, *, label: str | None = None) -> None:
         self.facade_id = facade_id
-        super().__init__(label or f"Remove facade {facade_id}")
+        super().__init__(label or f"Remove {_named('facade', facade_id)}")
 
     def apply(self, building: Building) -> Building:
         if not any(f.id == self.facade_id for f in building.facades):
@@ -634,7 +641,7 @@ class SetFacade(BuildingCommand):
                  label: str | None = None) -> None:
         self.facade_id = facade_id
         self.changes = _coerce_changes(Facade, changes, "facades")
-        fields = ", ".join(n.replace("_", " ") for n in self.changes)
+        fields = field_words("facades", self.changes)
         super().__init__(label or f"Set {fields} of facade {facade_id}")
 
     def apply(self, building: Building) -> Building:
@@ -658,7 +665,7 @@ class AddSurface(BuildingCommand):
 
     def __init__(self, surface: Surface, *, label: str | None = None) -> None:
         self.surface = surface
-        super().__init__(label or f"Add surface {surface.id}")
+        super().__init__(label or f"Add {_named('surface', surface.id)}")
 
     def apply(self, building: Building) -> Building:
         if any(s.id == self.surface.id for s in building.surfaces):
@@ -671,7 +678,7 @@ class RemoveSurface(BuildingCommand):
 
     def __init__(self, surface_id: str, *, label: str | None = None) -> None:
         self.surface_id = surface_id
-        super().__init__(label or f"Remove surface {surface_id}")
+        super().__init__(label or f"Remove {_named('surface', surface_id)}")
 
     def apply(self, building: Building) -> Building:
         if not any(s.id == self.surface_id for s in building.surfaces):
@@ -688,7 +695,7 @@ class SetSurface(BuildingCommand):
                  label: str | None = None) -> None:
         self.surface_id = surface_id
         self.changes = _coerce_changes(Surface, changes, "surfaces")
-        fields = ", ".join(n.replace("_", " ") for n in self.changes)
+        fields = field_words("surfaces", self.changes)
         super().__init__(label or f"Set {fields} of surface {surface_id}")
 
     def apply(self, building: Building) -> Building:

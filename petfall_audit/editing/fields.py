@@ -1,5 +1,8 @@
 """What each editable field is, how it is shown and how typed text is read. No Qt.
 
+The fields, their labels, help and units come from the one registry,
+:mod:`petfall_audit.field_registry`.
+
 Forms and tables share these specs, so a value typed in either is read the same way. The
 formats here are the editor's round-trip formats (precise enough to read back unchanged); the
 names of enum values come from :mod:`petfall_audit.present`. Lengths are
@@ -16,19 +19,14 @@ from dataclasses import dataclass
 from enum import StrEnum
 from typing import Any
 
-from petfall_audit.io._schema import LIMITS
-from petfall_audit.model import (
-    CatsPresent,
-    OpenFrequency,
-    OpeningKind,
-    Screen,
-    SurfaceKind,
-)
+from petfall_audit.field_registry import ENUM_SYNONYMS, FieldDef, section_fields
+from petfall_audit.limits import LIMITS
 from petfall_audit.present.labels import enum_label
 from petfall_audit.units import INCH_M, parse_length_m
 
 __all__ = [
     "FieldSpec",
+    "spec_of",
     "OPENING_FIELDS",
     "FLOOR_FIELDS",
     "FACADE_FIELDS",
@@ -44,7 +42,8 @@ __all__ = [
 
 @dataclass(frozen=True, slots=True)
 class FieldSpec:
-    """One editable field.
+    """One editable field, as the editor sees it (built from the registry,
+    :mod:`petfall_audit.field_registry`).
 
     ``kind``: ``text`` | ``id`` | ``int`` | ``length`` (m) | ``gap`` (mm) | ``enum`` | ``bool`` |
     ``temperature`` (°C) | ``ref`` (the id of another item, e.g. a facade) | ``dose`` (a mean
@@ -61,87 +60,44 @@ class FieldSpec:
     #: How the app edits a ``text`` field: ``""`` one line, ``"lines"`` several lines,
     #: ``"date"`` a date picker (the value stays ``YYYY-MM-DD`` text or empty).
     editor: str = ""
+    #: The field in a sentence (undo labels, messages); default: the label in lower case.
+    words: str = ""
+    #: The most characters a text field holds; ``None``: by its kind (see :func:`max_chars`).
+    chars: int | None = None
+
+    @property
+    def noun(self) -> str:
+        """The field in a sentence."""
+        return self.words or self.label.lower()
 
 
-OPENING_FIELDS: tuple[FieldSpec, ...] = (
-    FieldSpec("id", "Id", "id", help="Unique name of the opening, e.g. S-05-2"),
-    FieldSpec("floor", "Floor", "int", help="Level number of the floor it is on"),
-    FieldSpec("facade", "Facade", "ref"),
-    FieldSpec("kind", "Kind", "enum", OpeningKind),
-    FieldSpec("x_m", "Position along facade", "length", help="Left edge, from the facade's start"),
-    FieldSpec("width_m", "Width", "length"),
-    FieldSpec("projection_m", "Projection", "length",
-              help="How far a balcony stands out from the facade (0 for windows)"),
-    FieldSpec("perch_height_m", "Rail top / sill height", "length",
-              help="Height of the rail top or sill above the floor"),
-    FieldSpec("largest_gap_mm", "Largest gap in guard", "gap", optional=True,
-              help="Widest gap in the infill; empty for solid infill"),
-    FieldSpec("bottom_gap_mm", "Gap under guard", "gap", optional=True,
-              help="Gap between the floor and the guard; empty for none"),
-    FieldSpec("climbable_infill", "Climbable infill", "bool"),
-    FieldSpec("flat_rail_top", "Flat rail top a cat can sit on", "bool"),
-    FieldSpec("climbing_aids", "Furniture or planters by the guard", "bool"),
-    FieldSpec("limiter_gap_mm", "Limiter opening", "gap", optional=True,
-              help="Opening a limiter allows; empty for no limiter"),
-    FieldSpec("screen", "Screen", "enum", Screen),
-    FieldSpec("netting_mesh_mm", "Netting mesh", "gap", optional=True,
-              help="Mesh size of fitted netting; empty for no netting"),
-    FieldSpec("open_frequency", "How often open", "enum", OpenFrequency),
-    FieldSpec("cats_present", "Cats live behind it", "enum", CatsPresent),
-    FieldSpec("escape_window", "Emergency escape window", "bool",
-              help="Never fit anything that blocks it"),
-    FieldSpec("notes", "Notes", "text", optional=True, editor="lines"),
-)
+def spec_of(field: FieldDef) -> FieldSpec:
+    """The editor's spec of a registry field."""
+    return FieldSpec(field.name, field.label, field.kind, field.enum, field.optional, field.help,
+                     field.editor, words=field.noun, chars=field.max_chars)
 
-FLOOR_FIELDS: tuple[FieldSpec, ...] = (
-    FieldSpec("level", "Level", "int"),
-    FieldSpec("label", "Name", "text", optional=True),
-    FieldSpec("elevation_m", "Floor level above datum", "length"),
-)
 
-FACADE_FIELDS: tuple[FieldSpec, ...] = (
-    FieldSpec("id", "Id", "id"),
-    FieldSpec("label", "Name", "text", optional=True),
-    FieldSpec("length_m", "Length", "length"),
-)
+def _specs(section: str, names: Sequence[str]) -> tuple[FieldSpec, ...]:
+    return tuple(spec_of(f) for f in section_fields(section, names))
 
-SURFACE_FIELDS: tuple[FieldSpec, ...] = (
-    FieldSpec("id", "Id", "id"),
-    FieldSpec("label", "Name", "text", optional=True),
-    FieldSpec("kind", "Surface", "enum", SurfaceKind),
-    FieldSpec("elevation_m", "Top above datum", "length"),
-    FieldSpec("facade", "In front of facade", "ref", optional=True,
-              help="Empty: in front of every facade"),
-    FieldSpec("from_facade_m", "From (out from facade)", "length"),
-    FieldSpec("to_facade_m", "To (out from facade)", "length", optional=True,
-              help="Empty: reaches on without end (the street beyond)"),
-    FieldSpec("x_from_m", "Along facade from", "length", optional=True,
-              help="Empty: from the facade's start. A podium or canopy under part of the "
-              "facade starts here"),
-    FieldSpec("x_to_m", "Along facade to", "length", optional=True,
-              help="Empty: to the facade's end"),
-)
 
-INJURY_FIELDS: tuple[FieldSpec, ...] = (
-    FieldSpec("moderate_g", "Moderate or worse: median dose", "dose",
-              help="Half of the cats hurt by a fall of this dose (mean deceleration, g) are "
-              "hurt moderately or worse"),
-    FieldSpec("serious_g", "Serious or worse: median dose", "dose"),
-    FieldSpec("life_threatening_g", "Life-threatening: median dose", "dose"),
-    FieldSpec("spread", "Spread between cats", "number",
-              help="How differently cats are hurt by the same fall (0: every cat alike)"),
-)
-
-INFO_FIELDS: tuple[FieldSpec, ...] = (
-    FieldSpec("name", "Building", "text"),
-    FieldSpec("address", "Address", "text", optional=True),
-    FieldSpec("site_altitude_m", "Site altitude above sea level", "length"),
-    FieldSpec("air_temperature_c", "Design air temperature", "temperature"),
-    FieldSpec("auditor", "Auditor", "text", optional=True),
-    FieldSpec("audit_date", "Audit date", "text", optional=True, editor="date",
-              help="The day of the audit; clear it for none"),
-    FieldSpec("notes", "Notes", "text", optional=True, editor="lines"),
-)
+OPENING_FIELDS: tuple[FieldSpec, ...] = _specs("openings", (
+    "id", "floor", "facade", "kind", "x_m", "width_m", "projection_m", "perch_height_m",
+    "largest_gap_mm", "bottom_gap_mm", "climbable_infill", "flat_rail_top", "climbing_aids",
+    "limiter_gap_mm", "screen", "netting_mesh_mm", "open_frequency", "cats_present",
+    "escape_window", "notes",
+))
+FLOOR_FIELDS: tuple[FieldSpec, ...] = _specs("floors", ("level", "label", "elevation_m"))
+FACADE_FIELDS: tuple[FieldSpec, ...] = _specs("facades", ("id", "label", "length_m"))
+SURFACE_FIELDS: tuple[FieldSpec, ...] = _specs("surfaces", (
+    "id", "label", "kind", "elevation_m", "facade", "from_facade_m", "to_facade_m", "x_from_m",
+    "x_to_m",
+))
+INJURY_FIELDS: tuple[FieldSpec, ...] = _specs(
+    "injury", ("moderate_g", "serious_g", "life_threatening_g", "spread"))
+INFO_FIELDS: tuple[FieldSpec, ...] = _specs("info", (
+    "name", "address", "site_altitude_m", "air_temperature_c", "auditor", "audit_date", "notes",
+))
 
 
 def field_spec(fields: Sequence[FieldSpec], name: str) -> FieldSpec:
@@ -235,6 +191,8 @@ def _length_m(text: str, default_unit: str) -> float:
 def max_chars(spec: FieldSpec) -> int | None:
     """The most characters a text, id or reference field holds (the loader's limits), or
     ``None`` for a field that is not text."""
+    if spec.chars is not None:
+        return spec.chars
     if spec.kind in ("id", "ref"):
         return LIMITS.id_max_chars
     if spec.kind != "text":
@@ -288,6 +246,9 @@ def parse_value(spec: FieldSpec, text: str, system: str = "metric") -> Any:
         for member in spec.enum:
             if lowered in (member.value, enum_label(member).lower()):
                 return member
+        synonym = ENUM_SYNONYMS.get(lowered)  # the trade's words, as a schedule reads them
+        if synonym is not None and synonym in {m.value for m in spec.enum}:
+            return spec.enum(synonym)
         choices = ", ".join(enum_label(m) for m in spec.enum)
         raise ValueError(f"'{text}' is not one of: {choices}")
     if spec.kind == "bool":

@@ -14,7 +14,8 @@ from collections.abc import Mapping
 from pathlib import Path
 from typing import Any
 
-from PySide6.QtCore import Qt
+from PySide6.QtCore import QAbstractTableModel, QModelIndex, QPersistentModelIndex, Qt
+from PySide6.QtGui import QBrush, QColor, QFont
 from PySide6.QtWidgets import (
     QAbstractItemView,
     QButtonGroup,
@@ -32,8 +33,10 @@ from PySide6.QtWidgets import (
     QPushButton,
     QRadioButton,
     QSplitter,
+    QTableView,
     QTableWidget,
     QTableWidgetItem,
+    QTabWidget,
     QVBoxLayout,
     QWidget,
 )
@@ -44,6 +47,7 @@ from petfall_audit.errors import ScheduleImportError
 from petfall_audit.io.schedule import (
     COLUMNS,
     ImportPreview,
+    PreviewGrid,
     RawTable,
     apply_import,
     column_letter,
@@ -51,9 +55,12 @@ from petfall_audit.io.schedule import (
     guess_mapping,
     header_units,
     load_mapping,
+    preview_grid,
     preview_import,
     read_table,
 )
+from petfall_audit.io.schedule.columns import human
+from petfall_audit.io.schedule.grid import STATUS_WORDS
 from petfall_audit.model import Building
 
 __all__ = ["ImportDialog", "ImportPrompts", "import_schedule", "FIELD_CHOICES"]
@@ -62,6 +69,84 @@ __all__ = ["ImportDialog", "ImportPrompts", "import_schedule", "FIELD_CHOICES"]
 FIELD_CHOICES: tuple[tuple[str, str], ...] = tuple(
     (c.field, c.header.split(" (")[0] + (" *" if c.required else "")) for c in COLUMNS)
 _IGNORE = "(ignore this column)"
+_BAD_CELL = QColor("#f6c6c6")  # a light red that dark text reads on (common practice, no source)
+_SKIPPED_TEXT = QColor("#6b6b6b")
+_Index = QModelIndex | QPersistentModelIndex
+
+
+class PreviewGridModel(QAbstractTableModel):
+    """The schedule's rows as the file has them (column 0: what the import does with the row),
+    each bad cell marked (background, bold, its problem as the tooltip). Reads a Qt-free
+    :class:`~petfall_audit.io.schedule.PreviewGrid`."""
+
+    def __init__(self, grid: PreviewGrid | None = None) -> None:
+        super().__init__()
+        self.grid = grid
+
+    def set_grid(self, grid: PreviewGrid) -> None:
+        self.beginResetModel()
+        self.grid = grid
+        self.endResetModel()
+
+    def rowCount(self, parent: _Index = QModelIndex()) -> int:  # noqa: B008, N802
+        return 0 if parent.isValid() or self.grid is None else self.grid.row_count
+
+    def columnCount(self, parent: _Index = QModelIndex()) -> int:  # noqa: B008, N802
+        return 0 if parent.isValid() or self.grid is None else self.grid.column_count + 1
+
+    def headerData(self, section: int, orientation: Qt.Orientation,  # noqa: N802
+                   role: int = Qt.ItemDataRole.DisplayRole) -> Any:
+        g = self.grid
+        if g is None:
+            return None
+        if orientation == Qt.Orientation.Vertical:
+            if role == Qt.ItemDataRole.DisplayRole and 0 <= section < g.row_count:
+                return str(g.row_numbers[section])
+            return None
+        if section == 0:
+            return "Import" if role == Qt.ItemDataRole.DisplayRole else None
+        column = section - 1
+        field = g.fields[column] if column < len(g.fields) else ""
+        if role == Qt.ItemDataRole.DisplayRole:
+            read_as = human(field) if field else "not read"
+            return f"{column_letter(column)}: {g.headers[column]}\n({read_as})"
+        if role == Qt.ItemDataRole.ToolTipRole:
+            return g.header_problem(column) or None
+        if role == Qt.ItemDataRole.ForegroundRole and g.header_problem(column):
+            return QBrush(QColor("#a00000"))
+        return None
+
+    def data(self, index: _Index, role: int = Qt.ItemDataRole.DisplayRole) -> Any:
+        g = self.grid
+        if g is None or not index.isValid():
+            return None
+        row, column = index.row(), index.column()
+        skipped = g.status(row) == "skipped"
+        if column == 0:
+            problem = g.row_problem(row)
+            if role == Qt.ItemDataRole.DisplayRole:
+                return STATUS_WORDS[g.status(row)]
+            if role == Qt.ItemDataRole.ToolTipRole:
+                return problem or None
+            if role == Qt.ItemDataRole.BackgroundRole and problem:
+                return QBrush(_BAD_CELL)
+            if role == Qt.ItemDataRole.ForegroundRole and skipped:
+                return QBrush(_SKIPPED_TEXT)
+            return None
+        cell = g.cell(row, column - 1)
+        if role == Qt.ItemDataRole.DisplayRole:
+            return cell.text
+        if role == Qt.ItemDataRole.ToolTipRole:
+            return cell.problem or None
+        if role == Qt.ItemDataRole.BackgroundRole and cell.bad:
+            return QBrush(_BAD_CELL)
+        if role == Qt.ItemDataRole.FontRole and cell.bad:
+            font = QFont()
+            font.setBold(True)
+            return font
+        if role == Qt.ItemDataRole.ForegroundRole and skipped and not cell.bad:
+            return QBrush(_SKIPPED_TEXT)
+        return None
 
 
 class ImportPrompts:
@@ -133,7 +218,7 @@ class ImportDialog(QDialog):
             box.setObjectName(f"field_{row}")
             box.addItem(_IGNORE, "")
             for field, label in FIELD_CHOICES:
-                box.addItem(f"{label} ({field})", field)
+                box.addItem(label, field)
             box.setCurrentIndex(max(box.findData(guessed.get(head, "")), 0))
             box.currentIndexChanged.connect(self._on_mapping_changed)
             self.mapping_table.setCellWidget(row, 2, box)
@@ -160,6 +245,20 @@ class ImportDialog(QDialog):
         self.problems.horizontalHeader().setSectionResizeMode(
             QHeaderView.ResizeMode.ResizeToContents)
         self.problems.horizontalHeader().setStretchLastSection(True)
+        self.problems.setToolTip("Double-click a problem to see its cell in the rows")
+        self.problems.cellDoubleClicked.connect(self.show_problem)
+        self.grid_model = PreviewGridModel()
+        self.grid_view = QTableView()
+        self.grid_view.setObjectName("preview_grid")
+        self.grid_view.setModel(self.grid_model)
+        self.grid_view.setEditTriggers(QAbstractItemView.EditTrigger.NoEditTriggers)
+        self.grid_view.setWordWrap(False)
+        self.grid_view.verticalHeader().setDefaultSectionSize(
+            self.grid_view.fontMetrics().height() + 8)  # compact rows: more of the file in view
+        self.preview_tabs = QTabWidget()
+        self.preview_tabs.setObjectName("preview_tabs")
+        self.preview_tabs.addTab(self.grid_view, "Rows")
+        self.preview_tabs.addTab(self.problems, "Problems")
 
         self.merge = QRadioButton("&Merge: update openings with the same id, add the new ones")
         self.merge.setObjectName("merge_mode")
@@ -201,10 +300,12 @@ class ImportDialog(QDialog):
         bl = QVBoxLayout(bottom)
         bl.setContentsMargins(0, 0, 0, 0)
         bl.addWidget(self.summary)
-        bl.addWidget(self.problems, 1)
+        bl.addWidget(self.preview_tabs, 1)
         splitter = QSplitter(Qt.Orientation.Vertical)
         splitter.addWidget(top)
         splitter.addWidget(bottom)
+        splitter.setStretchFactor(0, 2)
+        splitter.setStretchFactor(1, 3)  # the rows of the preview get the larger share
         layout = QVBoxLayout(self)
         layout.addWidget(splitter, 1)
         layout.addWidget(how)
@@ -273,8 +374,9 @@ class ImportDialog(QDialog):
         p = self.preview
         self.summary.setText(
             p.summary() + (". No problems." if not p.problems else
-                           f". {len(p.problems)} problem(s) below, by spreadsheet row "
-                           "(the header is row 1) and column."))
+                           f". {len(p.problems)} problem(s): the bad cells are marked in the "
+                           "rows (point at one for its problem) and listed under Problems, by "
+                           "spreadsheet row (the header is row 1) and column."))
         self.problems.setRowCount(len(p.problems))
         for i, prob in enumerate(p.problems):
             where = (f"{prob.letter} ({prob.column})" if prob.letter and prob.column
@@ -282,7 +384,34 @@ class ImportDialog(QDialog):
             for col, text in enumerate((str(prob.row) if prob.row else "file", where,
                                         prob.message)):
                 self.problems.setItem(i, col, QTableWidgetItem(text))
+        self.grid = preview_grid(self.table, p)
+        self.grid_model.set_grid(self.grid)
+        self.grid_view.resizeColumnsToContents()
+        for column in range(1, self.grid_model.columnCount()):  # long notes stay readable
+            self.grid_view.setColumnWidth(column, min(self.grid_view.columnWidth(column), 260))
+        bad = len(p.bad_rows)
+        self.preview_tabs.setTabText(
+            0, f"Rows ({len(self.table.rows)}, {bad} with problems)" if bad
+            else f"Rows ({len(self.table.rows)})")
+        self.preview_tabs.setTabText(1, f"Problems ({len(p.problems)})")
         self._update_ok()
+
+    def show_problem(self, index: int, *_: Any) -> None:
+        """Show the cell of problem ``index`` (of the problems table) in the rows."""
+        if self.preview is None or not 0 <= index < len(self.preview.problems):
+            return
+        prob = self.preview.problems[index]
+        row = self.grid.index_of_row(prob.row)
+        if row is None:
+            return
+        column = 0
+        if prob.letter:
+            letters = [column_letter(i) for i in range(len(self.table.headers))]
+            column = letters.index(prob.letter) + 1 if prob.letter in letters else 0
+        cell = self.grid_model.index(row, column)
+        self.preview_tabs.setCurrentWidget(self.grid_view)
+        self.grid_view.scrollTo(cell)
+        self.grid_view.setCurrentIndex(cell)
 
     def _update_ok(self, *_: Any) -> None:
         p = self.preview

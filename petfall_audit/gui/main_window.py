@@ -622,7 +622,7 @@ class MainWindow(QMainWindow):
         Openings the value does not fit (a limiter on a balcony) are left as they are and the
         status bar says so; if it fits none of them, nothing changes."""
         ids = tuple(ids)
-        label = field_spec(OPENING_FIELDS, field).label.lower()
+        label = field_spec(OPENING_FIELDS, field).noun
         fits, skipped, why = applicable_openings(self.document.building, ids, field, value)
         reason: str | None
         if ids and not fits:

@@ -1,5 +1,7 @@
 """Pydantic v2 models of the building file (version 1) and its JSON Schema.
 
+Each field's description and limits come from the field registry
+(:mod:`petfall_audit.field_registry`), so the schema, the editor and the schedule import agree.
 These models check the *shape* of a document: types, allowed values, unknown fields, required
 fields and single-field limits. Cross-field and cross-reference checks (duplicate ids, missing
 floors, surfaces above openings...) run on the built model in
@@ -31,6 +33,8 @@ from pydantic import (
     model_validator,
 )
 
+from petfall_audit.field_registry import field_def, schema_constraints
+from petfall_audit.limits import LIMITS, Limits
 from petfall_audit.model import (
     CAT_PRESETS,
     BuildingInfo,
@@ -79,44 +83,6 @@ CURRENT_VERSION = 2
 SCHEMA_FILENAME = "building.schema.json"
 
 
-@dataclasses.dataclass(frozen=True, slots=True)
-class Limits:
-    """Plausibility limits; values outside them are reported as absurd (units in the names)."""
-
-    level_min: int = -20
-    level_max: int = 300
-    elevation_min_m: float = -100.0
-    elevation_max_m: float = 1000.0
-    altitude_min_m: float = -500.0
-    altitude_max_m: float = 9000.0
-    temperature_min_c: float = -60.0
-    temperature_max_c: float = 60.0
-    length_max_m: float = 1000.0  # facade length, position along it, distance out from it
-    width_max_m: float = 100.0
-    projection_max_m: float = 30.0
-    perch_height_max_m: float = 3.0
-    gap_max_mm: float = 2000.0
-    mesh_max_mm: float = 500.0
-    facade_tolerance_m: float = 0.01  # x_m + width_m may pass the facade end by this much
-    catch_reach_m: float = 5.0  # beyond its projection, how far out an opening's fall may land
-    mass_min_kg: float = 0.1  # a newborn kitten weighs about 100 g (common practice, no source)
-    mass_max_kg: float = 30.0
-    cda_min_m2: float = 0.005  # C_d·A of a newborn kitten scaled from an adult's (m^(2/3))
-    cda_max_m2: float = 2.0
-    righting_time_max_s: float = 5.0
-    launch_speed_max_mps: float = 20.0
-    # Text limits (characters), so that every file the loader accepts prints: a name or label
-    # fits a table cell, a note a few pages.
-    id_max_chars: int = 100
-    name_max_chars: int = 200  # building name, auditor, floor, facade and surface labels
-    address_max_chars: int = 500
-    notes_max_chars: int = 20_000
-    photo_path_max_chars: int = 500
-    photos_max: int = 20  # photos per opening
-    budget_max: float = 1e12  # in the plan's currency: more than any building's fixes cost
-
-
-LIMITS = Limits()
 
 
 def _default(cls: type, name: str) -> Any:
@@ -144,19 +110,7 @@ class _Strict(BaseModel):
 
 
 _L = LIMITS
-_Id = Annotated[
-    str,
-    Field(min_length=1, max_length=_L.id_max_chars, description="Identifier, unique in its list."),
-]
-_Name = Annotated[str, Field(max_length=_L.name_max_chars)]
-_Notes = Annotated[str, Field(max_length=_L.notes_max_chars)]
 _PhotoPath = Annotated[str, Field(max_length=_L.photo_path_max_chars)]
-_Level = Annotated[int, Field(ge=_L.level_min, le=_L.level_max)]
-_Elevation = Annotated[
-    float,
-    Field(ge=_L.elevation_min_m, le=_L.elevation_max_m, description="Metres above the datum."),
-]
-_Gap = Annotated[float, Field(ge=0.0, le=_L.gap_max_mm)]
 
 # The allowed words, spelled out for the schema and the type checker; a test keeps them equal
 # to the model's enums and presets.
@@ -197,43 +151,29 @@ class PlanSettingsModel(_Strict):
     )
 
 
+def _rf(section: str, name: str, **extra: Any) -> Any:
+    """A pydantic ``Field`` with the registry's description and limits of ``section.name``."""
+    return Field(**{**schema_constraints(section, name), **extra})
+
+
+def _info(name: str, **extra: Any) -> Any:
+    return _rf("info", name, default=_default(BuildingInfo, name), **extra)
+
+
 class BuildingModel(_Strict):
     """The "building" section: who and what is audited."""
 
-    name: _Name = Field(description="Name of the building.")
-    address: str = Field(
-        default=_default(BuildingInfo, "address"), max_length=_L.address_max_chars,
-        description="Postal address.",
-    )
-    site_altitude_m: float = Field(
-        default=_default(BuildingInfo, "site_altitude_m"),
-        ge=_L.altitude_min_m,
-        le=_L.altitude_max_m,
-        description="Site altitude above mean sea level (m).",
-    )
-    air_temperature_c: float = Field(
-        default=_default(BuildingInfo, "air_temperature_c"),
-        ge=_L.temperature_min_c,
-        le=_L.temperature_max_c,
-        description="Design air temperature (°C).",
-    )
-    auditor: _Name = Field(
-        default=_default(BuildingInfo, "auditor"), description="Who carried out the audit."
-    )
-    audit_date: str = Field(
-        default=_default(BuildingInfo, "audit_date"),
-        pattern=r"^(\d{4}-\d{2}-\d{2})?$",
-        description="Date of the audit, YYYY-MM-DD, or empty.",
-    )
-    notes: _Notes = Field(default=_default(BuildingInfo, "notes"), description="Free notes.")
+    name: str = _rf("info", "name")
+    address: str = _info("address")
+    site_altitude_m: float = _info("site_altitude_m")
+    air_temperature_c: float = _info("air_temperature_c")
+    auditor: str = _info("auditor")
+    audit_date: str = _info("audit_date", pattern=r"^(\d{4}-\d{2}-\d{2})?$")
+    notes: str = _info("notes")
     plan: PlanSettingsModel | None = Field(
         default=None, description="The fix plan's settings (optional; missing: none set)."
     )
-    code_profile: CodeProfileName = Field(
-        default=_default(BuildingInfo, "code_profile"),
-        description="Jurisdiction whose code profile applies (resources/code_profiles/); absent: "
-        "'generic', which cites no clause. Version 2.",
-    )
+    code_profile: CodeProfileName = _info("code_profile")
 
     @field_validator("audit_date")
     @classmethod
@@ -246,79 +186,49 @@ class BuildingModel(_Strict):
 class FloorModel(_Strict):
     """An item of "floors": a storey."""
 
-    level: _Level = Field(description="Level number (0 = ground floor; negative below).")
-    label: _Name = Field(description="Label shown to people, e.g. 'Level 12'.")
-    elevation_m: _Elevation = Field(description="Finished floor level above the datum (m).")
+    level: int = _rf("floors", "level")
+    label: str = _rf("floors", "label")
+    elevation_m: float = _rf("floors", "elevation_m")
 
 
 class FacadeModel(_Strict):
     """An item of "facades": a named building face."""
 
-    id: _Id
-    length_m: float = Field(gt=0.0, le=_L.length_max_m, description="Length of the face (m).")
-    label: _Name = Field(default=_default(Facade, "label"), description="Label shown to people.")
+    id: str = _rf("facades", "id")
+    length_m: float = _rf("facades", "length_m")
+    label: str = _rf("facades", "label", default=_default(Facade, "label"))
+
+
+def _surface(name: str, **extra: Any) -> Any:
+    return _rf("surfaces", name, default=_default(Surface, name), **extra)
 
 
 class SurfaceModel(_Strict):
     """An item of "surfaces": what lies below a facade."""
 
-    id: _Id
-    kind: SurfaceKindName = Field(description="What the surface is made of.")
-    elevation_m: _Elevation = Field(description="Top of the surface above the datum (m).")
-    facade: str | None = Field(
-        default=_default(Surface, "facade"),
-        max_length=_L.id_max_chars,
-        description="Id of the facade it lies in front of; null for every facade.",
-    )
-    from_facade_m: float = Field(
-        default=_default(Surface, "from_facade_m"),
-        ge=0.0,
-        le=_L.length_max_m,
-        description="Where it starts, out from the facade (m).",
-    )
-    to_facade_m: float | None = Field(
-        default=_default(Surface, "to_facade_m"),
-        ge=0.0,
-        le=_L.length_max_m,
-        description="Where it ends, out from the facade (m); null for unbounded.",
-    )
-    label: _Name = Field(default=_default(Surface, "label"), description="Label shown to people.")
-    x_from_m: float | None = Field(
-        default=None,
-        ge=0.0,
-        le=_L.length_max_m,
-        description="Where it starts along its facade (m, as openings' x_m); null for the "
-        "facade's start. Version 2.",
-    )
-    x_to_m: float | None = Field(
-        default=None,
-        ge=0.0,
-        le=_L.length_max_m,
-        description="Where it ends along its facade (m); null for the facade's end. Version 2.",
-    )
+    id: str = _rf("surfaces", "id")
+    kind: SurfaceKindName = _rf("surfaces", "kind")
+    elevation_m: float = _rf("surfaces", "elevation_m")
+    facade: str | None = _surface("facade")
+    from_facade_m: float = _surface("from_facade_m")
+    to_facade_m: float | None = _surface("to_facade_m")
+    label: str = _surface("label")
+    x_from_m: float | None = _surface("x_from_m")
+    x_to_m: float | None = _surface("x_to_m")
+
+
+def _injury(name: str) -> Any:
+    return _rf("injury", name, default=_default(InjuryThresholds, name))
 
 
 class InjuryModel(_Strict):
     """The "injury" section: the injury dose–response (version 2; absent = the fitted
     defaults)."""
 
-    moderate_g: float = Field(
-        default=_default(InjuryThresholds, "moderate_g"), gt=0.0, le=10_000.0,
-        description="Median dose (mean deceleration, g) of a moderate or worse injury.",
-    )
-    serious_g: float = Field(
-        default=_default(InjuryThresholds, "serious_g"), gt=0.0, le=10_000.0,
-        description="Median dose (g) of a serious or worse injury.",
-    )
-    life_threatening_g: float = Field(
-        default=_default(InjuryThresholds, "life_threatening_g"), gt=0.0, le=10_000.0,
-        description="Median dose (g) of a life-threatening injury.",
-    )
-    spread: float = Field(
-        default=_default(InjuryThresholds, "spread"), ge=0.0, le=5.0,
-        description="Spread of the log of the dose between cats hurt by the same fall "
-        "(0: the band is a step function of the dose).",
-    )
+    moderate_g: float = _injury("moderate_g")
+    serious_g: float = _injury("serious_g")
+    life_threatening_g: float = _injury("life_threatening_g")
+    spread: float = _injury("spread")
 
     @model_validator(mode="after")
     def _rising(self) -> InjuryModel:
@@ -334,72 +244,36 @@ def _opening_default(name: str) -> Any:
     return _default(Opening, name)
 
 
+def _op(name: str) -> Any:
+    return _rf("openings", name, default=_opening_default(name))
+
+
 class OpeningModel(_Strict):
     """An item of "openings": a balcony, terrace, gallery or window."""
 
-    id: _Id
-    floor: _Level = Field(description="Level of the floor it is on.")
-    facade: str = Field(max_length=_L.id_max_chars, description="Id of its facade.")
-    kind: OpeningKindName = Field(description="Kind of opening.")
-    x_m: float = Field(ge=0.0, le=_L.length_max_m, description="Left edge along the facade (m).")
-    width_m: float = Field(gt=0.0, le=_L.width_max_m, description="Width along the facade (m).")
-    projection_m: float = Field(
-        default=_opening_default("projection_m"),
-        ge=0.0,
-        le=_L.projection_max_m,
-        description="How far it stands out from the facade (m); 0 for windows.",
-    )
-    perch_height_m: float = Field(
-        default=_opening_default("perch_height_m"),
-        ge=0.0,
-        le=_L.perch_height_max_m,
-        description="Rail top or sill above its floor (m).",
-    )
-    largest_gap_mm: _Gap | None = Field(
-        default=_opening_default("largest_gap_mm"),
-        description="Widest gap in the guard's infill (mm); null for solid infill.",
-    )
-    bottom_gap_mm: _Gap | None = Field(
-        default=_opening_default("bottom_gap_mm"),
-        description="Gap under the guard (mm); null for none.",
-    )
-    climbable_infill: bool = Field(
-        default=_opening_default("climbable_infill"),
-        description="Horizontal rails or other footholds in the infill.",
-    )
-    flat_rail_top: bool = Field(
-        default=_opening_default("flat_rail_top"),
-        description="Rail top flat and wide enough to sit on.",
-    )
-    climbing_aids: bool = Field(
-        default=_opening_default("climbing_aids"),
-        description="Furniture, planters or bins next to the guard.",
-    )
-    limiter_gap_mm: _Gap | None = Field(
-        default=_opening_default("limiter_gap_mm"),
-        description="Opening a limiter allows (mm); null for no limiter.",
-    )
-    screen: ScreenName = Field(default=_opening_default("screen"), description="Screen fitted.")
-    netting_mesh_mm: float | None = Field(
-        default=_opening_default("netting_mesh_mm"),
-        gt=0.0,
-        le=_L.mesh_max_mm,
-        description="Mesh of fitted netting (mm); null for no netting.",
-    )
-    open_frequency: OpenFrequencyName = Field(
-        default=_opening_default("open_frequency"), description="How often it is open."
-    )
-    cats_present: CatsPresentName = Field(
-        default=_opening_default("cats_present"), description="Whether cats live behind it."
-    )
-    escape_window: bool = Field(
-        default=_opening_default("escape_window"),
-        description="An emergency escape window: never block it.",
-    )
-    notes: _Notes = Field(default=_opening_default("notes"), description="Free notes.")
+    id: str = _rf("openings", "id")
+    floor: int = _rf("openings", "floor")
+    facade: str = _rf("openings", "facade")
+    kind: OpeningKindName = _rf("openings", "kind")
+    x_m: float = _rf("openings", "x_m")
+    width_m: float = _rf("openings", "width_m")
+    projection_m: float = _op("projection_m")
+    perch_height_m: float = _op("perch_height_m")
+    largest_gap_mm: float | None = _op("largest_gap_mm")
+    bottom_gap_mm: float | None = _op("bottom_gap_mm")
+    climbable_infill: bool = _op("climbable_infill")
+    flat_rail_top: bool = _op("flat_rail_top")
+    climbing_aids: bool = _op("climbing_aids")
+    limiter_gap_mm: float | None = _op("limiter_gap_mm")
+    screen: ScreenName = _op("screen")
+    netting_mesh_mm: float | None = _op("netting_mesh_mm")
+    open_frequency: OpenFrequencyName = _op("open_frequency")
+    cats_present: CatsPresentName = _op("cats_present")
+    escape_window: bool = _op("escape_window")
+    notes: str = _op("notes")
     photos: list[_PhotoPath] = Field(
         default_factory=list, max_length=_L.photos_max,
-        description="Photo files, relative to the building file."
+        description=field_def("openings", "photos").description,
     )
 
 
