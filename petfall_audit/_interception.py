@@ -204,6 +204,55 @@ def _candidate_pairs(building: Building) -> tuple[_Pairs, tuple[str, ...], tuple
     return pairs, ids, kinds
 
 
+@dataclass(frozen=True, slots=True)
+class FallGeometry:
+    """The sample-free part of a building's falls: every opening's candidate landing elements
+    (see the module docstring), and the elements' ids and kinds."""
+
+    pairs: _Pairs
+    landing_ids: tuple[str, ...]
+    landing_kinds: tuple[SurfaceKind, ...]
+
+    @property
+    def n_openings(self) -> int:
+        return int(self.pairs.start.size - 1)
+
+    def signatures(self) -> list[tuple[bytes, tuple[tuple[str, str], ...]]]:
+        """Per opening (building order), everything its falls depend on besides the cats and
+        the air: its candidate elements (id, kind) and their drops, spans and distances, exact
+        to the bit. Two openings with equal signatures have equal falls for the same cats."""
+        p = self.pairs
+        rec = np.ascontiguousarray(np.stack(
+            [p.drop_m, p.test_drop_m, p.frac_lo, p.frac_hi, p.dist_lo_m, p.dist_hi_m], axis=1))
+        names = [(i, SurfaceKind(k).value) for i, k in
+                 zip(self.landing_ids, self.landing_kinds, strict=True)]
+        start = p.start.tolist()
+        elem = p.element.tolist()
+        return [(rec[a:b].tobytes(), tuple(names[j] for j in elem[a:b]))
+                for a, b in zip(start[:-1], start[1:], strict=True)]
+
+    def subset(self, rows: IntArray) -> FallGeometry:
+        """The geometry of the openings at ``rows`` only (in that order)."""
+        p = self.pairs
+        rows = np.asarray(rows, dtype=np.intp)
+        counts = (p.start[1:] - p.start[:-1])[rows]
+        take = (np.repeat(p.start[rows] - np.cumsum(counts) + counts, counts)
+                + np.arange(int(counts.sum()), dtype=np.intp)) if rows.size else np.zeros(
+                    0, np.intp)
+        sub = _Pairs(
+            start=np.concatenate([[0], np.cumsum(counts)]).astype(np.intp),
+            element=p.element[take], drop_m=p.drop_m[take], test_drop_m=p.test_drop_m[take],
+            frac_lo=p.frac_lo[take], frac_hi=p.frac_hi[take], dist_lo_m=p.dist_lo_m[take],
+            dist_hi_m=p.dist_hi_m[take],
+        )
+        return FallGeometry(sub, self.landing_ids, self.landing_kinds)
+
+
+def fall_geometry(building: Building) -> FallGeometry:
+    """The candidate landing elements of every opening of ``building`` (no samples needed)."""
+    return FallGeometry(*_candidate_pairs(building))
+
+
 def _check_samples(s: CatSamples) -> None:
     n = s.n
     if n < 1:
@@ -297,10 +346,17 @@ def simulate_chunks(
     rho_kg_m3: float,
     progress: Callable[[int, int], None] | None = None,
     chunk_elements: int = _CHUNK_ELEMENTS,
+    geometry: FallGeometry | None = None,
+    rows: IntArray | None = None,
 ) -> Iterator[tuple[int, int, FallResults]]:
     """The falls of :func:`simulate`, a block of openings at a time: yields ``(a, b, falls)``
     with the falls of openings ``a`` to ``b - 1`` (building order), so that a caller can
-    summarise each block and let it go: memory stays bounded whatever the building's size."""
+    summarise each block and let it go: memory stays bounded whatever the building's size.
+
+    ``geometry``: :func:`fall_geometry` of ``building`` when the caller has it already;
+    ``rows``: simulate only the openings at these indices (``a`` and ``b`` then count within
+    ``rows``). Each opening's falls are the same, bit for bit, whichever openings are simulated
+    with it: nothing in a block depends on the other openings of the block."""
     _check_samples(samples)
     rho = float(rho_kg_m3)
     g = G0
@@ -312,7 +368,14 @@ def simulate_chunks(
     frac = np.asarray(samples.position_fraction, dtype=float)
     righting = np.asarray(samples.righting_time_s, dtype=float)
 
-    pairs, landing_ids, landing_kinds = _candidate_pairs(building)
+    geo = fall_geometry(building) if geometry is None else geometry
+    all_ids = tuple(o.id for o in building.openings)
+    if rows is not None:
+        geo = geo.subset(rows)
+        ids = tuple(all_ids[i] for i in np.asarray(rows, dtype=np.intp).tolist())
+    else:
+        ids = all_ids
+    pairs, landing_ids, landing_kinds = geo.pairs, geo.landing_ids, geo.landing_kinds
     table, row_lo, row_hi = _threshold_table(pairs, v0, b1, b2, f)
     # a padding pair that never catches: its drop 0 is not below its upper threshold 0
     # (its other checks are trivial so that they can be skipped)
@@ -328,8 +391,7 @@ def simulate_chunks(
     consts = _k.FallConstants(b1, b2, f, g)
     moving = bool(np.any(v0 > 0))
 
-    n_op, n_s = len(building.openings), samples.n
-    ids = tuple(o.id for o in building.openings)
+    n_op, n_s = len(ids), samples.n
     counts = np.diff(pairs.start)
     step = max(1, int(chunk_elements) // n_s)
     fr = frac[None, :]

@@ -377,12 +377,14 @@ def _assessment(
     rho_kg_m3: float,
     falls: FallResults | None,
     severity_g: npt.NDArray[np.float64] | None,
+    likelihood: LikelihoodResult | None = None,
 ) -> Assessment:
     n_open = len(building.openings)
     probs = summary.probs
     exp_band = expected_band(probs)
     mean_sev = summary.mean_sev
-    lik = assess_likelihood(building.openings, profile=building.cat_profile)
+    lik = (assess_likelihood(building.openings, profile=building.cat_profile)
+           if likelihood is None else likelihood)
     risk = risk_score(lik.annual_probability, probs)
 
     band_rank = _rank([-exp_band.astype(float), -lik.annual_probability, -mean_sev,
