@@ -118,6 +118,25 @@ def _landing_elements(
 def _opening_geometry(building: Building) -> dict[str, FloatArray]:
     """Start height, launch offset and span of every opening (building order)."""
     elevation = {f.level: f.elevation_m for f in building.floors}
+    ops = building.openings
+    try:  # the common case at array speed; any doubt takes the checked loop below
+        z = np.array([elevation[o.floor] for o in ops], dtype=float)
+        perch = np.array([o.perch_height_m for o in ops], dtype=float)
+        proj = np.array([o.projection_m if o.kind in BALCONY_LIKE else 0.0 for o in ops],
+                        dtype=float)
+        x = np.array([o.x_m for o in ops], dtype=float)
+        w = np.array([o.width_m for o in ops], dtype=float)
+    except (KeyError, TypeError, ValueError):
+        pass
+    else:
+        if all(np.all(np.isfinite(a)) for a in (z, perch, proj, x, w)) and np.all(w >= 0):
+            return {"start": z + perch, "x0": proj, "x": x, "w": w}
+    return _opening_geometry_checked(building, elevation)
+
+
+def _opening_geometry_checked(building: Building,
+                              elevation: dict[int, float]) -> dict[str, FloatArray]:
+    """:func:`_opening_geometry` one opening at a time, naming the first bad value."""
     n = len(building.openings)
     out = {k: np.empty(n) for k in ("start", "x0", "x", "w")}
     for i, o in enumerate(building.openings):
@@ -157,29 +176,37 @@ def _candidate_pairs(building: Building) -> tuple[_Pairs, tuple[str, ...], tuple
 
     n_op = len(building.openings)
     parts: list[tuple[IntArray, IntArray]] = []
-    for a in range(0, n_op, _GEOMETRY_CHUNK):
-        b = min(a + _GEOMETRY_CHUNK, n_op)
-        start = op["start"][a:b, None]
-        x0 = op["x0"][a:b, None]
-        x = op["x"][a:b, None]
-        right = x + op["w"][a:b, None]
-        right_open = np.maximum(right, np.nextafter(x, np.inf))  # a zero width is a point
-        valid = (
-            ((fac == -1) | (fac == op_fac[a:b, None]))
-            & ((z < start) | is_ground)
-            & (own != np.arange(a, b)[:, None])
-            & (xlo < right_open)
-            & (xhi > x)
-            & (ohi > x0)
-        )
-        full = valid & (xlo <= x) & (xhi >= right) & (olo <= x0)
-        cover = np.maximum.accumulate(np.where(full, ohi, -np.inf), axis=1)
-        above = np.concatenate([np.full((b - a, 1), -np.inf), cover[:, :-1]], axis=1)
-        keep = valid & (ohi > above)
-        r, c = np.nonzero(keep)
-        parts.append((r + a, c))
+    # one facade at a time: an opening's candidates are its facade's elements and the shared
+    # ones (the others are never valid, and leaving them out changes no cover above)
+    for code in np.unique(op_fac).tolist():
+        on = np.flatnonzero(op_fac == code)
+        cols_f = np.flatnonzero((fac == -1) | (fac == code))
+        zf, xlof, xhif, olof, ohif = (v[cols_f] for v in (z, xlo, xhi, olo, ohi))
+        ownf, groundf = own[cols_f], is_ground[cols_f]
+        for a in range(0, on.size, _GEOMETRY_CHUNK):
+            rows_c = on[a:a + _GEOMETRY_CHUNK]
+            start = op["start"][rows_c, None]
+            x0 = op["x0"][rows_c, None]
+            x = op["x"][rows_c, None]
+            right = x + op["w"][rows_c, None]
+            right_open = np.maximum(right, np.nextafter(x, np.inf))  # a zero width is a point
+            valid = (
+                ((zf < start) | groundf)
+                & (ownf != rows_c[:, None])
+                & (xlof < right_open)
+                & (xhif > x)
+                & (ohif > x0)
+            )
+            full = valid & (xlof <= x) & (xhif >= right) & (olof <= x0)
+            cover = np.maximum.accumulate(np.where(full, ohif, -np.inf), axis=1)
+            above = np.concatenate([np.full((rows_c.size, 1), -np.inf), cover[:, :-1]], axis=1)
+            keep = valid & (ohif > above)
+            r, c = np.nonzero(keep)
+            parts.append((rows_c[r], cols_f[c]))
     rows = np.concatenate([p[0] for p in parts]) if parts else np.zeros(0, np.intp)
     cols = np.concatenate([p[1] for p in parts]) if parts else np.zeros(0, np.intp)
+    by_opening = np.lexsort((cols, rows))  # each opening's pairs together, highest first
+    rows, cols = rows[by_opening], cols[by_opening]
 
     x = op["x"][rows]
     w = op["w"][rows]

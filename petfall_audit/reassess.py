@@ -33,6 +33,7 @@ from petfall_audit.risk import (
     KEEP_FALLS_MAX,
     MAX_SAMPLES,
     Assessment,
+    OpeningResult,
     _assessment,
     _Summary,
     severity_of_falls,
@@ -85,6 +86,13 @@ class Reassessor:
         self._cat: tuple[CatProfile, CatSamples] | None = None
         self._geometry: tuple[Building, FallGeometry, list[Hashable]] | None = None
         self._likelihood: dict[int, tuple[Opening, CatProfile, OpeningLikelihood]] = {}
+        #: the last results by opening (held, so that its id stays its own)
+        self._results: dict[int, tuple[Opening, OpeningResult]] = {}
+
+    @property
+    def remembers(self) -> bool:
+        """True once an assessment left its work for the next one."""
+        return self._memory is not None
 
     def forget(self) -> None:
         """Drop what the previous assessments left (the next call computes everything)."""
@@ -92,6 +100,7 @@ class Reassessor:
             self._memory = None
             self._geometry = None
             self._likelihood = {}
+            self._results = {}
 
     def to_simulate(self, building: Building) -> int:
         """How many openings :meth:`assess` of ``building`` would simulate now (the geometry
@@ -219,11 +228,24 @@ class Reassessor:
         row_of: dict[Hashable, int] = {}
         for i, sig in enumerate(sigs):
             row_of.setdefault(sig, i)
+        old_results = self._results if memory is not None else {}
+        openings = building.openings
+
+        def previous(i: int) -> OpeningResult | None:
+            # the same opening, its falls known (equal summary) and the same key: equal result
+            if src[i] < 0:
+                return None
+            hit = old_results.get(id(openings[i]))
+            return hit[1] if hit is not None and hit[0] is openings[i] else None
+
+        result = _assessment(building, cat, summary, samples=samples, seed=self.seed,
+                             thresholds=thresholds, stops=self.stops, rho_kg_m3=rho,
+                             falls=falls_all, severity_g=sev_all, likelihood=lik,
+                             previous=previous)
         self._memory = _Memory(key, summary, row_of, geo.landing_ids, falls_all, sev_all)
+        self._results = {id(o): (o, r) for o, r in zip(openings, result.openings, strict=True)}
         self.last_simulated = len(need)
-        return _assessment(building, cat, summary, samples=samples, seed=self.seed,
-                           thresholds=thresholds, stops=self.stops, rho_kg_m3=rho,
-                           falls=falls_all, severity_g=sev_all, likelihood=lik)
+        return result
 
     def _joined(
         self, building: Building, geo: FallGeometry, memory: _Memory | None,

@@ -16,7 +16,7 @@ The whole building is computed in one pass over ``(n_openings, n_samples)`` arra
 from __future__ import annotations
 
 from collections.abc import Callable
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Any, Literal
 
 import numpy as np
@@ -378,7 +378,11 @@ def _assessment(
     falls: FallResults | None,
     severity_g: npt.NDArray[np.float64] | None,
     likelihood: LikelihoodResult | None = None,
+    previous: Callable[[int], OpeningResult | None] | None = None,
 ) -> Assessment:
+    """The assessment from the summaries. ``previous(i)``: a result computed before for opening
+    ``i`` from the same opening, summary and likelihood (only its ranks may differ), or
+    ``None``; it is reused with the new ranks instead of being written again."""
     n_open = len(building.openings)
     probs = summary.probs
     exp_band = expected_band(probs)
@@ -398,6 +402,12 @@ def _assessment(
 
     results: list[OpeningResult] = []
     for i, o in enumerate(building.openings):
+        old = previous(i) if previous is not None else None
+        if old is not None:
+            rank, rrank = int(band_rank[i]), int(risk_rank[i])
+            results.append(old if (old.rank, old.risk_rank) == (rank, rrank)
+                           else replace(old, rank=rank, risk_rank=rrank))
+            continue
         landing = summary.landing[i]
         factors = list(lik.factors[i])
         hazards = list(lik.hazards[i])
