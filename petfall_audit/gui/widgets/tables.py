@@ -15,7 +15,8 @@ from petfall_audit.gui.widgets.delegates import FieldDelegate
 from petfall_audit.gui.widgets.field_form import ERROR_STYLE
 
 __all__ = ["add_remove_bar", "record_table", "error_label", "keep_columns_fitted",
-           "fit_columns", "widen_columns", "table_action", "clipboard_text", "set_clipboard_text", "refusal_line"]
+           "fit_columns", "widen_columns", "table_action", "clipboard_text",
+           "set_clipboard_text", "refusal_line"]
 
 ROW_HEIGHT_PX = 22
 
