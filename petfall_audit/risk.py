@@ -22,6 +22,7 @@ from typing import Any, Literal
 import numpy as np
 import numpy.typing as npt
 
+from petfall_audit import sample_counts as _counts
 from petfall_audit._interception import simulate_chunks
 from petfall_audit.injury import (
     BANDS,
@@ -63,9 +64,8 @@ HHSRS_CLASS_WEIGHTS: npt.NDArray[np.float64] = np.array([10.0, 300.0, 1000.0, 10
 #: Most simulated falls an assessment keeps whole by default (about 170 MB with the doses);
 #: beyond it only the per-opening summaries are kept and memory stays bounded.
 KEEP_FALLS_MAX = 5_000_000
-#: Most sampled cats one assessment takes (each block of the simulation holds at least one
-#: opening's falls of every cat: 8 MB per array at this count).
-MAX_SAMPLES = 1_000_000
+#: Most sampled cats one assessment takes (see :mod:`petfall_audit.sample_counts`).
+MAX_SAMPLES = _counts.MAX_SAMPLES
 
 
 _MOSTLY_UNRIGHTED = 0.10  # share of unrighted landings worth a factor line
