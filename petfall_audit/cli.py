@@ -129,12 +129,14 @@ def _add_table_output_options(p: argparse.ArgumentParser) -> None:
 
 def _assess(args: argparse.Namespace, building: Building, *, sensitivity: bool = False,
             label: str = "assessing") -> Assessment:
-    from petfall_audit.risk import assess
+    from petfall_audit.reassess import assess_deduplicated
     from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
     from petfall_audit.sensitivity import with_sensitivity
 
     _check_sampling(args, building)
-    assessment = assess(
+    # risk.assess exactly; nothing the commands write needs every fall, so none is kept (no
+    # copy of the (openings, samples) arrays; the sensitivity simulates what it reports)
+    assessment = assess_deduplicated(
         building,
         samples=DEFAULT_SAMPLES if args.samples is None else args.samples,
         seed=DEFAULT_SEED if args.seed is None else args.seed,

@@ -151,3 +151,16 @@ def test_only_the_openings_an_edit_can_reach_are_simulated() -> None:
     full = Reassessor(samples=SAMPLES, seed=SEED)
     full.assess(kitten)
     assert r.last_simulated == full.last_simulated > 0
+
+
+def test_a_tower_of_repeating_openings_is_assessed_once_per_distinct_fall() -> None:
+    from petfall_audit.demo import make_large_tower
+    from petfall_audit.reassess import assess_deduplicated
+
+    tower = make_large_tower(8, 6)
+    seen: list[tuple[int, int]] = []
+    got = assess_deduplicated(tower, samples=SAMPLES, seed=SEED,
+                              progress=lambda done, total: seen.append((done, total)))
+    assert_same(got, assess(tower, samples=SAMPLES, seed=SEED, keep_falls=False))
+    simulated = seen[-1][1]
+    assert 0 < simulated < len(tower.openings)  # identical storeys share their falls
