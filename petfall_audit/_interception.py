@@ -118,6 +118,25 @@ def _landing_elements(
 def _opening_geometry(building: Building) -> dict[str, FloatArray]:
     """Start height, launch offset and span of every opening (building order)."""
     elevation = {f.level: f.elevation_m for f in building.floors}
+    ops = building.openings
+    try:  # the common case at array speed; any doubt takes the checked loop below
+        z = np.array([elevation[o.floor] for o in ops], dtype=float)
+        perch = np.array([o.perch_height_m for o in ops], dtype=float)
+        proj = np.array([o.projection_m if o.kind in BALCONY_LIKE else 0.0 for o in ops],
+                        dtype=float)
+        x = np.array([o.x_m for o in ops], dtype=float)
+        w = np.array([o.width_m for o in ops], dtype=float)
+    except (KeyError, TypeError, ValueError):
+        pass
+    else:
+        if all(np.all(np.isfinite(a)) for a in (z, perch, proj, x, w)) and np.all(w >= 0):
+            return {"start": z + perch, "x0": proj, "x": x, "w": w}
+    return _opening_geometry_checked(building, elevation)
+
+
+def _opening_geometry_checked(building: Building,
+                              elevation: dict[int, float]) -> dict[str, FloatArray]:
+    """:func:`_opening_geometry` one opening at a time, naming the first bad value."""
     n = len(building.openings)
     out = {k: np.empty(n) for k in ("start", "x0", "x", "w")}
     for i, o in enumerate(building.openings):
@@ -157,29 +176,37 @@ def _candidate_pairs(building: Building) -> tuple[_Pairs, tuple[str, ...], tuple
 
     n_op = len(building.openings)
     parts: list[tuple[IntArray, IntArray]] = []
-    for a in range(0, n_op, _GEOMETRY_CHUNK):
-        b = min(a + _GEOMETRY_CHUNK, n_op)
-        start = op["start"][a:b, None]
-        x0 = op["x0"][a:b, None]
-        x = op["x"][a:b, None]
-        right = x + op["w"][a:b, None]
-        right_open = np.maximum(right, np.nextafter(x, np.inf))  # a zero width is a point
-        valid = (
-            ((fac == -1) | (fac == op_fac[a:b, None]))
-            & ((z < start) | is_ground)
-            & (own != np.arange(a, b)[:, None])
-            & (xlo < right_open)
-            & (xhi > x)
-            & (ohi > x0)
-        )
-        full = valid & (xlo <= x) & (xhi >= right) & (olo <= x0)
-        cover = np.maximum.accumulate(np.where(full, ohi, -np.inf), axis=1)
-        above = np.concatenate([np.full((b - a, 1), -np.inf), cover[:, :-1]], axis=1)
-        keep = valid & (ohi > above)
-        r, c = np.nonzero(keep)
-        parts.append((r + a, c))
+    # one facade at a time: an opening's candidates are its facade's elements and the shared
+    # ones (the others are never valid, and leaving them out changes no cover above)
+    for code in np.unique(op_fac).tolist():
+        on = np.flatnonzero(op_fac == code)
+        cols_f = np.flatnonzero((fac == -1) | (fac == code))
+        zf, xlof, xhif, olof, ohif = (v[cols_f] for v in (z, xlo, xhi, olo, ohi))
+        ownf, groundf = own[cols_f], is_ground[cols_f]
+        for a in range(0, on.size, _GEOMETRY_CHUNK):
+            rows_c = on[a:a + _GEOMETRY_CHUNK]
+            start = op["start"][rows_c, None]
+            x0 = op["x0"][rows_c, None]
+            x = op["x"][rows_c, None]
+            right = x + op["w"][rows_c, None]
+            right_open = np.maximum(right, np.nextafter(x, np.inf))  # a zero width is a point
+            valid = (
+                ((zf < start) | groundf)
+                & (ownf != rows_c[:, None])
+                & (xlof < right_open)
+                & (xhif > x)
+                & (ohif > x0)
+            )
+            full = valid & (xlof <= x) & (xhif >= right) & (olof <= x0)
+            cover = np.maximum.accumulate(np.where(full, ohif, -np.inf), axis=1)
+            above = np.concatenate([np.full((rows_c.size, 1), -np.inf), cover[:, :-1]], axis=1)
+            keep = valid & (ohif > above)
+            r, c = np.nonzero(keep)
+            parts.append((rows_c[r], cols_f[c]))
     rows = np.concatenate([p[0] for p in parts]) if parts else np.zeros(0, np.intp)
     cols = np.concatenate([p[1] for p in parts]) if parts else np.zeros(0, np.intp)
+    by_opening = np.lexsort((cols, rows))  # each opening's pairs together, highest first
+    rows, cols = rows[by_opening], cols[by_opening]
 
     x = op["x"][rows]
     w = op["w"][rows]
@@ -202,6 +229,55 @@ def _candidate_pairs(building: Building) -> tuple[_Pairs, tuple[str, ...], tuple
         dist_hi_m=ohi[cols] - op["x0"][rows],
     )
     return pairs, ids, kinds
+
+
+@dataclass(frozen=True, slots=True)
+class FallGeometry:
+    """The sample-free part of a building's falls: every opening's candidate landing elements
+    (see the module docstring), and the elements' ids and kinds."""
+
+    pairs: _Pairs
+    landing_ids: tuple[str, ...]
+    landing_kinds: tuple[SurfaceKind, ...]
+
+    @property
+    def n_openings(self) -> int:
+        return int(self.pairs.start.size - 1)
+
+    def signatures(self) -> list[tuple[bytes, tuple[tuple[str, str], ...]]]:
+        """Per opening (building order), everything its falls depend on besides the cats and
+        the air: its candidate elements (id, kind) and their drops, spans and distances, exact
+        to the bit. Two openings with equal signatures have equal falls for the same cats."""
+        p = self.pairs
+        rec = np.ascontiguousarray(np.stack(
+            [p.drop_m, p.test_drop_m, p.frac_lo, p.frac_hi, p.dist_lo_m, p.dist_hi_m], axis=1))
+        names = [(i, SurfaceKind(k).value) for i, k in
+                 zip(self.landing_ids, self.landing_kinds, strict=True)]
+        start = p.start.tolist()
+        elem = p.element.tolist()
+        return [(rec[a:b].tobytes(), tuple(names[j] for j in elem[a:b]))
+                for a, b in zip(start[:-1], start[1:], strict=True)]
+
+    def subset(self, rows: IntArray) -> FallGeometry:
+        """The geometry of the openings at ``rows`` only (in that order)."""
+        p = self.pairs
+        rows = np.asarray(rows, dtype=np.intp)
+        counts = (p.start[1:] - p.start[:-1])[rows]
+        take = (np.repeat(p.start[rows] - np.cumsum(counts) + counts, counts)
+                + np.arange(int(counts.sum()), dtype=np.intp)) if rows.size else np.zeros(
+                    0, np.intp)
+        sub = _Pairs(
+            start=np.concatenate([[0], np.cumsum(counts)]).astype(np.intp),
+            element=p.element[take], drop_m=p.drop_m[take], test_drop_m=p.test_drop_m[take],
+            frac_lo=p.frac_lo[take], frac_hi=p.frac_hi[take], dist_lo_m=p.dist_lo_m[take],
+            dist_hi_m=p.dist_hi_m[take],
+        )
+        return FallGeometry(sub, self.landing_ids, self.landing_kinds)
+
+
+def fall_geometry(building: Building) -> FallGeometry:
+    """The candidate landing elements of every opening of ``building`` (no samples needed)."""
+    return FallGeometry(*_candidate_pairs(building))
 
 
 def _check_samples(s: CatSamples) -> None:
@@ -297,10 +373,17 @@ def simulate_chunks(
     rho_kg_m3: float,
     progress: Callable[[int, int], None] | None = None,
     chunk_elements: int = _CHUNK_ELEMENTS,
+    geometry: FallGeometry | None = None,
+    rows: IntArray | None = None,
 ) -> Iterator[tuple[int, int, FallResults]]:
     """The falls of :func:`simulate`, a block of openings at a time: yields ``(a, b, falls)``
     with the falls of openings ``a`` to ``b - 1`` (building order), so that a caller can
-    summarise each block and let it go: memory stays bounded whatever the building's size."""
+    summarise each block and let it go: memory stays bounded whatever the building's size.
+
+    ``geometry``: :func:`fall_geometry` of ``building`` when the caller has it already;
+    ``rows``: simulate only the openings at these indices (``a`` and ``b`` then count within
+    ``rows``). Each opening's falls are the same, bit for bit, whichever openings are simulated
+    with it: nothing in a block depends on the other openings of the block."""
     _check_samples(samples)
     rho = float(rho_kg_m3)
     g = G0
@@ -312,7 +395,14 @@ def simulate_chunks(
     frac = np.asarray(samples.position_fraction, dtype=float)
     righting = np.asarray(samples.righting_time_s, dtype=float)
 
-    pairs, landing_ids, landing_kinds = _candidate_pairs(building)
+    geo = fall_geometry(building) if geometry is None else geometry
+    all_ids = tuple(o.id for o in building.openings)
+    if rows is not None:
+        geo = geo.subset(rows)
+        ids = tuple(all_ids[i] for i in np.asarray(rows, dtype=np.intp).tolist())
+    else:
+        ids = all_ids
+    pairs, landing_ids, landing_kinds = geo.pairs, geo.landing_ids, geo.landing_kinds
     table, row_lo, row_hi = _threshold_table(pairs, v0, b1, b2, f)
     # a padding pair that never catches: its drop 0 is not below its upper threshold 0
     # (its other checks are trivial so that they can be skipped)
@@ -328,8 +418,7 @@ def simulate_chunks(
     consts = _k.FallConstants(b1, b2, f, g)
     moving = bool(np.any(v0 > 0))
 
-    n_op, n_s = len(building.openings), samples.n
-    ids = tuple(o.id for o in building.openings)
+    n_op, n_s = len(ids), samples.n
     counts = np.diff(pairs.start)
     step = max(1, int(chunk_elements) // n_s)
     fr = frac[None, :]

@@ -163,9 +163,10 @@ def _assess_and_write(job: BatchJob, building: Building, written: list[str]) -> 
     from petfall_audit.io.results_envelope import results_json_text
     from petfall_audit.io.results_export import assessment_to_csv
     from petfall_audit.plan import make_plan
-    from petfall_audit.risk import assess
+    from petfall_audit.reassess import assess_deduplicated
 
-    assessment = assess(building, samples=job.samples, seed=job.seed)
+    # risk.assess exactly; no result needs every fall (keeping them would only copy arrays)
+    assessment = assess_deduplicated(building, samples=job.samples, seed=job.seed)
     catalogue = load_catalogue() if job.budget is not None or job.want_options else None
     options = opening_options(assessment, catalogue) if catalogue is not None else None
     plan = (make_plan(assessment, job.budget, catalogue=catalogue, options=options)

@@ -131,12 +131,14 @@ def _add_table_output_options(p: argparse.ArgumentParser) -> None:
 
 def _assess(args: argparse.Namespace, building: Building, *, sensitivity: bool = False,
             label: str = "assessing") -> Assessment:
-    from petfall_audit.risk import assess
+    from petfall_audit.reassess import assess_deduplicated
     from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
     from petfall_audit.sensitivity import with_sensitivity
 
     _check_sampling(args, building)
-    assessment = assess(
+    # risk.assess exactly; nothing the commands write needs every fall, so none is kept (no
+    # copy of the (openings, samples) arrays; the sensitivity simulates what it reports)
+    assessment = assess_deduplicated(
         building,
         samples=DEFAULT_SAMPLES if args.samples is None else args.samples,
         seed=DEFAULT_SEED if args.seed is None else args.seed,
@@ -148,7 +150,7 @@ def _assess(args: argparse.Namespace, building: Building, *, sensitivity: bool =
 def _check_sampling(args: argparse.Namespace, building: Building | None = None) -> None:
     """Refuse a negative seed, fewer than one sample, or more samples than one assessment
     takes (the building's size is never a limit: falls are summarised block by block)."""
-    from petfall_audit.risk import MAX_SAMPLES
+    from petfall_audit.sample_counts import MAX_SAMPLES
 
     _require_at_least("--samples", args.samples, 1)
     _require_at_least("--seed", args.seed, 0)
@@ -420,13 +422,14 @@ def _cmd_batch(args: argparse.Namespace) -> int:
     and skipped; the exit code is 2 if any file could not be assessed. Two files with the same
     name get ``name.json`` and ``name-2.json``; the summary names each result file. ``--jobs``
     buildings are assessed at once in separate processes; the results are the same."""
+    # no numpy or scipy here before the workers start: each imports its own
     import io
 
     from petfall_audit.batch import SUMMARY_COLUMNS, BatchJob, discard, run_all
     from petfall_audit.cautions import CAUTIONS_SHORT
     from petfall_audit.io.atomic import atomic_write_text
     from petfall_audit.io.csv_safe import csv_writer
-    from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
+    from petfall_audit.sample_counts import DEFAULT_SAMPLES, DEFAULT_SEED
 
     _require_at_least("--budget", args.budget, 0)
     _require_at_least("--portfolio-budget", args.portfolio_budget, 0)
@@ -445,6 +448,7 @@ def _cmd_batch(args: argparse.Namespace) -> int:
     ]
     workers = args.jobs if args.jobs is not None else _default_jobs()
     outcomes = run_all(jobs, workers=workers, progress=_stderr_progress("batch"))
+    from petfall_audit.injury import BANDS
     rows: list[list[object]] = []
     done = []
     failed = 0

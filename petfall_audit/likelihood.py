@@ -55,6 +55,9 @@ __all__ = [
     "mass_cdf",
     "gap_pass_share",
     "assess_likelihood",
+    "OpeningLikelihood",
+    "opening_likelihood",
+    "likelihood_of_rows",
 ]
 
 #: Width of the head a cat must get through a gap, mm, for a cat of :data:`HEAD_REF_MASS_KG`:
@@ -302,7 +305,21 @@ def assess_likelihood(
 
     ``profile`` decides which gaps the cats pass (default: the adult preset)."""
     prof = CAT_PRESETS["adult"] if profile is None else profile
-    rows = [_one(o, prof) for o in openings]
+    return likelihood_of_rows([opening_likelihood(o, prof) for o in openings])
+
+
+#: One opening's likelihood: yearly fall rate, factors and hazards (see :func:`opening_likelihood`).
+OpeningLikelihood = tuple[float, tuple[str, ...], tuple[str, ...]]
+
+
+def opening_likelihood(o: Opening, profile: CatProfile) -> OpeningLikelihood:
+    """Yearly fall rate (1/year), factors and hazards of one opening: what
+    :func:`assess_likelihood` combines (it depends on this opening and the profile only)."""
+    return _one(o, profile)
+
+
+def likelihood_of_rows(rows: Sequence[OpeningLikelihood]) -> LikelihoodResult:
+    """The :class:`LikelihoodResult` of openings given by their :func:`opening_likelihood`."""
     rate = np.array([r[0] for r in rows], dtype=float)
     p = np.maximum(-np.expm1(-rate), MIN_ANNUAL_PROBABILITY)
     return LikelihoodResult(

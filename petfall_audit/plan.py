@@ -39,6 +39,7 @@ import numpy as np
 from scipy.optimize import Bounds, LinearConstraint, milp
 from scipy.sparse import coo_array, vstack
 
+from petfall_audit._solver_output import solver_output_filtered
 from petfall_audit.errors import PlanError
 from petfall_audit.fixes import Catalogue, Option, load_catalogue, opening_options
 from petfall_audit.risk import Assessment
@@ -186,16 +187,16 @@ def solve_choice_knapsack(
     a = vstack([one_per_group, coo_array(c.astype(float)[None, :])]).tocsr()
     ub = np.concatenate([np.ones(groups.size), [float(budget_c)]])
     objective = -v * (_OBJECTIVE_SCALE / v.max())
-    res = milp(
-        objective,
-        integrality=np.ones(k),
-        bounds=Bounds(0.0, 1.0),
-        constraints=LinearConstraint(a, -np.inf, ub),
-        # disp=False: the solver prints no progress log (the command line also holds back what
-        # compiled libraries print on the terminal, see petfall_audit.cli)
-        options={"disp": False, "mip_rel_gap": float(mip_rel_gap),
-                 "time_limit": float(time_limit_s)},
-    )
+    with solver_output_filtered():  # the solver prints some lines whatever its options say
+        res = milp(
+            objective,
+            integrality=np.ones(k),
+            bounds=Bounds(0.0, 1.0),
+            constraints=LinearConstraint(a, -np.inf, ub),
+            # disp=False: no progress log; its other prints are dropped by the filter
+            options={"disp": False, "mip_rel_gap": float(mip_rel_gap),
+                     "time_limit": float(time_limit_s)},
+        )
     if res.status not in (0, 1) or res.x is None:
         raise PlanError(f"the fix plan could not be solved: {res.message}")
     gap = 0.0 if res.status == 0 else float(getattr(res, "mip_gap", np.nan))

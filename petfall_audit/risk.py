@@ -21,12 +21,13 @@ The whole building is computed in one pass over ``(n_openings, n_samples)`` arra
 from __future__ import annotations
 
 from collections.abc import Callable
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Any, Literal
 
 import numpy as np
 import numpy.typing as npt
 
+from petfall_audit import sample_counts as _counts
 from petfall_audit._interception import simulate_chunks
 from petfall_audit.injury import (
     BANDS,
@@ -73,9 +74,8 @@ HHSRS_CLASS_WEIGHTS: npt.NDArray[np.float64] = np.array([10.0, 300.0, 1000.0, 10
 #: Most simulated falls an assessment keeps whole by default (about 170 MB with the doses);
 #: beyond it only the per-opening summaries are kept and memory stays bounded.
 KEEP_FALLS_MAX = 5_000_000
-#: Most sampled cats one assessment takes (each block of the simulation holds at least one
-#: opening's falls of every cat: 8 MB per array at this count).
-MAX_SAMPLES = 1_000_000
+#: Most sampled cats one assessment takes (see :mod:`petfall_audit.sample_counts`).
+MAX_SAMPLES = _counts.MAX_SAMPLES
 
 
 _MOSTLY_UNRIGHTED = 0.10  # share of unrighted landings worth a factor line
@@ -394,12 +394,18 @@ def _assessment(
     rho_kg_m3: float,
     falls: FallResults | None,
     severity_g: npt.NDArray[np.float64] | None,
+    likelihood: LikelihoodResult | None = None,
+    previous: Callable[[int], OpeningResult | None] | None = None,
 ) -> Assessment:
+    """The assessment from the summaries. ``previous(i)``: a result computed before for opening
+    ``i`` from the same opening, summary and likelihood (only its ranks may differ), or
+    ``None``; it is reused with the new ranks instead of being written again."""
     n_open = len(building.openings)
     probs = summary.probs
     exp_band = expected_band(probs)
     mean_sev = summary.mean_sev
-    lik = assess_likelihood(building.openings, profile=building.cat_profile)
+    lik = (assess_likelihood(building.openings, profile=building.cat_profile)
+           if likelihood is None else likelihood)
     risk = risk_score(lik.annual_probability, probs)
 
     band_rank = _rank([-exp_band.astype(float), -lik.annual_probability, -mean_sev,
@@ -416,6 +422,12 @@ def _assessment(
 
     results: list[OpeningResult] = []
     for i, o in enumerate(building.openings):
+        old = previous(i) if previous is not None else None
+        if old is not None:
+            rank, rrank = int(band_rank[i]), int(risk_rank[i])
+            results.append(old if (old.rank, old.risk_rank) == (rank, rrank)
+                           else replace(old, rank=rank, risk_rank=rrank))
+            continue
         landing = summary.landing[i]
         factors = list(lik.factors[i])
         hazards = list(lik.hazards[i])

@@ -35,12 +35,13 @@ import numpy as np
 import numpy.typing as npt
 from scipy import special
 
+from petfall_audit import sample_counts as _counts
 from petfall_audit.model import CatProfile, Distribution, Fixed, LogNormal, Normal, Uniform
 
 __all__ = ["DEFAULT_SAMPLES", "DEFAULT_SEED", "CatSamples", "sample_cat_profile"]
 
-DEFAULT_SAMPLES = 4000
-DEFAULT_SEED = 1
+DEFAULT_SAMPLES = _counts.DEFAULT_SAMPLES
+DEFAULT_SEED = _counts.DEFAULT_SEED
 
 FloatArray = npt.NDArray[np.float64]
 

@@ -117,16 +117,16 @@ def test_jobs_must_be_at_least_one(tmp_path: Path, capsys: pytest.CaptureFixture
 def test_a_building_that_fails_while_assessed_is_reported_and_skipped(
     tmp_path: Path, capsys: pytest.CaptureFixture[str], monkeypatch: pytest.MonkeyPatch
 ) -> None:
-    import petfall_audit.risk as risk
+    import petfall_audit.reassess as reassess
 
-    real = risk.assess
+    real = reassess.assess_deduplicated
 
     def failing(building, **kw):  # type: ignore[no-untyped-def]
         if building.info.name == sample_building("block").info.name:
             raise ValueError("the simulation broke")
         return real(building, **kw)
 
-    monkeypatch.setattr(risk, "assess", failing)
+    monkeypatch.setattr(reassess, "assess_deduplicated", failing)
     out = tmp_path / "out"
     code = main(["batch", str(sample_path("block")), str(sample_path("walkup")),
                  "--out-dir", str(out), "--samples", "100", "--jobs", "1"])

@@ -391,6 +391,7 @@ def _same_results(shown: Any, expected: Any, ids: list[str]) -> None:
 
 
 def test_quick_results_are_refined_to_the_full_assessment(qtbot) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.editing.commands import SetBuildingInfo
     from petfall_audit.risk import assess
 
     window = make_window(qtbot, refine_samples=4000, refine_delay_ms=0)
@@ -398,8 +399,10 @@ def test_quick_results_are_refined_to_the_full_assessment(qtbot) -> None:  # typ
     first = window.document.building.openings[0].id
     notes: list[str] = []
     window.recomputer.refining.connect(lambda _g: notes.append(window.samples_label.text()))
+    # a new site altitude changes the air, so every fall: quick results first
+    altitude = window.document.building.info.site_altitude_m + 800.0
     with qtbot.waitSignal(window.results_updated, timeout=20000):
-        window.bulk_edit([first], "netting_mesh_mm", 20.0)
+        window.history.push(SetBuildingInfo({"site_altitude_m": altitude}))
     assert window.results_samples == SAMPLES
     assert "(quick)" in window.samples_label.text()
     with qtbot.waitSignal(window.results_refined, timeout=20000) as refined:
@@ -414,6 +417,28 @@ def test_quick_results_are_refined_to_the_full_assessment(qtbot) -> None:  # typ
     ids = [r.id for r in expected.ranked()[:5]] + [first]
     _same_results(shown, expected, ids)
     assert shown.samples == 4000
+
+
+def test_an_edit_of_few_openings_gives_the_full_results_at_once(qtbot) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.risk import assess
+
+    window = make_window(qtbot, refine_samples=4000, refine_delay_ms=0)
+    qtbot.waitUntil(lambda: window.results_samples == 4000, timeout=20000)
+    first = window.document.building.openings[0].id
+    quick: list[Any] = []
+    window.recomputer.finished.connect(lambda _g, a, _s: quick.append(a))
+    # netting changes the likelihood only: no fall is simulated again, no quick run is needed
+    with qtbot.waitSignal(window.results_refined, timeout=20000) as refined:
+        window.bulk_edit([first], "netting_mesh_mm", 20.0)
+    assert quick == []
+    assert window.results_samples == 4000 and not window.results_stale
+    assert window.samples_label.text() == "4000 simulated falls per opening"
+    assert "ranked" in window.results_state.text()
+    shown = refined.args[0]
+    assert shown.building.opening(first).netting_mesh_mm == 20.0
+    # equal to a full recompute of the edited building (every opening, to the last bit)
+    expected = assess(window.document.building, samples=4000, seed=1)
+    assert shown.openings == expected.openings
 
 
 def test_a_newer_edit_discards_the_running_refinement(qtbot) -> None:  # type: ignore[no-untyped-def]

@@ -13,7 +13,7 @@
 
 from __future__ import annotations
 
-from collections.abc import Callable, Sequence
+from collections.abc import Callable, Iterable, Sequence
 from typing import Any
 
 from PySide6.QtCore import (
@@ -412,7 +412,11 @@ class ResultsTableModel(QAbstractTableModel):
     def set_stale(self, stale: bool) -> None:
         if stale != self.stale:
             self.stale = stale
-            self._on_options_changed()
+            if self._rows:  # grey italics: the look changes, not the text
+                self.dataChanged.emit(
+                    self.index(0, 0), self.index(len(self._rows) - 1, len(self.COLUMNS) - 1),
+                    [Qt.ItemDataRole.ForegroundRole, Qt.ItemDataRole.BackgroundRole,
+                     Qt.ItemDataRole.FontRole])
 
     def _on_options_changed(self) -> None:
         if self._rows:
@@ -433,6 +437,14 @@ class ResultsTableModel(QAbstractTableModel):
 
     def row_result(self, row: int) -> Any:
         return self._rows[row]
+
+    def display_texts(self, column: int, rows: Iterable[int]) -> list[str]:
+        """The shown text of ``rows`` in ``column``, as :meth:`data` gives it, without a model
+        index per cell (column fitting reads a few thousand cells after every result)."""
+        key = self.KEYS[column]
+        units = units_of(self._options.units)
+        palette = self._options.palette
+        return [result_text(self._rows[r], key, units, palette) for r in rows]
 
     def data(self, index: Index, role: int = Qt.ItemDataRole.DisplayRole) -> Any:
         if not index.isValid():

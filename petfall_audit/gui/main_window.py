@@ -387,22 +387,28 @@ class MainWindow(QMainWindow):
         self._show_samples("quick" if self.recomputer.refines else "final")
         self.results_model.set_assessment(assessment)
         self.progress.hide()
+        self._show_ranked(assessment)
+        self.results_updated.emit(assessment)
+
+    def _show_ranked(self, assessment: Any) -> None:
         self.results_state.setStyleSheet("")  # a failure shown before is over
         n = len(getattr(assessment, "openings", ()))
         self.results_state.setText(
             f"{n} openings ranked, worst first (by risk score, as in the PDF and the exports). "
             f"Double-click a row to edit the opening.")
-        self.results_updated.emit(assessment)
 
     def _on_refining(self, _generation: int) -> None:
         self._show_samples("refining")
         self.progress.setRange(0, 0)
         self.progress.show()
 
-    def _on_refined(self, _generation: int, assessment: Any, _seconds: float) -> None:
+    def _on_refined(self, _generation: int, assessment: Any, seconds: float) -> None:
+        # after the quick results, or at once when an edit changed few openings' falls
+        self.last_compute_s = seconds
         self.results_samples = self.recomputer.refine_samples
         self._show_samples("final")
         self.progress.hide()
+        self._show_ranked(assessment)
         self.results_model.set_assessment(assessment)
         self.results_updated.emit(assessment)
         self.results_refined.emit(assessment)

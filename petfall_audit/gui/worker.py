@@ -7,6 +7,13 @@ building is assessed again with the full count (:data:`REFINED_SAMPLES`, as the 
 and the audit report use) and the same seed, on a second one-thread pool, so that a quick run
 never waits behind a refinement; its result replaces the quick one.
 
+With the default assessment, every run is incremental (:class:`petfall_audit.reassess.
+Reassessor`, one per sample count): it simulates only the openings whose falls the edits since
+its previous run can have changed, and equals a full assessment exactly. When the full count's
+incremental run of a request would simulate no more falls than a quick run (an edit of a few
+openings), the request skips the quick run and the pause: its full results come at once
+(``refined`` without ``finished``).
+
 Each request gets a generation number; a newer request makes older runs stale: they stop at
 their next progress report and their results are dropped. Results reach the GUI as signals
 carrying plain Python objects, emitted in the GUI thread.
@@ -23,11 +30,14 @@ import traceback
 from collections.abc import Callable
 from concurrent.futures import Future, ThreadPoolExecutor
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from PySide6.QtCore import QObject, QTimer, Signal
 
 from petfall_audit.model import Building
+
+if TYPE_CHECKING:
+    from petfall_audit.reassess import Reassessor
 
 __all__ = [
     "Recomputer",
@@ -67,7 +77,7 @@ class _Run:
     generation: int
     building: Building
     refined: bool
-    future: Future[tuple[Any, float]]
+    future: Future[tuple[Any, float, bool]]  # result, compute time (s), full count
 
 
 class Recomputer(QObject):
@@ -80,6 +90,8 @@ class Recomputer(QObject):
 
     started = Signal(int)
     progress = Signal(int, int, int)  # generation, done, total (quick run or refinement)
+    # With the default assessment, a request whose full results come as cheaply as quick ones
+    # emits ``refined`` only (see the module docstring).
     finished = Signal(int, object, float)  # generation, assessment, compute time (s)
     failed = Signal(int, str)
     refining = Signal(int)  # generation: the full assessment has started
@@ -89,7 +101,10 @@ class Recomputer(QObject):
                  refine_samples: int = REFINED_SAMPLES, refine_delay_ms: int = REFINE_DELAY_MS,
                  seed: int = 1, parent: QObject | None = None) -> None:
         super().__init__(parent)
+        #: the assessment of every run; the default runs incrementally (see ``incremental``)
         self.assess = assess or default_assess
+        self._reassessors: dict[tuple[int, int], Reassessor] = {}
+        self._reassessors_lock = threading.Lock()
         self.samples = samples
         self.refine_samples = refine_samples
         self.seed = seed
@@ -114,6 +129,11 @@ class Recomputer(QObject):
         self._poll = QTimer(self)
         self._poll.setInterval(_POLL_MS)
         self._poll.timeout.connect(self._collect)
+
+    @property
+    def incremental(self) -> bool:
+        """True while the runs use the default assessment, recomputing only what changed."""
+        return self.assess is default_assess
 
     @property
     def refines(self) -> bool:
@@ -179,8 +199,32 @@ class Recomputer(QObject):
         self._refine_pool.shutdown(wait=True, cancel_futures=True)
         self._runs = []
 
-    def _run(self, generation: int, building: Building, samples: int) -> tuple[Any, float]:
-        """In a worker thread: plain Python only."""
+    def _reassessor(self, samples: int) -> Reassessor:
+        """The incremental assessor of ``samples`` cats (and the current seed)."""
+        from petfall_audit.reassess import Reassessor
+
+        key = (int(samples), int(self.seed))
+        with self._reassessors_lock:
+            r = self._reassessors.get(key)
+            if r is None:
+                r = self._reassessors[key] = Reassessor(samples=key[0], seed=key[1])
+            return r
+
+    def _full_at_once(self, building: Building) -> bool:
+        """True if the full count's incremental run of ``building`` simulates no more falls
+        than a quick run would (in a worker thread)."""
+        if not (self.incremental and self.refines):
+            return False
+        full = self._reassessor(self.refine_samples)
+        if not full.remembers:
+            return False
+        quick_falls = len(building.openings) * self.samples
+        return full.to_simulate(building) * self.refine_samples <= quick_falls
+
+    def _run(self, generation: int, building: Building, samples: int,
+             respond: bool = False) -> tuple[Any, float, bool]:
+        """In a worker thread: plain Python only. ``respond``: the quick run of a request,
+        which may give the full results at once."""
         if self.generation != generation:
             raise _Cancelled
 
@@ -191,14 +235,19 @@ class Recomputer(QObject):
                 self._progress = (generation, int(done), int(total))
 
         start = time.perf_counter()
-        result = self.assess(building, samples=samples, seed=self.seed, progress=progress)
-        return result, time.perf_counter() - start
+        if respond and self._full_at_once(building):
+            samples = self.refine_samples
+        if self.incremental:
+            result = self._reassessor(samples).assess(building, progress=progress)
+        else:
+            result = self.assess(building, samples=samples, seed=self.seed, progress=progress)
+        return result, time.perf_counter() - start, samples >= self.final_samples
 
     def _submit(self, building: Building, *, refined: bool) -> None:
         pool, samples = ((self._refine_pool, self.refine_samples) if refined
                          else (self._pool, self.samples))
         generation = self.generation
-        future = pool.submit(self._run, generation, building, samples)
+        future = pool.submit(self._run, generation, building, samples, not refined)
         self._runs.append(_Run(generation, building, refined, future))
         if not self._poll.isActive():
             self._poll.start()
@@ -237,8 +286,8 @@ class Recomputer(QObject):
                 detail = traceback.format_exception_only(type(exc), exc)[-1].strip()
                 self.failed.emit(run.generation, detail)
                 continue
-            result, seconds = run.future.result()
-            if run.refined:
+            result, seconds, full = run.future.result()
+            if run.refined or (full and self.refines):
                 self.refined.emit(run.generation, result, seconds)
             else:
                 self.finished.emit(run.generation, result, seconds)

@@ -29,10 +29,12 @@ from petfall_audit.model import (
     BuildingInfo,
     CatProfile,
     Distribution,
+    Facade,
     Fixed,
     Floor,
     LogNormal,
     Normal,
+    Opening,
     OpeningKind,
     Uniform,
 )
@@ -306,75 +308,103 @@ def _check_surfaces(
             )
 
 
+#: The last call's problems of each opening, by opening (held, so that its id stays its own),
+#: with what they depend on besides the opening: an edit of a few openings of a large building
+#: re-checks only those (the app validates the whole building after every edit).
+_OPENING_PROBLEMS: dict[int, tuple[Any, Any, tuple[Any, ...], list[Problem]]] = {}
+
+
 def _check_openings(
     problems: list[Problem], b: Building, places: Places, incomplete: frozenset[str]
 ) -> None:
-    L = LIMITS
+    global _OPENING_PROBLEMS
     facades = {f.id: f for f in b.facades}
     levels = {f.level for f in b.floors}
     _duplicates(problems, places, "openings", [o.id for o in b.openings], "opening id")
+    old = _OPENING_PROBLEMS
+    new: dict[int, tuple[Any, Any, tuple[Any, ...], list[Problem]]] = {}
+    floors_known, facades_known = "floors" not in incomplete, "facades" not in incomplete
     for i, o in enumerate(b.openings):
-        at = functools.partial(places.at, "openings", i)
-        if not o.id:
-            problems.append(Problem(at("id"), "must not be empty"))
-        if "floors" not in incomplete and o.floor not in levels:
-            problems.append(Problem(at("floor"), f"level {o.floor} does not exist"))
         facade = facades.get(o.facade)
-        if facade is None and "facades" not in incomplete:
+        context = (places.index["openings"][i], o.floor in levels, floors_known, facades_known,
+                   tuple(facades) if facade is None else ())  # the names a hint may suggest
+        hit = old.get(id(o))
+        if hit is not None and hit[0] is o and hit[1] is facade and hit[2] == context:
+            found = hit[3]
+        else:
+            found = []
+            _check_opening(found, o, functools.partial(places.at, "openings", i), facade,
+                           levels, incomplete, facades)
+        new[id(o)] = (o, facade, context, found)
+        problems.extend(found)
+    _OPENING_PROBLEMS = new
+
+
+def _check_opening(
+    problems: list[Problem], o: Opening, at: Any, facade: Facade | None, levels: set[int],
+    incomplete: frozenset[str], facades: dict[str, Facade],
+) -> None:
+    """The problems of one opening on its own (``facade``: the one it names, if it exists)."""
+    L = LIMITS
+    if not o.id:
+        problems.append(Problem(at("id"), "must not be empty"))
+    if "floors" not in incomplete and o.floor not in levels:
+        problems.append(Problem(at("floor"), f"level {o.floor} does not exist"))
+    if facade is None and "facades" not in incomplete:
+        problems.append(
+            Problem(
+                at("facade"), f"facade {o.facade!r} does not exist{_suggest(o.facade, facades)}"
+            )
+        )
+    ok_x = _range(problems, at("x_m"), o.x_m, "m", 0.0, L.length_max_m)
+    ok_w = _range(problems, at("width_m"), o.width_m, "m", 0.0, L.width_max_m, lo_open=True)
+    if ok_x and ok_w and facade is not None and _finite(facade.length_m):
+        end = o.x_m + o.width_m
+        if end > facade.length_m + L.facade_tolerance_m:
             problems.append(
                 Problem(
-                    at("facade"), f"facade {o.facade!r} does not exist{_suggest(o.facade, facades)}"
+                    at("x_m"),
+                    f"the opening runs to {end:g} m along facade {facade.id!r}, which is only "
+                    f"{facade.length_m:g} m long",
                 )
             )
-        ok_x = _range(problems, at("x_m"), o.x_m, "m", 0.0, L.length_max_m)
-        ok_w = _range(problems, at("width_m"), o.width_m, "m", 0.0, L.width_max_m, lo_open=True)
-        if ok_x and ok_w and facade is not None and _finite(facade.length_m):
-            end = o.x_m + o.width_m
-            if end > facade.length_m + L.facade_tolerance_m:
-                problems.append(
-                    Problem(
-                        at("x_m"),
-                        f"the opening runs to {end:g} m along facade {facade.id!r}, which is only "
-                        f"{facade.length_m:g} m long",
-                    )
-                )
-        if _range(problems, at("projection_m"), o.projection_m, "m", 0.0, L.projection_max_m):
-            if o.kind in WINDOW_KINDS and o.projection_m != 0:
-                problems.append(
-                    Problem(
-                        at("projection_m"),
-                        f"a {KIND_LABELS[o.kind].lower()} sits in the wall: its projection "
-                        f"must be 0, got {o.projection_m:g} m",
-                    )
-                )
-        _range(problems, at("perch_height_m"), o.perch_height_m, "m", 0.0, L.perch_height_max_m)
-        _range(problems, at("largest_gap_mm"), o.largest_gap_mm, "mm", 0.0, L.gap_max_mm)
-        _range(problems, at("bottom_gap_mm"), o.bottom_gap_mm, "mm", 0.0, L.gap_max_mm)
-        _range(problems, at("limiter_gap_mm"), o.limiter_gap_mm, "mm", 0.0, L.gap_max_mm)
-        mesh_mm = o.netting_mesh_mm
-        _range(problems, at("netting_mesh_mm"), mesh_mm, "mm", 0.0, L.mesh_max_mm, lo_open=True)
-        if o.escape_window and (o.kind is OpeningKind.FIXED or o.kind in BALCONY_LIKE):
+    if _range(problems, at("projection_m"), o.projection_m, "m", 0.0, L.projection_max_m):
+        if o.kind in WINDOW_KINDS and o.projection_m != 0:
             problems.append(
                 Problem(
-                    at("escape_window"),
-                    f"only an opening window can be an emergency escape window, not "
-                    f"{KIND_LABELS[o.kind].lower()}",
+                    at("projection_m"),
+                    f"a {KIND_LABELS[o.kind].lower()} sits in the wall: its projection "
+                    f"must be 0, got {o.projection_m:g} m",
                 )
             )
-        # Only the form of a photo path is checked here (the file itself by load_building, which
-        # knows the folder): a missing photo file never stops a building from loading; the app
-        # and the report say so where they show the photo.
-        for k, photo in enumerate(o.photos):
-            if photo_problem(None, photo) is not None:
-                problems.append(
-                    Problem(
-                        at(f"photos[{k}]"),
-                        ("expected a path inside the building file's folder (no '..' parts)"
-                         if photo and ".." in photo.replace("\\", "/").split("/") else
-                         "expected a path relative to the building file")
-                        + f", got {describe(photo)}",
-                    )
+    _range(problems, at("perch_height_m"), o.perch_height_m, "m", 0.0, L.perch_height_max_m)
+    _range(problems, at("largest_gap_mm"), o.largest_gap_mm, "mm", 0.0, L.gap_max_mm)
+    _range(problems, at("bottom_gap_mm"), o.bottom_gap_mm, "mm", 0.0, L.gap_max_mm)
+    _range(problems, at("limiter_gap_mm"), o.limiter_gap_mm, "mm", 0.0, L.gap_max_mm)
+    mesh_mm = o.netting_mesh_mm
+    _range(problems, at("netting_mesh_mm"), mesh_mm, "mm", 0.0, L.mesh_max_mm, lo_open=True)
+    if o.escape_window and (o.kind is OpeningKind.FIXED or o.kind in BALCONY_LIKE):
+        problems.append(
+            Problem(
+                at("escape_window"),
+                f"only an opening window can be an emergency escape window, not "
+                f"{KIND_LABELS[o.kind].lower()}",
+            )
+        )
+    # Only the form of a photo path is checked here (the file itself by load_building, which
+    # knows the folder): a missing photo file never stops a building from loading; the app
+    # and the report say so where they show the photo.
+    for k, photo in enumerate(o.photos):
+        if photo_problem(None, photo) is not None:
+            problems.append(
+                Problem(
+                    at(f"photos[{k}]"),
+                    ("expected a path inside the building file's folder (no '..' parts)"
+                     if photo and ".." in photo.replace("\\", "/").split("/") else
+                     "expected a path relative to the building file")
+                    + f", got {describe(photo)}",
                 )
+            )
 
 
 def _check_landing(

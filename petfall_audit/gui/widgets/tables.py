@@ -5,7 +5,7 @@ from __future__ import annotations
 
 from collections.abc import Callable, Iterable
 
-from PySide6.QtCore import Qt, QTimer
+from PySide6.QtCore import QModelIndex, Qt, QTimer
 from PySide6.QtGui import QAction, QGuiApplication, QKeySequence
 from PySide6.QtWidgets import QAbstractItemView, QLabel, QPushButton, QTableView, QToolBar
 
@@ -15,7 +15,8 @@ from petfall_audit.gui.widgets.delegates import FieldDelegate
 from petfall_audit.gui.widgets.field_form import ERROR_STYLE
 
 __all__ = ["add_remove_bar", "record_table", "error_label", "keep_columns_fitted",
-           "fit_columns", "table_action", "clipboard_text", "set_clipboard_text", "refusal_line"]
+           "fit_columns", "widen_columns", "table_action", "clipboard_text",
+           "set_clipboard_text", "refusal_line"]
 
 ROW_HEIGHT_PX = 22
 
@@ -60,16 +61,25 @@ def fit_columns(table: QTableView) -> None:
     sample = range(0, rows, step)
     last = model.columnCount() - 1
     user_sized: set[int] = table.property("user_sized_columns") or set()
+    # a model may give a column's texts without an index per cell (same texts as data())
+    texts_of = getattr(model, "display_texts", None)
+    widths: dict[str, int] = {}  # a column repeats its texts: measure each once
     table.setProperty("fitting_columns", True)
     try:
         for col in range(model.columnCount()):
             if header.isSectionHidden(col) or (col == last and header.stretchLastSection()):
                 continue
             want = header.sectionSizeFromContents(col).width()
-            for row in sample:
-                text = model.data(model.index(row, col))
-                if text is not None:
-                    want = max(want, metrics.horizontalAdvance(str(text)) + _CELL_PAD_PX)
+            texts = (texts_of(col, sample) if texts_of is not None else
+                     [model.data(model.index(row, col)) for row in sample])
+            for text in texts:
+                if text is None:
+                    continue
+                t = str(text)
+                width = widths.get(t)
+                if width is None:
+                    width = widths[t] = metrics.horizontalAdvance(t)
+                want = max(want, width + _CELL_PAD_PX)
             size = header.sectionSize(col)
             if size < want or (col not in user_sized and size != want):
                 header.resizeSection(col, want)
@@ -83,19 +93,83 @@ def _note_user_resize(table: QTableView, col: int) -> None:
         table.setProperty("user_sized_columns", sized | {col})
 
 
+def widen_columns(table: QTableView, first_row: int, last_row: int) -> None:
+    """Widen the columns that are too narrow for rows ``first_row`` to ``last_row`` (a few
+    edited rows: a whole refit of a large table on every edit would cost tens of ms)."""
+    model = table.model()
+    if model is None:
+        return
+    header = table.horizontalHeader()
+    metrics = table.fontMetrics()
+    last = model.columnCount() - 1
+    rows = range(max(first_row, 0), min(last_row, model.rowCount() - 1) + 1)
+    table.setProperty("fitting_columns", True)
+    try:
+        for col in range(model.columnCount()):
+            if header.isSectionHidden(col) or (col == last and header.stretchLastSection()):
+                continue
+            want = 0
+            for row in rows:
+                text = model.data(model.index(row, col))
+                if text is not None:
+                    want = max(want, metrics.horizontalAdvance(str(text)) + _CELL_PAD_PX)
+            if header.sectionSize(col) < want:
+                header.resizeSection(col, want)
+    finally:
+        table.setProperty("fitting_columns", False)
+
+
+#: A change of at most this many rows only widens columns (see :func:`keep_columns_fitted`).
+_FEW_ROWS = 8
+_TEXT_ROLES = (int(Qt.ItemDataRole.DisplayRole), int(Qt.ItemDataRole.EditRole))
+
+
 def keep_columns_fitted(table: QTableView) -> None:
     """Fit ``table``'s columns now and whenever rows come, go or change (once per burst of
-    changes): columns never clip what they show, also when a table that started empty fills."""
+    changes): columns never clip what they show, also when a table that started empty fills.
+
+    A change of colours or fonts only (``dataChanged`` naming only such roles) fits nothing; a
+    change of a few rows only widens the columns those rows need (a column may then stay wider
+    than its content until the next whole fit: rows added, removed or reset, or a larger
+    change)."""
     table.setWordWrap(False)  # a wrapped cell in a one-line row shows only its first word
     table.setTextElideMode(Qt.TextElideMode.ElideRight)
     timer = QTimer(table)
     timer.setSingleShot(True)
     timer.setInterval(0)
-    timer.timeout.connect(lambda: fit_columns(table))
+    pending: dict[str, object] = {"whole": False, "rows": None}
+
+    def fit_now() -> None:
+        rows = pending["rows"]
+        whole = bool(pending["whole"])
+        pending["whole"], pending["rows"] = False, None
+        if whole:
+            fit_columns(table)
+        elif isinstance(rows, tuple):
+            widen_columns(table, rows[0], rows[1])
+
+    def whole(*_: object) -> None:
+        pending["whole"] = True
+        timer.start()
+
+    def changed(top: QModelIndex, bottom: QModelIndex, roles: list[int] | None = None) -> None:
+        if roles and not any(int(r) in _TEXT_ROLES for r in roles):
+            return  # colours, fonts, tooltips: no text changed
+        rows = pending["rows"]
+        first, last = top.row(), bottom.row()
+        if isinstance(rows, tuple):
+            first, last = min(first, rows[0]), max(last, rows[1])
+        if last - first + 1 > _FEW_ROWS:
+            pending["whole"] = True
+        else:
+            pending["rows"] = (first, last)
+        timer.start()
+
+    timer.timeout.connect(fit_now)
     model = table.model()
-    for signal in (model.modelReset, model.rowsInserted, model.dataChanged,
-                   model.layoutChanged):
-        signal.connect(lambda *_: timer.start())
+    for signal in (model.modelReset, model.rowsInserted, model.layoutChanged):
+        signal.connect(whole)
+    model.dataChanged.connect(changed)
     table.horizontalHeader().sectionResized.connect(
         lambda col, _old, _new: _note_user_resize(table, col))
     fit_columns(table)
