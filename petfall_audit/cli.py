@@ -282,7 +282,7 @@ def _show_held(held: _HeldChatter) -> None:
 
 def _cmd_check(args: argparse.Namespace) -> int:
     from petfall_audit.io.building_file import load_building
-    from petfall_audit.io.survey import survey_warnings
+    from petfall_audit.io.survey import check_warnings
     from petfall_audit.model import Building
 
     try:
@@ -290,7 +290,7 @@ def _cmd_check(args: argparse.Namespace) -> int:
     except ValidationFailed as exc:
         _print_problems(exc, args.file)
         if isinstance(exc.building, Building):
-            _print_warnings(survey_warnings(exc.building), args.file)
+            _print_warnings(check_warnings(exc.building), args.file)
         return EXIT_INVALID
     except BuildingFileError as exc:
         _print_problems(exc, args.file)
@@ -300,7 +300,7 @@ def _cmd_check(args: argparse.Namespace) -> int:
         f"{_count(building.facades, 'facade')}, {_count(building.surfaces, 'surface')}, "
         f"{_count(building.openings, 'opening')}"
     )
-    _print_warnings(survey_warnings(building), args.file, stream=sys.stdout)
+    _print_warnings(check_warnings(building), args.file, stream=sys.stdout)
     return EXIT_OK
 
 
