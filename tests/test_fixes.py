@@ -14,18 +14,18 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from petfall_audit._resources import resource_path
-from petfall_audit.demo import sample_building
 from petfall_audit.code_profile import code_profile
+from petfall_audit.demo import sample_building
 from petfall_audit.fixes import (
     FIRE_ACCESS_CONDITION,
     HIERARCHY,
     PERMISSION_CONDITION,
     WIND_CONDITION,
     CatalogueError,
-    attachment_condition,
-    escape_condition,
     Option,
+    attachment_condition,
     candidates,
+    escape_condition,
     load_catalogue,
     opening_options,
     parse_catalogue,

@@ -568,7 +568,9 @@ def code_profile_warnings(b: Building) -> list[Problem]:
     minimum_mm = escape.value_mm
     release = profile.rule("escape_release")
     cites = [r.citation for r in (escape, release) if r is not None and r.cited]
-    where = f" ({'; '.join(dict.fromkeys(cites))})" if cites else " (no clause: check the local rule)"
+    where = (
+        f" ({'; '.join(dict.fromkeys(cites))})" if cites else " (no clause: check the local rule)"
+    )
     out: list[Problem] = []
     for i, o in enumerate(b.openings):
         if not o.escape_window or o.limiter_gap_mm is None or o.limiter_gap_mm >= minimum_mm:
