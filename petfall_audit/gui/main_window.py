@@ -278,6 +278,7 @@ class MainWindow(QMainWindow):
         self.floors_panel = FloorsPanel(doc, self.history, self.options, actions=[a.copy_floor])
         self.site_panel = SitePanel(doc, self.history, self.options)
         self.building_panel = BuildingPanel(doc, self.history, self.options)
+        self.building_panel.code_profile_picked.connect(self.set_units)
         self._panels = [self.openings_panel, self.floors_panel, self.site_panel,
                         self.building_panel]
         for panel, name in ((self.openings_panel, "Openings"), (self.floors_panel, "Floors"),
