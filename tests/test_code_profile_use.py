@@ -288,3 +288,11 @@ def test_check_locates_an_escape_limiter_below_the_minimum_clear_opening(
     path.write_text(json.dumps(doc), encoding="utf-8")
     assert main(["check", str(path)]) == 0
     assert f"openings[{i}].limiter_gap_mm" in capsys.readouterr().out
+
+
+def test_costs_say_when_the_catalogue_currency_is_not_the_profile_one(
+    reports: dict[str, str],
+) -> None:
+    # the shipped catalogue prices in EUR (invented demo values); England pays in GBP (ISO 4217)
+    assert "prices in GBP" in reports["england"] and "not converted" in reports["england"]
+    assert "not converted" not in reports["generic"]  # generic: EUR, as the catalogue

@@ -145,3 +145,24 @@ def test_the_leaflet_sections_are_chosen_and_edited_before_printing(
     assert again.list.item(0).text() == "Cats and high windows"
     assert again.list.item(1).checkState() == Qt.CheckState.Unchecked
     assert not again.measures.isChecked()
+
+
+def test_a_building_of_a_jurisdiction_opens_in_its_units(qtbot) -> None:  # type: ignore[no-untyped-def]
+    import dataclasses
+
+    base = sample_building("walkup")
+    us = dataclasses.replace(base, info=dataclasses.replace(base.info, code_profile="us-ibc"))
+    w = MainWindow(Document(us), prompts=QuietPrompts(), samples=SAMPLES, refine_samples=0)
+    qtbot.addWidget(w)
+    try:
+        assert w.options.units == "imperial"  # the IBC profile: imperial (US practice)
+        w.load_document(Document(base))  # generic: the user's choice stays
+        assert w.options.units == "imperial"
+        england = dataclasses.replace(base, info=dataclasses.replace(base.info,
+                                                                     code_profile="england"))
+        w.load_document(Document(england))
+        assert w.options.units == "metric"
+    finally:
+        w.recomputer.cancel()
+        w.recomputer.wait(10000)
+        wait_for_tasks(30000)

@@ -523,7 +523,7 @@ def budget_origin(plan: Plan, saved_budget: float | None, *, is_default: bool = 
 
 
 def _plan_parts(plan: Plan | None, saved_budget: float | None = None, *,
-                budget_is_default: bool = False
+                budget_is_default: bool = False, profile: CodeProfile | None = None
                 ) -> tuple[tuple[str, ...], tuple[PlanRow, ...]]:
     if plan is None:
         return (("No budget was given, so no fix plan was made.",), ())
@@ -538,6 +538,12 @@ def _plan_parts(plan: Plan | None, saved_budget: float | None = None, *,
         f"Total risk score {fmt_risk(before)} before and {fmt_risk(after)} after "
         f"({fmt_percent(cut)} lower).",
     )
+    if profile is not None and cur and profile.currency != cur:
+        summary += (
+            f"Costs are in {cur}, the control catalogue's currency, not converted; the "
+            f"building's code profile ({profile.name}) prices in {profile.currency}: put local "
+            "prices in the catalogue before planning a real budget.",
+        )
     notes = _plan_notes(plan)
     number = {c: i + 1 for i, c in enumerate(notes)}
     rows = tuple(
@@ -724,7 +730,8 @@ def build_audit_context(assessment: Assessment, plan: Plan | None, *,
         for o in by_risk[: max(opts.top_n, 0)]
     )
     plan_summary, plan_rows = _plan_parts(plan, assessment.building.plan.budget,
-                                          budget_is_default=opts.budget_is_default)
+                                          budget_is_default=opts.budget_is_default,
+                                          profile=profile)
     worst_v = max((o.impact_speed_mps.p95 for o in assessment.openings), default=float("nan"))
     summary = (
         f"{len(assessment.openings)} openings assessed on "
