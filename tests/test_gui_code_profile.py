@@ -166,3 +166,19 @@ def test_a_building_of_a_jurisdiction_opens_in_its_units(qtbot) -> None:  # type
         w.recomputer.cancel()
         w.recomputer.wait(10000)
         wait_for_tasks(30000)
+
+
+def test_the_panel_says_when_an_escape_limiter_is_too_narrow(qtbot) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.editing.commands import SetOpeningFields
+
+    doc = Document(sample_building("walkup"))
+    history = History(doc)
+    panel = BuildingPanel(doc, history, ViewOptions())
+    qtbot.addWidget(panel)
+    _pick(panel, "england")
+    assert panel.code_warnings.isHidden()
+    escape = next(o for o in doc.building.openings if o.escape_window)
+    history.push(SetOpeningFields([escape.id], {"limiter_gap_mm": 100.0}))
+    # Approved Document B vol. 1 para 2.8: at least 450 mm wide
+    assert not panel.code_warnings.isHidden()
+    assert "450 mm" in panel.code_warnings.text() and escape.id in panel.code_warnings.text()

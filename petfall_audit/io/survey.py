@@ -13,6 +13,7 @@ from __future__ import annotations
 from collections.abc import Iterable
 
 from petfall_audit.errors import Problem
+from petfall_audit.io._checks import code_profile_warnings
 from petfall_audit.model import Building
 
 __all__ = [
@@ -21,6 +22,7 @@ __all__ = [
     "still_to_survey",
     "survey_warnings",
     "check_warnings",
+    "code_profile_warnings",
 ]
 
 #: The notes line that lists what is still to be surveyed (one line, items separated by ``;``).
@@ -64,6 +66,4 @@ def survey_warnings(building: Building) -> list[Problem]:
 def check_warnings(building: Building) -> list[Problem]:
     """Every warning ``check`` lists: the openings still to survey, then what the building's code
     profile finds (an escape window whose limiter leaves less than the minimum clear opening)."""
-    from petfall_audit.io._checks import code_profile_warnings
-
     return [*survey_warnings(building), *code_profile_warnings(building)]

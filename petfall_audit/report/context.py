@@ -531,7 +531,7 @@ def _plan_parts(plan: Plan | None, saved_budget: float | None = None, *,
     before, after = float(plan.risk_before), float(plan.risk_after)
     cut = (1 - after / before) if before > 0 else 0.0
     origin = budget_origin(plan, saved_budget, is_default=budget_is_default)
-    summary = (
+    summary: tuple[str, ...] = (
         f"Budget {fmt_money(float(plan.budget), cur)} ({origin}); the plan spends "
         f"{fmt_money(float(plan.total_cost), cur)} on "
         f"{_plural(len(plan.actions), 'control')}.",
@@ -805,7 +805,7 @@ def build_leaflet_context(assessment: Assessment, plan: Plan | None, *,
         if s.key == "building" and pick.include_measures and plan is not None and plan.actions:
             names = sorted({_sentence_case(a.control_name) for a in plan.actions})
             measures = f"The building plans these measures: {_join(names)}."
-            s = replace(s, items=(measures, *s.items))
+            s = replace(s, items=(*s.items[:1], measures, *s.items[1:]))  # after the survey
         printed.append(s)
     issued = date or info.audit_date or _dt.date.today().isoformat()
     return LeafletContext(

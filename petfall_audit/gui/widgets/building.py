@@ -77,10 +77,14 @@ class BuildingPanel(QWidget):
         self.code_rules.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
         self.code_error = QLabel()
         self.code_error.setWordWrap(True)
+        self.code_warnings = QLabel()
+        self.code_warnings.setObjectName("code_warnings")
+        self.code_warnings.setWordWrap(True)
         code_box = QGroupBox("Building code")
         code_layout = QFormLayout(code_box)
         code_layout.addRow("Code profile", self.code)
         code_layout.addRow(self.code_error)
+        code_layout.addRow(self.code_warnings)
         code_layout.addRow(self.code_rules)
 
         self.profile = QComboBox()
@@ -116,6 +120,7 @@ class BuildingPanel(QWidget):
         layout.addWidget(injury)
         layout.addStretch(1)
         self._disconnects = [doc.on_changed("building", self._on_building_changed),
+                             doc.on_changed("openings", self._on_openings_changed),
                              doc.on_changed("profile", self._on_profile_changed)]
         self._on_building_changed("building")
         self._on_profile_changed("profile")
@@ -134,6 +139,15 @@ class BuildingPanel(QWidget):
         pid = info.code_profile if info.code_profile in PROFILE_IDS else DEFAULT_PROFILE
         self.code.setCurrentIndex(self.code.findData(pid))
         self.code_rules.setText(rules_html(pid))
+        self._on_openings_changed("openings")
+
+    def _on_openings_changed(self, kind: str) -> None:
+        """What the profile finds in this building (an escape window's limiter too narrow)."""
+        from petfall_audit.io.survey import code_profile_warnings
+
+        found = code_profile_warnings(self._doc.building)
+        self.code_warnings.setText("\n".join(f"! {w.message}" for w in found))
+        self.code_warnings.setVisible(bool(found))
 
     def _on_code_chosen(self, index: int) -> None:
         pid = str(self.code.itemData(index))
