@@ -296,3 +296,33 @@ def test_costs_say_when_the_catalogue_currency_is_not_the_profile_one(
     # the shipped catalogue prices in EUR (invented demo values); England pays in GBP (ISO 4217)
     assert "prices in GBP" in reports["england"] and "not converted" in reports["england"]
     assert "not converted" not in reports["generic"]  # generic: EUR, as the catalogue
+
+
+def _rule_value(profile_id: str, rule_id: str) -> tuple[float | None, float | None, str]:
+    r = next(x for x in code_profile(profile_id).rules if x.id == rule_id)
+    return r.value_mm, r.value_m, r.text
+
+
+def test_the_figures_the_first_checks_leave_out_match_the_research_notes() -> None:
+    # NCC Vol. 2 Part 3.9.2: floor more than 4 m up -> no climbable elements 150-760 mm
+    _, m, text = _rule_value("australia-ncc", "ncc_climb")
+    assert m == 4.0 and "150 and 760 mm" in text
+    # NCC openable windows, non-bedroom: opening < 865 mm above the floor (MEM in the notes)
+    assert _rule_value("australia-ncc", "ncc_other_window")[0] == 865.0
+    assert next(r for r in code_profile("australia-ncc").rules
+                if r.id == "ncc_other_window").confidence == "from memory; verify"
+    # NBC 9.8.8: residential windows need a guard unless the sill is more than 1070 mm up
+    mm, _, text = _rule_value("canada-nbc", "nbc_windows")
+    assert mm == 1070.0 and "1800 mm" in text
+    # BBR 8:2321 (general advice): not climbable up to 0.8 m
+    assert _rule_value("sweden-bbr", "bbr_not_climbable")[0] == 800.0
+    # IRC R310: sill at most 44 in (1118 mm) above the floor
+    _, _, text = _rule_value("us-ibc", "irc_r310_opening")
+    assert "44 in (1118 mm)" in text and "5.7 ft²" in text
+    # IBC 1015.8: 72 in (1829 mm) above grade
+    assert "72 in (1829 mm)" in _rule_value("us-ibc", "ibc_window_sill")[2]
+    # UK practice limits window restrictors to about 100 mm (common practice, no source)
+    assert _rule_value("england", "en13126_restrictors")[0] == 100.0
+    # date order of the place (common practice, no source)
+    assert code_profile("australia-ncc").date_format == "dmy"
+    assert code_profile("sweden-bbr").date_format == "iso"
