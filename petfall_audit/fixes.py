@@ -769,11 +769,11 @@ def recommendation_lines(
     option: Option | None,
     *,
     currency: str = "EUR",
-    profile: CodeProfile | None = None,
+    code: CodeProfile | None = None,
 ) -> list[str]:
     """Plain-language recommendation for one opening: the control, its cost and residual risk,
     its conditions, and why a code-compliant guard or window is not enough for a cat (with the
-    code and clause of each human rule of ``profile``; default: generic)."""
+    code and clause of each human rule of the code profile ``code``; default: generic)."""
     lines: list[str] = []
     if option is None:
         lines.append(f"{opening.id}: no control in the catalogue applies or lowers the risk here.")
@@ -784,7 +784,7 @@ def recommendation_lines(
             f"({option.share_removed:.0%} less)."
         )
         lines.extend(f"Condition: {c}" for c in option.conditions)
-    reasons = why_code_compliant_is_not_cat_safe(opening, profile)
+    reasons = why_code_compliant_is_not_cat_safe(opening, code=code)
     if reasons:
         lines.append("Why meeting the building code is not enough for a cat:")
         lines.extend(f"- {r}" for r in reasons)

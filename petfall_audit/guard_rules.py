@@ -68,16 +68,16 @@ def _figure_ref(r: CodeRule, system: str) -> str:
 
 
 def why_code_compliant_is_not_cat_safe(
-    opening: Opening, profile: CodeProfile | None = None
+    opening: Opening, *, code: CodeProfile | None = None
 ) -> list[str]:
-    """Plain-language reasons why this opening's guard or window can meet the human rules of
-    ``profile`` (default: the generic profile) and still let a cat fall. Each reason cites the
-    profile's rule with its clause (or says that the generic figure has none and the local rule
-    must be checked); no other jurisdiction is cited. Empty when the opening already holds a cat
-    (a fine net, a pet-resistant screen, a cat-sized limiter, or fixed glazing). Lengths read in
-    the profile's units.
+    """Plain-language reasons why this opening's guard or window can meet the human rules of the
+    code profile ``code`` (default: the generic profile) and still let a cat fall. Each reason
+    cites the profile's rule with its clause (or says that the generic figure has none and the
+    local rule must be checked); no other jurisdiction is cited. Empty when the opening already
+    holds a cat (a fine net, a pet-resistant screen, a cat-sized limiter, or fixed glazing).
+    Lengths read in the profile's units.
     """
-    p = code_profile() if profile is None else profile
+    p = code_profile() if code is None else code
     system = p.units
     if opening.kind is OpeningKind.FIXED:
         return []

@@ -235,8 +235,8 @@ def test_switching_profile_changes_citations_and_conditions_not_the_physics() ->
     assert any("Approved Document B" in c for c in cond_en)
     assert not any("Approved Document" in c for c in cond_us)
     balcony = next(o for o in base.openings if o.kind is OpeningKind.BALCONY)
-    en = " ".join(why_code_compliant_is_not_cat_safe(balcony, code_profile("england")))
-    us = " ".join(why_code_compliant_is_not_cat_safe(balcony, code_profile("us-ibc")))
+    en = " ".join(why_code_compliant_is_not_cat_safe(balcony, code=code_profile("england")))
+    us = " ".join(why_code_compliant_is_not_cat_safe(balcony, code=code_profile("us-ibc")))
     assert "Approved Document K" in en and "IBC" not in en
     assert "IBC" in us and "Approved Document" not in us
 
@@ -250,9 +250,9 @@ def test_generic_explanations_cite_no_clause() -> None:
 
 def test_explanations_read_in_the_profile_units() -> None:
     # IBC 1015.3: 42 in; a US reader reads inches (the profile's imperial units)
-    us = " ".join(why_code_compliant_is_not_cat_safe(_balcony(), code_profile("us-ibc")))
+    us = " ".join(why_code_compliant_is_not_cat_safe(_balcony(), code=code_profile("us-ibc")))
     assert "42.0 in (IBC §1015.3)" in us
-    en = " ".join(why_code_compliant_is_not_cat_safe(_balcony(), code_profile("england")))
+    en = " ".join(why_code_compliant_is_not_cat_safe(_balcony(), code=code_profile("england")))
     assert "1100 mm (Approved Document K, Diagram 3.1)" in en
 
 

@@ -318,13 +318,17 @@ def test_recommend_prefers_an_effective_control_over_a_cheap_token() -> None:
 def test_reasons_name_the_code_clause_and_the_cat_source() -> None:
     # England, Approved Document K (2013): Diagram 3.1 (1100 mm balcony guards), para 3.3
     # (100 mm sphere); the cat's skull from Vet Sci 2021;8:161
-    reasons = " ".join(why_code_compliant_is_not_cat_safe(_balcony(largest_gap_mm=90.0), ENGLAND))
+    reasons = " ".join(
+        why_code_compliant_is_not_cat_safe(_balcony(largest_gap_mm=90.0), code=ENGLAND)
+    )
     assert "1100 mm (Approved Document K, Diagram 3.1)" in reasons
     assert "100 mm, Approved Document K, para 3.3" in reasons
     assert "IBC" not in reasons and "NCC" not in reasons and "BBR" not in reasons
     assert "Vet Sci 2021;8:161" in reasons
     us = " ".join(
-        why_code_compliant_is_not_cat_safe(_window(limiter_gap_mm=100.0), code_profile("us-ibc"))
+        why_code_compliant_is_not_cat_safe(
+            _window(limiter_gap_mm=100.0), code=code_profile("us-ibc")
+        )
     )
     assert "ASTM F2090" in us and "IBC §1015.8" in us and "Approved Document" not in us
     assert "4.0 in" in us  # ASTM F2090: under 4 in, in the profile's imperial units
@@ -336,9 +340,11 @@ def test_reasons_name_the_code_clause_and_the_cat_source() -> None:
 def test_limiter_wider_than_the_child_limit_is_not_said_to_meet_it() -> None:
     # ASTM F2090: child devices keep the opening under 4 in (102 mm); a 150 mm gap does not
     us = code_profile("us-ibc")
-    wide = " ".join(why_code_compliant_is_not_cat_safe(_window(limiter_gap_mm=150.0), us))
+    wide = " ".join(why_code_compliant_is_not_cat_safe(_window(limiter_gap_mm=150.0), code=us))
     assert "wider than even the child limit" in wide and "can meet the child limit" not in wide
-    narrow = " ".join(why_code_compliant_is_not_cat_safe(_window(limiter_gap_mm=100.0), us))
+    narrow = " ".join(
+        why_code_compliant_is_not_cat_safe(_window(limiter_gap_mm=100.0), code=us)
+    )
     assert "can meet the child limit" in narrow
 
 
@@ -351,7 +357,7 @@ def test_recommendation_text_carries_conditions_and_reasons(walkup_assessment) -
     option = rec[opening.id]
     assert option is not None
     text = "\n".join(
-        recommendation_lines(opening, option, currency=CAT.currency, profile=ENGLAND)
+        recommendation_lines(opening, option, currency=CAT.currency, code=ENGLAND)
     )
     assert option.control_name in text and "EUR" in text
     for condition in option.conditions:

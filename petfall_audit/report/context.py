@@ -428,7 +428,8 @@ def _code_notes(assessment: Assessment, opening_id: str) -> tuple[str, ...]:
 
     building = assessment.building
     return tuple(
-        why_code_compliant_is_not_cat_safe(building.opening(opening_id), building_profile(building))
+        why_code_compliant_is_not_cat_safe(building.opening(opening_id),
+                                           code=building_profile(building))
     )
 
 
