@@ -46,7 +46,7 @@ from typing import Any
 import numpy as np
 
 from petfall_audit._resources import resource_path
-from petfall_audit.code_profile import CodeProfile, building_profile, code_profile
+from petfall_audit.code_profile import CodeProfile, CodeRule, building_profile, code_profile
 from petfall_audit.errors import CatalogueError, Problem
 from petfall_audit.guard_rules import why_code_compliant_is_not_cat_safe
 from petfall_audit.likelihood import assess_likelihood
@@ -102,10 +102,10 @@ WIND_CONDITION = (
 CHECK_LOCALLY = "check the local rule"
 
 
-def _ref(rule: object) -> str:
-    """``" (Approved Document B, volume 1, para 2.8)"`` or, for a rule that names no code,
-    ``" (check the local rule)"``."""
-    citation = getattr(rule, "citation", "")
+def _ref(rule: CodeRule | None) -> str:
+    """``" (Approved Document B, volume 1, para 2.8)"`` or, for a missing rule or one that names
+    no code, ``" (check the local rule)"``."""
+    citation = rule.citation if rule is not None else ""
     return f" ({citation})" if citation else f" ({CHECK_LOCALLY})"
 
 
@@ -129,11 +129,7 @@ def attachment_condition(profile: CodeProfile) -> str | None:
     rule = profile.rule("attachment_fire")
     if rule is None:
         return None
-    height = f"{rule.value_m:g} m" if rule.value_m is not None else "the rule's height"
-    return (
-        f"Tall building (a storey {height} or more above ground): {rule.text}"
-        f"{_ref(rule)}; this covers nets on every floor."
-    )
+    return f"Tall building: {rule.text}{_ref(rule)}; this covers nets on every floor."
 
 
 def non_releasable_condition(profile: CodeProfile) -> str:
