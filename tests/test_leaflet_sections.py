@@ -137,3 +137,11 @@ def test_the_audit_carries_every_opening_notes(tmp_path: Path) -> None:
     assert len(with_notes) > 1
     for o in with_notes:
         assert o["notes"].split("\n")[0].strip()[:30] in text, o["id"]
+
+
+def test_a_profile_animal_welfare_rule_reaches_the_tenants() -> None:
+    # SJVFS 2008:5 ch. 3 §8: a cat alone on a balcony more than 5 m up needs a net
+    swedish = " ".join(i for s in default_sections(code_profile("sweden-bbr")) for i in s.items)
+    assert "SJVFS 2008:5, ch. 3 §8" in swedish and "more than 5 m up" in swedish
+    english = " ".join(i for s in default_sections(code_profile("england")) for i in s.items)
+    assert "SJVFS" not in english

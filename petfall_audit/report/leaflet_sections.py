@@ -86,9 +86,14 @@ AFTER_A_FALL: tuple[str, ...] = (
 
 
 def default_sections(profile: CodeProfile | None = None) -> tuple[LeafletSection, ...]:
-    """The shipped sections, in the words of ``profile`` (default: generic)."""
+    """The shipped sections, in the words of ``profile`` (default: generic), with its
+    animal-welfare rule on cats and balconies where it has one."""
     p = code_profile() if profile is None else profile
     w = p.words
+    checks = CHECKS + tuple(
+        f"The rules here say: {r.text} ({r.citation})." for r in p.rules_for("animal_welfare")
+        if r.cited
+    )
     return (
         LeafletSection(
             "why",
@@ -101,7 +106,7 @@ def default_sections(profile: CodeProfile | None = None) -> tuple[LeafletSection
             ),
             bullets=False,
         ),
-        LeafletSection("checks", "What to check at home", CHECKS),
+        LeafletSection("checks", "What to check at home", checks),
         LeafletSection(
             "building",
             "What the building is doing",
