@@ -394,12 +394,14 @@ def _cmd_report(args: argparse.Namespace) -> int:
     _check_sampling(args)
     _check_output(args.output)
     _check_output(args.leaflet)
+    if (args.leaflet_omit or args.leaflet_text) and not args.leaflet:
+        raise _refuse("--leaflet-omit and --leaflet-text shape the leaflet: add --leaflet PDF")
     building = _load(args.file)
+    choice = _leaflet_choice(args, building) if args.leaflet else None  # before the long work
     assessment = _assess(args, building)
     budget = _budget_of(args, building)
     plan = make_plan(assessment, budget) if budget is not None else None
     contact = ContactBlock.from_text(args.contact) if args.contact else ContactBlock()
-    choice = _leaflet_choice(args, building) if args.leaflet else None
     try:
         if fmt == "pdf":
             written = [write_audit(assessment, plan, args.output, top_n=args.top,

@@ -75,6 +75,8 @@ def test_leaflet_sections_can_be_left_out_from_the_command_line(tmp_path: Path) 
     assert "Never block an escape window" in cut_text and "Indicative model only" in cut_text
     assert main(["report", str(src), "-o", str(tmp_path / "a.pdf"), "--leaflet",
                  str(tmp_path / "x.pdf"), "--leaflet-omit", "nonsense", *FAST]) == 2
+    assert main(["report", str(src), "-o", str(tmp_path / "a.pdf"), "--leaflet-omit", "why",
+                 *FAST]) == 2  # no --leaflet: refused, not ignored
 
 
 def test_leaflet_text_round_trip_from_the_command_line(
