@@ -28,6 +28,7 @@ from petfall_audit.errors import (
 if TYPE_CHECKING:
     from petfall_audit.batch import BuildingOutcome
     from petfall_audit.model import Building
+    from petfall_audit.report.leaflet_sections import LeafletChoice
     from petfall_audit.risk import Assessment
 
 __all__ = ["main"]
@@ -282,7 +283,7 @@ def _show_held(held: _HeldChatter) -> None:
 
 def _cmd_check(args: argparse.Namespace) -> int:
     from petfall_audit.io.building_file import load_building
-    from petfall_audit.io.survey import survey_warnings
+    from petfall_audit.io.survey import check_warnings
     from petfall_audit.model import Building
 
     try:
@@ -290,7 +291,7 @@ def _cmd_check(args: argparse.Namespace) -> int:
     except ValidationFailed as exc:
         _print_problems(exc, args.file)
         if isinstance(exc.building, Building):
-            _print_warnings(survey_warnings(exc.building), args.file)
+            _print_warnings(check_warnings(exc.building), args.file)
         return EXIT_INVALID
     except BuildingFileError as exc:
         _print_problems(exc, args.file)
@@ -300,7 +301,7 @@ def _cmd_check(args: argparse.Namespace) -> int:
         f"{_count(building.facades, 'facade')}, {_count(building.surfaces, 'surface')}, "
         f"{_count(building.openings, 'opening')}"
     )
-    _print_warnings(survey_warnings(building), args.file, stream=sys.stdout)
+    _print_warnings(check_warnings(building), args.file, stream=sys.stdout)
     return EXIT_OK
 
 
@@ -393,7 +394,10 @@ def _cmd_report(args: argparse.Namespace) -> int:
     _check_sampling(args)
     _check_output(args.output)
     _check_output(args.leaflet)
+    if (args.leaflet_omit or args.leaflet_text) and not args.leaflet:
+        raise _refuse("--leaflet-omit and --leaflet-text shape the leaflet: add --leaflet PDF")
     building = _load(args.file)
+    choice = _leaflet_choice(args, building) if args.leaflet else None  # before the long work
     assessment = _assess(args, building)
     budget = _budget_of(args, building)
     plan = make_plan(assessment, budget) if budget is not None else None
@@ -408,12 +412,66 @@ def _cmd_report(args: argparse.Namespace) -> int:
                 assessment, plan, args.output, "csv" if fmt == "csv" else "json"
             )
         if args.leaflet:
-            written.append(write_leaflet(assessment, plan, args.leaflet, contact=contact))
+            written.append(write_leaflet(assessment, plan, args.leaflet, contact=contact,
+                                         choice=choice))
     except ReportError as exc:
         _say(f"petfall-audit: {exc}", file=sys.stderr)
         return EXIT_FAILURE
     for path in written:
         _say(f"wrote {path}")
+    return EXIT_OK
+
+
+#: Largest edited leaflet text read from a file (bytes): a leaflet is one or two pages.
+_LEAFLET_TEXT_MAX_BYTES = 100_000
+
+
+def _leaflet_choice(args: argparse.Namespace, building: Building) -> LeafletChoice:
+    """The leaflet's sections from ``--leaflet-text`` (or the defaults of the building's code
+    profile), less those named by ``--leaflet-omit``."""
+    from petfall_audit.code_profile import building_profile
+    from petfall_audit.report.leaflet_sections import (
+        LeafletTextError,
+        choose_sections,
+        default_sections,
+        parse_sections_text,
+    )
+
+    defaults = default_sections(building_profile(building))
+    sections = defaults
+    if args.leaflet_text:
+        path = Path(args.leaflet_text)
+        try:
+            if path.stat().st_size > _LEAFLET_TEXT_MAX_BYTES:
+                raise _refuse(f"{args.leaflet_text}: larger than 100 kB: not a leaflet text")
+            text = path.read_text(encoding="utf-8")
+        except (OSError, UnicodeDecodeError) as exc:
+            why = getattr(exc, "strerror", None) or "not readable as UTF-8 text"
+            raise _refuse(f"{args.leaflet_text}: {why}") from None
+        try:
+            sections = parse_sections_text(text, defaults)
+        except LeafletTextError as exc:
+            raise _refuse(f"{args.leaflet_text}: {exc}") from None
+    names = [n for item in (args.leaflet_omit or []) for n in item.split(",")]
+    try:
+        return choose_sections(sections, names)
+    except ValueError as exc:
+        raise _refuse(f"--leaflet-omit: {exc}") from None
+
+
+def _cmd_leaflet_text(args: argparse.Namespace) -> int:
+    from petfall_audit.code_profile import building_profile
+    from petfall_audit.io.atomic import atomic_write_text
+    from petfall_audit.report.leaflet_sections import default_sections, sections_text
+
+    building = _load(args.file)
+    text = sections_text(default_sections(building_profile(building)))
+    if args.output in (None, "-"):
+        sys.stdout.write(text)
+    else:
+        _check_output(args.output)
+        atomic_write_text(Path(args.output), text)
+        _say(f"wrote {args.output}")
     return EXIT_OK
 
 
@@ -448,7 +506,6 @@ def _cmd_batch(args: argparse.Namespace) -> int:
     ]
     workers = args.jobs if args.jobs is not None else _default_jobs()
     outcomes = run_all(jobs, workers=workers, progress=_stderr_progress("batch"))
-    from petfall_audit.injury import BANDS
     rows: list[list[object]] = []
     done = []
     failed = 0
@@ -797,6 +854,12 @@ def _build_parser() -> argparse.ArgumentParser:
                    help="budget for the fix plan, in the control catalogue's currency "
                         "(default: the budget saved with the audit; none: no plan)")
     p.add_argument("--leaflet", default=None, metavar="PDF", help="also write a tenant leaflet")
+    p.add_argument("--leaflet-omit", action="append", default=None, metavar="SECTIONS",
+                   help="leave these leaflet sections out (comma-separated, repeatable): why, "
+                   "checks, building, after_fall, contact, or measures for the plan's measures")
+    p.add_argument("--leaflet-text", default=None, metavar="TEXT",
+                   help="the leaflet's sections as edited text (start from the output of "
+                   "'petfall-audit leaflet-text FILE')")
     p.add_argument("--contact", default=None, metavar="TEXT",
                    help="issuer's contact block: first line the organisation; separate lines "
                    "with '|' or a newline")
@@ -804,6 +867,18 @@ def _build_parser() -> argparse.ArgumentParser:
     p.add_argument("--top", type=int, default=5, metavar="N",
                    help="openings with a detail page (default 5)")
     p.set_defaults(handler=_cmd_report)
+
+    p = sub.add_parser(
+        "leaflet-text",
+        help="write the tenant leaflet's sections as text to edit",
+        description="Write the sections of FILE's tenant leaflet, in the words of its code "
+        "profile, as plain text: a line '[key] Title' starts a section, each further line is a "
+        "paragraph or bullet. Edit it, delete the sections you do not want, and pass it to "
+        "'report --leaflet-text'.",
+    )
+    p.add_argument("file", help="building file (.json)")
+    p.add_argument("-o", "--output", default=None, help="text file to write (default: stdout)")
+    p.set_defaults(handler=_cmd_leaflet_text)
 
     p = sub.add_parser(
         "batch",

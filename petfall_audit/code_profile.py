@@ -71,6 +71,11 @@ ROLES: dict[str, str] = {
 }
 
 
+#: The profile file's date styles and the :func:`petfall_audit.present.fmt_date` style of each
+#: (the day-month order of the place, written out so that no reader mistakes 03/04 for 4 March).
+_DATE_FORMATS: dict[str, str] = {"DD/MM/YYYY": "dmy", "MM/DD/YYYY": "mdy", "YYYY-MM-DD": "iso"}
+
+
 @dataclass(frozen=True, slots=True)
 class CodeRule:
     """One rule of a profile.
@@ -140,6 +145,12 @@ class CodeProfile:
     date_style: str = "YYYY-MM-DD"
     words: ProfileWords = ProfileWords()
     non_releasable_from_m: float | None = 0.0
+
+    @property
+    def date_format(self) -> str:
+        """The profile's date style as a :func:`petfall_audit.present.fmt_date` style:
+        ``"dmy"`` (14 March 2026), ``"mdy"`` (March 14, 2026) or ``"iso"``."""
+        return _DATE_FORMATS.get(self.date_style, "iso")
 
     def rule(self, role: str) -> CodeRule | None:
         """The first rule with ``role`` (see :data:`ROLES`), or ``None`` if the profile has

@@ -9,16 +9,25 @@ here in code, named by id in the data:
 
 ``escape_window``
     On an emergency escape window (``Opening.escape_window``) a control that is not releasable
-    (fixed limiter, fixed screen, permanent net) is a conflict and never offered; a releasable
-    one is offered with :data:`ESCAPE_CONDITION`.
+    (fixed limiter, fixed screen, permanent net) is a conflict and never offered, under every
+    code profile; a releasable one is offered with :func:`escape_condition` (the profile's
+    escape-window rules, with their clauses).
 ``wind_load``
     On a floor higher than the catalogue's ``wind_rated_above_m`` (default 18 m): condition
-    :data:`WIND_CONDITION`; on the lower floors of a building with a storey that high:
-    :data:`TALL_BUILDING_CONDITION` (the fire rule covers attachments on every floor).
+    :data:`WIND_CONDITION`. In a building with a storey at or above the height of the profile's
+    rule on attachments to external walls (England: Building Regulations 2010 reg. 7(2), 18 m):
+    :func:`attachment_condition` on every floor, since the rule covers the whole building. A
+    profile without such a rule adds none.
 ``exterior_permission``
-    Every change to the exterior: condition :data:`PERMISSION_CONDITION`.
+    Every change to the exterior: condition :data:`PERMISSION_CONDITION`, plus the profile's own
+    permission rule where it has one.
 ``fire_access``
     On an access gallery (usually an escape route): condition :data:`FIRE_ACCESS_CONDITION`.
+
+A window device that cannot be released by hand (``releasable: false`` and a limiter or screen
+effect) is offered only on the floors where the code profile allows one
+(:meth:`~petfall_audit.code_profile.CodeProfile.allows_non_releasable`; the United States:
+above 75 ft, ASTM F2006), with :func:`non_releasable_condition`.
 
 The residual risk of opening *i* under control *c* is ``risk_score(likelihood(modified opening) ×
 multiplier, band_probabilities[i])``: a barrier changes the likelihood, never the severity. All
@@ -34,6 +43,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from petfall_audit.code_profile import CodeProfile, CodeRule, building_profile, code_profile
 from petfall_audit.errors import CatalogueError
 from petfall_audit.guard_rules import why_code_compliant_is_not_cat_safe
 from petfall_audit.io.controls import (
@@ -49,6 +59,7 @@ from petfall_audit.io.controls import (
 )
 from petfall_audit.likelihood import assess_likelihood
 from petfall_audit.model import (
+    WINDOW_KINDS,
     Building,
     Opening,
     OpeningKind,
@@ -61,10 +72,12 @@ __all__ = [
     "HIERARCHY",
     "RULES",
     "BLOCKING_FIELDS",
-    "ESCAPE_CONDITION",
     "WIND_CONDITION",
-    "TALL_BUILDING_CONDITION",
     "PERMISSION_CONDITION",
+    "escape_condition",
+    "attachment_condition",
+    "non_releasable_condition",
+    "profile_permission_conditions",
     "FIRE_ACCESS_CONDITION",
     "CatalogueError",
     "Control",
@@ -74,6 +87,7 @@ __all__ = [
     "load_catalogue",
     "parse_catalogue",
     "opening_heights_m",
+    "tall_for_attachments",
     "candidates",
     "opening_options",
     "MIN_SHARE",
@@ -81,20 +95,61 @@ __all__ = [
     "recommendation_lines",
 ]
 
-ESCAPE_CONDITION = (
-    "Escape window: the device must release without a key or tool and keep the escape opening "
-    "the local code requires (IRC R310.4; Approved Document B) - check locally."
-)
 WIND_CONDITION = (
-    "High floor: wind-rated fixings designed by a competent person; check the fire-safety rules "
-    "for attachments on tall buildings (England: Building Regulations 2010 reg. 7(2), storeys at "
-    "18 m or more)."
+    "High floor: wind-rated fixings designed by a competent person (the wind load rises with "
+    "height; common practice, no source)."
 )
-TALL_BUILDING_CONDITION = (
-    "Tall building (a storey 18 m or more above ground): check the fire-safety rules for anything "
-    "attached outside, nets included, on every floor (England: Building Regulations 2010 "
-    "reg. 7(2))."
-)
+#: What every condition that rests on a rule without a clause (the generic profile) adds.
+CHECK_LOCALLY = "check the local rule"
+
+
+def _ref(rule: CodeRule | None) -> str:
+    """``" (Approved Document B, volume 1, para 2.8)"`` or, for a missing rule or one that names
+    no code, ``" (check the local rule)"``."""
+    citation = rule.citation if rule is not None else ""
+    return f" ({citation})" if citation else f" ({CHECK_LOCALLY})"
+
+
+def escape_condition(profile: CodeProfile) -> str:
+    """The condition of a releasable device on an emergency escape window under ``profile``:
+    it releases by hand without a key or tool and keeps the escape opening, with the profile's
+    clauses (none for the generic profile, which says to check locally)."""
+    release = profile.rule("escape_release")
+    opening = profile.rule("escape_opening")
+    cites = [r.citation for r in (release, opening) if r is not None and r.cited]
+    tail = f" ({'; '.join(dict.fromkeys(cites))})" if cites else " - check the local rule"
+    return (
+        "Escape window: the device must release by hand without a key or tool and open the full "
+        "escape opening the code requires" + tail + "."
+    )
+
+
+def attachment_condition(profile: CodeProfile) -> str | None:
+    """The profile's fire rule for attachments to the external walls of a tall building, as a
+    condition (``None`` when the profile has no such rule: none is invented)."""
+    rule = profile.rule("attachment_fire")
+    if rule is None:
+        return None
+    return f"Tall building: {rule.text}{_ref(rule)}; this covers nets on every floor."
+
+
+def non_releasable_condition(profile: CodeProfile) -> str:
+    """The condition of a device that cannot be released by hand, where the profile allows it."""
+    rule = profile.rule("non_releasable_device")
+    text = rule.text if rule is not None else (
+        "a device that cannot be released by hand only on a window that is not needed for escape"
+    )
+    return f"Not releasable by hand: {text}{_ref(rule)}."
+
+
+def profile_permission_conditions(profile: CodeProfile) -> tuple[str, ...]:
+    """The profile's own rules on permission for exterior changes, as conditions."""
+    return tuple(
+        f"{r.text[:1].upper()}{r.text[1:]}{_ref(r)}." for r in profile.rules_for(
+            "exterior_permission")
+    )
+
+
 PERMISSION_CONDITION = (
     "Permission from the owner or the building's governing body (landlord, owners' association, "
     "strata body) before changing the exterior."
@@ -164,10 +219,21 @@ class Candidate:
     conditions: tuple[str, ...]
 
 
+def _window_device_fixed(c: Control) -> bool:
+    """A limiter or screen that a person cannot release by hand."""
+    return c.releasable is False and any(
+        name in ("limiter_gap_mm", "screen") for name, _ in c.effect
+    ) and bool(c.kinds & WINDOW_KINDS)
+
+
 def _applies(
-    openings: Sequence[Opening], heights_m: np.ndarray, catalogue: Catalogue
+    openings: Sequence[Opening],
+    heights_m: np.ndarray,
+    catalogue: Catalogue,
+    profile: CodeProfile,
 ) -> np.ndarray:
-    """(n, m) mask: control j fits opening i by kind and height, and no conflict forbids it."""
+    """(n, m) mask: control j fits opening i by kind and height, no conflict forbids it, and the
+    code profile allows it there (non-releasable window devices)."""
     kinds = np.array([o.kind.value for o in openings], dtype=str)
     escape = np.array([o.escape_window for o in openings], dtype=bool)
     h = np.asarray(heights_m, dtype=float)
@@ -186,25 +252,38 @@ def _applies(
         )
         if blocks_escape:
             col &= ~escape
+        if _window_device_fixed(c):
+            allowed = [profile.allows_non_releasable(float(x)) for x in h.tolist()]
+            col &= np.asarray(allowed, dtype=bool).reshape(h.shape)
         mask[:, j] = col
     return mask
 
 
 def _conditions(
-    o: Opening, height_m: float, c: Control, catalogue: Catalogue, *, tall_building: bool
+    o: Opening,
+    height_m: float,
+    c: Control,
+    catalogue: Catalogue,
+    profile: CodeProfile,
+    *,
+    tall_building: bool,
 ) -> tuple[str, ...]:
     out: list[str] = []
     if "escape_window" in c.conflicts and o.escape_window:
-        out.append(ESCAPE_CONDITION)
+        out.append(escape_condition(profile))
+    if _window_device_fixed(c):
+        out.append(non_releasable_condition(profile))
     if "wind_load" in c.conflicts:
         if height_m > catalogue.wind_rated_above_m:
             out.append(WIND_CONDITION)
-        elif tall_building:
-            out.append(TALL_BUILDING_CONDITION)
+        attachment = attachment_condition(profile)
+        if tall_building and attachment is not None:
+            out.append(attachment)
     if "fire_access" in c.conflicts and o.kind is OpeningKind.GALLERY:
         out.append(FIRE_ACCESS_CONDITION)
     if "exterior_permission" in c.conflicts:
         out.append(PERMISSION_CONDITION)
+        out.extend(profile_permission_conditions(profile))
     out.extend(c.conditions)
     if c.adherence < 1.0:
         out.append(
@@ -214,21 +293,34 @@ def _conditions(
     return tuple(out)
 
 
+def tall_for_attachments(top_storey_m: float, profile: CodeProfile) -> bool:
+    """Whether a building whose highest storey is ``top_storey_m`` above ground (m) falls under
+    the profile's rule on attachments to external walls (``False`` without such a rule)."""
+    rule = profile.rule("attachment_fire")
+    if rule is None:
+        return False
+    threshold_m = rule.value_m if rule.value_m is not None else 0.0
+    return top_storey_m >= threshold_m - 1e-9
+
+
 def candidates(
     openings: Sequence[Opening],
     heights_m: Sequence[float] | np.ndarray,
     catalogue: Catalogue,
     *,
     tall_building: bool | None = None,
+    profile: CodeProfile | None = None,
 ) -> list[Candidate]:
     """Every allowed (opening, control) pair that changes something, openings in the order given
     and controls in catalogue order. Conflicting controls are left out; conditions attached.
-    ``tall_building``: the building has a storey above ``wind_rated_above_m`` (default: judged
-    from ``heights_m``)."""
+    ``profile``: the code profile whose rules decide the conditions (default: generic);
+    ``tall_building``: the building has a storey at or above the height of the profile's rule on
+    attachments (default: judged from ``heights_m``)."""
+    prof = code_profile() if profile is None else profile
     h = np.asarray(heights_m, dtype=float)
     if tall_building is None:
-        tall_building = bool(h.size) and float(h.max()) > catalogue.wind_rated_above_m
-    mask = _applies(openings, h, catalogue)
+        tall_building = bool(h.size) and tall_for_attachments(float(h.max()), prof)
+    mask = _applies(openings, h, catalogue, prof)
     out: list[Candidate] = []
     for i, j in zip(*np.nonzero(mask), strict=True):
         o, c = openings[i], catalogue.controls[j]
@@ -241,7 +333,9 @@ def candidates(
                 int(j),
                 modified,
                 catalogue.cost(c, o),
-                _conditions(o, float(h[i]), c, catalogue, tall_building=tall_building),
+                _conditions(
+                    o, float(h[i]), c, catalogue, prof, tall_building=tall_building
+                ),
             )
         )
     return out
@@ -257,17 +351,24 @@ _NO_GAIN_RTOL = 1e-9
 
 
 def opening_options(
-    assessment: Assessment, catalogue: Catalogue | None = None
+    assessment: Assessment,
+    catalogue: Catalogue | None = None,
+    profile: CodeProfile | None = None,
 ) -> dict[str, list[Option]]:
     """Per opening id (building order, every opening present), the allowed options that lower its
     risk, ranked by residual risk, then cost, then catalogue order. Conflicting controls are never
-    included."""
+    included. ``profile``: the code profile whose rules decide what is allowed and the conditions
+    (default: the one the building names)."""
     cat = load_catalogue() if catalogue is None else catalogue
     building = assessment.building
+    prof = building_profile(building) if profile is None else profile
     openings = building.openings
     result: dict[str, list[Option]] = {o.id: [] for o in openings}
-    tall = any(f.elevation_m > cat.wind_rated_above_m for f in building.floors)
-    cands = candidates(openings, opening_heights_m(building), cat, tall_building=tall)
+    top_m = max((f.elevation_m for f in building.floors), default=0.0)
+    tall = tall_for_attachments(top_m, prof)
+    cands = candidates(
+        openings, opening_heights_m(building), cat, tall_building=tall, profile=prof
+    )
     if not cands:
         return result
     oi = np.array([c.opening_index for c in cands], dtype=np.intp)
@@ -335,11 +436,15 @@ def recommend(
 
 
 def recommendation_lines(
-    opening: Opening, option: Option | None, *, currency: str = "EUR"
+    opening: Opening,
+    option: Option | None,
+    *,
+    currency: str = "EUR",
+    code: CodeProfile | None = None,
 ) -> list[str]:
     """Plain-language recommendation for one opening: the control, its cost and residual risk,
     its conditions, and why a code-compliant guard or window is not enough for a cat (with the
-    code and clause of each human rule)."""
+    code and clause of each human rule of the code profile ``code``; default: generic)."""
     lines: list[str] = []
     if option is None:
         lines.append(f"{opening.id}: no control in the catalogue applies or lowers the risk here.")
@@ -350,7 +455,7 @@ def recommendation_lines(
             f"({option.share_removed:.0%} less)."
         )
         lines.extend(f"Condition: {c}" for c in option.conditions)
-    reasons = why_code_compliant_is_not_cat_safe(opening)
+    reasons = why_code_compliant_is_not_cat_safe(opening, code=code)
     if reasons:
         lines.append("Why meeting the building code is not enough for a cat:")
         lines.extend(f"- {r}" for r in reasons)

@@ -56,6 +56,12 @@ class ExportTo(ExportPrompts):
     def show_error(self, parent: Any, title: str, text: str) -> None:
         self.errors.append(text)
 
+    def leaflet_choice(self, parent: Any, defaults: Any, current: Any) -> Any:
+        """The leaflet's sections as offered (the user presses OK)."""
+        from petfall_audit.report.leaflet_sections import LeafletChoice
+
+        return current or LeafletChoice(tuple(defaults))
+
 
 @pytest.fixture
 def app(qtbot):  # type: ignore[no-untyped-def]

@@ -11,13 +11,20 @@ progress, then calls the Qt-free writers: :func:`petfall_audit.report.write_audi
 from __future__ import annotations
 
 import re
-from collections.abc import Callable
+from collections.abc import Callable, Sequence
 from pathlib import Path
 from typing import Any
 
 from PySide6.QtCore import QObject, Qt, Signal
 from PySide6.QtGui import QAction
-from PySide6.QtWidgets import QFileDialog, QMenu, QMessageBox, QProgressDialog, QWidget
+from PySide6.QtWidgets import (
+    QDialog,
+    QFileDialog,
+    QMenu,
+    QMessageBox,
+    QProgressDialog,
+    QWidget,
+)
 
 from petfall_audit.gui.views.common import Task, run_task
 from petfall_audit.model import Building
@@ -48,6 +55,14 @@ class ExportPrompts:
     def show_error(self, parent: QWidget | None, title: str, text: str) -> None:
         QMessageBox.warning(parent, title, text)
 
+    def leaflet_choice(self, parent: QWidget | None, defaults: Sequence[Any],
+                       current: Any) -> Any:
+        """The leaflet's sections as the user chose and edited them (``None``: cancelled)."""
+        from petfall_audit.gui.leaflet_dialog import LeafletDialog
+
+        dialog = LeafletDialog(defaults, current, parent)
+        return dialog.choice() if dialog.exec() == QDialog.DialogCode.Accepted else None
+
 
 def report_inputs(building: Building, *, samples: int, seed: int, budget: float | None,
                   progress: Callable[[int, int], None] | None = None) -> tuple[Any, Any]:
@@ -61,7 +76,8 @@ def report_inputs(building: Building, *, samples: int, seed: int, budget: float 
 
 
 def _write(kind: str, assessment: Any, plan: Any, path: Path, contact: dict[str, str],
-           photo_root: Path | None = None, *, budget_is_default: bool = False) -> list[Path]:
+           photo_root: Path | None = None, *, budget_is_default: bool = False,
+           leaflet: Any = None) -> list[Path]:
     from petfall_audit.io.atomic import atomic_write_text
 
     if kind == "audit_pdf":
@@ -74,7 +90,7 @@ def _write(kind: str, assessment: Any, plan: Any, path: Path, contact: dict[str,
         from petfall_audit.report import ContactBlock, write_leaflet
 
         return [write_leaflet(assessment, plan, path,
-                              contact=ContactBlock.from_mapping(contact))]
+                              contact=ContactBlock.from_mapping(contact), choice=leaflet)]
     if kind in ("results_csv", "results_json"):
         from petfall_audit.report import export_results
 
@@ -136,6 +152,8 @@ class ExportActions(QObject):
         self._budget = budget
         self._budget_is_default = budget_is_default
         self.task: Task | None = None
+        #: The leaflet's sections as last chosen in this session (``None``: the defaults).
+        self.leaflet_choice: Any = None
         self._dialog: QProgressDialog | None = None
         self.actions: dict[str, QAction] = {}
         self.menu = QMenu("&Export", window)
@@ -157,13 +175,23 @@ class ExportActions(QObject):
         return self.task is not None and self.task.running
 
     def export(self, kind: str, path: Path | None = None) -> Task | None:
-        """Export ``kind`` (a key of :data:`EXPORTS`) to ``path`` (asks if ``None``); runs off
-        the GUI thread and returns the task, or ``None`` if nothing was started."""
+        """Export ``kind`` (a key of :data:`EXPORTS`) to ``path`` (asks if ``None``, and for the
+        leaflet first asks for its sections); runs off the GUI thread and returns the task, or
+        ``None`` if nothing was started."""
         if self.running:
             self.prompts.show_error(self.window, "Export", "An export is already running.")
             return None
         text, file_filter, suffix = EXPORTS[kind]
         doc = self.window.document
+        if path is None and kind == "leaflet_pdf":
+            from petfall_audit.code_profile import building_profile
+            from petfall_audit.report.leaflet_sections import default_sections
+
+            defaults = default_sections(building_profile(doc.building))
+            choice = self.prompts.leaflet_choice(self.window, defaults, self.leaflet_choice)
+            if choice is None:
+                return None
+            self.leaflet_choice = choice
         if path is None:
             stem = (doc.path.stem if doc.path else (doc.building.info.name or "building"))
             folder = doc.path.parent if doc.path else Path.home()
@@ -185,13 +213,14 @@ class ExportActions(QObject):
         contact = dict(self.window.settings.contact())
         photo_root = doc.path.parent if doc.path is not None else None  # photos are beside it
         pdf = kind.endswith("_pdf")
+        leaflet = self.leaflet_choice
 
         def work(progress: Callable[[int, int], None]) -> list[Path]:
             assessment, plan = report_inputs(building, samples=samples, seed=seed,
                                              budget=budget, progress=progress)
             try:
                 return _write(kind, assessment, plan, path, contact, photo_root,
-                              budget_is_default=is_default)
+                              budget_is_default=is_default, leaflet=leaflet)
             except OSError as exc:  # the writers leave no partial file behind
                 raise OSError(_write_error(path, exc)) from None
 

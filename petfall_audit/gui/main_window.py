@@ -278,6 +278,7 @@ class MainWindow(QMainWindow):
         self.floors_panel = FloorsPanel(doc, self.history, self.options, actions=[a.copy_floor])
         self.site_panel = SitePanel(doc, self.history, self.options)
         self.building_panel = BuildingPanel(doc, self.history, self.options)
+        self.building_panel.code_profile_picked.connect(self.set_units)
         self._panels = [self.openings_panel, self.floors_panel, self.site_panel,
                         self.building_panel]
         for panel, name in ((self.openings_panel, "Openings"), (self.floors_panel, "Floors"),
@@ -289,6 +290,7 @@ class MainWindow(QMainWindow):
                              self.history.on_changed(self._update_undo_actions)]
         self._update_title()
         self._update_undo_actions()
+        self._start_in_profile_units(doc)
         self.plan_settings_changed.emit(doc.building.plan)
         self.recompute()
 
@@ -655,6 +657,15 @@ class MainWindow(QMainWindow):
 
     def set_units(self, units: str) -> None:
         self.settings.units = units
+
+    def _start_in_profile_units(self, doc: Document) -> None:
+        """A building that names a jurisdiction opens in that place's units (the generic
+        profile keeps the user's choice)."""
+        from petfall_audit.code_profile import DEFAULT_PROFILE, PROFILE_IDS, code_profile
+
+        pid = doc.building.info.code_profile
+        if pid != DEFAULT_PROFILE and pid in PROFILE_IDS:
+            self.set_units(code_profile(pid).units)
 
     def set_palette(self, name: str) -> None:
         self.settings.palette = name

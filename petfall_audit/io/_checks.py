@@ -39,7 +39,7 @@ from petfall_audit.model import (
     Uniform,
 )
 
-__all__ = ["Places", "check_model", "describe", "number", "unit_of"]
+__all__ = ["Places", "check_model", "code_profile_warnings", "describe", "number", "unit_of"]
 
 _EPS = 1e-9
 
@@ -582,3 +582,37 @@ def _check_profile(problems: list[Problem], p: CatProfile, *, compare: bool = Tr
 
 
 DISTRIBUTION_WORDS = "expected a fixed number or a normal, uniform or log-normal distribution"
+
+
+def code_profile_warnings(b: Building) -> list[Problem]:
+    """Located warnings from the building's code profile (``check`` lists them): an emergency
+    escape window whose limiter leaves less than the profile's minimum clear opening width must
+    release by hand, without a key or tool, to open the full escape opening. The generic profile
+    checks against the widest minimum of the codes known (508 mm) and cites no clause."""
+    from petfall_audit.code_profile import building_profile
+
+    profile = building_profile(b)
+    escape = profile.rule("escape_opening")
+    if escape is None or escape.value_mm is None:
+        return []
+    minimum_mm = escape.value_mm
+    release = profile.rule("escape_release")
+    cites = [r.citation for r in (escape, release) if r is not None and r.cited]
+    where = (
+        f" ({'; '.join(dict.fromkeys(cites))})" if cites else " (no clause: check the local rule)"
+    )
+    out: list[Problem] = []
+    for i, o in enumerate(b.openings):
+        if not o.escape_window or o.limiter_gap_mm is None or o.limiter_gap_mm >= minimum_mm:
+            continue
+        out.append(
+            Problem(
+                f"openings[{i}].limiter_gap_mm",
+                f"{o.id!r} is an emergency escape window, and its limiter leaves "
+                f"{number(o.limiter_gap_mm)} mm, less than the {number(minimum_mm)} mm clear "
+                f"opening the {profile.name} profile asks{where}: the limiter must release by "
+                "hand, without a key or tool, to open the full escape opening; check that it does",
+                severity="warning",
+            )
+        )
+    return out

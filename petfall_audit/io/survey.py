@@ -13,9 +13,17 @@ from __future__ import annotations
 from collections.abc import Iterable
 
 from petfall_audit.errors import Problem
+from petfall_audit.io._checks import code_profile_warnings
 from petfall_audit.model import Building
 
-__all__ = ["SURVEY_PREFIX", "survey_line", "still_to_survey", "survey_warnings"]
+__all__ = [
+    "SURVEY_PREFIX",
+    "survey_line",
+    "still_to_survey",
+    "survey_warnings",
+    "check_warnings",
+    "code_profile_warnings",
+]
 
 #: The notes line that lists what is still to be surveyed (one line, items separated by ``;``).
 SURVEY_PREFIX = "Still to survey:"
@@ -53,3 +61,9 @@ def survey_warnings(building: Building) -> list[Problem]:
                 )
             )
     return warnings
+
+
+def check_warnings(building: Building) -> list[Problem]:
+    """Every warning ``check`` lists: the openings still to survey, then what the building's code
+    profile finds (an escape window whose limiter leaves less than the minimum clear opening)."""
+    return [*survey_warnings(building), *code_profile_warnings(building)]

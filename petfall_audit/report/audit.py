@@ -48,6 +48,7 @@ def audit_story(assessment: Assessment, plan: Plan | None, ctx: AuditContext,
     story += sec.build_details(ctx, profiles, st, width, pal)
     story += sec.build_plan(ctx, st, width)
     story += sec.build_cautions(ctx, st)
+    story += sec.build_notes_appendix(ctx, st)
     story += sec.build_signoff(ctx, st, width)
     return story
 

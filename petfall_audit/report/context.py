@@ -10,13 +10,15 @@ from __future__ import annotations
 
 import datetime as _dt
 from collections.abc import Mapping, Sequence
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 from petfall_audit.cautions import CAUTIONS, CAUTIONS_SHORT
+from petfall_audit.code_profile import CodeProfile, building_profile
 from petfall_audit.io.photos import photo_file, photo_name
 from petfall_audit.model import (
+    Building,
     CatProfile,
     Distribution,
     Fixed,
@@ -29,6 +31,7 @@ from petfall_audit.present import (
     DRAG_AREA_NOTE,
     PARAMETER_LABELS,
     fmt_count,
+    fmt_date,
     fmt_int,
     fmt_length,
     fmt_money,
@@ -40,7 +43,13 @@ from petfall_audit.present import (
     kind_label,
     preset_label,
 )
+from petfall_audit.present.code import CodeRuleRow, code_profile_lead, code_rule_rows
 from petfall_audit.present.labels import landing_names
+from petfall_audit.report.leaflet_sections import (
+    LeafletChoice,
+    LeafletSection,
+    default_sections,
+)
 
 if TYPE_CHECKING:
     from petfall_audit.plan import Plan
@@ -53,6 +62,8 @@ __all__ = [
     "PlanRow",
     "PlanControlRow",
     "DetailContext",
+    "CodeRuleRow",
+    "NoteRow",
     "PhotoRef",
     "AuditContext",
     "LeafletContext",
@@ -230,6 +241,16 @@ class DetailContext:
 
 
 @dataclass(frozen=True, slots=True)
+class NoteRow:
+    """An opening's notes for the appendix: ``opening`` (id), ``place`` (floor and facade) and
+    ``notes`` (the auditor's text, untouched)."""
+
+    opening: str
+    place: str
+    notes: str
+
+
+@dataclass(frozen=True, slots=True)
 class AuditContext:
     """Everything the audit layout prints, as strings."""
 
@@ -263,16 +284,27 @@ class AuditContext:
     issuer: tuple[str, ...]
     font_note: str
     sensitivity: SensitivityContext | None = None
+    code_profile_name: str = ""
+    code_profile_lead: str = ""
+    code_rules: tuple[CodeRuleRow, ...] = ()
+    opening_notes: tuple[NoteRow, ...] = ()
 
 
 @dataclass(frozen=True, slots=True)
 class LeafletContext:
+    """The leaflet's strings: ``sections`` as printed (measures and contact filled in),
+    ``date``: the audit date in the profile's date style (the day the leaflet is made when the
+    audit has no date)."""
+
     building_name: str
     address: str
-    high_floor_text: str
-    building_actions: tuple[str, ...]
+    sections: tuple[LeafletSection, ...]
     contact: tuple[str, ...]
     date: str
+
+    def section(self, key: str) -> LeafletSection | None:
+        """The printed section ``key``, or ``None`` when it was left out."""
+        return next((s for s in self.sections if s.key == key), None)
 
 
 # --- builders -----------------------------------------------------------------------------------
@@ -333,11 +365,33 @@ def _landing_text(landing: dict[str, float], names: dict[str, str] | None = None
 
 
 def _code_notes(assessment: Assessment, opening_id: str) -> tuple[str, ...]:
-    try:
-        from petfall_audit.guard_rules import why_code_compliant_is_not_cat_safe
-    except ImportError:  # pragma: no cover - optional module
-        return ()
-    return tuple(why_code_compliant_is_not_cat_safe(assessment.building.opening(opening_id)))
+    from petfall_audit.guard_rules import why_code_compliant_is_not_cat_safe
+
+    building = assessment.building
+    return tuple(
+        why_code_compliant_is_not_cat_safe(building.opening(opening_id),
+                                           code=building_profile(building))
+    )
+
+
+def _guard_source(profile: CodeProfile) -> str:
+    cat = ("wider than an adult cat's skull (about 43 mm cranial width, Vet Sci 2021;8:161).")
+    if not profile.cites_clauses:
+        return ("Guard rules for people (common figures, no clause: check the local rule): "
+                f"sized for children's heads (about 100 mm), {cat}")
+    codes = ", ".join(dict.fromkeys(r.code for r in profile.rules if r.cited))
+    return (f"Rules for people in the building's code profile ({codes}): guards and window "
+            f"limits sized for children's heads, {cat}")
+
+
+def _opening_notes(building: Building) -> tuple[NoteRow, ...]:
+    labels = {f.level: f.label or str(f.level) for f in building.floors}
+    facades = {f.id: f.label or f.id for f in building.facades}
+    return tuple(
+        NoteRow(o.id, f"{labels.get(o.floor, str(o.floor))}, {facades.get(o.facade, o.facade)}",
+                o.notes.strip())
+        for o in building.openings if o.notes.strip()
+    )
 
 
 def _details(assessment: Assessment, plan: Plan | None, top_n: int, bands: tuple[str, ...],
@@ -408,7 +462,7 @@ def budget_origin(plan: Plan, saved_budget: float | None, *, is_default: bool = 
 
 
 def _plan_parts(plan: Plan | None, saved_budget: float | None = None, *,
-                budget_is_default: bool = False
+                budget_is_default: bool = False, profile: CodeProfile | None = None
                 ) -> tuple[tuple[str, ...], tuple[PlanRow, ...]]:
     if plan is None:
         return (("No budget was given, so no fix plan was made.",), ())
@@ -416,13 +470,19 @@ def _plan_parts(plan: Plan | None, saved_budget: float | None = None, *,
     before, after = float(plan.risk_before), float(plan.risk_after)
     cut = (1 - after / before) if before > 0 else 0.0
     origin = budget_origin(plan, saved_budget, is_default=budget_is_default)
-    summary = (
+    summary: tuple[str, ...] = (
         f"Budget {fmt_money(float(plan.budget), cur)} ({origin}); the plan spends "
         f"{fmt_money(float(plan.total_cost), cur)} on "
         f"{fmt_count(len(plan.actions), 'control')}.",
         f"Total risk score {fmt_risk(before)} before and {fmt_risk(after)} after "
         f"({fmt_percent(cut)} lower).",
     )
+    if profile is not None and cur and profile.currency != cur:
+        summary += (
+            f"Costs are in {cur}, the control catalogue's currency, not converted; the "
+            f"building's code profile ({profile.name}) prices in {profile.currency}: put local "
+            "prices in the catalogue before planning a real budget.",
+        )
     notes = _plan_notes(plan)
     number = {c: i + 1 for i, c in enumerate(notes)}
     rows = tuple(
@@ -559,9 +619,6 @@ SOURCES: tuple[str, ...] = (
     "(HIC 1000, 200 g, 4.6 kg headform).",
     "Housing Health and Safety Rating System (Housing Act 2004, England): harm-class weights and "
     "the \"1 in N over 12 months\" likelihood.",
-    "Guard rules for people (IBC 1015, Approved Document K): sized for children's heads "
-    "(about 100 mm), wider than an adult cat's skull (about 43 mm cranial width, Vet Sci "
-    "2021;8:161).",
     "Tense and spread-out terminal speeds (about 24 and 17 m/s) and the relaxing point: common "
     "practice, no source; adjustable in the cat profile.",
 )
@@ -600,9 +657,10 @@ def build_audit_context(assessment: Assessment, plan: Plan | None, *,
 
     opts = options or ReportOptions()
     info = assessment.building.info
+    profile = building_profile(assessment.building)
     bands = _band_names()
-    generated = opts.generated_on or _dt.date.today().isoformat()
-    date = info.audit_date or generated
+    generated = fmt_date(opts.generated_on or _dt.date.today().isoformat(), profile.date_format)
+    date = fmt_date(info.audit_date, profile.date_format) if info.audit_date else generated
     counts = assessment.band_counts()
     ranked = _ranked_rows(assessment, plan, bands)
     by_risk = assessment.ranked()
@@ -612,7 +670,8 @@ def build_audit_context(assessment: Assessment, plan: Plan | None, *,
         for o in by_risk[: max(opts.top_n, 0)]
     )
     plan_summary, plan_rows = _plan_parts(plan, assessment.building.plan.budget,
-                                          budget_is_default=opts.budget_is_default)
+                                          budget_is_default=opts.budget_is_default,
+                                          profile=profile)
     worst_v = max((o.impact_speed_mps.p95 for o in assessment.openings), default=float("nan"))
     summary = (
         f"{len(assessment.openings)} openings assessed on "
@@ -639,6 +698,7 @@ def build_audit_context(assessment: Assessment, plan: Plan | None, *,
             ("Auditor", info.auditor or "–"),
             ("Audit date", date),
             ("Report generated", generated),
+            ("Code profile", profile.name),
             ("Openings / floors / facades",
              f"{len(assessment.building.openings)} / {len(assessment.building.floors)} / "
              f"{len(assessment.building.facades)}"),
@@ -649,7 +709,7 @@ def build_audit_context(assessment: Assessment, plan: Plan | None, *,
         top_risks=top,
         method=_method(assessment),
         assumptions=_assumptions(assessment.building.cat_profile, assessment),
-        sources=SOURCES,
+        sources=(*SOURCES[:-1], _guard_source(profile), SOURCES[-1]),
         ranked=ranked,
         details=_details(assessment, plan, opts.top_n, bands, opts.photo_root),
         plan_summary=plan_summary,
@@ -663,35 +723,37 @@ def build_audit_context(assessment: Assessment, plan: Plan | None, *,
         font_note=fonts().note,
         sensitivity=(build_sensitivity_context(assessment, max_samples=opts.sensitivity_samples)
                      if opts.sensitivity_samples != 0 else None),
+        code_profile_name=profile.name,
+        code_profile_lead=code_profile_lead(profile),
+        code_rules=code_rule_rows(profile),
+        opening_notes=_opening_notes(assessment.building),
     )
 
 
 def build_leaflet_context(assessment: Assessment, plan: Plan | None, *,
-                          contact: ContactBlock, date: str = "") -> LeafletContext:
-    """Plain-language strings of the tenant leaflet."""
+                          contact: ContactBlock, date: str = "",
+                          choice: LeafletChoice | None = None) -> LeafletContext:
+    """Plain-language strings of the tenant leaflet: the sections of ``choice`` (default: all,
+    with the plan's measures) in the words of the building's code profile. ``date`` (ISO)
+    overrides the issue date, which is the audit date, or today when the audit has none."""
     info = assessment.building.info
-    actions: list[str] = []
-    if plan is not None and plan.actions:
-        names = sorted({_sentence_case(a.control_name) for a in plan.actions})
-        actions.append(
-            f"After a survey of every balcony and window, the building plans these measures: "
-            f"{_join(names)}."
-        )
-    else:
-        actions.append("The building has surveyed every balcony and window for fall risks to cats.")
-    actions.append("Ask before fitting nets or anything else to the outside of the building: "
-                   "some fittings need permission, and escape windows must stay usable.")
+    profile = building_profile(assessment.building)
+    pick = choice or LeafletChoice()
+    sections = default_sections(profile) if pick.sections is None else pick.sections
+    printed: list[LeafletSection] = []
+    for s in sections:
+        if s.key == "building" and pick.include_measures and plan is not None and plan.actions:
+            names = sorted({_sentence_case(a.control_name) for a in plan.actions})
+            measures = f"The building plans these measures: {_join(names)}."
+            s = replace(s, items=(*s.items[:1], measures, *s.items[1:]))  # after the survey
+        printed.append(s)
+    issued = date or info.audit_date or _dt.date.today().isoformat()
     return LeafletContext(
         building_name=info.name or "Your building",
         address=info.address,
-        high_floor_text=(
-            "Cats are agile, but they fall. A cat can leap at a bird or insect, lose its footing "
-            "on a rail, or slip through a gap made for children's safety. Falls from higher "
-            "floors are not safer: in recent veterinary studies, injuries grew worse with height."
-        ),
-        building_actions=tuple(actions),
+        sections=tuple(printed),
         contact=contact.lines(),
-        date=date or info.audit_date or _dt.date.today().isoformat(),
+        date=fmt_date(issued, profile.date_format),
     )
 
 

@@ -48,6 +48,7 @@ __all__ = [
     "build_cover",
     "build_summary",
     "build_method",
+    "build_code_profile",
     "build_sensitivity",
     "build_facades",
     "build_floor_chart",
@@ -55,6 +56,7 @@ __all__ = [
     "build_details",
     "build_plan",
     "build_cautions",
+    "build_notes_appendix",
     "build_signoff",
 ]
 
@@ -176,9 +178,30 @@ def build_method(ctx: AuditContext, st: Styles, width: float) -> list[Flowable]:
     out: list[Flowable] = [CondPageBreak(90 * mm), _p("Method and assumptions", st.h1),
                            _kv_table(ctx.method, st, width, 0.2), _p("Assumptions", st.h2),
                            _kv_table(ctx.assumptions, st, width, 0.38),
-                           *build_sensitivity(ctx, st, width), _p("Sources", st.h2)]
+                           *build_sensitivity(ctx, st, width),
+                           *build_code_profile(ctx, st, width), _p("Sources", st.h2)]
     out += _bullets(ctx.sources, st)
     return out
+
+
+def build_code_profile(ctx: AuditContext, st: Styles, width: float) -> list[Flowable]:
+    """The building's code profile: its name, what it means, and its rules with their clause,
+    edition and confidence."""
+    if not ctx.code_profile_name:
+        return []
+    out: list[Flowable] = [_p(f"Building code: {ctx.code_profile_name}", st.h2),
+                           _p(ctx.code_profile_lead, st.body)]
+    if not ctx.code_rules:
+        return out
+    head = ["Topic", "Rule", "Clause and edition", "Confidence"]
+    data: list[list[object]] = [[_p(h, st.cell_bold) for h in head]]
+    for r in ctx.code_rules:
+        data.append([_p(r.topic, st.cell), _p(r.rule, st.cell), _p(r.reference, st.cell),
+                     _p(r.confidence, st.cell)])
+    t = Table(data, colWidths=[width * f for f in (0.2, 0.42, 0.24, 0.14)], repeatRows=1,
+              splitInRow=1)
+    t.setStyle(TableStyle([*_GRID, ("BACKGROUND", (0, 0), (-1, 0), HEADER_FILL)]))
+    return [*out, t]
 
 
 def build_sensitivity(ctx: AuditContext, st: Styles, width: float) -> list[Flowable]:
@@ -380,6 +403,18 @@ def build_cautions(ctx: AuditContext, st: Styles) -> list[Flowable]:
     """Cautions and the model's limits."""
     return [CondPageBreak(80 * mm), _p("Cautions", st.h1), *_bullets(ctx.cautions, st),
             _p("Limits of this audit", st.h2), *_bullets(ctx.limits, st)]
+
+
+def build_notes_appendix(ctx: AuditContext, st: Styles) -> list[Flowable]:
+    """Appendix: every opening's notes, in building order (the detail pages show only the top
+    openings'); nothing when no opening has notes."""
+    if not ctx.opening_notes:
+        return []
+    out: list[Flowable] = [CondPageBreak(60 * mm), _p("Appendix: notes on the openings", st.h1),
+                           _p("The auditor's notes on every opening, as recorded.", st.small)]
+    for row in ctx.opening_notes:
+        out += [_p(f"{row.opening} ({row.place})", st.h2), *_long_text(row.notes, st.body)]
+    return out
 
 
 def build_signoff(ctx: AuditContext, st: Styles, width: float) -> list[Flowable]:

@@ -2,8 +2,10 @@
 
 from __future__ import annotations
 
+from html import escape
 from typing import Any
 
+from PySide6.QtCore import Qt, Signal
 from PySide6.QtWidgets import (
     QComboBox,
     QFormLayout,
@@ -14,6 +16,7 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
+from petfall_audit.code_profile import DEFAULT_PROFILE, PROFILE_IDS, code_profile
 from petfall_audit.editing.commands import SetBuildingInfo, SetCatProfile, SetInjuryModel
 from petfall_audit.editing.document import Document
 from petfall_audit.editing.fields import INFO_FIELDS, INJURY_FIELDS
@@ -22,11 +25,27 @@ from petfall_audit.gui.adapters import ViewOptions, push_command
 from petfall_audit.gui.widgets.field_form import FieldForm
 from petfall_audit.model import CAT_PRESETS, InjuryThresholds
 from petfall_audit.present import PRESET_LABELS
+from petfall_audit.present.code import code_profile_lead, code_rule_rows, profile_choices
 
 __all__ = ["BuildingPanel"]
 
+def rules_html(profile_id: str) -> str:
+    """The rules in force under ``profile_id`` as a readable list (rich text for a label)."""
+    profile = code_profile(profile_id)
+    items = "".join(
+        f"<li><b>{escape(r.topic)}</b>: {escape(r.rule)}<br/>"
+        f"<i>{escape(r.reference)}</i> – {escape(r.confidence)}</li>"
+        for r in code_rule_rows(profile)
+    )
+    return f"<p>{escape(code_profile_lead(profile))}</p><ul>{items}</ul>"
+
+
 class BuildingPanel(QWidget):
-    """The building's details form and the cat-profile preset."""
+    """The building's details form, its code profile (with the rules in force) and the
+    cat-profile preset. ``code_profile_picked(units)`` after the user picks a profile, with the
+    profile's units (``"metric"`` / ``"imperial"``) for the app to start in."""
+
+    code_profile_picked = Signal(str)
 
     def __init__(self, doc: Document, history: History, options: ViewOptions,
                  parent: QWidget | None = None) -> None:
@@ -37,6 +56,30 @@ class BuildingPanel(QWidget):
         self.form.setObjectName("building_form")
         details = QGroupBox("Building details")
         QVBoxLayout(details).addWidget(self.form)
+
+        self.code = QComboBox()
+        self.code.setObjectName("code_profile")
+        for pid, name in profile_choices():
+            self.code.addItem(name, pid)
+        self.code.setToolTip("The jurisdiction whose building code the audit cites; it decides "
+                             "the conditions that go with each fix, never the physics")
+        self.code.activated.connect(self._on_code_chosen)
+        self.code_rules = QLabel()
+        self.code_rules.setObjectName("code_rules")
+        self.code_rules.setWordWrap(True)
+        self.code_rules.setTextFormat(Qt.TextFormat.RichText)
+        self.code_rules.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
+        self.code_error = QLabel()
+        self.code_error.setWordWrap(True)
+        self.code_warnings = QLabel()
+        self.code_warnings.setObjectName("code_warnings")
+        self.code_warnings.setWordWrap(True)
+        code_box = QGroupBox("Building code")
+        code_layout = QFormLayout(code_box)
+        code_layout.addRow("Code profile", self.code)
+        code_layout.addRow(self.code_error)
+        code_layout.addRow(self.code_warnings)
+        code_layout.addRow(self.code_rules)
 
         self.profile = QComboBox()
         self.profile.setObjectName("cat_profile")
@@ -66,10 +109,12 @@ class BuildingPanel(QWidget):
         injury_layout.addWidget(self.injury_reset)
         layout = QVBoxLayout(self)
         layout.addWidget(details)
+        layout.addWidget(code_box)
         layout.addWidget(cats)
         layout.addWidget(injury)
         layout.addStretch(1)
         self._disconnects = [doc.on_changed("building", self._on_building_changed),
+                             doc.on_changed("openings", self._on_openings_changed),
                              doc.on_changed("profile", self._on_profile_changed)]
         self._on_building_changed("building")
         self._on_profile_changed("profile")
@@ -85,6 +130,29 @@ class BuildingPanel(QWidget):
         info = self._doc.building.info
         self.form.set_values({s.name: getattr(info, s.name) for s in INFO_FIELDS},
                              keep_errors=True)
+        pid = info.code_profile if info.code_profile in PROFILE_IDS else DEFAULT_PROFILE
+        self.code.setCurrentIndex(self.code.findData(pid))
+        self.code_rules.setText(rules_html(pid))
+        self._on_openings_changed("openings")
+
+    def _on_openings_changed(self, kind: str) -> None:
+        """What the profile finds in this building (an escape window's limiter too narrow)."""
+        from petfall_audit.io.survey import code_profile_warnings
+
+        found = code_profile_warnings(self._doc.building)
+        self.code_warnings.setText("\n".join(f"! {w.message}" for w in found))
+        self.code_warnings.setVisible(bool(found))
+
+    def _on_code_chosen(self, index: int) -> None:
+        pid = str(self.code.itemData(index))
+        if pid == self._doc.building.info.code_profile:
+            return
+        profile = code_profile(pid)
+        reason = push_command(self._history, SetBuildingInfo(
+            {"code_profile": pid}, label=f"Set the code profile to {profile.name}"))
+        self.code_error.setText(reason or "")
+        if reason is None:
+            self.code_profile_picked.emit(profile.units)
 
     def _commit_injury(self, name: str, value: Any) -> str | None:
         return push_command(self._history, SetInjuryModel({name: value}))
