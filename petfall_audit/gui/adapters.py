@@ -442,9 +442,12 @@ class ResultsTableModel(QAbstractTableModel):
         """The shown text of ``rows`` in ``column``, as :meth:`data` gives it, without a model
         index per cell (column fitting reads a few thousand cells after every result)."""
         key = self.KEYS[column]
-        units = units_of(self._options.units)
-        palette = self._options.palette
-        return [result_text(self._rows[r], key, units, palette) for r in rows]
+        return [self._text(self._rows[r], key) for r in rows]
+
+    def _text(self, r: Any, column: str) -> str:
+        """The one place a cell's text is made (:meth:`data` and :meth:`display_texts`)."""
+        return result_text(r, column, units_of(self._options.units), self._options.palette,
+                           self._floor_labels, self._facade_labels)
 
     def data(self, index: Index, role: int = Qt.ItemDataRole.DisplayRole) -> Any:
         if not index.isValid():
@@ -454,6 +457,5 @@ class ResultsTableModel(QAbstractTableModel):
         if role == KEY_ROLE:
             return r.id
         if role == Qt.ItemDataRole.DisplayRole:
-            return result_text(r, column, units_of(self._options.units), self._options.palette,
-                               self._floor_labels, self._facade_labels)
+            return self._text(r, column)
         return result_style(r, column, role, stale=self.stale, palette=self._options.palette)

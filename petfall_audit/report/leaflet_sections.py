@@ -17,6 +17,7 @@ from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, replace
 
 from petfall_audit.code_profile import CodeProfile, code_profile
+from petfall_audit.present import fmt_int
 
 __all__ = [
     "SECTION_KEYS",
@@ -154,8 +155,8 @@ def parse_sections_text(
     an unknown or repeated key, text before the first section, or text that is too long."""
     if len(text) > MAX_TEXT_CHARS:
         raise LeafletTextError(
-            f"the leaflet text is longer than {MAX_TEXT_CHARS:,} characters: a leaflet is one or "
-            "two pages"
+            f"the leaflet text is longer than {fmt_int(MAX_TEXT_CHARS)} characters: a leaflet "
+            "is one or two pages"
         )
     base = {s.key: s for s in (default_sections() if defaults is None else defaults)}
     out: list[LeafletSection] = []
