@@ -475,6 +475,50 @@ def _cmd_leaflet_text(args: argparse.Namespace) -> int:
     return EXIT_OK
 
 
+def _renames(pairs: Sequence[str] | None) -> dict[str, str]:
+    """``--rename OLD=NEW`` pairs as a mapping (exit 2 on a malformed pair)."""
+    out: dict[str, str] = {}
+    for pair in pairs or ():
+        old, sep, new = pair.partition("=")
+        if not sep or not old.strip() or not new.strip():
+            raise _refuse(f"--rename {pair!r}: expected EARLIER_ID=LATER_ID")
+        out[old.strip()] = new.strip()
+    return out
+
+
+def _cmd_compare(args: argparse.Namespace) -> int:
+    from petfall_audit.compare import compare_buildings
+    from petfall_audit.io.compare_export import (
+        comparison_to_csv,
+        comparison_to_dict,
+        comparison_to_table,
+    )
+    from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
+
+    _check_output(args.output)
+    _check_sampling(args)
+    renamed = _renames(args.rename)
+    earlier = _load(args.earlier)
+    later = _load(args.later)
+    try:
+        comparison = compare_buildings(
+            earlier, later, renamed=renamed,
+            samples=DEFAULT_SAMPLES if args.samples is None else args.samples,
+            seed=DEFAULT_SEED if args.seed is None else args.seed,
+            progress=_stderr_progress("comparing"),
+        )
+    except ValueError as exc:
+        raise _refuse(str(exc)) from None
+    if args.format == "json":
+        text = _dumps(comparison_to_dict(comparison))
+    elif args.format == "csv":
+        text = comparison_to_csv(comparison)
+    else:
+        text = comparison_to_table(comparison)
+    _emit(text, args.output, table=args.format == "table")
+    return EXIT_OK
+
+
 def _cmd_batch(args: argparse.Namespace) -> int:
     """Assess many buildings; one result file each plus a summary CSV. Bad files are listed
     and skipped; the exit code is 2 if any file could not be assessed. Two files with the same
@@ -839,6 +883,23 @@ def _build_parser() -> argparse.ArgumentParser:
     p.add_argument("--controls", default=None, metavar="FILE",
                    help="control catalogue (.json; default: the shipped catalogue)")
     p.set_defaults(handler=_cmd_plan)
+
+    p = sub.add_parser(
+        "compare",
+        help="compare an earlier audit of a building with a later one, opening by opening",
+        description="Assess EARLIER and LATER with the same sampled cats and list what changed: "
+        "openings added, removed or changed (which fields, old and new), their results before "
+        "and after, and the share of the risk removed by the fixes fitted since and by other "
+        "changes. Indicative model only.",
+    )
+    p.add_argument("earlier", metavar="EARLIER", help="the earlier building file (.json)")
+    p.add_argument("later", metavar="LATER", help="the later building file (.json)")
+    _add_table_output_options(p)
+    _add_sampling_options(p)
+    p.add_argument("--rename", action="append", metavar="OLD=NEW",
+                   help="pair the earlier opening OLD with the later opening NEW (an opening "
+                        "renumbered between the audits; repeatable)")
+    p.set_defaults(handler=_cmd_compare)
 
     p = sub.add_parser(
         "report",
