@@ -396,16 +396,30 @@ def _cmd_report(args: argparse.Namespace) -> int:
     _check_output(args.leaflet)
     if (args.leaflet_omit or args.leaflet_text) and not args.leaflet:
         raise _refuse("--leaflet-omit and --leaflet-text shape the leaflet: add --leaflet PDF")
+    renamed = _renames(args.rename)
+    if renamed and not args.earlier:
+        raise _refuse("--rename needs --earlier")
     building = _load(args.file)
+    earlier = _load(args.earlier) if args.earlier else None
     choice = _leaflet_choice(args, building) if args.leaflet else None  # before the long work
     assessment = _assess(args, building)
+    comparison = None
+    if earlier is not None:
+        from petfall_audit.compare import compare_assessments
+
+        try:
+            comparison = compare_assessments(
+                _assess(args, earlier, label="assessing the earlier audit"), assessment,
+                renamed=renamed)
+        except ValueError as exc:
+            raise _refuse(str(exc)) from None
     budget = _budget_of(args, building)
     plan = make_plan(assessment, budget) if budget is not None else None
     contact = ContactBlock.from_text(args.contact) if args.contact else ContactBlock()
     try:
         if fmt == "pdf":
             written = [write_audit(assessment, plan, args.output, top_n=args.top,
-                                   options=ReportOptions(issuer=contact),
+                                   options=ReportOptions(issuer=contact, comparison=comparison),
                                    photo_root=Path(args.file).parent)]
         else:
             written = export_results(
@@ -927,6 +941,12 @@ def _build_parser() -> argparse.ArgumentParser:
     _add_sampling_options(p)
     p.add_argument("--top", type=int, default=5, metavar="N",
                    help="openings with a detail page (default 5)")
+    p.add_argument("--earlier", default=None, metavar="OLD.json",
+                   help="an earlier audit of the building: adds the section \"Since the "
+                        "earlier audit\" (assessed with the same samples and seed)")
+    p.add_argument("--rename", action="append", metavar="OLD=NEW",
+                   help="with --earlier: pair the earlier opening OLD with the later opening "
+                        "NEW (repeatable)")
     p.set_defaults(handler=_cmd_report)
 
     p = sub.add_parser(

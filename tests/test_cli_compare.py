@@ -126,3 +126,42 @@ def test_a_bad_file_is_refused_with_exit_2(capsys, tmp_path, files) -> None:  # 
     bad.write_text("{}", encoding="utf-8")
     code, _, err = _run(capsys, "compare", files[0], str(bad))
     assert code == 2 and err
+
+
+def _pdf_text(path: Path) -> str:
+    from pypdf import PdfReader
+
+    return "\n".join(p.extract_text() or "" for p in PdfReader(path).pages)
+
+
+def test_pdf_section_shows_the_numbers_of_the_json(capsys, tmp_path, files) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.present import fmt_risk
+
+    code, out, _ = _run(capsys, "compare", *files, "--format", "json", *_sampling())
+    doc = json.loads(out)
+    pdf = tmp_path / "audit.pdf"
+    code, _, err = _run(capsys, "report", files[1], "--earlier", files[0], "-o", str(pdf),
+                        *_sampling())
+    assert code == 0, err
+    text = " ".join(_pdf_text(pdf).split())
+    assert "Since the earlier audit" in text
+    for title in ("Openings that got worse", "Openings that got better", "New openings",
+                  "Removed openings"):
+        assert title in text
+    assert f"{fmt_risk(doc['risk_before'])} before, {fmt_risk(doc['risk_after'])} after" in text
+    by_id = {o["id"]: o for o in doc["openings"]}
+    for oid in ("B-2", "W-1"):
+        o = by_id[oid]
+        assert f"{fmt_risk(o['risk_before'])} {fmt_risk(o['risk_after'])}" in text
+    assert fmt_risk(by_id["W-5"]["risk_after"]) in text
+    assert fmt_risk(by_id["W-3"]["risk_before"]) in text
+    assert "Netting mesh: no net → 30 mm" in text
+
+
+def test_pdf_without_an_earlier_audit_has_no_such_section(capsys, tmp_path, files) -> None:  # type: ignore[no-untyped-def]
+    pdf = tmp_path / "audit.pdf"
+    code, _, _ = _run(capsys, "report", files[1], "-o", str(pdf), *_sampling())
+    assert code == 0
+    assert "Since the earlier audit" not in _pdf_text(pdf)
+    code, _, err = _run(capsys, "report", files[1], "-o", str(pdf), "--rename", "a=b")
+    assert code == 2 and "--earlier" in err

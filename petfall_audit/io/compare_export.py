@@ -25,22 +25,19 @@ from petfall_audit.compare import Comparison, FieldChange, OpeningComparison
 from petfall_audit.injury import BANDS
 from petfall_audit.io.csv_safe import csv_writer
 from petfall_audit.io.results_export import round_significant as _r
-from petfall_audit.present import band_label, fmt_count, fmt_date, fmt_percent, fmt_risk
-from petfall_audit.present.changes import fmt_field_change, fmt_risk_change, status_label
+from petfall_audit.present.comparison import (
+    METHOD,
+    building_change_lines,
+    comparison_rows,
+    summary_lines,
+)
 from petfall_audit.risk import OpeningResult
 
 __all__ = ["COMPARISON_FORMAT", "COMPARISON_VERSION", "METHOD", "comparison_to_dict",
-           "comparison_to_csv", "comparison_to_table", "summary_lines", "CSV_COLUMNS"]
+           "comparison_to_csv", "comparison_to_table", "CSV_COLUMNS"]
 
 COMPARISON_FORMAT = "petfall-audit-comparison"
 COMPARISON_VERSION = 1
-#: How the risk removed is split, in words (the JSON's ``"method"``).
-METHOD = (
-    "Both audits assessed with the same sampled cats (same samples and seed). Risk removed by "
-    "fixes: the earlier risk minus the risk of the earlier building with only the later "
-    "barriers (nets, screens, limiters, infill, rail caps, climbing aids) applied; every other "
-    "change (openings added or removed, floors, surfaces, use, cat profile) is the rest."
-)
 TEXT_WIDTH = 80
 CSV_COLUMNS = (
     "id", "earlier_id", "status", "changes", "floor", "facade", "kind",
@@ -161,48 +158,13 @@ def comparison_to_csv(c: Comparison) -> str:
     return buf.getvalue()
 
 
-def _band_move(o: OpeningComparison) -> str:
-    b = "" if o.before is None else band_label(o.before.expected_band)
-    a = "" if o.after is None else band_label(o.after.expected_band)
-    if o.before is None:
-        return a
-    if o.after is None:
-        return b
-    return b if a == b else f"{b} → {a}"
-
-
-def summary_lines(c: Comparison) -> list[str]:
-    """The totals in sentences (shared by the table and the PDF section)."""
-    e, la = c.earlier.building.info, c.later.building.info
-    lines = [
-        f"Earlier audit: {e.name}, {fmt_date(e.audit_date)}; later audit: {la.name}, "
-        f"{fmt_date(la.audit_date)}. Both assessed with {fmt_count(c.samples, 'sampled cat')} "
-        f"(seed {c.seed}).",
-        f"Summed risk score: {fmt_risk(c.risk_before)} before, {fmt_risk(c.risk_after)} after "
-        f"({fmt_risk_change(c.risk_after - c.risk_before)}, "
-        f"{fmt_percent(abs(c.share_removed or 0.0))} "
-        f"{'less' if c.risk_removed >= 0 else 'more'}).",
-        f"Removed by barriers fitted since: {fmt_risk(c.removed_by_fixes)} "
-        f"({fmt_percent(c.share_by_fixes)} of the earlier risk); by every other change: "
-        f"{fmt_risk(c.removed_by_other)} ({fmt_percent(c.share_by_other)}).",
-        "Openings: " + ", ".join(
-            fmt_count(len(c.with_status(s)), status_label(s).lower(), status_label(s).lower())
-            for s in ("changed", "added", "removed", "unchanged")) + ".",
-    ]
-    return lines
-
-
 def comparison_to_table(c: Comparison, *, system: str = "metric") -> str:
     """A readable fixed-width table of the openings that are not unchanged, the largest rise of
     risk first, with what changed in each, the totals above and the cautions below."""
-    rows = c.worst_first()
+    rows = [r for r in comparison_rows(c, system) if r.status != "unchanged"]
     head = ("Opening", "Status", "Band", "Risk before", "Risk after", "Change", "By fixes")
-    body = [
-        (o.id, status_label(o.status), _band_move(o),
-         fmt_risk(o.risk_before), fmt_risk(o.risk_after), fmt_risk_change(o.risk_change),
-         fmt_risk(o.removed_by_fixes) if o.removed_by_fixes else "")
-        for o in rows
-    ]
+    body = [(r.id, r.status_text, r.band_text, r.risk_before_text, r.risk_after_text,
+             r.change_text, r.by_fixes_text) for r in rows]
     widths = [max(len(h), *(len(r[i]) for r in body)) if body else len(h)
               for i, h in enumerate(head)]
     right = {3, 4, 5, 6}
@@ -217,20 +179,18 @@ def comparison_to_table(c: Comparison, *, system: str = "metric") -> str:
     lines += ["", fmt(head), fmt(tuple("-" * wd for wd in widths)), *(fmt(r) for r in body)]
     if not rows:
         lines.append("(every opening is unchanged)")
-    if any(o.changes for o in rows) or any(o.fitted for o in rows):
+    if any(r.changes_text or r.fitted_text for r in rows):
         lines += ["", "What changed:"]
-        for o in rows:
-            for ch in o.changes:
-                text = fmt_field_change(ch.field, ch.old, ch.new, system)
-                lines += textwrap.wrap(f"{o.id}: {text}", TEXT_WIDTH, initial_indent="  ",
+        for r in rows:
+            for text in (*r.changes_text, *((r.fitted_text,) if r.fitted_text else ())):
+                lines += textwrap.wrap(f"{r.id}: {text}", TEXT_WIDTH, initial_indent="  ",
                                        subsequent_indent="    ")
-            if o.fitted:
-                lines.append(f"  {o.id}: fitted as recorded: {', '.join(o.fitted)}")
-    if c.building_changes:
+    building = building_change_lines(c, system)
+    if building:
         lines += ["", "Changed in the building:"]
-        for ch in c.building_changes:
-            lines += textwrap.wrap(fmt_field_change(ch.field, ch.old, ch.new, system),
-                                   TEXT_WIDTH, initial_indent="  ", subsequent_indent="    ")
+        for text in building:
+            lines += textwrap.wrap(text, TEXT_WIDTH, initial_indent="  ",
+                                   subsequent_indent="    ")
     lines += ["", *textwrap.wrap(METHOD, TEXT_WIDTH), "",
               *textwrap.wrap(CAUTIONS_SHORT, TEXT_WIDTH), ""]
     return "\n".join(lines)
