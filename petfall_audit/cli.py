@@ -139,10 +139,13 @@ def _assess(args: argparse.Namespace, building: Building, *, sensitivity: bool =
     _check_sampling(args, building)
     # risk.assess exactly; nothing the commands write needs every fall, so none is kept (no
     # copy of the (openings, samples) arrays; the sensitivity simulates what it reports)
+    saved = building.plan  # the samples and seed saved with the plan, unless given
+    samples = args.samples if args.samples is not None else saved.samples
+    seed = args.seed if args.seed is not None else saved.seed
     assessment = assess_deduplicated(
         building,
-        samples=DEFAULT_SAMPLES if args.samples is None else args.samples,
-        seed=DEFAULT_SEED if args.seed is None else args.seed,
+        samples=DEFAULT_SAMPLES if samples is None else samples,
+        seed=DEFAULT_SEED if seed is None else seed,
         progress=_stderr_progress(label),
     )
     return with_sensitivity(assessment) if sensitivity else assessment
@@ -408,8 +411,9 @@ def _cmd_report(args: argparse.Namespace) -> int:
         from petfall_audit.compare import compare_assessments
 
         try:
+            same_cats = argparse.Namespace(samples=assessment.samples, seed=assessment.seed)
             comparison = compare_assessments(
-                _assess(args, earlier, label="assessing the earlier audit"), assessment,
+                _assess(same_cats, earlier, label="assessing the earlier audit"), assessment,
                 renamed=renamed)
         except ValueError as exc:
             raise _refuse(str(exc)) from None

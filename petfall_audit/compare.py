@@ -51,9 +51,10 @@ from typing import Any, Literal
 
 import numpy as np
 
+from petfall_audit.fix_tracking import latest_records
 from petfall_audit.io.controls import EFFECT_FIELDS
 from petfall_audit.likelihood import assess_likelihood
-from petfall_audit.model import Building, Opening, Surface
+from petfall_audit.model import FIX_STATUSES_IN_PLACE, Building, FixRecord, Opening, Surface
 from petfall_audit.risk import Assessment, OpeningResult, assess, risk_score
 from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
 
@@ -67,6 +68,7 @@ __all__ = [
     "compare_buildings",
     "compare_assessments",
     "field_unit",
+    "fitted_records",
 ]
 
 Status = Literal["added", "removed", "changed", "unchanged"]
@@ -79,8 +81,6 @@ OPENING_FIELDS: tuple[str, ...] = tuple(
 )
 #: Fields a fitted control changes (a fix), as opposed to changes of use or of the building.
 BARRIER_FIELDS: frozenset[str] = frozenset(EFFECT_FIELDS) - {"open_frequency"}
-#: Fix statuses that mean the fix is in place.
-FITTED_STATUSES: frozenset[str] = frozenset({"fitted", "checked"})
 #: Relative difference of risk below which two results are the same.
 _SAME_RTOL = 1e-9
 
@@ -285,6 +285,15 @@ def _building_changes(e: Building, later: Building) -> list[FieldChange]:
     return out
 
 
+def _latest(b: Building) -> list[FixRecord]:
+    return list(latest_records(b).values())
+
+
+def fitted_records(c: Comparison) -> list[FixRecord]:
+    """The later audit's fixes recorded as fitted or checked (their latest record)."""
+    return [r for r in _latest(c.later.building) if r.status in FIX_STATUSES_IN_PLACE]
+
+
 def _same_result(a: OpeningResult, b: OpeningResult) -> bool:
     scale = max(abs(a.risk), abs(b.risk), 1e-300)
     return (abs(a.risk - b.risk) <= _SAME_RTOL * scale and a.expected_band == b.expected_band
@@ -329,8 +338,8 @@ def compare_assessments(earlier: Assessment, later: Assessment, *,
     lik = assess_likelihood(cf_openings, profile=e_b.cat_profile)
     cf_risk = np.asarray(risk_score(lik.annual_probability, earlier.band_probabilities), float)
     fitted: dict[str, list[str]] = {}
-    for rec in getattr(l_b, "fixes", ()):
-        if rec.status in FITTED_STATUSES:
+    for rec in _latest(l_b):
+        if rec.status in FIX_STATUSES_IN_PLACE:
             fitted.setdefault(rec.opening_id, []).append(rec.control_id)
 
     rows: list[OpeningComparison] = []

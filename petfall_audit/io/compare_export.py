@@ -10,7 +10,9 @@ with ``id``, ``earlier_id``, ``status`` (``added``, ``removed``, ``changed``, ``
 ``risk_after``, ``band_before``, ``band_after`` (band names; ``null`` where the opening does not
 exist on that side), ``before`` / ``after`` (band probabilities, expected band, likelihood,
 1 in N, rank, risk rank; ``null`` likewise), ``removed_by_fixes``, ``removed_by_other`` and
-``fitted`` (control ids of fixes recorded as fitted). Numbers to 4 significant digits.
+``fitted`` (control ids of fixes recorded as fitted); ``fixes_fitted``: the later file's fixes
+recorded as fitted or checked (opening, control, status, date, note, ``removed_at_opening``: the
+risk the barrier changes removed at that opening). Numbers to 4 significant digits.
 """
 
 from __future__ import annotations
@@ -21,10 +23,11 @@ from typing import Any
 
 from petfall_audit import __version__
 from petfall_audit.cautions import CAUTIONS, CAUTIONS_SHORT
-from petfall_audit.compare import Comparison, FieldChange, OpeningComparison
+from petfall_audit.compare import Comparison, FieldChange, OpeningComparison, fitted_records
 from petfall_audit.injury import BANDS
 from petfall_audit.io.csv_safe import csv_writer
 from petfall_audit.io.results_export import round_significant as _r
+from petfall_audit.model import FixRecord
 from petfall_audit.present.comparison import (
     METHOD,
     building_change_lines,
@@ -95,6 +98,16 @@ def _opening(o: OpeningComparison) -> dict[str, Any]:
     }
 
 
+def _fitted(c: Comparison, r: FixRecord) -> dict[str, Any]:
+    """A fitted fix and the risk removed by barrier changes at its opening."""
+    try:
+        removed = _r(c.opening(r.opening_id).removed_by_fixes)
+    except KeyError:
+        removed = None
+    return {"opening": r.opening_id, "control": r.control_id, "status": r.status.value,
+            "date": r.date, "note": r.note, "removed_at_opening": removed}
+
+
 def _share(x: float | None) -> float | None:
     return None if x is None else _r(x)
 
@@ -127,6 +140,7 @@ def comparison_to_dict(c: Comparison) -> dict[str, Any]:
         "counts": {s: len(c.with_status(s)) for s in ("added", "removed", "changed",
                                                        "unchanged")},
         "building_changes": [_change(x) for x in c.building_changes],
+        "fixes_fitted": [_fitted(c, r) for r in fitted_records(c)],
         "method": METHOD,
         "openings": [_opening(o) for o in c.openings],
         "cautions": list(CAUTIONS),

@@ -8,11 +8,17 @@ the PDF and the app show the numbers of ``petfall-audit compare --format json``.
 
 from __future__ import annotations
 
+from collections.abc import Mapping
 from dataclasses import dataclass
 
-from petfall_audit.compare import Comparison, OpeningComparison
+from petfall_audit.compare import Comparison, OpeningComparison, fitted_records
 from petfall_audit.io.results_export import round_significant
-from petfall_audit.present.changes import fmt_field_change, fmt_risk_change, status_label
+from petfall_audit.present.changes import (
+    fix_status_label,
+    fmt_field_change,
+    fmt_risk_change,
+    status_label,
+)
 from petfall_audit.present.labels import band_label, kind_label
 from petfall_audit.present.numbers import fmt_count, fmt_date, fmt_one_in, fmt_percent, fmt_risk
 
@@ -22,6 +28,7 @@ __all__ = [
     "comparison_rows",
     "summary_lines",
     "building_change_lines",
+    "fitted_fix_rows",
     "fmt_exported_risk",
 ]
 
@@ -142,3 +149,19 @@ def summary_lines(c: Comparison) -> list[str]:
 def building_change_lines(c: Comparison, system: str = "metric") -> list[str]:
     """What changed outside the openings, one line each."""
     return [fmt_field_change(x.field, x.old, x.new, system) for x in c.building_changes]
+
+
+def fitted_fix_rows(c: Comparison, control_names: Mapping[str, str] | None = None
+                    ) -> list[tuple[str, str, str, str, str]]:
+    """The later audit's fixes recorded as fitted or checked: (opening, control name, status,
+    date, risk the barrier changes removed at the opening), in recorded order."""
+    names = control_names or {}
+    out = []
+    for r in fitted_records(c):
+        try:
+            removed = fmt_exported_risk(c.opening(r.opening_id).removed_by_fixes)
+        except KeyError:
+            removed = "opening no longer recorded"
+        out.append((r.opening_id, names.get(r.control_id, r.control_id),
+                    fix_status_label(r.status.value), fmt_date(r.date), removed))
+    return out

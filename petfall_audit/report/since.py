@@ -15,6 +15,7 @@ from petfall_audit.present.comparison import (
     ComparisonRow,
     building_change_lines,
     comparison_rows,
+    fitted_fix_rows,
     summary_lines,
 )
 from petfall_audit.report.fonts import markup
@@ -56,6 +57,17 @@ def _table(rows: Sequence[ComparisonRow], head: Sequence[str],
     return t
 
 
+def _control_names() -> dict[str, str]:
+    """Control id -> name in the shipped catalogue (empty when it cannot be read)."""
+    from petfall_audit.errors import CatalogueError
+    from petfall_audit.fixes import load_catalogue
+
+    try:
+        return {k.id: k.name for k in load_catalogue().controls}
+    except (OSError, CatalogueError):
+        return {}
+
+
 def build_since(c: Comparison, st: Styles, width: float) -> list[Flowable]:
     """The section's flowables."""
     rows = comparison_rows(c)
@@ -94,6 +106,16 @@ def build_since(c: Comparison, st: Styles, width: float) -> list[Flowable]:
         r.id, str(r.floor), r.kind_text, r.band_text, r.risk_before_text,
         r.likelihood_before_text), side_fracs, st, width) if removed
         else _p("No opening was removed.", st.body))
+    fitted = fitted_fix_rows(c, _control_names())
+    if fitted:
+        out.append(_p("Fixes fitted since", st.h2))
+        data: list[list[object]] = [[_p(h, st.cell_bold) for h in (
+            "Opening", "Fix", "Status", "Date", "Risk removed at the opening")]]
+        data += [[_p(x, st.cell) for x in row] for row in fitted]
+        t = Table(data, colWidths=[width * f for f in (0.12, 0.38, 0.16, 0.14, 0.2)],
+                  repeatRows=1, splitInRow=1)
+        t.setStyle(TableStyle(_GRID))
+        out.append(t)
     building = building_change_lines(c)
     if building:
         out.append(_p("Changed in the building", st.h2))
