@@ -64,6 +64,7 @@ class ComparisonRow:
     floor: int
     facade: str
     kind_text: str
+    where_text: str
     band_before: int | None
     band_after: int | None
     band_text: str
@@ -100,6 +101,7 @@ def _row(o: OpeningComparison, system: str) -> ComparisonRow:
         floor=side.floor,
         facade=side.facade,
         kind_text=kind_label(side.kind),
+        where_text=f"{kind_label(side.kind)}, floor {side.floor}, facade {side.facade}",
         band_before=None if o.before is None else o.before.expected_band,
         band_after=None if o.after is None else o.after.expected_band,
         band_text=_band_move(o),

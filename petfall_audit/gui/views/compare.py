@@ -1,0 +1,263 @@
+"""Re-audit: this audit beside an earlier one, opening by opening.
+
+Open an earlier building file; it is assessed off the GUI thread with the same simulated cats
+(samples and seed) as this audit's results, then compared with them
+(:func:`petfall_audit.compare.compare_assessments`). The list shows the openings that changed,
+worst change first (the largest rise of risk), with filters; its text comes from
+:mod:`petfall_audit.present.comparison`, so it reads the numbers of ``petfall-audit compare
+--format json``. A click selects the opening in every view.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import Any
+
+from PySide6.QtCore import Qt, Signal
+from PySide6.QtWidgets import (
+    QAbstractItemView,
+    QComboBox,
+    QHBoxLayout,
+    QHeaderView,
+    QLabel,
+    QLineEdit,
+    QPushButton,
+    QTableWidget,
+    QTableWidgetItem,
+    QVBoxLayout,
+    QWidget,
+)
+
+from petfall_audit.gui.views.common import Task, ViewContext, run_task
+from petfall_audit.gui.views.floors import EarlierAudit
+from petfall_audit.present.comparison import ComparisonRow
+
+__all__ = ["CompareView", "COLUMNS", "FILTERS", "ID_ROLE"]
+
+COLUMNS: tuple[str, ...] = ("Opening", "Status", "Band", "Risk before", "Risk after", "Change",
+                            "Removed by fixes", "What changed")
+#: The filters of the list: (key, label).
+FILTERS: tuple[tuple[str, str], ...] = (
+    ("moved", "Every change"),
+    ("worse", "Got worse"),
+    ("better", "Got better"),
+    ("added", "New openings"),
+    ("removed", "Removed openings"),
+    ("fixed", "With fixes fitted"),
+    ("all", "Every opening, unchanged too"),
+)
+ID_ROLE = int(Qt.ItemDataRole.UserRole) + 1
+_RIGHT = {3, 4, 5, 6}
+
+
+def _keep(row: ComparisonRow, key: str) -> bool:
+    if key == "all":
+        return True
+    if row.status == "unchanged":
+        return False
+    return {
+        "moved": True,
+        "worse": row.risk_change > 0,
+        "better": row.risk_change < 0,
+        "added": row.status == "added",
+        "removed": row.status == "removed",
+        "fixed": bool(row.fitted_text) or row.removed_by_fixes > 0,
+    }.get(key, True)
+
+
+class CompareView(QWidget):
+    """The comparison list and its summary. ``comparison`` is the current
+    :class:`~petfall_audit.compare.Comparison` (``None`` before an earlier audit is opened);
+    ``compared`` is emitted with it each time it is made."""
+
+    compared = Signal(object)
+
+    def __init__(self, context: ViewContext, *, prompts: EarlierAudit | None = None,
+                 parent: QWidget | None = None) -> None:
+        super().__init__(parent)
+        self.setObjectName("compare_view")
+        self._ctx = context
+        self.prompts = prompts or EarlierAudit()
+        self.earlier_building: Any = None
+        self.earlier_name = ""
+        self.earlier: Any = None  # the earlier assessment
+        self.comparison: Any = None
+        self.rows: list[ComparisonRow] = []
+        self._task: Task | None = None
+
+        self.open_button = QPushButton("&Open earlier audit…")
+        self.open_button.setObjectName("open_earlier_compare")
+        self.open_button.setToolTip("Compare this audit with an earlier building file of the "
+                                    "same building, opening by opening")
+        self.open_button.clicked.connect(lambda _c=False: self.open_earlier())
+        self.filter_box = QComboBox()
+        self.filter_box.setObjectName("compare_filter")
+        for key, label in FILTERS:
+            self.filter_box.addItem(label, key)
+        show = QLabel("&Show:")
+        show.setBuddy(self.filter_box)
+        self.search = QLineEdit()
+        self.search.setObjectName("compare_search")
+        self.search.setPlaceholderText("Opening id contains…")
+        self.search.setClearButtonEnabled(True)
+        bar = QHBoxLayout()
+        bar.setContentsMargins(0, 0, 0, 0)
+        bar.addWidget(self.open_button)
+        bar.addWidget(show)
+        bar.addWidget(self.filter_box)
+        bar.addWidget(self.search, 1)
+
+        self.summary = QLabel("Open an earlier building file to see what changed since that "
+                              "audit; it is assessed with the same simulated cats as this one.")
+        self.summary.setObjectName("compare_summary")
+        self.summary.setWordWrap(True)
+        self.summary.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
+        self.table = QTableWidget(0, len(COLUMNS))
+        self.table.setObjectName("compare_table")
+        self.table.setHorizontalHeaderLabels(list(COLUMNS))
+        self.table.setEditTriggers(QAbstractItemView.EditTrigger.NoEditTriggers)
+        self.table.setSelectionBehavior(QAbstractItemView.SelectionBehavior.SelectRows)
+        self.table.setSelectionMode(QAbstractItemView.SelectionMode.SingleSelection)
+        self.table.verticalHeader().setVisible(False)
+        self.table.setWordWrap(True)
+        header = self.table.horizontalHeader()
+        header.setSectionResizeMode(QHeaderView.ResizeMode.ResizeToContents)
+        header.setSectionResizeMode(len(COLUMNS) - 1, QHeaderView.ResizeMode.Stretch)
+        self.note = QLabel()
+        self.note.setObjectName("compare_note")
+        self.note.setWordWrap(True)
+        layout = QVBoxLayout(self)
+        layout.setContentsMargins(2, 2, 2, 2)
+        layout.addLayout(bar)
+        layout.addWidget(self.summary)
+        layout.addWidget(self.table, 1)
+        layout.addWidget(self.note)
+
+        self.filter_box.currentIndexChanged.connect(lambda _i: self._apply_filter())
+        self.search.textChanged.connect(lambda _t: self._apply_filter())
+        self.table.itemSelectionChanged.connect(self._on_row_selected)
+        context.assessment_changed.connect(self._on_assessment)
+
+    # --- public ----------------------------------------------------------------------------------
+
+    def set_filter(self, key: str) -> None:
+        self.filter_box.setCurrentIndex(max(self.filter_box.findData(key), 0))
+
+    def visible_ids(self) -> list[str]:
+        return [row.id for r, row in enumerate(self.rows) if not self.table.isRowHidden(r)]
+
+    def open_earlier(self, path: Path | None = None) -> Task | None:
+        """Load an earlier building file and compare it with this audit's results (assessed off
+        the GUI thread); ``compared`` when done."""
+        from petfall_audit.errors import BuildingFileError
+        from petfall_audit.io.building_file import load_building
+
+        if path is None:
+            path = self.prompts.open_path(self)
+            if path is None:
+                return None
+        try:
+            building = load_building(path)
+        except BuildingFileError as exc:
+            self.summary.setText(f"Cannot open {Path(path).name}: {exc}")
+            return None
+        self.earlier_building, self.earlier_name = building, Path(path).name
+        self.earlier = None
+        return self._assess_earlier()
+
+    # --- handlers --------------------------------------------------------------------------------
+
+    def _assess_earlier(self) -> Task | None:
+        current = self._ctx.assessment
+        if self.earlier_building is None or current is None:
+            return None
+        building, samples, seed = self.earlier_building, current.samples, current.seed
+        assess_fn = self._ctx.window.recomputer.assess
+        self.summary.setText(f"Assessing {self.earlier_name} with the same simulated cats…")
+        if self._task is not None:
+            self._task.cancel()
+        self._task = run_task(lambda: assess_fn(building, samples=samples, seed=seed),
+                              parent=self)
+        self._task.finished.connect(self._on_earlier)
+        self._task.failed.connect(
+            lambda m: self.summary.setText(f"The earlier audit could not be assessed: {m}"))
+        return self._task
+
+    def _on_earlier(self, assessment: Any) -> None:
+        self.earlier = assessment
+        self._compare()
+
+    def _on_assessment(self, assessment: Any) -> None:
+        if self.earlier_building is None or assessment is None:
+            return
+        e = self.earlier
+        if e is None or (e.samples, e.seed) != (assessment.samples, assessment.seed):
+            self._assess_earlier()  # the cats must be the same on both sides
+        else:
+            self._compare()
+
+    def _compare(self) -> None:
+        from petfall_audit.compare import compare_assessments
+        from petfall_audit.present.comparison import (
+            METHOD,
+            building_change_lines,
+            comparison_rows,
+            summary_lines,
+        )
+
+        current = self._ctx.assessment
+        if self.earlier is None or current is None:
+            return
+        try:
+            c = compare_assessments(self.earlier, current)
+        except ValueError:  # newer results with other cats are on their way
+            self._assess_earlier()
+            return
+        self.comparison = c
+        self.rows = comparison_rows(c, self._ctx.options.units)
+        lines = [f"Compared with {self.earlier_name}.", *summary_lines(c)]
+        self.summary.setText("\n".join(lines))
+        building = building_change_lines(c, self._ctx.options.units)
+        self.note.setText(("Changed in the building: " + "; ".join(building) + ". "
+                           if building else "") + METHOD)
+        self._fill()
+        self.compared.emit(c)
+
+    def _fill(self) -> None:
+        self.table.setSortingEnabled(False)
+        self.table.setRowCount(len(self.rows))
+        for r, row in enumerate(self.rows):
+            what = "; ".join((*row.changes_text, *((row.fitted_text,) if row.fitted_text
+                                                    else ()))) or row.where_text
+            cells = (row.id, row.status_text, row.band_text, row.risk_before_text,
+                     row.risk_after_text, row.change_text, row.by_fixes_text, what)
+            for col, text in enumerate(cells):
+                item = QTableWidgetItem(text)
+                item.setData(ID_ROLE, row.id)
+                if col in _RIGHT:
+                    item.setTextAlignment(Qt.AlignmentFlag.AlignRight
+                                          | Qt.AlignmentFlag.AlignVCenter)
+                if col == len(cells) - 1:
+                    item.setToolTip(what.replace("; ", "\n"))
+                self.table.setItem(r, col, item)
+        self._apply_filter()
+
+    def _apply_filter(self) -> None:
+        key = str(self.filter_box.currentData())
+        needle = self.search.text().strip().lower()
+        for r, row in enumerate(self.rows):
+            hide = not _keep(row, key) or (bool(needle) and needle not in row.id.lower())
+            self.table.setRowHidden(r, hide)
+        if self.comparison is not None and not self.visible_ids():
+            self.note.setText("No opening matches this filter. " + self.note.text()
+                              .removeprefix("No opening matches this filter. "))
+
+    def _on_row_selected(self) -> None:
+        items = self.table.selectedItems()
+        if not items:
+            return
+        oid = str(items[0].data(ID_ROLE))
+        known = self._ctx.assessment is not None and any(
+            o.id == oid for o in self._ctx.assessment.openings)
+        if known:  # a removed opening exists only in the earlier audit
+            self._ctx.select([oid])
