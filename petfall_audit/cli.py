@@ -537,6 +537,72 @@ def _cmd_compare(args: argparse.Namespace) -> int:
     return EXIT_OK
 
 
+def _cmd_fixes(args: argparse.Namespace) -> int:
+    from petfall_audit.fix_tracking import apply_fitted, record_plan, set_fix_status
+    from petfall_audit.fixes import load_catalogue
+    from petfall_audit.io._schema import is_iso_date
+    from petfall_audit.io.building_file import save_building
+    from petfall_audit.plan import make_plan
+    from petfall_audit.present.changes import fix_status_label
+
+    if args.date and not is_iso_date(args.date):
+        raise _refuse(f"--date {args.date!r}: expected a date written YYYY-MM-DD")
+    if args.apply_fitted and not args.output:
+        raise _refuse("--apply-fitted needs -o NEXT.json (the building as the next audit "
+                      "starts; FILE is left as it is)")
+    _check_output(args.output)
+    building = _load(args.file)
+    try:
+        catalogue = load_catalogue(args.controls)
+    except CatalogueError as exc:
+        _print_problems(exc, args.controls)
+        return EXIT_INVALID
+    except OSError as exc:
+        raise _refuse(f"{args.controls}: {exc.strerror or exc}") from None
+    changed = building
+    if args.record_plan:
+        budget = _budget_of(args, building)
+        if budget is None:
+            raise _refuse(f"{args.file}: no budget is saved with this audit; give one with "
+                          "--budget")
+        plan = make_plan(_assess(args, building), budget, catalogue=catalogue)
+        changed = record_plan(changed, plan, date=args.date or building.info.audit_date)
+        _say(f"{args.file}: {_count(plan.actions, 'fix')} of the plan recorded as recommended")
+    if args.set:
+        from petfall_audit.model import FixStatus
+
+        opening_id, control_id, status = args.set
+        if status not in {x.value for x in FixStatus}:
+            raise _refuse(f"--set: status {status!r} is not one of "
+                          f"{', '.join(x.value for x in FixStatus)}")
+        if opening_id not in {o.id for o in building.openings}:
+            raise _refuse(f"--set: no opening called {opening_id} in {args.file}")
+        if control_id not in {c.id for c in catalogue.controls}:
+            raise _refuse(f"--set: no control called {control_id} in the control catalogue")
+        changed = set_fix_status(changed, opening_id, control_id, status,
+                                 date=args.date or "", note=args.note)
+    if changed is not building:
+        save_building(changed, args.file)
+        _say(f"wrote {args.file}")
+    if args.apply_fitted:
+        from dataclasses import replace
+
+        after, skipped = apply_fitted(changed, catalogue)
+        for s in skipped:
+            _say(f"{args.file}: {s.record.control_id} on {s.record.opening_id} not applied: "
+                 f"{s.reason}", file=sys.stderr)
+        after = replace(after, info=replace(after.info, audit_date=args.date or ""))
+        save_building(after, args.output)
+        _say(f"wrote {args.output}: the fitted fixes are the openings' barriers")
+        return EXIT_OK
+    if not changed.fixes:
+        _say(f"{args.file}: no fixes recorded")
+    for r in changed.fixes:
+        _say(f"{r.opening_id}  {r.control_id}  {fix_status_label(r.status.value)}"
+             f"{'  ' + r.date if r.date else ''}{'  ' + r.note if r.note else ''}")
+    return EXIT_OK
+
+
 def _cmd_batch(args: argparse.Namespace) -> int:
     """Assess many buildings; one result file each plus a summary CSV. Bad files are listed
     and skipped; the exit code is 2 if any file could not be assessed. Two files with the same
@@ -918,6 +984,35 @@ def _build_parser() -> argparse.ArgumentParser:
                    help="pair the earlier opening OLD with the later opening NEW (an opening "
                         "renumbered between the audits; repeatable)")
     p.set_defaults(handler=_cmd_compare)
+
+    p = sub.add_parser(
+        "fixes",
+        help="record what became of each recommended fix; start the next audit with the "
+             "fitted ones",
+        description="List the fixes recorded in FILE; record the plan's fixes as recommended "
+        "(--record-plan); set one fix's status (--set); or write the building as the next "
+        "audit starts, every fitted or checked fix written into its opening (--apply-fitted "
+        "-o NEXT.json).",
+    )
+    p.add_argument("file", help="building file (.json); --record-plan and --set update it")
+    p.add_argument("--record-plan", action="store_true",
+                   help="record every fix of the plan (saved budget or --budget) as recommended")
+    p.add_argument("--budget", type=float, default=None, metavar="AMOUNT",
+                   help="with --record-plan: the budget (default: the one saved)")
+    p.add_argument("--set", nargs=3, metavar=("OPENING", "CONTROL", "STATUS"),
+                   help="set the status of CONTROL on OPENING: recommended, approved, fitted, "
+                        "checked or declined")
+    p.add_argument("--date", default=None, metavar="YYYY-MM-DD",
+                   help="date of the status (with --apply-fitted: the next audit's date)")
+    p.add_argument("--note", default=None, metavar="TEXT", help="with --set: a note")
+    p.add_argument("--apply-fitted", action="store_true",
+                   help="write the building with its fitted fixes as barriers to -o")
+    p.add_argument("-o", "--output", default=None, metavar="NEXT.json",
+                   help="with --apply-fitted: the building file to write")
+    p.add_argument("--controls", default=None, metavar="FILE",
+                   help="control catalogue (.json; default: the shipped catalogue)")
+    _add_sampling_options(p)
+    p.set_defaults(handler=_cmd_fixes)
 
     p = sub.add_parser(
         "report",

@@ -150,3 +150,31 @@ def test_comparison_names_the_fitted_fix_and_what_it_removed(tmp_path: Path) -> 
 
     text = " ".join(" ".join(p.extract_text() or "" for p in PdfReader(pdf).pages).split())
     assert "Fixes fitted since" in text and "Anchored enclosure net, 30 mm mesh" in text
+
+
+def test_cli_fixes_records_sets_lists_and_applies(tmp_path: Path,
+                                                  capsys: pytest.CaptureFixture[str]) -> None:
+    path, nxt = tmp_path / "2025.json", tmp_path / "2026.json"
+    save_building(with_plan_settings(earlier_building(), 900.0, samples=300, seed=5), path)
+    assert main(["fixes", str(path), "--record-plan", "--date", "2025-05-02"]) == 0
+    recorded = load_building(path).fixes
+    assert recorded and all(r.status is FixStatus.RECOMMENDED for r in recorded)
+    assert main(["fixes", str(path), "--set", "B-2", "net_anchored_30", "fitted", "--date",
+                 "2025-07-15", "--note", "Fitted by the caretaker"]) == 0
+    b = load_building(path)
+    assert FixRecord("B-2", "net_anchored_30", FixStatus.FITTED, "2025-07-15",
+                     "Fitted by the caretaker") in b.fixes
+    capsys.readouterr()
+    assert main(["fixes", str(path)]) == 0
+    assert "B-2  net_anchored_30  Fitted  2025-07-15" in capsys.readouterr().out
+    assert main(["fixes", str(path), "--apply-fitted", "-o", str(nxt), "--date",
+                 "2026-05-04"]) == 0
+    started = load_building(nxt)
+    assert started.opening("B-2").netting_mesh_mm == 30.0
+    assert started.info.audit_date == "2026-05-04"
+    assert load_building(path).opening("B-2").netting_mesh_mm is None  # FILE left as it was
+    for bad in (["--set", "B-2", "net_anchored_30", "done"],
+                ["--set", "Z-9", "net_anchored_30", "fitted"],
+                ["--set", "B-2", "no_such", "fitted"],
+                ["--apply-fitted"], ["--date", "2025-13-01"]):
+        assert main(["fixes", str(path), *bad]) == 2, bad
