@@ -113,3 +113,28 @@ def test_the_view_looks_right(compared, tmp_path: Path) -> None:  # type: ignore
     image = view.grab()
     assert image.width() > 300 and image.height() > 200
     image.save(str(tmp_path / "compare.png"))
+
+
+def test_fix_status_is_recorded_from_the_plan_and_undone(compared, qtbot) -> None:  # type: ignore[no-untyped-def]
+    window, views, _, _ = compared
+    plan_view = views.plan
+    qtbot.waitUntil(lambda: plan_view.plan is not None and bool(plan_view.plan.actions),
+                    timeout=20000)
+    with qtbot.waitSignal(plan_view.plan_ready, timeout=20000,
+                          check_params_cb=lambda p: p.budget == 20000):
+        plan_view.set_budget(20000)
+    saved = window.document.building.plan
+    assert (saved.budget, saved.samples, saved.seed) == (20000, SAMPLES, window.recomputer.seed)
+    assert plan_view.record_fix_status("plan", date="2026-05-04") is None
+    recorded = window.document.building.fixes
+    assert len(recorded) == len(plan_view.plan.actions)
+    plan_view.chosen.selectRow(0)
+    action = plan_view.selected_action()
+    assert plan_view.record_fix_status("fitted", date="2026-06-01") is None
+    last = window.document.building.fixes
+    rec = next(r for r in last if (r.opening_id, r.control_id) == (action.opening_id,
+                                                                   action.control_id))
+    assert (rec.status.value, rec.date) == ("fitted", "2026-06-01")
+    assert plan_view.chosen.item(0, 5).text() == "Fitted, 2026-06-01"
+    window.history.undo()
+    assert window.document.building.fixes == recorded
