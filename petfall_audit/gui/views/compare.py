@@ -22,13 +22,16 @@ from PySide6.QtWidgets import (
     QLabel,
     QLineEdit,
     QPushButton,
+    QSplitter,
     QTableWidget,
     QTableWidgetItem,
+    QTabWidget,
     QVBoxLayout,
     QWidget,
 )
 
 from petfall_audit.gui.views.common import Task, ViewContext, run_task
+from petfall_audit.gui.views.facade import FacadeView
 from petfall_audit.gui.views.floors import EarlierAudit
 from petfall_audit.present.comparison import ComparisonRow
 
@@ -126,11 +129,43 @@ class CompareView(QWidget):
         self.note = QLabel()
         self.note.setObjectName("compare_note")
         self.note.setWordWrap(True)
+        # the facade elevation before and after, side by side, the same facade on both
+        self.before_context = ViewContext(context.window, self)
+        self.after_context = ViewContext(context.window, self)
+        self.before_facade = FacadeView(self.before_context)
+        self.before_facade.setObjectName("facade_before")
+        self.after_facade = FacadeView(self.after_context)
+        self.after_facade.setObjectName("facade_after")
+        self.before_title = QLabel("Earlier audit")
+        self.after_title = QLabel("This audit")
+        facades = QSplitter(Qt.Orientation.Horizontal)
+        for title, view in ((self.before_title, self.before_facade),
+                            (self.after_title, self.after_facade)):
+            pane = QWidget()
+            pl = QVBoxLayout(pane)
+            pl.setContentsMargins(0, 0, 0, 0)
+            pl.addWidget(title)
+            pl.addWidget(view, 1)
+            facades.addWidget(pane)
+        facades.setChildrenCollapsible(False)
+        self.facades = facades
+        self.before_facade.facade_box.currentIndexChanged.connect(
+            lambda _i: self._same_facade(self.before_facade, self.after_facade))
+        self.after_facade.facade_box.currentIndexChanged.connect(
+            lambda _i: self._same_facade(self.after_facade, self.before_facade))
+        for side in (self.before_context, self.after_context):
+            side.selection.changed.connect(lambda ids, s=side: self._on_side_selected(s, ids))
+        context.selection.changed.connect(self._on_main_selected)
+        self.pages = QTabWidget()
+        self.pages.setObjectName("compare_pages")
+        self.pages.setDocumentMode(True)
+        self.pages.addTab(self.table, "&Openings that changed")
+        self.pages.addTab(self.facades, "Facades &before and after")
         layout = QVBoxLayout(self)
         layout.setContentsMargins(2, 2, 2, 2)
         layout.addLayout(bar)
         layout.addWidget(self.summary)
-        layout.addWidget(self.table, 1)
+        layout.addWidget(self.pages, 1)
         layout.addWidget(self.note)
 
         self.filter_box.currentIndexChanged.connect(lambda _i: self._apply_filter())
@@ -215,13 +250,38 @@ class CompareView(QWidget):
             return
         self.comparison = c
         self.rows = comparison_rows(c, self._ctx.options.units)
-        lines = [f"Compared with {self.earlier_name}.", *summary_lines(c)]
-        self.summary.setText("\n".join(lines))
+        self.summary.setText("\n".join(summary_lines(c)))
+        self.summary.setToolTip(f"Compared with {self.earlier_name}. {METHOD}")
         building = building_change_lines(c, self._ctx.options.units)
-        self.note.setText(("Changed in the building: " + "; ".join(building) + ". "
-                           if building else "") + METHOD)
+        self.note.setText("Changed in the building: " + "; ".join(building) + "."
+                          if building else "")
         self._fill()
+        self.before_title.setText(f"Earlier audit: {self.earlier_name}")
+        self.before_context.set_assessment(self.earlier)
+        self.after_context.set_assessment(current)
         self.compared.emit(c)
+
+    def _same_facade(self, source: FacadeView, other: FacadeView) -> None:
+        fid = source.facade_id
+        if fid is not None and other.facade_id != fid and other.facade_box.findData(fid) >= 0:
+            other.set_facade(fid)
+
+    def _on_main_selected(self, ids: Any) -> None:
+        if self.comparison is None:
+            return
+        for side in (self.before_context, self.after_context):
+            side.select(list(ids))
+
+    def _on_side_selected(self, side: ViewContext, ids: Any) -> None:
+        """A click on either elevation selects the opening on both and in every view."""
+        chosen = list(ids)
+        for other in (self.before_context, self.after_context):
+            if other is not side and list(other.selection.ids) != chosen:
+                other.select(chosen)
+        known = self._ctx.assessment is not None and all(
+            any(o.id == i for o in self._ctx.assessment.openings) for i in chosen)
+        if chosen and known and list(self._ctx.selection.ids) != chosen:
+            self._ctx.select(chosen)
 
     def _fill(self) -> None:
         self.table.setSortingEnabled(False)
