@@ -27,7 +27,9 @@ from petfall_audit.errors import (
 
 if TYPE_CHECKING:
     from petfall_audit.batch import BuildingOutcome
+    from petfall_audit.compare import Comparison
     from petfall_audit.model import Building
+    from petfall_audit.plan import Plan
     from petfall_audit.report.leaflet_sections import LeafletChoice
     from petfall_audit.risk import Assessment
 
@@ -352,6 +354,7 @@ def _cmd_plan(args: argparse.Namespace) -> int:
     if args.budget is not None and (not math.isfinite(args.budget) or args.budget < 0):
         raise _refuse("--budget must be an amount of 0 or more")
     _check_output(args.output)
+    _check_output(args.write_after)
     _check_sampling(args)
     building = _load(args.file)
     budget = _budget_of(args, building)
@@ -365,6 +368,15 @@ def _cmd_plan(args: argparse.Namespace) -> int:
     except OSError as exc:
         raise _refuse(f"{args.controls}: {exc.strerror or exc}") from None
     plan = make_plan(_assess(args, building), budget, catalogue=catalogue)
+    if args.write_after:
+        from petfall_audit.fix_tracking import apply_plan
+        from petfall_audit.io.building_file import save_building
+
+        after, left = apply_plan(building, plan, catalogue)
+        save_building(after, args.write_after)
+        _say(f"wrote {args.write_after}: the building with the plan's fixes fitted (a what-if"
+             + (f"; {_count(left, 'fix')} that relies on people or changes no field left out)"
+                if left else ")"), file=sys.stderr)
     if args.format == "json":
         text = results_json_text(plan=plan)
     elif args.format == "csv":
@@ -419,11 +431,17 @@ def _cmd_report(args: argparse.Namespace) -> int:
             raise _refuse(str(exc)) from None
     budget = _budget_of(args, building)
     plan = make_plan(assessment, budget) if budget is not None else None
+    what_if = None
+    if args.what_if:
+        if plan is None:
+            raise _refuse("--what-if needs a plan: give --budget or save a budget with the audit")
+        what_if = _what_if(assessment, plan)
     contact = ContactBlock.from_text(args.contact) if args.contact else ContactBlock()
     try:
         if fmt == "pdf":
             written = [write_audit(assessment, plan, args.output, top_n=args.top,
-                                   options=ReportOptions(issuer=contact, comparison=comparison),
+                                   options=ReportOptions(issuer=contact, comparison=comparison,
+                                                         what_if=what_if),
                                    photo_root=Path(args.file).parent)]
         else:
             written = export_results(
@@ -601,6 +619,18 @@ def _cmd_fixes(args: argparse.Namespace) -> int:
         _say(f"{r.opening_id}  {r.control_id}  {fix_status_label(r.status.value)}"
              f"{'  ' + r.date if r.date else ''}{'  ' + r.note if r.note else ''}")
     return EXIT_OK
+
+
+def _what_if(assessment: Assessment, plan: Plan) -> Comparison:
+    """This audit compared with its building after ``plan`` (same cats)."""
+    from petfall_audit.compare import compare_assessments
+    from petfall_audit.fix_tracking import apply_plan
+    from petfall_audit.risk import assess
+
+    after, _ = apply_plan(assessment.building, plan)
+    return compare_assessments(assessment, assess(after, samples=assessment.samples,
+                                                  seed=assessment.seed,
+                                                  progress=_stderr_progress("what-if")))
 
 
 def _cmd_batch(args: argparse.Namespace) -> int:
@@ -966,6 +996,9 @@ def _build_parser() -> argparse.ArgumentParser:
     _add_sampling_options(p)
     p.add_argument("--controls", default=None, metavar="FILE",
                    help="control catalogue (.json; default: the shipped catalogue)")
+    p.add_argument("--write-after", default=None, metavar="AFTER.json",
+                   help="also write a copy of the building with the plan's fixes fitted (a "
+                        "what-if; FILE is left as it is), e.g. to compare FILE AFTER.json")
     p.set_defaults(handler=_cmd_plan)
 
     p = sub.add_parser(
@@ -1046,6 +1079,9 @@ def _build_parser() -> argparse.ArgumentParser:
     p.add_argument("--rename", action="append", metavar="OLD=NEW",
                    help="with --earlier: pair the earlier opening OLD with the later opening "
                         "NEW (repeatable)")
+    p.add_argument("--what-if", action="store_true",
+                   help="add the section \"After the plan (what-if)\": the building with the "
+                        "plan's fixes fitted, opening by opening")
     p.set_defaults(handler=_cmd_report)
 
     p = sub.add_parser(

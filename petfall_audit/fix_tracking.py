@@ -20,7 +20,8 @@ from petfall_audit.fixes import Catalogue, Option, load_catalogue
 from petfall_audit.model import FIX_STATUSES_IN_PLACE, Building, FixRecord, FixStatus, Opening
 from petfall_audit.plan import Plan
 
-__all__ = ["NotApplied", "record_plan", "set_fix_status", "latest_records", "apply_fitted"]
+__all__ = ["NotApplied", "record_plan", "set_fix_status", "latest_records", "apply_fitted",
+           "apply_plan"]
 
 
 @dataclass(frozen=True, slots=True)
@@ -97,3 +98,29 @@ def apply_fitted(building: Building, catalogue: Catalogue | None = None
         i = index[r.opening_id]
         openings[i] = control.apply(openings[i])
     return dataclasses.replace(building, openings=tuple(openings)), tuple(skipped)
+
+
+def apply_plan(building: Building, plan: Plan | Iterable[Option],
+               catalogue: Catalogue | None = None) -> tuple[Building, tuple[Option, ...]]:
+    """A what-if: a copy of ``building`` with every action of the plan fitted (the control's
+    effect written into its opening), and the actions it leaves out: those that change no field
+    (tenant guidance) or that rely on people keeping to them (adherence below 1), whose effect
+    an opening's fields cannot show. ``building`` itself is not changed."""
+    cat = load_catalogue() if catalogue is None else catalogue
+    actions = plan.actions if isinstance(plan, Plan) else tuple(plan)
+    index = {o.id: i for i, o in enumerate(building.openings)}
+    openings: list[Opening] = list(building.openings)
+    left: list[Option] = []
+    for a in actions:
+        try:
+            control = cat.control(a.control_id)
+        except KeyError:
+            left.append(a)
+            continue
+        if (a.opening_id not in index or not control.effect or control.adherence < 1.0
+                or control.likelihood_multiplier != 1.0):
+            left.append(a)
+            continue
+        i = index[a.opening_id]
+        openings[i] = control.apply(openings[i])
+    return dataclasses.replace(building, openings=tuple(openings)), tuple(left)

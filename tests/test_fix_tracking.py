@@ -178,3 +178,38 @@ def test_cli_fixes_records_sets_lists_and_applies(tmp_path: Path,
                 ["--set", "B-2", "no_such", "fitted"],
                 ["--apply-fitted"], ["--date", "2025-13-01"]):
         assert main(["fixes", str(path), *bad]) == 2, bad
+
+
+def test_what_if_copy_has_the_risk_the_plan_promised() -> None:
+    from petfall_audit.fix_tracking import apply_plan
+
+    b = earlier_building()
+    a = assess(b, samples=SAMPLES, seed=SEED)
+    plan = make_plan(a, 3000.0)
+    after, left = apply_plan(b, plan)
+    assert after is not b and b == earlier_building()  # the real building is untouched
+    # independent route: the copy assessed in full (physics and all) against the plan's
+    # likelihood-only estimate; fixes that an opening's fields cannot show are added back
+    full = float(sum(o.risk for o in assess(after, samples=SAMPLES, seed=SEED).openings))
+    assert full == pytest.approx(plan.risk_after + sum(x.risk_removed for x in left),
+                                 rel=1e-9)
+    assert {x.opening_id for x in plan.actions} - {x.opening_id for x in left} <= {
+        o.id for o, p in zip(after.openings, b.openings, strict=True) if o != p}
+
+
+def test_cli_what_if_section_and_copy(tmp_path: Path, capsys: pytest.CaptureFixture[str]
+                                      ) -> None:
+    from pypdf import PdfReader
+
+    path, after, pdf = tmp_path / "b.json", tmp_path / "after.json", tmp_path / "w.pdf"
+    save_building(earlier_building(), path)
+    before_text = path.read_text(encoding="utf-8")
+    assert main(["plan", str(path), "--budget", "3000", "--write-after", str(after),
+                 "--samples", str(SAMPLES), "--seed", str(SEED)]) == 0
+    assert path.read_text(encoding="utf-8") == before_text
+    assert load_building(after).opening("B-2").netting_mesh_mm is not None
+    assert main(["report", str(path), "--budget", "3000", "--what-if", "-o", str(pdf),
+                 "--samples", str(SAMPLES), "--seed", str(SEED)]) == 0
+    text = " ".join(" ".join(p.extract_text() or "" for p in PdfReader(pdf).pages).split())
+    assert "After the plan (what-if)" in text and "Openings the plan improves" in text
+    assert main(["report", str(path), "--what-if", "-o", str(pdf)]) == 2

@@ -42,13 +42,14 @@ METHOD = (
 )
 
 
-def _rounded(x: float | None) -> float | None:
-    return None if x is None else round_significant(x)
+def _rounded(x: float | None, exact: bool = False) -> float | None:
+    return x if exact or x is None else round_significant(x)
 
 
-def fmt_exported_risk(x: float | None) -> str:
-    """A risk score as the JSON export gives it (4 significant digits), formatted."""
-    return fmt_risk(_rounded(x))
+def fmt_exported_risk(x: float | None, exact: bool = False) -> str:
+    """A risk score as the JSON export gives it (4 significant digits), formatted; ``exact``:
+    as computed (to read beside the fix plan's own numbers)."""
+    return fmt_risk(_rounded(x, exact))
 
 
 @dataclass(frozen=True, slots=True)
@@ -88,11 +89,11 @@ def _band_move(o: OpeningComparison) -> str:
     return b if a == b else f"{b} → {a}"
 
 
-def _row(o: OpeningComparison, system: str) -> ComparisonRow:
+def _row(o: OpeningComparison, system: str, exact: bool) -> ComparisonRow:
     side = o.after if o.after is not None else o.before
     assert side is not None
-    change = _rounded(o.risk_change)
-    by_fix = _rounded(o.removed_by_fixes) or 0.0
+    change = _rounded(o.risk_change, exact)
+    by_fix = _rounded(o.removed_by_fixes, exact) or 0.0
     return ComparisonRow(
         id=o.id,
         earlier_id=o.earlier_id,
@@ -105,8 +106,8 @@ def _row(o: OpeningComparison, system: str) -> ComparisonRow:
         band_before=None if o.before is None else o.before.expected_band,
         band_after=None if o.after is None else o.after.expected_band,
         band_text=_band_move(o),
-        risk_before_text=fmt_exported_risk(o.risk_before),
-        risk_after_text=fmt_exported_risk(o.risk_after),
+        risk_before_text=fmt_exported_risk(o.risk_before, exact),
+        risk_after_text=fmt_exported_risk(o.risk_after, exact),
         change_text=fmt_risk_change(change),
         by_fixes_text=fmt_risk(by_fix) if by_fix else "",
         likelihood_before_text="" if o.before is None else fmt_one_in(o.before.one_in_n),
@@ -118,34 +119,53 @@ def _row(o: OpeningComparison, system: str) -> ComparisonRow:
     )
 
 
-def comparison_rows(c: Comparison, system: str = "metric") -> list[ComparisonRow]:
+def comparison_rows(c: Comparison, system: str = "metric", *, exact: bool = False
+                    ) -> list[ComparisonRow]:
     """Every compared opening, worst change first (the largest rise of risk, then the smallest
-    fall; unchanged openings last), ties by id."""
+    fall; unchanged openings last), ties by id. ``exact``: numbers as computed, not as the JSON
+    rounds them."""
     order = {"unchanged": 1}
     ranked = sorted(c.openings, key=lambda o: (order.get(o.status, 0), -o.risk_change, o.id))
-    return [_row(o, system) for o in ranked]
+    return [_row(o, system, exact) for o in ranked]
 
 
-def summary_lines(c: Comparison) -> list[str]:
-    """The totals in sentences."""
+def summary_lines(c: Comparison, *, what_if: bool = False) -> list[str]:
+    """The totals in sentences; ``what_if``: the later side is the building with the plan's
+    fixes fitted (a what-if), not a later audit, and the numbers are as computed (to read
+    beside the fix plan's)."""
     e, la = c.earlier.building.info, c.later.building.info
-    removed = _rounded(c.risk_removed) or 0.0
+    exact = what_if
+
+    def risk(x: float | None) -> str:
+        return fmt_exported_risk(x, exact)
+
+    removed = _rounded(c.risk_removed, exact) or 0.0
     share = _rounded(c.share_removed)
-    return [
-        f"Earlier audit: {e.name}, {fmt_date(e.audit_date)}; later audit: {la.name}, "
-        f"{fmt_date(la.audit_date)}. Both assessed with {fmt_count(c.samples, 'sampled cat')} "
-        f"(seed {c.seed}).",
-        f"Summed risk score: {fmt_exported_risk(c.risk_before)} before, "
-        f"{fmt_exported_risk(c.risk_after)} after ({fmt_risk_change(-removed)}, "
+    cats = f"{fmt_count(c.samples, 'sampled cat')} (seed {c.seed})"
+    if what_if:
+        first = (f"{e.name} as audited on {fmt_date(e.audit_date)}, and the same building with "
+                 f"the plan's fixes fitted (a what-if), both assessed with {cats}.")
+        fixes = (f"Removed by the plan's fixes: {risk(c.removed_by_fixes)} "
+                 f"({fmt_percent(_rounded(c.share_by_fixes))} of the risk).")
+    else:
+        first = (f"Earlier audit: {e.name}, {fmt_date(e.audit_date)}; later audit: {la.name}, "
+                 f"{fmt_date(la.audit_date)}. Both assessed with {cats}.")
+        fixes = (f"Removed by barriers fitted since: {risk(c.removed_by_fixes)} "
+                 f"({fmt_percent(_rounded(c.share_by_fixes))} of the earlier risk); by every "
+                 f"other change: {risk(c.removed_by_other)} "
+                 f"({fmt_percent(_rounded(c.share_by_other))}).")
+    lines = [
+        first,
+        f"Summed risk score: {risk(c.risk_before)} before, "
+        f"{risk(c.risk_after)} after ({fmt_risk_change(-removed)}, "
         f"{fmt_percent(abs(share or 0.0))} {'less' if removed >= 0 else 'more'}).",
-        f"Removed by barriers fitted since: {fmt_exported_risk(c.removed_by_fixes)} "
-        f"({fmt_percent(_rounded(c.share_by_fixes))} of the earlier risk); by every other "
-        f"change: {fmt_exported_risk(c.removed_by_other)} "
-        f"({fmt_percent(_rounded(c.share_by_other))}).",
-        "Openings: " + ", ".join(
-            fmt_count(len(c.with_status(s)), status_label(s).lower(), status_label(s).lower())
-            for s in ("changed", "added", "removed", "unchanged")) + ".",
+        fixes,
     ]
+    if not what_if:
+        lines.append("Openings: " + ", ".join(
+            fmt_count(len(c.with_status(s)), status_label(s).lower(), status_label(s).lower())
+            for s in ("changed", "added", "removed", "unchanged")) + ".")
+    return lines
 
 
 def building_change_lines(c: Comparison, system: str = "metric") -> list[str]:

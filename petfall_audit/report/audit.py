@@ -50,6 +50,8 @@ def audit_story(assessment: Assessment, plan: Plan | None, ctx: AuditContext,
     story += sec.build_ranked_table(ctx, st, wide_width or width, pal)
     story += sec.build_details(ctx, profiles, st, width, pal)
     story += sec.build_plan(ctx, st, width)
+    if options.what_if is not None:
+        story += build_since(options.what_if, st, width, what_if=True)
     story += sec.build_cautions(ctx, st)
     story += sec.build_notes_appendix(ctx, st)
     story += sec.build_signoff(ctx, st, width)

@@ -138,6 +138,9 @@ class ReportOptions:
     #: This audit compared with an earlier one (:func:`petfall_audit.compare.compare_assessments`,
     #: the later side this audit): adds the section "Since the earlier audit".
     comparison: Comparison | None = None
+    #: This audit compared with its building after the plan (a what-if, the later side):
+    #: adds the section "After the plan (what-if)".
+    what_if: Comparison | None = None
 
 
 # --- formatting ---------------------------------------------------------------------------------

@@ -21,9 +21,16 @@ from petfall_audit.present.comparison import (
 from petfall_audit.report.fonts import markup
 from petfall_audit.report.styles import HEADER_FILL, RULE, Styles
 
-__all__ = ["SINCE_TITLE", "build_since"]
+__all__ = ["SINCE_TITLE", "WHAT_IF_TITLE", "build_since"]
 
 SINCE_TITLE = "Since the earlier audit"
+WHAT_IF_TITLE = "After the plan (what-if)"
+#: Said under the what-if's title.
+WHAT_IF_NOTE = (
+    "What the building would be with the plan's fixes fitted, assessed with the same simulated "
+    "cats as this audit. Fixes that rely on people (tenant guidance, keeping a window shut) "
+    "are not shown here: an opening's fields cannot show them. Nothing has been fitted yet."
+)
 _GRID = [
     ("GRID", (0, 0), (-1, -1), 0.3, RULE),
     ("VALIGN", (0, 0), (-1, -1), "TOP"),
@@ -68,11 +75,17 @@ def _control_names() -> dict[str, str]:
         return {}
 
 
-def build_since(c: Comparison, st: Styles, width: float) -> list[Flowable]:
-    """The section's flowables."""
-    rows = comparison_rows(c)
-    out: list[Flowable] = [CondPageBreak(120), _p(SINCE_TITLE, st.h1)]
-    out += [Paragraph(markup(s), st.bullet, bulletText="•") for s in summary_lines(c)]
+def build_since(c: Comparison, st: Styles, width: float, *, what_if: bool = False
+                ) -> list[Flowable]:
+    """The section's flowables; ``what_if``: the section "After the plan (what-if)" (``c``
+    compares this audit with its building after the plan)."""
+    rows = comparison_rows(c, exact=what_if)
+    out: list[Flowable] = [CondPageBreak(120), _p(WHAT_IF_TITLE if what_if else SINCE_TITLE,
+                                                  st.h1)]
+    if what_if:
+        out.append(_p(WHAT_IF_NOTE, st.body))
+    out += [Paragraph(markup(s), st.bullet, bulletText="•")
+            for s in summary_lines(c, what_if=what_if)]
     matched = [r for r in rows if r.status == "changed"]
     worse = [r for r in matched if r.risk_change > 0]
     better = sorted((r for r in matched if r.risk_change <= 0), key=lambda r: (r.risk_change,
@@ -85,13 +98,17 @@ def build_since(c: Comparison, st: Styles, width: float) -> list[Flowable]:
         return (r.id, r.band_text, r.risk_before_text, r.risk_after_text, r.change_text,
                 r.by_fixes_text or "–", _what(r))
 
-    for title, group, empty in (
-        ("Openings that got worse", worse, "No opening got worse."),
-        ("Openings that got better", better, "No opening got better."),
-    ):
+    groups = [("Openings that got worse", worse, "No opening got worse."),
+              ("Openings that got better", better, "No opening got better.")]
+    if what_if:
+        groups = [("Openings the plan improves", better, "The plan improves no opening.")]
+        head = (*head[:6], "What the fix changes")
+    for title, group, empty in groups:
         out.append(_p(title, st.h2))
         out.append(_table(group, head, changed, fracs, st, width) if group
                    else _p(empty, st.body))
+    if what_if:
+        return out
     added = [r for r in rows if r.status == "added"]
     removed = [r for r in rows if r.status == "removed"]
     side_head = ("Opening", "Floor", "Kind", "Expected band", "Risk score", "Likelihood")
