@@ -149,3 +149,34 @@ def test_fix_status_is_recorded_from_the_plan_and_undone(compared, qtbot) -> Non
     assert plan_view.chosen.item(0, 5).text() == "Fitted, 2026-06-01"
     window.history.undo()
     assert window.document.building.fixes == recorded
+
+
+def test_what_if_shows_the_plan_and_touches_nothing_until_accepted(compared, qtbot) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.fix_tracking import apply_plan
+    from petfall_audit.risk import assess
+
+    window, views, view, _ = compared
+    plan_view = views.plan
+    with qtbot.waitSignal(plan_view.plan_ready, timeout=20000,
+                          check_params_cb=lambda p: p.budget == 3000):
+        plan_view.set_budget(3000)
+    plan = plan_view.plan
+    assert plan.actions
+    before = window.document.building
+    with qtbot.waitSignal(view.compared, timeout=20000):
+        plan_view.what_if_button.click()
+    assert window.view_tabs.currentWidget() is view and view.mode == "what_if"
+    assert window.document.building is before  # a copy, the document is untouched
+    # independent route: the copy assessed in full with the app's cats
+    a = views.context.assessment
+    after, _ = apply_plan(a.building, plan.actions, plan_view.catalogue)
+    full = assess(after, samples=a.samples, seed=a.seed)
+    assert view.comparison.risk_after == pytest.approx(sum(o.risk for o in full.openings),
+                                                       rel=1e-12)
+    assert set(view.visible_ids()) <= {x.opening_id for x in plan.actions}
+    assert view.accept_button.isVisible()
+    assert view.accept_what_if() is None
+    fitted = window.document.building
+    assert fitted.openings == after.openings
+    window.history.undo()
+    assert window.document.building.openings == before.openings

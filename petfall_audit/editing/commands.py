@@ -61,6 +61,7 @@ __all__ = [
     "SetPlanSettings",
     "SetFixStatus",
     "RecordFixes",
+    "FitPlanFixes",
     "ReplaceBuilding",
     "DEFAULT_ID_PATTERN",
     "FACADE_LEVEL_PATTERN",
@@ -787,6 +788,21 @@ class RecordFixes(BuildingCommand):
         from petfall_audit.fix_tracking import record_plan
 
         return record_plan(building, self.actions, date=self.date)
+
+
+class FitPlanFixes(BuildingCommand):
+    """Fit every fix of a plan at once (the control's effect written into its opening; fixes
+    that rely on people change no field): a what-if accepted."""
+
+    def __init__(self, actions: Sequence[Any], catalogue: Any = None) -> None:
+        self.actions = tuple(actions)
+        self.catalogue = catalogue
+        super().__init__("Fit the plan's fixes")
+
+    def apply(self, building: Building) -> Building:
+        from petfall_audit.fix_tracking import apply_plan
+
+        return apply_plan(building, self.actions, self.catalogue)[0]
 
 
 class ReplaceBuilding(BuildingCommand):

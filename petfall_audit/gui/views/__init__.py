@@ -142,6 +142,9 @@ def install_views(window: Any, *, export_prompts: Any = None, import_prompts: An
                                              compare), strict=True):
         window.add_view(name, widget)
     sync = _EditorSync(window, context)
+    plan.what_if_button.clicked.connect(lambda _c=False: (  # the plan's what-if, beside
+        compare.show_what_if(plan.plan, plan.catalogue),
+        window.view_tabs.setCurrentWidget(compare)))
 
     def on_results(assessment: Any) -> None:
         sync.attach()

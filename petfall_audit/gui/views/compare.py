@@ -87,6 +87,11 @@ class CompareView(QWidget):
         self.comparison: Any = None
         self.rows: list[ComparisonRow] = []
         self._task: Task | None = None
+        self.mode = "earlier"  # or "what_if": this audit against its building after a plan
+        self.what_if_actions: tuple[Any, ...] = ()
+        self.what_if_catalogue: Any = None
+        self.what_if_left: tuple[Any, ...] = ()
+        self.what_if_plan: Any = None
 
         self.open_button = QPushButton("&Open earlier audit…")
         self.open_button.setObjectName("open_earlier_compare")
@@ -103,9 +108,21 @@ class CompareView(QWidget):
         self.search.setObjectName("compare_search")
         self.search.setPlaceholderText("Opening id contains…")
         self.search.setClearButtonEnabled(True)
+        self.accept_button = QPushButton("&Fit the plan's fixes")
+        self.accept_button.setObjectName("accept_what_if")
+        self.accept_button.setToolTip("Write the plan's fixes into the openings of this "
+                                      "building (undo with Ctrl+Z)")
+        self.accept_button.clicked.connect(lambda _c=False: self.accept_what_if())
+        self.close_button = QPushButton("&Close the what-if")
+        self.close_button.setObjectName("close_what_if")
+        self.close_button.clicked.connect(lambda _c=False: self.close_what_if())
+        for b in (self.accept_button, self.close_button):
+            b.hide()
         bar = QHBoxLayout()
         bar.setContentsMargins(0, 0, 0, 0)
         bar.addWidget(self.open_button)
+        bar.addWidget(self.accept_button)
+        bar.addWidget(self.close_button)
         bar.addWidget(show)
         bar.addWidget(self.filter_box)
         bar.addWidget(self.search, 1)
@@ -198,7 +215,79 @@ class CompareView(QWidget):
             return None
         self.earlier_building, self.earlier_name = building, Path(path).name
         self.earlier = None
+        self._set_mode("earlier")
         return self._assess_earlier()
+
+    def show_what_if(self, plan: Any, catalogue: Any = None) -> Task | None:
+        """Compare this audit with a copy of its building with ``plan``'s fixes fitted (the
+        document is not touched unless :meth:`accept_what_if`); ``compared`` when done."""
+        self.what_if_actions = tuple(getattr(plan, "actions", plan) or ())
+        self.what_if_catalogue = catalogue
+        self.what_if_plan = plan if hasattr(plan, "risk_removed") else None
+        self._set_mode("what_if")
+        return self._start_what_if()
+
+    def accept_what_if(self) -> str | None:
+        """Fit the what-if's fixes to the document (one undoable step); the refusal reason or
+        ``None``."""
+        from petfall_audit.editing.commands import FitPlanFixes
+
+        if self.mode != "what_if" or not self.what_if_actions:
+            return "there is no what-if to accept"
+        reason = self._ctx.push(FitPlanFixes(self.what_if_actions, self.what_if_catalogue))
+        if reason is None:
+            self.close_what_if()
+        return reason
+
+    def close_what_if(self) -> None:
+        self.what_if_actions = ()
+        self._set_mode("earlier")
+        self.comparison, self.rows = None, []
+        self.table.setRowCount(0)
+        if self.earlier is not None:
+            self._compare()
+        else:
+            self.summary.setText("Open an earlier building file to see what changed since "
+                                 "that audit; it is assessed with the same simulated cats as "
+                                 "this one.")
+            self.note.setText("")
+            self.pages.setCurrentIndex(0)
+
+    def _set_mode(self, mode: str) -> None:
+        self.mode = mode
+        what_if = mode == "what_if"
+        self.accept_button.setVisible(what_if)
+        self.close_button.setVisible(what_if)
+        self.pages.setTabText(0, "&Openings the plan improves" if what_if
+                              else "&Openings that changed")
+
+    def _start_what_if(self) -> Task | None:
+        from petfall_audit.fix_tracking import apply_plan
+
+        current = self._ctx.assessment
+        if current is None or not self.what_if_actions:
+            self.summary.setText("No plan to try: the fix plan has no fixes yet.")
+            return None
+        after, self.what_if_left = apply_plan(current.building, self.what_if_actions,
+                                              self.what_if_catalogue)
+        samples, seed = current.samples, current.seed
+        assess_fn = self._ctx.window.recomputer.assess
+        self.summary.setText("Assessing the building after the plan with the same simulated "
+                             "cats…")
+        if self._task is not None:
+            self._task.cancel()
+        self._task = run_task(lambda: assess_fn(after, samples=samples, seed=seed), parent=self)
+        self._task.finished.connect(lambda a, base=current: self._on_what_if(base, a))
+        self._task.failed.connect(
+            lambda m: self.summary.setText(f"The what-if could not be assessed: {m}"))
+        return self._task
+
+    def _on_what_if(self, base: Any, after: Any) -> None:
+        from petfall_audit.compare import compare_assessments
+
+        if self.mode != "what_if" or base is not self._ctx.assessment:
+            return  # closed, or newer results: a newer what-if follows
+        self._show(compare_assessments(base, after), what_if=True)
 
     # --- handlers --------------------------------------------------------------------------------
 
@@ -220,9 +309,13 @@ class CompareView(QWidget):
 
     def _on_earlier(self, assessment: Any) -> None:
         self.earlier = assessment
-        self._compare()
+        if self.mode == "earlier":
+            self._compare()
 
     def _on_assessment(self, assessment: Any) -> None:
+        if self.mode == "what_if" and assessment is not None:
+            self._start_what_if()
+            return
         if self.earlier_building is None or assessment is None:
             return
         e = self.earlier
@@ -233,12 +326,6 @@ class CompareView(QWidget):
 
     def _compare(self) -> None:
         from petfall_audit.compare import compare_assessments
-        from petfall_audit.present.comparison import (
-            METHOD,
-            building_change_lines,
-            comparison_rows,
-            summary_lines,
-        )
 
         current = self._ctx.assessment
         if self.earlier is None or current is None:
@@ -248,17 +335,48 @@ class CompareView(QWidget):
         except ValueError:  # newer results with other cats are on their way
             self._assess_earlier()
             return
+        self._show(c, what_if=False)
+
+    def _show(self, c: Any, *, what_if: bool) -> None:
+        from petfall_audit.present.comparison import (
+            METHOD,
+            building_change_lines,
+            comparison_rows,
+            summary_lines,
+        )
+
         self.comparison = c
-        self.rows = comparison_rows(c, self._ctx.options.units)
-        self.summary.setText("\n".join(summary_lines(c)))
-        self.summary.setToolTip(f"Compared with {self.earlier_name}. {METHOD}")
-        building = building_change_lines(c, self._ctx.options.units)
-        self.note.setText("Changed in the building: " + "; ".join(building) + "."
-                          if building else "")
+        self.rows = comparison_rows(c, self._ctx.options.units, exact=what_if)
+        self.summary.setText("\n".join(summary_lines(c, what_if=what_if)))
+        if what_if:
+            self.summary.setToolTip("A copy of this building with the plan's fixes fitted, "
+                                    "assessed with the same simulated cats; nothing is fitted "
+                                    "until you accept it.")
+            from petfall_audit.present import fmt_count, fmt_percent, fmt_risk
+
+            left, p = len(self.what_if_left), self.what_if_plan
+            text = "Nothing is changed until you choose Fit the plan's fixes."
+            if left:
+                text += (f" {fmt_count(left, 'fix', 'fixes')} of the plan rely on people or "
+                         "change no field of an opening (keeping a window shut, tenant "
+                         "guidance) and are not shown here")
+                if p is not None and p.risk_before > 0:
+                    text += (f"; with them the plan's estimate is {fmt_risk(p.risk_after)} "
+                             f"({fmt_percent(p.risk_removed / p.risk_before)} less)")
+                text += "."
+            self.note.setText(text)
+            self.before_title.setText("As audited")
+            self.after_title.setText("After the plan (what-if)")
+        else:
+            self.summary.setToolTip(f"Compared with {self.earlier_name}. {METHOD}")
+            building = building_change_lines(c, self._ctx.options.units)
+            self.note.setText("Changed in the building: " + "; ".join(building) + "."
+                              if building else "")
+            self.before_title.setText(f"Earlier audit: {self.earlier_name}")
+            self.after_title.setText("This audit")
         self._fill()
-        self.before_title.setText(f"Earlier audit: {self.earlier_name}")
-        self.before_context.set_assessment(self.earlier)
-        self.after_context.set_assessment(current)
+        self.before_context.set_assessment(c.earlier)
+        self.after_context.set_assessment(c.later)
         self.compared.emit(c)
 
     def _same_facade(self, source: FacadeView, other: FacadeView) -> None:

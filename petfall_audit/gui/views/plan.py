@@ -125,6 +125,11 @@ class PlanView(QWidget):
         self.progress.setMaximumWidth(140)
         self.progress.setTextVisible(False)
         self.progress.hide()
+        self.what_if_button = QPushButton("&What if…")
+        self.what_if_button.setObjectName("what_if_button")
+        self.what_if_button.setToolTip("Show the building with every fix of this plan fitted, "
+                                       "beside the building as audited (nothing is changed "
+                                       "until you accept it)")
         top = QHBoxLayout()
         top.setContentsMargins(0, 0, 0, 0)
         self.budget_note = QLabel()
@@ -134,6 +139,7 @@ class PlanView(QWidget):
         top.addWidget(self.budget_note)
         top.addWidget(self.summary, 1)
         top.addWidget(self.progress)
+        top.addWidget(self.what_if_button)
 
         self.chosen = QTableWidget(0, 6)
         self.chosen.setObjectName("plan_table")
