@@ -525,8 +525,8 @@ def _renames(pairs: Sequence[str] | None) -> dict[str, str]:
 def _cmd_compare(args: argparse.Namespace) -> int:
     from petfall_audit.compare import compare_buildings
     from petfall_audit.io.compare_export import (
+        comparison_json_text,
         comparison_to_csv,
-        comparison_to_dict,
         comparison_to_table,
     )
     from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
@@ -546,7 +546,7 @@ def _cmd_compare(args: argparse.Namespace) -> int:
     except ValueError as exc:
         raise _refuse(str(exc)) from None
     if args.format == "json":
-        text = _dumps(comparison_to_dict(comparison))
+        text = comparison_json_text(comparison)
     elif args.format == "csv":
         text = comparison_to_csv(comparison)
     else:

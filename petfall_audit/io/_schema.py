@@ -170,8 +170,10 @@ FixStatusName = Literal["recommended", "approved", "fitted", "checked", "decline
 class FixRecordModel(_Strict):
     """One item of "fixes": a recommended fix and what became of it."""
 
-    opening: _Id = Field(description="Id of the opening the fix is for.")
-    control: _Id = Field(description="Id of the control in the control catalogue.")
+    opening: str = Field(min_length=1, max_length=_L.id_max_chars,
+                         description="Id of the opening the fix is for.")
+    control: str = Field(min_length=1, max_length=_L.id_max_chars,
+                         description="Id of the control in the control catalogue.")
     status: FixStatusName = Field(
         default="recommended",
         description="recommended, approved, fitted, checked (fitted and checked on site) or "
@@ -179,7 +181,8 @@ class FixRecordModel(_Strict):
     )
     date: str = Field(default="", pattern=r"^(\d{4}-\d{2}-\d{2})?$",
                       description="Date of the status, YYYY-MM-DD, or empty.")
-    note: _Notes = Field(default="", description="Free note (who approved it, the fitter...).")
+    note: str = Field(default="", max_length=_L.notes_max_chars,
+                      description="Free note (who approved it, the fitter...).")
 
     @field_validator("date")
     @classmethod

@@ -37,6 +37,7 @@ from petfall_audit.present.comparison import (
 from petfall_audit.risk import OpeningResult
 
 __all__ = ["COMPARISON_FORMAT", "COMPARISON_VERSION", "METHOD", "comparison_to_dict",
+           "comparison_json_text",
            "comparison_to_csv", "comparison_to_table", "CSV_COLUMNS"]
 
 COMPARISON_FORMAT = "petfall-audit-comparison"
@@ -145,6 +146,15 @@ def comparison_to_dict(c: Comparison) -> dict[str, Any]:
         "openings": [_opening(o) for o in c.openings],
         "cautions": list(CAUTIONS),
     }
+
+
+def comparison_json_text(c: Comparison) -> str:
+    """:func:`comparison_to_dict` as indented UTF-8 JSON text ending in a newline (written like
+    the results envelope of :mod:`petfall_audit.io.results_envelope`; the comparison keeps its
+    own top-level keys, ``openings``, ``risk_before`` and ``risk_after``)."""
+    import json
+
+    return json.dumps(comparison_to_dict(c), indent=2, ensure_ascii=False) + "\n"
 
 
 def comparison_to_csv(c: Comparison) -> str:
