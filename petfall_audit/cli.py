@@ -27,7 +27,9 @@ from petfall_audit.errors import (
 
 if TYPE_CHECKING:
     from petfall_audit.batch import BuildingOutcome
+    from petfall_audit.compare import Comparison
     from petfall_audit.model import Building
+    from petfall_audit.plan import Plan
     from petfall_audit.report.leaflet_sections import LeafletChoice
     from petfall_audit.risk import Assessment
 
@@ -139,10 +141,13 @@ def _assess(args: argparse.Namespace, building: Building, *, sensitivity: bool =
     _check_sampling(args, building)
     # risk.assess exactly; nothing the commands write needs every fall, so none is kept (no
     # copy of the (openings, samples) arrays; the sensitivity simulates what it reports)
+    saved = building.plan  # the samples and seed saved with the plan, unless given
+    samples = args.samples if args.samples is not None else saved.samples
+    seed = args.seed if args.seed is not None else saved.seed
     assessment = assess_deduplicated(
         building,
-        samples=DEFAULT_SAMPLES if args.samples is None else args.samples,
-        seed=DEFAULT_SEED if args.seed is None else args.seed,
+        samples=DEFAULT_SAMPLES if samples is None else samples,
+        seed=DEFAULT_SEED if seed is None else seed,
         progress=_stderr_progress(label),
     )
     return with_sensitivity(assessment) if sensitivity else assessment
@@ -349,6 +354,7 @@ def _cmd_plan(args: argparse.Namespace) -> int:
     if args.budget is not None and (not math.isfinite(args.budget) or args.budget < 0):
         raise _refuse("--budget must be an amount of 0 or more")
     _check_output(args.output)
+    _check_output(args.write_after)
     _check_sampling(args)
     building = _load(args.file)
     budget = _budget_of(args, building)
@@ -362,6 +368,15 @@ def _cmd_plan(args: argparse.Namespace) -> int:
     except OSError as exc:
         raise _refuse(f"{args.controls}: {exc.strerror or exc}") from None
     plan = make_plan(_assess(args, building), budget, catalogue=catalogue)
+    if args.write_after:
+        from petfall_audit.fix_tracking import apply_plan
+        from petfall_audit.io.building_file import save_building
+
+        after, left = apply_plan(building, plan, catalogue)
+        save_building(after, args.write_after)
+        _say(f"wrote {args.write_after}: the building with the plan's fixes fitted (a what-if"
+             + (f"; {_count(left, 'fix')} that relies on people or changes no field left out)"
+                if left else ")"), file=sys.stderr)
     if args.format == "json":
         text = results_json_text(plan=plan)
     elif args.format == "csv":
@@ -396,16 +411,37 @@ def _cmd_report(args: argparse.Namespace) -> int:
     _check_output(args.leaflet)
     if (args.leaflet_omit or args.leaflet_text) and not args.leaflet:
         raise _refuse("--leaflet-omit and --leaflet-text shape the leaflet: add --leaflet PDF")
+    renamed = _renames(args.rename)
+    if renamed and not args.earlier:
+        raise _refuse("--rename needs --earlier")
     building = _load(args.file)
+    earlier = _load(args.earlier) if args.earlier else None
     choice = _leaflet_choice(args, building) if args.leaflet else None  # before the long work
     assessment = _assess(args, building)
+    comparison = None
+    if earlier is not None:
+        from petfall_audit.compare import compare_assessments
+
+        try:
+            same_cats = argparse.Namespace(samples=assessment.samples, seed=assessment.seed)
+            comparison = compare_assessments(
+                _assess(same_cats, earlier, label="assessing the earlier audit"), assessment,
+                renamed=renamed)
+        except ValueError as exc:
+            raise _refuse(str(exc)) from None
     budget = _budget_of(args, building)
     plan = make_plan(assessment, budget) if budget is not None else None
+    what_if = None
+    if args.what_if:
+        if plan is None:
+            raise _refuse("--what-if needs a plan: give --budget or save a budget with the audit")
+        what_if = _what_if(assessment, plan)
     contact = ContactBlock.from_text(args.contact) if args.contact else ContactBlock()
     try:
         if fmt == "pdf":
             written = [write_audit(assessment, plan, args.output, top_n=args.top,
-                                   options=ReportOptions(issuer=contact),
+                                   options=ReportOptions(issuer=contact, comparison=comparison,
+                                                         what_if=what_if),
                                    photo_root=Path(args.file).parent)]
         else:
             written = export_results(
@@ -473,6 +509,128 @@ def _cmd_leaflet_text(args: argparse.Namespace) -> int:
         atomic_write_text(Path(args.output), text)
         _say(f"wrote {args.output}")
     return EXIT_OK
+
+
+def _renames(pairs: Sequence[str] | None) -> dict[str, str]:
+    """``--rename OLD=NEW`` pairs as a mapping (exit 2 on a malformed pair)."""
+    out: dict[str, str] = {}
+    for pair in pairs or ():
+        old, sep, new = pair.partition("=")
+        if not sep or not old.strip() or not new.strip():
+            raise _refuse(f"--rename {pair!r}: expected EARLIER_ID=LATER_ID")
+        out[old.strip()] = new.strip()
+    return out
+
+
+def _cmd_compare(args: argparse.Namespace) -> int:
+    from petfall_audit.compare import compare_buildings
+    from petfall_audit.io.compare_export import (
+        comparison_json_text,
+        comparison_to_csv,
+        comparison_to_table,
+    )
+    from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
+
+    _check_output(args.output)
+    _check_sampling(args)
+    renamed = _renames(args.rename)
+    earlier = _load(args.earlier)
+    later = _load(args.later)
+    try:
+        comparison = compare_buildings(
+            earlier, later, renamed=renamed,
+            samples=DEFAULT_SAMPLES if args.samples is None else args.samples,
+            seed=DEFAULT_SEED if args.seed is None else args.seed,
+            progress=_stderr_progress("comparing"),
+        )
+    except ValueError as exc:
+        raise _refuse(str(exc)) from None
+    if args.format == "json":
+        text = comparison_json_text(comparison)
+    elif args.format == "csv":
+        text = comparison_to_csv(comparison)
+    else:
+        text = comparison_to_table(comparison)
+    _emit(text, args.output, table=args.format == "table")
+    return EXIT_OK
+
+
+def _cmd_fixes(args: argparse.Namespace) -> int:
+    from petfall_audit.fix_tracking import apply_fitted, record_plan, set_fix_status
+    from petfall_audit.fixes import load_catalogue
+    from petfall_audit.io._schema import is_iso_date
+    from petfall_audit.io.building_file import save_building
+    from petfall_audit.plan import make_plan
+    from petfall_audit.present.changes import fix_status_label
+
+    if args.date and not is_iso_date(args.date):
+        raise _refuse(f"--date {args.date!r}: expected a date written YYYY-MM-DD")
+    if args.apply_fitted and not args.output:
+        raise _refuse("--apply-fitted needs -o NEXT.json (the building as the next audit "
+                      "starts; FILE is left as it is)")
+    _check_output(args.output)
+    building = _load(args.file)
+    try:
+        catalogue = load_catalogue(args.controls)
+    except CatalogueError as exc:
+        _print_problems(exc, args.controls)
+        return EXIT_INVALID
+    except OSError as exc:
+        raise _refuse(f"{args.controls}: {exc.strerror or exc}") from None
+    changed = building
+    if args.record_plan:
+        budget = _budget_of(args, building)
+        if budget is None:
+            raise _refuse(f"{args.file}: no budget is saved with this audit; give one with "
+                          "--budget")
+        plan = make_plan(_assess(args, building), budget, catalogue=catalogue)
+        changed = record_plan(changed, plan, date=args.date or building.info.audit_date)
+        _say(f"{args.file}: {_count(plan.actions, 'fix')} of the plan recorded as recommended")
+    if args.set:
+        from petfall_audit.model import FixStatus
+
+        opening_id, control_id, status = args.set
+        if status not in {x.value for x in FixStatus}:
+            raise _refuse(f"--set: status {status!r} is not one of "
+                          f"{', '.join(x.value for x in FixStatus)}")
+        if opening_id not in {o.id for o in building.openings}:
+            raise _refuse(f"--set: no opening called {opening_id} in {args.file}")
+        if control_id not in {c.id for c in catalogue.controls}:
+            raise _refuse(f"--set: no control called {control_id} in the control catalogue")
+        changed = set_fix_status(changed, opening_id, control_id, status,
+                                 date=args.date or "", note=args.note)
+    if changed is not building:
+        save_building(changed, args.file)
+        _say(f"wrote {args.file}")
+    if args.apply_fitted:
+        from dataclasses import replace
+
+        after, skipped = apply_fitted(changed, catalogue)
+        for s in skipped:
+            _say(f"{args.file}: {s.record.control_id} on {s.record.opening_id} not applied: "
+                 f"{s.reason}", file=sys.stderr)
+        after = replace(after, info=replace(after.info, audit_date=args.date or ""))
+        save_building(after, args.output)
+        _say(f"wrote {args.output}: the fitted fixes are the openings' barriers")
+        return EXIT_OK
+    if not changed.fixes:
+        _say(f"{args.file}: no fixes recorded")
+    for r in changed.fixes:
+        _say(f"{r.opening_id}  {r.control_id}  {fix_status_label(r.status.value)}"
+             f"{'  ' + r.date if r.date else ''}{'  ' + r.note if r.note else ''}")
+    return EXIT_OK
+
+
+def _what_if(assessment: Assessment, plan: Plan) -> Comparison:
+    """This audit compared with its building after ``plan`` (same cats)."""
+    from petfall_audit.compare import compare_assessments
+    from petfall_audit.fix_tracking import apply_plan
+    from petfall_audit.risk import assess
+
+    after, _ = apply_plan(assessment.building, plan)
+    return compare_assessments(assessment, assess(after, samples=assessment.samples,
+                                                  seed=assessment.seed,
+                                                  progress=_stderr_progress("what-if")))
 
 
 def _cmd_batch(args: argparse.Namespace) -> int:
@@ -838,7 +996,56 @@ def _build_parser() -> argparse.ArgumentParser:
     _add_sampling_options(p)
     p.add_argument("--controls", default=None, metavar="FILE",
                    help="control catalogue (.json; default: the shipped catalogue)")
+    p.add_argument("--write-after", default=None, metavar="AFTER.json",
+                   help="also write a copy of the building with the plan's fixes fitted (a "
+                        "what-if; FILE is left as it is), e.g. to compare FILE AFTER.json")
     p.set_defaults(handler=_cmd_plan)
+
+    p = sub.add_parser(
+        "compare",
+        help="compare an earlier audit of a building with a later one, opening by opening",
+        description="Assess EARLIER and LATER with the same sampled cats and list what changed: "
+        "openings added, removed or changed (which fields, old and new), their results before "
+        "and after, and the share of the risk removed by the fixes fitted since and by other "
+        "changes. Indicative model only.",
+    )
+    p.add_argument("earlier", metavar="EARLIER", help="the earlier building file (.json)")
+    p.add_argument("later", metavar="LATER", help="the later building file (.json)")
+    _add_table_output_options(p)
+    _add_sampling_options(p)
+    p.add_argument("--rename", action="append", metavar="OLD=NEW",
+                   help="pair the earlier opening OLD with the later opening NEW (an opening "
+                        "renumbered between the audits; repeatable)")
+    p.set_defaults(handler=_cmd_compare)
+
+    p = sub.add_parser(
+        "fixes",
+        help="record what became of each recommended fix; start the next audit with the "
+             "fitted ones",
+        description="List the fixes recorded in FILE; record the plan's fixes as recommended "
+        "(--record-plan); set one fix's status (--set); or write the building as the next "
+        "audit starts, every fitted or checked fix written into its opening (--apply-fitted "
+        "-o NEXT.json).",
+    )
+    p.add_argument("file", help="building file (.json); --record-plan and --set update it")
+    p.add_argument("--record-plan", action="store_true",
+                   help="record every fix of the plan (saved budget or --budget) as recommended")
+    p.add_argument("--budget", type=float, default=None, metavar="AMOUNT",
+                   help="with --record-plan: the budget (default: the one saved)")
+    p.add_argument("--set", nargs=3, metavar=("OPENING", "CONTROL", "STATUS"),
+                   help="set the status of CONTROL on OPENING: recommended, approved, fitted, "
+                        "checked or declined")
+    p.add_argument("--date", default=None, metavar="YYYY-MM-DD",
+                   help="date of the status (with --apply-fitted: the next audit's date)")
+    p.add_argument("--note", default=None, metavar="TEXT", help="with --set: a note")
+    p.add_argument("--apply-fitted", action="store_true",
+                   help="write the building with its fitted fixes as barriers to -o")
+    p.add_argument("-o", "--output", default=None, metavar="NEXT.json",
+                   help="with --apply-fitted: the building file to write")
+    p.add_argument("--controls", default=None, metavar="FILE",
+                   help="control catalogue (.json; default: the shipped catalogue)")
+    _add_sampling_options(p)
+    p.set_defaults(handler=_cmd_fixes)
 
     p = sub.add_parser(
         "report",
@@ -866,6 +1073,15 @@ def _build_parser() -> argparse.ArgumentParser:
     _add_sampling_options(p)
     p.add_argument("--top", type=int, default=5, metavar="N",
                    help="openings with a detail page (default 5)")
+    p.add_argument("--earlier", default=None, metavar="OLD.json",
+                   help="an earlier audit of the building: adds the section \"Since the "
+                        "earlier audit\" (assessed with the same samples and seed)")
+    p.add_argument("--rename", action="append", metavar="OLD=NEW",
+                   help="with --earlier: pair the earlier opening OLD with the later opening "
+                        "NEW (repeatable)")
+    p.add_argument("--what-if", action="store_true",
+                   help="add the section \"After the plan (what-if)\": the building with the "
+                        "plan's fixes fitted, opening by opening")
     p.set_defaults(handler=_cmd_report)
 
     p = sub.add_parser(

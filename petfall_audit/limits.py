@@ -46,6 +46,9 @@ class Limits:
     photo_path_max_chars: int = 500
     photos_max: int = 20  # photos per opening
     budget_max: float = 1e12  # in the plan's currency: more than any building's fixes cost
+    samples_max: int = 1_000_000  # sampled cats of a saved plan (risk.MAX_SAMPLES or fewer)
+    seed_max: int = 2**63 - 1
+    fixes_max: int = 100_000  # fix records in one file
 
 
 LIMITS = Limits()

@@ -23,6 +23,9 @@ __all__ = [
     "BuildingInfo",
     "Floor",
     "PlanSettings",
+    "FixStatus",
+    "FixRecord",
+    "FIX_STATUSES_IN_PLACE",
     "Facade",
     "Surface",
     "Opening",
@@ -141,10 +144,40 @@ class BuildingInfo:
 class PlanSettings:
     """The fix plan's settings kept with the audit: ``budget`` (``None`` = none set yet: the app
     proposes a default and says so) in ``currency`` (ISO 4217 code; empty = the control
-    catalogue's)."""
+    catalogue's); ``samples`` and ``seed`` of the assessment the plan was made from (``None`` =
+    the defaults), so that the same plan comes out after reopening the file."""
 
     budget: float | None = None
     currency: str = ""
+    samples: int | None = None
+    seed: int | None = None
+
+
+class FixStatus(StrEnum):
+    """Where a recommended fix stands."""
+
+    RECOMMENDED = "recommended"
+    APPROVED = "approved"
+    FITTED = "fitted"
+    CHECKED = "checked"  # fitted, and checked on site
+    DECLINED = "declined"
+
+
+#: Statuses of a fix that is in place on the building.
+FIX_STATUSES_IN_PLACE: frozenset[FixStatus] = frozenset({FixStatus.FITTED, FixStatus.CHECKED})
+
+
+@dataclass(frozen=True, slots=True)
+class FixRecord:
+    """One recommended fix and what became of it: control ``control_id`` of the control
+    catalogue on opening ``opening_id``, its ``status``, the ``date`` of that status (ISO 8601
+    ``YYYY-MM-DD`` or empty) and a free ``note``."""
+
+    opening_id: str
+    control_id: str
+    status: FixStatus = FixStatus.RECOMMENDED
+    date: str = ""
+    note: str = ""
 
 
 @dataclass(frozen=True, slots=True)
@@ -382,6 +415,8 @@ class Building:
     cat_profile: CatProfile = field(default_factory=lambda: CAT_PRESETS["adult"])
     injury: InjuryThresholds = field(default_factory=InjuryThresholds)
     plan: PlanSettings = field(default_factory=PlanSettings)
+    #: The recommended fixes and their status (file version 2, optional), in recorded order.
+    fixes: tuple[FixRecord, ...] = ()
 
     def floor(self, level: int) -> Floor:
         """The floor at ``level``; ``KeyError`` if there is none."""

@@ -42,7 +42,9 @@ from scipy.sparse import coo_array, vstack
 from petfall_audit._solver_output import solver_output_filtered
 from petfall_audit.errors import PlanError
 from petfall_audit.fixes import Catalogue, Option, load_catalogue, opening_options
-from petfall_audit.risk import Assessment
+from petfall_audit.model import Building, PlanSettings
+from petfall_audit.risk import Assessment, assess
+from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
 
 __all__ = [
     "MIP_REL_GAP",
@@ -51,6 +53,8 @@ __all__ = [
     "TIME_LIMIT_S",
     "Plan",
     "make_plan",
+    "plan_from_settings",
+    "with_plan_settings",
     "plan_from_options",
     "risk_budget_curve",
     "curve_from_options",
@@ -425,3 +429,27 @@ def risk_budget_curve(
     ``assessment.risk.sum() - risk_removed``."""
     cat = load_catalogue() if catalogue is None else catalogue
     return curve_from_options(opening_options(assessment, cat), budgets)
+
+
+def with_plan_settings(building: Building, budget: float | None, *, currency: str = "",
+                       samples: int | None = None, seed: int | None = None) -> Building:
+    """``building`` with the plan's settings to save with it (``samples`` / ``seed`` ``None``:
+    the defaults)."""
+    from dataclasses import replace
+
+    return replace(building, plan=PlanSettings(
+        budget=None if budget is None else _check_budget(budget), currency=currency,
+        samples=samples, seed=seed))
+
+
+def plan_from_settings(building: Building, *, catalogue: Catalogue | None = None) -> Plan:
+    """The plan the building's saved settings make: the building assessed with the saved
+    samples and seed (defaults when not saved), planned within the saved budget. Raises
+    ``ValueError`` when no budget is saved. Same file, same plan."""
+    settings = building.plan
+    if settings.budget is None:
+        raise ValueError("no budget is saved with this audit")
+    a = assess(building,
+               samples=DEFAULT_SAMPLES if settings.samples is None else settings.samples,
+               seed=DEFAULT_SEED if settings.seed is None else settings.seed)
+    return make_plan(a, settings.budget, catalogue=catalogue)

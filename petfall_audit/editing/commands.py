@@ -59,6 +59,9 @@ __all__ = [
     "SetCatProfile",
     "SetInjuryModel",
     "SetPlanSettings",
+    "SetFixStatus",
+    "RecordFixes",
+    "FitPlanFixes",
     "ReplaceBuilding",
     "DEFAULT_ID_PATTERN",
     "FACADE_LEVEL_PATTERN",
@@ -748,6 +751,58 @@ class SetPlanSettings(BuildingCommand):
 
     def apply(self, building: Building) -> Building:
         return dataclasses.replace(building, plan=self.settings)
+
+
+class SetFixStatus(BuildingCommand):
+    """Record what became of a recommended fix: ``control_id`` on ``opening_id`` moved to
+    ``status`` on ``date`` (ISO ``YYYY-MM-DD`` or empty), with ``note`` (``None``: keep it)."""
+
+    def __init__(self, opening_id: str, control_id: str, status: str, *, date: str = "",
+                 note: str | None = None) -> None:
+        from petfall_audit.model import FixStatus
+
+        try:
+            self.status = FixStatus(status)
+        except ValueError:
+            raise _refuse("fixes", f"{status!r} is not a status of a fix") from None
+        self.opening_id, self.control_id, self.date, self.note = (opening_id, control_id, date,
+                                                                  note)
+        super().__init__(f"Mark the fix on {opening_id} as {self.status.value}")
+
+    def apply(self, building: Building) -> Building:
+        from petfall_audit.fix_tracking import set_fix_status
+
+        return set_fix_status(building, self.opening_id, self.control_id, self.status,
+                              date=self.date, note=self.note)
+
+
+class RecordFixes(BuildingCommand):
+    """Record the fixes of a plan (its ``actions``) as recommended, each once."""
+
+    def __init__(self, actions: Sequence[Any], *, date: str = "") -> None:
+        self.actions = tuple(actions)
+        self.date = date
+        super().__init__("Record the plan's fixes as recommended")
+
+    def apply(self, building: Building) -> Building:
+        from petfall_audit.fix_tracking import record_plan
+
+        return record_plan(building, self.actions, date=self.date)
+
+
+class FitPlanFixes(BuildingCommand):
+    """Fit every fix of a plan at once (the control's effect written into its opening; fixes
+    that rely on people change no field): a what-if accepted."""
+
+    def __init__(self, actions: Sequence[Any], catalogue: Any = None) -> None:
+        self.actions = tuple(actions)
+        self.catalogue = catalogue
+        super().__init__("Fit the plan's fixes")
+
+    def apply(self, building: Building) -> Building:
+        from petfall_audit.fix_tracking import apply_plan
+
+        return apply_plan(building, self.actions, self.catalogue)[0]
 
 
 class ReplaceBuilding(BuildingCommand):

@@ -110,6 +110,7 @@ class Places:
                 "facades": list(range(len(b.facades))),
                 "surfaces": list(range(len(b.surfaces))),
                 "openings": list(range(len(b.openings))),
+                "fixes": list(range(len(b.fixes))),
             }
         )
 

@@ -59,6 +59,9 @@ __all__ = [
     "CatProfileModel",
     "CatProfileField",
     "InjuryModel",
+    "FixRecordModel",
+    "FixStatusName",
+    "PlanSettingsModel",
     "OpeningKindName",
     "SurfaceKindName",
     "ScreenName",
@@ -149,6 +152,44 @@ class PlanSettingsModel(_Strict):
         default="", pattern=r"^([A-Z]{3})?$",
         description="ISO 4217 code of the budget's currency; empty: the control catalogue's.",
     )
+    samples: int | None = Field(
+        default=None, ge=1, le=_L.samples_max,
+        description="Sampled cats of the assessment the plan was made from; null or missing: "
+                    "the default (4000). Version 2, optional.",
+    )
+    seed: int | None = Field(
+        default=None, ge=0, le=_L.seed_max,
+        description="Random seed of that assessment; null or missing: the default (1). "
+                    "Version 2, optional.",
+    )
+
+
+FixStatusName = Literal["recommended", "approved", "fitted", "checked", "declined"]
+
+
+class FixRecordModel(_Strict):
+    """One item of "fixes": a recommended fix and what became of it."""
+
+    opening: str = Field(min_length=1, max_length=_L.id_max_chars,
+                         description="Id of the opening the fix is for.")
+    control: str = Field(min_length=1, max_length=_L.id_max_chars,
+                         description="Id of the control in the control catalogue.")
+    status: FixStatusName = Field(
+        default="recommended",
+        description="recommended, approved, fitted, checked (fitted and checked on site) or "
+                    "declined.",
+    )
+    date: str = Field(default="", pattern=r"^(\d{4}-\d{2}-\d{2})?$",
+                      description="Date of the status, YYYY-MM-DD, or empty.")
+    note: str = Field(default="", max_length=_L.notes_max_chars,
+                      description="Free note (who approved it, the fitter...).")
+
+    @field_validator("date")
+    @classmethod
+    def _real_date(cls, value: str) -> str:
+        if value and not is_iso_date(value):
+            raise ValueError(f"no such date: {value!r}")
+        return value
 
 
 def _rf(section: str, name: str, **extra: Any) -> Any:
@@ -432,6 +473,11 @@ class DocumentModel(_Strict):
         default_factory=InjuryModel,
         description="The injury dose–response (version 2); absent: the fitted defaults.",
     )
+    fixes: list[FixRecordModel] = Field(
+        default_factory=list, max_length=_L.fixes_max,
+        description="The recommended fixes and what became of each (version 2, optional; "
+                    "absent: none recorded).",
+    )
 
 
 def _field_names(*models: type[BaseModel]) -> frozenset[str]:
@@ -443,6 +489,7 @@ ALL_FIELD_NAMES: frozenset[str] = _field_names(
     DocumentModel,
     BuildingModel,
     PlanSettingsModel,
+    FixRecordModel,
     FloorModel,
     FacadeModel,
     SurfaceModel,

@@ -35,6 +35,7 @@ from petfall_audit.io._schema import (
     CatProfileModel,
     DocumentModel,
     FacadeModel,
+    FixRecordModel,
     FloorModel,
     InjuryModel,
     LogNormalModel,
@@ -55,6 +56,8 @@ from petfall_audit.model import (
     Distribution,
     Facade,
     Fixed,
+    FixRecord,
+    FixStatus,
     Floor,
     InjuryThresholds,
     LogNormal,
@@ -85,12 +88,14 @@ __all__ = [
 #: every floor.
 MAX_FILE_BYTES = 64 * 2**20
 
-_SECTIONS = ("building", "floors", "facades", "surfaces", "openings", "cat_profile", "injury")
+_SECTIONS = ("building", "floors", "facades", "surfaces", "openings", "cat_profile", "injury",
+             "fixes")
 _LIST_SECTIONS: dict[str, type[BaseModel]] = {
     "floors": FloorModel,
     "facades": FacadeModel,
     "surfaces": SurfaceModel,
     "openings": OpeningModel,
+    "fixes": FixRecordModel,
 }
 
 # --- public API ------------------------------------------------------------------------------
@@ -162,6 +167,8 @@ def building_to_dict(building: Building) -> dict[str, object]:
         "openings": [_plain(o) for o in building.openings],
         "cat_profile": _profile_to_dict(building.cat_profile),
         "injury": _plain(building.injury),
+        # written only once a fix is recorded, so a file without any reads as before
+        **({"fixes": [_fix_to_dict(r) for r in building.fixes]} if building.fixes else {}),
     }
 
 
@@ -323,6 +330,7 @@ def _salvage(doc: dict[str, Any], exc: ValidationError) -> tuple[Building, Place
         injury=(_injury(InjuryModel.model_validate(doc["injury"]))
                 if "injury" in doc and "injury" not in incomplete else InjuryThresholds()),
         plan=plan,
+        fixes=tuple(lists["fixes"]),
     )
     return building, Places(places), frozenset(incomplete)
 
@@ -334,7 +342,8 @@ def _info(m: BuildingModel) -> BuildingInfo:
 def _plan_settings(m: BuildingModel) -> PlanSettings:
     if m.plan is None:
         return PlanSettings()
-    return PlanSettings(budget=m.plan.budget, currency=m.plan.currency)
+    return PlanSettings(budget=m.plan.budget, currency=m.plan.currency, samples=m.plan.samples,
+                        seed=m.plan.seed)
 
 
 def _building_section(building: Building) -> dict[str, object]:
@@ -342,8 +351,22 @@ def _building_section(building: Building) -> dict[str, object]:
     a building without them is written as before)."""
     out = _plain(building.info)
     if building.plan != PlanSettings():
-        out["plan"] = _plain(building.plan)
+        plan = _plain(building.plan)
+        for key in ("samples", "seed"):  # written once set (version 2, optional)
+            if plan[key] is None:
+                del plan[key]
+        out["plan"] = plan
     return out
+
+
+def _fix(m: FixRecordModel) -> FixRecord:
+    return FixRecord(opening_id=m.opening, control_id=m.control, status=FixStatus(m.status),
+                     date=m.date, note=m.note)
+
+
+def _fix_to_dict(r: FixRecord) -> dict[str, object]:
+    return {"opening": r.opening_id, "control": r.control_id, "status": r.status.value,
+            "date": r.date, "note": r.note}
 
 
 def _floor(m: FloorModel) -> Floor:
@@ -383,6 +406,7 @@ _CONVERT: dict[str, Any] = {
     "facades": _facade,
     "surfaces": _surface,
     "openings": _opening,
+    "fixes": _fix,
 }
 
 
@@ -425,6 +449,7 @@ def _to_building(m: DocumentModel) -> Building:
         cat_profile=_profile_from(m.cat_profile),
         injury=_injury(m.injury),
         plan=_plan_settings(m.building),
+        fixes=tuple(_fix(r) for r in m.fixes),
     )
 
 

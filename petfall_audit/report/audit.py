@@ -16,6 +16,7 @@ from petfall_audit.figures import (
 from petfall_audit.report import sections as sec
 from petfall_audit.report.context import AuditContext, ReportOptions, build_audit_context
 from petfall_audit.report.fonts import markup
+from petfall_audit.report.since import build_since
 from petfall_audit.report.styles import audit_styles
 from petfall_audit.report.template import AuditDocTemplate, write_pdf_atomic
 
@@ -39,6 +40,8 @@ def audit_story(assessment: Assessment, plan: Plan | None, ctx: AuditContext,
     story: list[Flowable] = []
     story += sec.build_cover(ctx, st, width)
     story += sec.build_summary(ctx, st, width, pal)
+    if options.comparison is not None:
+        story += build_since(options.comparison, st, width)
     story += sec.build_method(ctx, st, width)
     story += sec.build_facades(facade_elevations(assessment), ctx, st, width, height, pal)
     if assessment.openings:  # an empty chart says nothing
@@ -47,6 +50,8 @@ def audit_story(assessment: Assessment, plan: Plan | None, ctx: AuditContext,
     story += sec.build_ranked_table(ctx, st, wide_width or width, pal)
     story += sec.build_details(ctx, profiles, st, width, pal)
     story += sec.build_plan(ctx, st, width)
+    if options.what_if is not None:
+        story += build_since(options.what_if, st, width, what_if=True)
     story += sec.build_cautions(ctx, st)
     story += sec.build_notes_appendix(ctx, st)
     story += sec.build_signoff(ctx, st, width)

@@ -52,6 +52,7 @@ from petfall_audit.report.leaflet_sections import (
 )
 
 if TYPE_CHECKING:
+    from petfall_audit.compare import Comparison
     from petfall_audit.plan import Plan
     from petfall_audit.risk import Assessment
 
@@ -134,6 +135,12 @@ class ReportOptions:
     sensitivity_samples: int | None = None
     #: The plan's budget is a default the app proposed, not one set for this audit.
     budget_is_default: bool = False
+    #: This audit compared with an earlier one (:func:`petfall_audit.compare.compare_assessments`,
+    #: the later side this audit): adds the section "Since the earlier audit".
+    comparison: Comparison | None = None
+    #: This audit compared with its building after the plan (a what-if, the later side):
+    #: adds the section "After the plan (what-if)".
+    what_if: Comparison | None = None
 
 
 # --- formatting ---------------------------------------------------------------------------------

@@ -16,6 +16,7 @@ from PySide6.QtGui import QAction, QKeySequence
 from PySide6.QtWidgets import QMenu
 
 from petfall_audit.gui.views.common import ViewContext, stop_tasks
+from petfall_audit.gui.views.compare import CompareView
 from petfall_audit.gui.views.facade import FacadeView
 from petfall_audit.gui.views.floors import FloorsView
 from petfall_audit.gui.views.plan import PlanView
@@ -27,7 +28,7 @@ __all__ = ["InstalledViews", "install_views", "VIEW_NAMES"]
 
 #: Tab names of the views, in order.
 VIEW_NAMES: tuple[str, ...] = ("Ranked openings", "Facade elevation", "Floor comparison",
-                               "Fall profile", "Fix plan", "Cat assumptions")
+                               "Fall profile", "Fix plan", "Cat assumptions", "Compare audits")
 
 
 @dataclass
@@ -44,11 +45,13 @@ class InstalledViews:
     exports: Any
     import_action: QAction
     view_actions: list[QAction]
+    compare: CompareView | None = None
 
     def widget(self, name: str) -> Any:
         return {"Ranked openings": self.ranked, "Facade elevation": self.facade,
                 "Floor comparison": self.floors, "Fall profile": self.profile,
-                "Fix plan": self.plan, "Cat assumptions": self.sensitivity}[name]
+                "Fix plan": self.plan, "Cat assumptions": self.sensitivity,
+                "Compare audits": self.compare}[name]
 
 
 class _EditorSync:
@@ -133,11 +136,15 @@ def install_views(window: Any, *, export_prompts: Any = None, import_prompts: An
     profile = ProfileView(context)
     plan = PlanView(context)
     sensitivity = SensitivityView(context)
+    compare = CompareView(context)
     _replace_ranked_tab(window, ranked)
-    for name, widget in zip(VIEW_NAMES[1:], (facade, floors, profile, plan, sensitivity),
-                            strict=True):
+    for name, widget in zip(VIEW_NAMES[1:], (facade, floors, profile, plan, sensitivity,
+                                             compare), strict=True):
         window.add_view(name, widget)
     sync = _EditorSync(window, context)
+    plan.what_if_button.clicked.connect(lambda _c=False: (  # the plan's what-if, beside
+        compare.show_what_if(plan.plan, plan.catalogue),
+        window.view_tabs.setCurrentWidget(compare)))
 
     def on_results(assessment: Any) -> None:
         sync.attach()
@@ -179,7 +186,8 @@ def install_views(window: Any, *, export_prompts: Any = None, import_prompts: An
         view_menu.addSeparator()
     tabs = window.view_tabs
     for n, name in enumerate(VIEW_NAMES, start=1):
-        widget = {1: ranked, 2: facade, 3: floors, 4: profile, 5: plan, 6: sensitivity}[n]
+        widget = {1: ranked, 2: facade, 3: floors, 4: profile, 5: plan, 6: sensitivity,
+                  7: compare}[n]
         action = QAction(f"Show {name.lower()}", window)
         action.setShortcut(QKeySequence(f"Ctrl+{n}"))
         action.triggered.connect(lambda _c=False, w=widget: (tabs.setCurrentWidget(w),
@@ -205,6 +213,7 @@ def install_views(window: Any, *, export_prompts: Any = None, import_prompts: An
 
     views = InstalledViews(context=context, ranked=ranked, facade=facade, floors=floors,
                            profile=profile, plan=plan, sensitivity=sensitivity, exports=exports,
-                           import_action=import_action, view_actions=view_actions)
+                           import_action=import_action, view_actions=view_actions,
+                           compare=compare)
     window.views = views
     return views

@@ -15,6 +15,7 @@ from typing import Any
 import numpy as np
 import pyqtgraph as pg
 from PySide6.QtCore import Qt, QTimer, Signal
+from PySide6.QtGui import QAction
 from PySide6.QtWidgets import (
     QAbstractItemView,
     QDoubleSpinBox,
@@ -68,6 +69,24 @@ def _compute_options(assessment: Any) -> dict[str, Any]:
             "grid": budget_grid(options, _CURVE_POINTS)}
 
 
+def _fix_status_actions(view: PlanView) -> list[QAction]:
+    """The chosen-fixes table's right-click menu: record what became of the selected fix, or
+    the whole plan as recommended."""
+    from petfall_audit.model import FixStatus
+    from petfall_audit.present.changes import fix_status_label
+
+    made: list[QAction] = []
+    items = [("plan", "Record the whole plan as recommended")]
+    items += [(s.value, f"Mark as {fix_status_label(s.value).lower()} today") for s in FixStatus]
+    for status, text in items:
+        action = QAction(text, view.chosen)
+        action.triggered.connect(lambda _c=False, s=status: view.record_fix_status(s))
+        view.chosen.addAction(action)
+        made.append(action)
+    view.chosen.setContextMenuPolicy(Qt.ContextMenuPolicy.ActionsContextMenu)
+    return made
+
+
 class PlanView(QWidget):
     """The building's fix plan within a budget."""
 
@@ -106,6 +125,11 @@ class PlanView(QWidget):
         self.progress.setMaximumWidth(140)
         self.progress.setTextVisible(False)
         self.progress.hide()
+        self.what_if_button = QPushButton("&What if…")
+        self.what_if_button.setObjectName("what_if_button")
+        self.what_if_button.setToolTip("Show the building with every fix of this plan fitted, "
+                                       "beside the building as audited (nothing is changed "
+                                       "until you accept it)")
         top = QHBoxLayout()
         top.setContentsMargins(0, 0, 0, 0)
         self.budget_note = QLabel()
@@ -115,11 +139,13 @@ class PlanView(QWidget):
         top.addWidget(self.budget_note)
         top.addWidget(self.summary, 1)
         top.addWidget(self.progress)
+        top.addWidget(self.what_if_button)
 
-        self.chosen = QTableWidget(0, 5)
+        self.chosen = QTableWidget(0, 6)
         self.chosen.setObjectName("plan_table")
         self.chosen.setHorizontalHeaderLabels(["Opening", "Control", "Cost", "Risk before",
-                                               "Risk after"])
+                                               "Risk after", "Status"])
+        self.fix_actions = _fix_status_actions(self)
         self.options_table = QTableWidget(0, 5)
         self.options_table.setObjectName("options_table")
         self.options_table.setHorizontalHeaderLabels(["Control", "Kind of control", "Cost",
@@ -384,8 +410,11 @@ class PlanView(QWidget):
             from petfall_audit.editing.commands import SetPlanSettings
             from petfall_audit.model import PlanSettings
 
-            self._ctx.push(SetPlanSettings(PlanSettings(budget=float(value),
-                                                        currency=self.currency)))
+            recomputer = getattr(self._ctx.window, "recomputer", None)
+            self._ctx.push(SetPlanSettings(PlanSettings(
+                budget=float(value), currency=self.currency,
+                samples=getattr(recomputer, "final_samples", doc.building.plan.samples),
+                seed=getattr(recomputer, "seed", doc.building.plan.seed))))
 
     def _on_line_moved(self, line: pg.InfiniteLine) -> None:
         value = float(10.0 ** float(line.value()))
@@ -426,10 +455,63 @@ class PlanView(QWidget):
                                           | Qt.AlignmentFlag.AlignVCenter)
                 item.setToolTip(self._text("\n".join([o.control_name, *o.conditions])))
                 self.chosen.setItem(row, col, item)
+        self.show_fix_status()
         self._fill_options()
         self._show_conditions()
         self._draw_curve()
         self.plan_ready.emit(plan)
+
+    # --- fix tracking -----------------------------------------------------------------------------
+
+    def show_fix_status(self) -> None:
+        """The recorded status of each chosen fix in the last column."""
+        from petfall_audit.fix_tracking import latest_records
+        from petfall_audit.present.changes import fix_status_label
+        from petfall_audit.present.numbers import fmt_date
+
+        doc = getattr(self._ctx.window, "document", None)
+        records = latest_records(doc.building) if doc is not None else {}
+        actions = sorted(self.plan.actions, key=lambda o: -o.risk_removed) if self.plan else []
+        for row, o in enumerate(actions):
+            rec = records.get((o.opening_id, o.control_id))
+            text = "Not recorded" if rec is None else fix_status_label(rec.status.value)
+            if rec is not None and rec.date:
+                text += f", {fmt_date(rec.date)}"
+            item = QTableWidgetItem(text)
+            item.setData(Qt.ItemDataRole.UserRole, o.opening_id)
+            if rec is not None and rec.note:
+                item.setToolTip(rec.note)
+            self.chosen.setItem(row, 5, item)
+
+    def selected_action(self) -> Any:
+        """The plan's action of the selected row of chosen fixes, or ``None``."""
+        rows = {i.row() for i in self.chosen.selectedItems()}
+        if not rows or self.plan is None:
+            return None
+        actions = sorted(self.plan.actions, key=lambda o: -o.risk_removed)
+        row = min(rows)
+        return actions[row] if row < len(actions) else None
+
+    def record_fix_status(self, status: str, *, date: str | None = None) -> str | None:
+        """Record the selected chosen fix as ``status`` (dated today unless ``date``); the
+        refusal reason or ``None``. Undo with Ctrl+Z."""
+        import datetime as _dt
+
+        from petfall_audit.editing.commands import RecordFixes, SetFixStatus
+
+        when = _dt.date.today().isoformat() if date is None else date
+        if status == "plan":
+            if self.plan is None or not self.plan.actions:
+                return "there is no plan to record"
+            reason = self._ctx.push(RecordFixes(self.plan.actions, date=when))
+        else:
+            action = self.selected_action()
+            if action is None:
+                return "select a fix of the plan first"
+            reason = self._ctx.push(SetFixStatus(action.opening_id, action.control_id, status,
+                                                 date=when))
+        self.show_fix_status()
+        return reason
 
     def _on_curve(self, curve: tuple[np.ndarray, np.ndarray]) -> None:
         self.curve = curve

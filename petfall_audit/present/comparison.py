@@ -1,0 +1,189 @@
+"""A comparison of two audits (:mod:`petfall_audit.compare`) in words, for the terminal table,
+the PDF section "Since the earlier audit" and the app's comparison view alike.
+
+Every number is rounded as the JSON export rounds it (4 significant digits,
+:func:`petfall_audit.io.results_export.round_significant`) before it is formatted, so the table,
+the PDF and the app show the numbers of ``petfall-audit compare --format json``.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Mapping
+from dataclasses import dataclass
+
+from petfall_audit.compare import Comparison, OpeningComparison, fitted_records
+from petfall_audit.io.results_export import round_significant
+from petfall_audit.present.changes import (
+    fix_status_label,
+    fmt_field_change,
+    fmt_risk_change,
+    status_label,
+)
+from petfall_audit.present.labels import band_label, kind_label
+from petfall_audit.present.numbers import fmt_count, fmt_date, fmt_one_in, fmt_percent, fmt_risk
+
+__all__ = [
+    "METHOD",
+    "ComparisonRow",
+    "comparison_rows",
+    "summary_lines",
+    "building_change_lines",
+    "fitted_fix_rows",
+    "fmt_exported_risk",
+]
+
+#: How the risk removed is split, in words (also the JSON's ``"method"``).
+METHOD = (
+    "Both audits assessed with the same sampled cats (same samples and seed), so a difference "
+    "is a difference of the building, not of chance. Risk removed by fixes: the earlier risk "
+    "minus the risk of the earlier building with only the later barriers (nets, screens, "
+    "limiters, infill, rail caps, climbing aids) applied; every other change (openings added or "
+    "removed, floors, surfaces, use, cat profile) accounts for the rest."
+)
+
+
+def _rounded(x: float | None, exact: bool = False) -> float | None:
+    return x if exact or x is None else round_significant(x)
+
+
+def fmt_exported_risk(x: float | None, exact: bool = False) -> str:
+    """A risk score as the JSON export gives it (4 significant digits), formatted; ``exact``:
+    as computed (to read beside the fix plan's own numbers)."""
+    return fmt_risk(_rounded(x, exact))
+
+
+@dataclass(frozen=True, slots=True)
+class ComparisonRow:
+    """One compared opening as text. ``status``, ``band_before`` / ``band_after`` (band index or
+    ``None``), ``risk_change`` (later minus earlier, score units) and ``removed_by_fixes`` are
+    kept as values for sorting and filtering."""
+
+    id: str
+    earlier_id: str | None
+    status: str
+    status_text: str
+    floor: int
+    facade: str
+    kind_text: str
+    where_text: str
+    band_before: int | None
+    band_after: int | None
+    band_text: str
+    risk_before_text: str
+    risk_after_text: str
+    change_text: str
+    by_fixes_text: str
+    likelihood_before_text: str
+    likelihood_after_text: str
+    changes_text: tuple[str, ...]
+    fitted_text: str
+    risk_change: float
+    removed_by_fixes: float
+
+
+def _band_move(o: OpeningComparison) -> str:
+    if o.before is None or o.after is None:
+        side = o.after if o.before is None else o.before
+        return band_label(None if side is None else side.expected_band)
+    b, a = band_label(o.before.expected_band), band_label(o.after.expected_band)
+    return b if a == b else f"{b} → {a}"
+
+
+def _row(o: OpeningComparison, system: str, exact: bool) -> ComparisonRow:
+    side = o.after if o.after is not None else o.before
+    assert side is not None
+    change = _rounded(o.risk_change, exact)
+    by_fix = _rounded(o.removed_by_fixes, exact) or 0.0
+    return ComparisonRow(
+        id=o.id,
+        earlier_id=o.earlier_id,
+        status=o.status,
+        status_text=status_label(o.status),
+        floor=side.floor,
+        facade=side.facade,
+        kind_text=kind_label(side.kind),
+        where_text=f"{kind_label(side.kind)}, floor {side.floor}, facade {side.facade}",
+        band_before=None if o.before is None else o.before.expected_band,
+        band_after=None if o.after is None else o.after.expected_band,
+        band_text=_band_move(o),
+        risk_before_text=fmt_exported_risk(o.risk_before, exact),
+        risk_after_text=fmt_exported_risk(o.risk_after, exact),
+        change_text=fmt_risk_change(change),
+        by_fixes_text=fmt_risk(by_fix) if by_fix else "",
+        likelihood_before_text="" if o.before is None else fmt_one_in(o.before.one_in_n),
+        likelihood_after_text="" if o.after is None else fmt_one_in(o.after.one_in_n),
+        changes_text=tuple(fmt_field_change(c.field, c.old, c.new, system) for c in o.changes),
+        fitted_text=("Fitted as recorded: " + ", ".join(o.fitted)) if o.fitted else "",
+        risk_change=float(o.risk_change),
+        removed_by_fixes=float(o.removed_by_fixes),
+    )
+
+
+def comparison_rows(c: Comparison, system: str = "metric", *, exact: bool = False
+                    ) -> list[ComparisonRow]:
+    """Every compared opening, worst change first (the largest rise of risk, then the smallest
+    fall; unchanged openings last), ties by id. ``exact``: numbers as computed, not as the JSON
+    rounds them."""
+    order = {"unchanged": 1}
+    ranked = sorted(c.openings, key=lambda o: (order.get(o.status, 0), -o.risk_change, o.id))
+    return [_row(o, system, exact) for o in ranked]
+
+
+def summary_lines(c: Comparison, *, what_if: bool = False) -> list[str]:
+    """The totals in sentences; ``what_if``: the later side is the building with the plan's
+    fixes fitted (a what-if), not a later audit, and the numbers are as computed (to read
+    beside the fix plan's)."""
+    e, la = c.earlier.building.info, c.later.building.info
+    exact = what_if
+
+    def risk(x: float | None) -> str:
+        return fmt_exported_risk(x, exact)
+
+    removed = _rounded(c.risk_removed, exact) or 0.0
+    share = _rounded(c.share_removed)
+    cats = f"{fmt_count(c.samples, 'sampled cat')} (seed {c.seed})"
+    if what_if:
+        first = (f"{e.name} as audited on {fmt_date(e.audit_date)}, and the same building with "
+                 f"the plan's fixes fitted (a what-if), both assessed with {cats}.")
+        fixes = (f"Removed by the plan's fixes: {risk(c.removed_by_fixes)} "
+                 f"({fmt_percent(_rounded(c.share_by_fixes))} of the risk).")
+    else:
+        first = (f"Earlier audit: {e.name}, {fmt_date(e.audit_date)}; later audit: {la.name}, "
+                 f"{fmt_date(la.audit_date)}. Both assessed with {cats}.")
+        fixes = (f"Removed by barriers fitted since: {risk(c.removed_by_fixes)} "
+                 f"({fmt_percent(_rounded(c.share_by_fixes))} of the earlier risk); by every "
+                 f"other change: {risk(c.removed_by_other)} "
+                 f"({fmt_percent(_rounded(c.share_by_other))}).")
+    lines = [
+        first,
+        f"Summed risk score: {risk(c.risk_before)} before, "
+        f"{risk(c.risk_after)} after ({fmt_risk_change(-removed)}, "
+        f"{fmt_percent(abs(share or 0.0))} {'less' if removed >= 0 else 'more'}).",
+        fixes,
+    ]
+    if not what_if:
+        lines.append("Openings: " + ", ".join(
+            fmt_count(len(c.with_status(s)), status_label(s).lower(), status_label(s).lower())
+            for s in ("changed", "added", "removed", "unchanged")) + ".")
+    return lines
+
+
+def building_change_lines(c: Comparison, system: str = "metric") -> list[str]:
+    """What changed outside the openings, one line each."""
+    return [fmt_field_change(x.field, x.old, x.new, system) for x in c.building_changes]
+
+
+def fitted_fix_rows(c: Comparison, control_names: Mapping[str, str] | None = None
+                    ) -> list[tuple[str, str, str, str, str]]:
+    """The later audit's fixes recorded as fitted or checked: (opening, control name, status,
+    date, risk the barrier changes removed at the opening), in recorded order."""
+    names = control_names or {}
+    out = []
+    for r in fitted_records(c):
+        try:
+            removed = fmt_exported_risk(c.opening(r.opening_id).removed_by_fixes)
+        except KeyError:
+            removed = "opening no longer recorded"
+        out.append((r.opening_id, names.get(r.control_id, r.control_id),
+                    fix_status_label(r.status.value), fmt_date(r.date), removed))
+    return out

@@ -1,0 +1,190 @@
+"""Re-audits: two audits of one building compared opening by opening (petfall_audit.compare).
+
+The reference building pair (invented): a net fitted on one balcony, one window removed, one
+added and one floor raised; every other opening untouched. The checks compare the comparison
+with independent routes: assessing an opening alone with the whole assessment, and the risk
+score's own definition (a sum over openings).
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import json
+from pathlib import Path
+
+import pytest
+
+from petfall_audit.compare import BARRIER_FIELDS, compare_assessments, compare_buildings
+from petfall_audit.io.building_file import load_building, save_building
+from petfall_audit.model import (
+    Building,
+    BuildingInfo,
+    CatsPresent,
+    Facade,
+    Floor,
+    OpenFrequency,
+    Opening,
+    OpeningKind,
+    Surface,
+    SurfaceKind,
+)
+from petfall_audit.risk import assess
+
+SAMPLES = 600
+SEED = 7
+
+
+def earlier_building() -> Building:
+    """Five storeys on one facade; openings far apart along it, so none catches another's
+    falls (each opening's result depends on itself and the ground only)."""
+    floors = tuple(Floor(level=i, label=f"L{i}", elevation_m=3.0 * i) for i in range(5))
+    common = {"facade": "S", "cats_present": CatsPresent.YES,
+              "open_frequency": OpenFrequency.DAILY}
+    return Building(
+        info=BuildingInfo(name="Harbour View 3 (invented)", audit_date="2025-05-02"),
+        floors=floors,
+        facades=(Facade("S", 40.0, "South"),),
+        surfaces=(Surface("ground", SurfaceKind.CONCRETE, 0.0),),
+        openings=(
+            Opening("B-2", floor=2, kind=OpeningKind.BALCONY, x_m=0.0, width_m=3.0,
+                    projection_m=1.5, largest_gap_mm=100.0, **common),
+            Opening("W-3", floor=3, kind=OpeningKind.WINDOW_CASEMENT, x_m=8.0, width_m=1.0,
+                    perch_height_m=0.9, **common),
+            Opening("W-1", floor=1, kind=OpeningKind.WINDOW_CASEMENT, x_m=14.0, width_m=1.0,
+                    perch_height_m=0.9, **common),
+            Opening("B-4", floor=4, kind=OpeningKind.BALCONY, x_m=20.0, width_m=3.0,
+                    projection_m=1.5, largest_gap_mm=100.0, **common),
+        ),
+    )
+
+
+def later_building() -> Building:
+    """A year on: net (30 mm) on B-2, W-3 gone (bricked up), W-5 new on floor 2, floor 1
+    raised by 0.4 m."""
+    e = earlier_building()
+    b2 = dataclasses.replace(e.opening("B-2"), netting_mesh_mm=30.0)
+    w5 = Opening("W-5", floor=2, facade="S", kind=OpeningKind.WINDOW_SLIDING, x_m=30.0,
+                 width_m=1.2, perch_height_m=0.8, cats_present=CatsPresent.YES)
+    floors = tuple(dataclasses.replace(f, elevation_m=3.4) if f.level == 1 else f
+                   for f in e.floors)
+    return dataclasses.replace(
+        e,
+        info=dataclasses.replace(e.info, audit_date="2026-05-04"),
+        floors=floors,
+        openings=(b2, e.opening("W-1"), e.opening("B-4"), w5),
+    )
+
+
+@pytest.fixture(scope="module")
+def comparison():  # type: ignore[no-untyped-def]
+    return compare_buildings(earlier_building(), later_building(), samples=SAMPLES, seed=SEED)
+
+
+def test_statuses_and_fields_are_exactly_the_changes_made(comparison) -> None:  # type: ignore[no-untyped-def]
+    got = {o.id: (o.status, o.change_names) for o in comparison.openings}
+    assert got == {
+        "B-2": ("changed", ("netting_mesh_mm",)),
+        "W-1": ("changed", ("floor_elevation_m",)),
+        "B-4": ("unchanged", ()),
+        "W-5": ("added", ()),
+        "W-3": ("removed", ()),
+    }
+    net = comparison.opening("B-2").changes[0]
+    assert (net.old, net.new, net.unit) == (None, 30.0, "mm")
+    raised = comparison.opening("W-1").changes[0]
+    assert (raised.old, raised.new, raised.unit) == (3.0, 3.4, "m")
+    assert [c.field for c in comparison.building_changes] == ["floors[1].elevation_m"]
+    # the removed opening has no later side, the added one no earlier side
+    assert comparison.opening("W-3").after is None and comparison.opening("W-5").before is None
+
+
+def test_risk_removed_by_the_net_equals_the_balcony_assessed_alone(comparison) -> None:  # type: ignore[no-untyped-def]
+    # independent route: the balcony as the only opening of the building, assessed in full
+    # without and with the net (same cats), the difference of its risk scores
+    e, later = earlier_building(), later_building()
+    alone_before = assess(dataclasses.replace(e, openings=(e.opening("B-2"),)),
+                          samples=SAMPLES, seed=SEED).result("B-2").risk
+    alone_after = assess(dataclasses.replace(later, openings=(later.opening("B-2"),)),
+                         samples=SAMPLES, seed=SEED).result("B-2").risk
+    row = comparison.opening("B-2")
+    assert alone_before > alone_after > 0
+    assert row.removed_by_fixes == pytest.approx(alone_before - alone_after, rel=1e-9)
+    assert row.risk_before - row.risk_after == pytest.approx(alone_before - alone_after,
+                                                             rel=1e-9)
+    assert row.removed_by_other == pytest.approx(0.0, abs=1e-9 * alone_before)
+
+
+def test_totals_and_split_add_up_to_the_sum_over_openings(comparison) -> None:  # type: ignore[no-untyped-def]
+    # the building's risk score is the sum of its openings' (risk.py's definition)
+    e = assess(earlier_building(), samples=SAMPLES, seed=SEED)
+    la = assess(later_building(), samples=SAMPLES, seed=SEED)
+    assert comparison.risk_before == pytest.approx(sum(o.risk for o in e.openings), rel=1e-12)
+    assert comparison.risk_after == pytest.approx(sum(o.risk for o in la.openings), rel=1e-12)
+    assert comparison.removed_by_fixes + comparison.removed_by_other == pytest.approx(
+        comparison.risk_before - comparison.risk_after, rel=1e-9)
+    # only the net is a barrier change: the fixes removed exactly what the net removed
+    assert comparison.removed_by_fixes == pytest.approx(
+        comparison.opening("B-2").removed_by_fixes, rel=1e-12)
+    # the removed window's whole risk is "other", and the added one's counts against it
+    w3, w5 = comparison.opening("W-3"), comparison.opening("W-5")
+    assert w3.removed_by_other == w3.risk_before and w5.removed_by_other == -w5.risk_after
+    share = comparison.share_by_fixes
+    assert share is not None and 0 < share < 1
+
+
+def test_a_file_compared_with_itself_is_unchanged_with_zero_difference(tmp_path: Path) -> None:
+    path = tmp_path / "harbour.json"
+    save_building(earlier_building(), path)
+    c = compare_buildings(load_building(path), load_building(path), samples=SAMPLES, seed=SEED)
+    assert {o.status for o in c.openings} == {"unchanged"}
+    assert c.risk_before == c.risk_after
+    assert c.removed_by_fixes == 0.0 and c.removed_by_other == 0.0
+    assert c.building_changes == ()
+
+
+def test_sample_building_compared_with_itself_is_unchanged() -> None:
+    root = Path(__file__).resolve().parents[1] / "sample_buildings"
+    b = load_building(root / "block.json")
+    c = compare_buildings(b, b, samples=200, seed=3)
+    assert all(o.status == "unchanged" for o in c.openings)
+    assert len(c.openings) == len(b.openings)
+    assert c.risk_removed == 0.0
+
+
+def test_a_renamed_opening_pairs_with_its_new_id() -> None:
+    e, later = earlier_building(), later_building()
+    renamed = dataclasses.replace(later, openings=tuple(
+        dataclasses.replace(o, id="B-4a") if o.id == "B-4" else o for o in later.openings))
+    c = compare_buildings(e, renamed, renamed={"B-4": "B-4a"}, samples=SAMPLES, seed=SEED)
+    row = c.opening("B-4a")
+    assert (row.status, row.earlier_id) == ("unchanged", "B-4")
+    assert "B-4" not in {o.id for o in c.openings}
+    with pytest.raises(ValueError, match="no earlier opening"):
+        compare_buildings(e, renamed, renamed={"X": "B-4a"}, samples=SAMPLES, seed=SEED)
+
+
+def test_different_samples_are_refused() -> None:
+    e = earlier_building()
+    with pytest.raises(ValueError, match="same samples and seed"):
+        compare_assessments(assess(e, samples=100, seed=1), assess(e, samples=100, seed=2))
+
+
+def test_an_opening_whose_surroundings_changed_is_changed() -> None:
+    # a balcony added right below a window catches its falls: the window's own fields are the
+    # same, its result is not
+    e = earlier_building()
+    below = Opening("B-0", floor=2, facade="S", kind=OpeningKind.BALCONY, x_m=7.5, width_m=2.0,
+                    projection_m=1.5, cats_present=CatsPresent.YES)
+    later = dataclasses.replace(e, openings=(*e.openings, below))
+    c = compare_buildings(e, later, samples=SAMPLES, seed=SEED)
+    assert c.opening("W-3").change_names == ("surroundings",)
+    assert c.opening("B-0").status == "added"
+
+
+def test_barrier_fields_are_the_fields_controls_fit() -> None:
+    # the controls of the shipped catalogue change these fields (resources/controls.json)
+    doc = json.loads((Path(__file__).resolve().parents[1] / "resources" / "controls.json")
+                     .read_text(encoding="utf-8"))
+    fitted = {k for c in doc["controls"] for k in c.get("effect", {})} - {"open_frequency"}
+    assert fitted <= BARRIER_FIELDS
+    assert "netting_mesh_mm" in BARRIER_FIELDS and "open_frequency" not in BARRIER_FIELDS
