@@ -456,4 +456,5 @@ class ResultsTableModel(QAbstractTableModel):
         if role == Qt.ItemDataRole.DisplayRole:
             return result_text(r, column, units_of(self._options.units), self._options.palette,
                                self._floor_labels, self._facade_labels)
-        return result_style(r, column, role, stale=self.stale, palette=self._options.palette)
+        return result_style(r, column, role, stale=self.stale, palette=self._options.palette,
+                            system=self._options.units)
