@@ -38,6 +38,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 from typing import Literal
 
+from petfall_audit.reasons import Reason
 from petfall_audit.safe_text import MAX_MESSAGE_CHARS, cut
 
 
@@ -93,17 +94,21 @@ class Problem:
     :func:`petfall_audit.io.survey.survey_warnings`). Built with a :class:`Place`, or with a
     text for a place that has no parts (``"clipboard"``, ``"line 4, Width"``): the text is
     then the place's section as it is, never read back into parts. In words for people:
-    :func:`petfall_audit.editing.words.place_words`.
+    :func:`petfall_audit.editing.words.place_words`. ``reason``: where the message states
+    numbers (a value out of its range), the same finding as a code with SI values, so that a
+    reader sees it in their own units (:func:`petfall_audit.present.explain.explain`);
+    ``message`` is its metric wording.
     """
 
     where: str
     message: str
     severity: Literal["error", "warning"]
     place: Place
+    reason: Reason | None
 
     def __init__(self, where: str | Place, message: str,
-                 severity: Literal["error", "warning"] = "error", place: Place | None = None
-                 ) -> None:
+                 severity: Literal["error", "warning"] = "error", place: Place | None = None,
+                 reason: Reason | None = None) -> None:
         if place is None:
             place = where if isinstance(where, Place) else Place(str(where))
         # a message never grows with the value it is about (long values are cut)
@@ -111,6 +116,7 @@ class Problem:
         object.__setattr__(self, "message", cut(message, MAX_MESSAGE_CHARS))
         object.__setattr__(self, "severity", severity)
         object.__setattr__(self, "place", place)
+        object.__setattr__(self, "reason", reason)
 
     @property
     def is_warning(self) -> bool:

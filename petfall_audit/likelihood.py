@@ -31,6 +31,7 @@ from petfall_audit.barriers import (
     HEAD_WIDTH_REF_MM,
     gap_holds,
     gap_pass_share,
+    limiter_holds,
     mass_cdf,
     net_holds,
 )
@@ -127,6 +128,7 @@ FACTORS: Mapping[str, Factor] = MappingProxyType(
     }
 )
 
+
 @dataclass(frozen=True, slots=True)
 class LikelihoodResult:
     """Likelihood per opening, in building order.
@@ -190,7 +192,7 @@ def _one(o: Opening, profile: CatProfile) -> tuple[float, tuple[Reason, ...], tu
         share = gap_pass_share(o.limiter_gap_mm, profile)
         lim = FACTORS["limiter_fitted"].multiplier
         passing *= lim + (1.0 - lim) * share
-        if gap_holds(o.limiter_gap_mm, profile):
+        if limiter_holds(o, profile):
             use("limiter_fitted", gap_m=o.limiter_gap_mm / 1000.0)
         else:
             use("limiter_gap_large", gap_m=o.limiter_gap_mm / 1000.0, share=share)

@@ -47,3 +47,23 @@ def test_a_refusal_names_each_place_once() -> None:
                                           "must be at least 0 m, got -5 m")
     many = [Problem(Place("openings", k, "x_m"), "too far") for k in range(5)]
     assert problem_words(many, b).endswith("(and 2 more problems like these)")
+
+
+def test_a_refused_value_reads_in_the_units_of_the_reader() -> None:
+    import dataclasses
+    import re
+
+    from petfall_audit.editing.document import validate
+
+    b = sample_building("walkup")
+    bad = dataclasses.replace(b, openings=(
+        dataclasses.replace(b.openings[0], x_m=-1.524, netting_mesh_mm=600.0),
+        *b.openings[1:]))
+    problems = [p for p in validate(bad) if p.place.index == 0 and p.place.section == "openings"]
+    assert {p.place.field for p in problems} >= {"x_m", "netting_mesh_mm"}
+    metric = problem_words(problems, bad, limit=9)
+    imperial = problem_words(problems, bad, limit=9, system="imperial")
+    assert "got -1.524 m" in metric and "mm" in metric  # the metric wording as the checks write it
+    # -1.524 m is -5 ft exactly (1 ft = 0.3048 m, international yard and pound agreement, 1959)
+    assert "got -5 ft 0 in" in imperial
+    assert not re.search(r"\d\s*(mm|cm|m)\b", imperial), imperial

@@ -20,7 +20,13 @@ METRIC = re.compile(r"\d\s*(?:mm|cm|km/h|km|m/s|m)\b")
 #: One value of every name a reason carries, SI (lengths in m, speeds in m/s).
 VALUES = {"gap_m": 0.1, "mesh_m": 0.03, "share": 0.4, "perch_m": 1.1, "drop_m": 12.0,
           "speed_mps": 15.0, "limit_m": 30.0, "band": 2, "surface": "lawn",
-          "landing_id": "garden", "flat_rail_top": 1}
+          "landing_id": "garden", "flat_rail_top": 1,
+          # problems of a building file
+          "value": 2.5, "limit": 1.0, "quantity": "length", "unit": "m", "open": 0, "why": "",
+          "level": 2, "elevation_m": 3.0, "below_level": 1, "below_m": 3.1, "surface_m": 4.0,
+          "opening_id": "S-01", "opening_m": 3.0, "more": 2, "facade": "street",
+          "out_from_m": 3.0, "out_to_m": 8.0, "along_from_m": 0.0, "along_to_m": 6.0,
+          "floor_m": 3.0}
 
 
 def _all_reasons(building):  # type: ignore[no-untyped-def]

@@ -17,6 +17,7 @@ from petfall_audit.editing.fields import (
 )
 from petfall_audit.errors import Place, Problem
 from petfall_audit.model import Building
+from petfall_audit.present.explain import problem_message
 
 __all__ = ["place_words", "plain_text", "problem_words"]
 
@@ -73,13 +74,13 @@ def plain_text(text: str, building: Building | None = None) -> str:
 
 
 def problem_words(problems: Sequence[Problem], building: Building | None = None, *,
-                  limit: int = 3, sep: str = "; ") -> str:
+                  limit: int = 3, sep: str = "; ", system: str = "metric") -> str:
     """The reasons of a refusal in words, each with its place: at most ``limit`` of them,
-    joined by ``sep``."""
+    joined by ``sep``; numbers in the units of ``system``."""
     seen: dict[str, None] = {}
     for p in problems:
         place = place_words(p.place, building) if p.where else ""
-        message = plain_text(p.message, building)
+        message = plain_text(problem_message(p, system), building)
         seen.setdefault(f"{place}: {message}" if place else message)
     messages = list(seen)
     text = sep.join(messages[:limit])

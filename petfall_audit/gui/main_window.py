@@ -337,7 +337,7 @@ class MainWindow(QMainWindow):
 
     def push(self, cmd: Any) -> str | None:
         """Push an edit; on refusal show why in the status bar and return the reason."""
-        reason = push_command(self.history, cmd)
+        reason = push_command(self.history, cmd, self.options.units)
         if reason is not None:
             self.status_label.setText(f"! Not changed: {reason}")
             self.status_label.setStyleSheet(ERROR_STYLE)

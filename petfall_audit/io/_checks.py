@@ -38,6 +38,7 @@ from petfall_audit.model import (
     OpeningKind,
     Uniform,
 )
+from petfall_audit.reasons import Reason
 
 __all__ = ["Places", "check_model", "code_profile_warnings", "describe", "number", "unit_of"]
 
@@ -147,13 +148,24 @@ def _range(
     tail = f" ({why})" if why else ""
     if lo is not None and (value <= lo if lo_open else value < lo):
         word = "greater than" if lo_open else "at least"
-        problems.append(Problem(where, f"must be {word} {number(lo)}{u}{got}"))
+        problems.append(Problem(where, f"must be {word} {number(lo)}{u}{got}",
+                                reason=_range_reason("range_low", value, lo, unit, lo_open, why)))
         return False
     if hi is not None and (value >= hi if hi_open else value > hi):
         word = "less than" if hi_open else "at most"
-        problems.append(Problem(where, f"must be {word} {number(hi)}{u}{got}{tail}"))
+        problems.append(Problem(where, f"must be {word} {number(hi)}{u}{got}{tail}",
+                                reason=_range_reason("range_high", value, hi, unit, hi_open, why)))
         return False
     return True
+
+
+def _range_reason(code: str, value: float, limit: float, unit: str, open_: bool, why: str
+                  ) -> Reason:
+    """A value out of its range as a reason: lengths in metres (``quantity`` ``length``, or
+    ``gap`` for millimetre sizes), other quantities in their own ``unit``."""
+    scale, quantity = {"m": (1.0, "length"), "mm": (1e-3, "gap")}.get(unit, (1.0, "plain"))
+    return Reason.of(code, value=float(value) * scale, limit=float(limit) * scale,
+                     quantity=quantity, unit=unit, open=int(open_), why=why)
 
 
 def _duplicates(
@@ -242,6 +254,10 @@ def _check_floors(problems: list[Problem], b: Building, places: Places) -> None:
                         places.at("floors", i, "elevation_m"),
                         f"level {f.level} at {f.elevation_m:g} m is not above level "
                         f"{previous.level} at {previous.elevation_m:g} m ({below})",
+                        reason=Reason.of("floor_not_above", level=f.level,
+                                         elevation_m=float(f.elevation_m),
+                                         below_level=previous.level,
+                                         below_m=float(previous.elevation_m)),
                     )
                 )
         previous = f
@@ -448,6 +464,9 @@ def _check_landing(
                     f"at {s_elev[si]:g} m this surface is above the openings it would catch: "
                     f"{places.at('openings', first)} ({o.id!r}, level {o.floor} at "
                     f"{o_elev[first]:g} m){more}; check its elevation, facade and extent",
+                    reason=Reason.of("surface_above_openings", surface_m=float(s_elev[si]),
+                                     opening_id=o.id, level=o.floor,
+                                     opening_m=float(o_elev[first]), more=len(hits) - 1),
                 )
             )
     # Every opening must land somewhere: below each opening, along its whole width, the
@@ -494,6 +513,10 @@ def _check_landing(
                     f"nothing lies below opening {o.id!r} on facade {facade.id!r} {extent}"
                     f"{where} (its floor at {o_elev[i]:g} m): add a surface there, e.g. the "
                     f"ground running on without end (outer edge empty, to_facade_m null)",
+                    reason=Reason.of(
+                        "nothing_below", opening_id=o.id, facade=facade.id, out_from_m=start,
+                        out_to_m=end, along_from_m=max(a, 0.0), along_to_m=z,
+                        floor_m=float(o_elev[i])),
                 )
             )
             break  # one message per facade is enough to act on

@@ -8,9 +8,11 @@ everywhere and an imperial reader sees no metric unit.
 
 from __future__ import annotations
 
+import math
 from collections.abc import Callable, Iterable, Mapping
 
 from petfall_audit.barriers import gap_pass_share, limiter_holds, net_holds
+from petfall_audit.errors import Problem
 from petfall_audit.injury import BANDS
 from petfall_audit.model import BALCONY_LIKE, CAT_PRESETS, CatProfile, Opening, Screen, SurfaceKind
 from petfall_audit.present.numbers import fmt_length, fmt_percent, fmt_speed
@@ -20,6 +22,7 @@ __all__ = [
     "explain",
     "explain_all",
     "reason_json",
+    "problem_message",
     "surface_words",
     "barrier_words",
     "REASON_CODES",
@@ -140,7 +143,60 @@ _FACTOR_WORDS: dict[str, _Writer] = {
 }
 
 
-_WRITERS: dict[str, _Writer] = dict(_FACTOR_WORDS)
+def _amount(w: _Words, v: _V, name: str) -> str:
+    """A checked value in the reader's units: lengths and gaps through the length formatter,
+    other quantities as the number in their own unit."""
+    x = _num(v, name)
+    quantity = str(v.get("quantity", "plain"))
+    if quantity == "length":
+        return w.length(x) if abs(x) >= 1.0 or x == 0 else w.small(x)
+    if quantity == "gap":
+        return w.small(x)
+    unit = str(v.get("unit", ""))
+    return f"{x:g} {unit}".strip()
+
+
+def _range_words(low: bool) -> _Writer:
+    def write(w: _Words, v: _V) -> str:
+        if low:
+            word = "greater than" if int(v.get("open", 0)) else "at least"
+        else:
+            word = "less than" if int(v.get("open", 0)) else "at most"
+        why = str(v.get("why", ""))
+        tail = f" ({why})" if why and not low else ""
+        return f"must be {word} {_amount(w, v, 'limit')}, got {_amount(w, v, 'value')}{tail}"
+    return write
+
+
+def _nothing_below(w: _Words, v: _V) -> str:
+    start, end = _num(v, "out_from_m"), _num(v, "out_to_m")
+    extent = (f"from {w.length(start)} out" if math.isinf(end)
+              else f"from {w.length(start)} to {w.length(end)} out")
+    a, z = _num(v, "along_from_m"), _num(v, "along_to_m")
+    along = ("" if a <= 0 and math.isinf(z) else
+             f", along the facade from {w.length(a)}"
+             + ("" if math.isinf(z) else f" to {w.length(z)}"))
+    return (f"nothing lies below opening {v['opening_id']!r} on facade {v['facade']!r} "
+            f"{extent}{along} (its floor at {w.length(_num(v, 'floor_m'))}): add a surface "
+            "there, e.g. the ground running on without end (outer edge empty)")
+
+
+#: Problems of a building that state numbers (petfall_audit.io._checks).
+_PROBLEM_WORDS: dict[str, _Writer] = {
+    "range_low": _range_words(True),
+    "range_high": _range_words(False),
+    "floor_not_above": lambda w, v: (
+        f"level {v['level']} at {w.length(_num(v, 'elevation_m'))} is not above level "
+        f"{v['below_level']} at {w.length(_num(v, 'below_m'))}"),
+    "surface_above_openings": lambda w, v: (
+        f"at {w.length(_num(v, 'surface_m'))} this surface is above the openings it would "
+        f"catch: {v['opening_id']!r} (level {v['level']} at {w.length(_num(v, 'opening_m'))})"
+        + (f" and {v['more']} more" if int(v.get("more", 0)) > 0 else "")
+        + "; check its elevation, facade and extent"),
+    "nothing_below": _nothing_below,
+}
+
+_WRITERS: dict[str, _Writer] = {**_FACTOR_WORDS, **_PROBLEM_WORDS}
 
 #: Every reason code this module writes in words.
 REASON_CODES: frozenset[str] = frozenset(_WRITERS)
@@ -162,6 +218,14 @@ def explain(reason: Reason, system: str = "metric") -> str:
 def explain_all(reasons: Iterable[Reason], system: str = "metric") -> tuple[str, ...]:
     """:func:`explain` of each reason, in order."""
     return tuple(explain(r, system) for r in reasons)
+
+
+def problem_message(problem: Problem, system: str = "metric") -> str:
+    """A problem's message in the reader's units: its message (written metric, as the command
+    line and the file checks show it), or in other units from its reason where it has one."""
+    if system == "metric" or problem.reason is None or problem.reason.code not in _WRITERS:
+        return problem.message
+    return explain(problem.reason, system)
 
 
 def reason_json(reason: Reason, system: str = "metric") -> dict[str, object]:
