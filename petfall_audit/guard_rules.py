@@ -16,8 +16,9 @@ edition in force, prevails.
 
 from __future__ import annotations
 
+from petfall_audit.barriers import gap_holds, is_protected
 from petfall_audit.code_profile import CodeProfile, CodeRule, code_profile
-from petfall_audit.model import BALCONY_LIKE, Opening, OpeningKind, Screen
+from petfall_audit.model import BALCONY_LIKE, CAT_PRESETS, CatProfile, Opening, OpeningKind, Screen
 from petfall_audit.present import fmt_length
 
 __all__ = [
@@ -68,25 +69,20 @@ def _figure_ref(r: CodeRule, system: str) -> str:
 
 
 def why_code_compliant_is_not_cat_safe(
-    opening: Opening, *, code: CodeProfile | None = None
+    opening: Opening, *, code: CodeProfile | None = None, cat: CatProfile | None = None
 ) -> list[str]:
     """Plain-language reasons why this opening's guard or window can meet the human rules of the
     code profile ``code`` (default: the generic profile) and still let a cat fall. Each reason
     cites the profile's rule with its clause (or says that the generic figure has none and the
     local rule must be checked); no other jurisdiction is cited. Empty when the opening already
-    holds a cat (a fine net, a pet-resistant screen, a cat-sized limiter, or fixed glazing).
+    holds the cats of ``cat`` (default: the adult preset) or does not open: the one test
+    :func:`petfall_audit.barriers.is_protected` that the likelihood and the figures use.
     Lengths read in the profile's units.
     """
     p = code_profile() if code is None else code
     system = p.units
-    if opening.kind is OpeningKind.FIXED:
-        return []
-    if opening.netting_mesh_mm is not None and opening.netting_mesh_mm <= CAT_SAFE_MESH_MM:
-        return []
-    if opening.kind not in BALCONY_LIKE and (
-        opening.screen is Screen.PET_RESISTANT
-        or (opening.limiter_gap_mm is not None and opening.limiter_gap_mm < CAT_CRANIAL_WIDTH_MM)
-    ):
+    cats = CAT_PRESETS["adult"] if cat is None else cat
+    if opening.kind is OpeningKind.FIXED or is_protected(opening, cats):
         return []
     head = _cat_head(system)
     reasons: list[str] = []
@@ -112,7 +108,7 @@ def why_code_compliant_is_not_cat_safe(
             )
         gap_rule = p.rule("guard_gap")
         gap_mm = opening.largest_gap_mm
-        if gap_rule is not None and gap_mm is not None and gap_mm >= CAT_CRANIAL_WIDTH_MM:
+        if gap_rule is not None and gap_mm is not None and not gap_holds(gap_mm, cats):
             limit_mm = gap_rule.value_mm
             within = limit_mm is None or gap_mm <= limit_mm
             reasons.append(
@@ -126,7 +122,7 @@ def why_code_compliant_is_not_cat_safe(
                     "rule allows, and a cat passes them easily."
                 )
             )
-        elif gap_mm is not None and gap_mm >= CAT_CRANIAL_WIDTH_MM:
+        elif gap_mm is not None and not gap_holds(gap_mm, cats):
             reasons.append(
                 f"This guard's {_mm(gap_mm, system)} gaps let a cat through ({head}); no gap "
                 "rule is on file for this code profile: check the local rule."
@@ -138,7 +134,7 @@ def why_code_compliant_is_not_cat_safe(
                 "cannot jump."
             )
         bottom_mm = opening.bottom_gap_mm
-        if bottom_mm is not None and bottom_mm >= CAT_CRANIAL_WIDTH_MM:
+        if bottom_mm is not None and not gap_holds(bottom_mm, cats):
             bottom_rule = p.rule("guard_bottom_gap") or gap_rule
             allowed = (
                 f"Child rules allow a gap under the guard of up to "

@@ -44,6 +44,7 @@ from petfall_audit.injury import (
 from petfall_audit.likelihood import LikelihoodResult, assess_likelihood
 from petfall_audit.model import Building, OpeningKind, SurfaceKind
 from petfall_audit.physics import FallResults, air_density, peak_speed_of_falls, simulate_falls
+from petfall_audit.reasons import Reason
 from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED, CatSamples, sample_cat_profile
 
 __all__ = [
@@ -98,8 +99,9 @@ class OpeningResult:
     ``expected_band``: index into :data:`~petfall_audit.injury.BANDS`; ``expected_severity_g``:
     mean severity index (g); ``annual_probability`` (0..1) and ``one_in_n``: likelihood over 12
     months; ``drop_m`` (m) and ``impact_speed_mps`` (m/s) percentiles; ``landing``: landing
-    element id → probability; ``bands``: band name → probability; ``factors`` and ``hazards`` in
-    plain words.
+    element id → probability; ``bands``: band name → probability; ``factors`` and ``hazards`` as
+    :class:`~petfall_audit.reasons.Reason` codes and values (in words:
+    :func:`petfall_audit.present.explain.explain`).
     """
 
     id: str
@@ -117,8 +119,8 @@ class OpeningResult:
     impact_speed_mps: Percentiles
     landing: dict[str, float]
     bands: dict[str, float]
-    factors: tuple[str, ...]
-    hazards: tuple[str, ...]
+    factors: tuple[Reason, ...]
+    hazards: tuple[Reason, ...]
 
     @property
     def band_name(self) -> str:
@@ -264,19 +266,6 @@ def _rank(keys: list[npt.NDArray[Any]]) -> npt.NDArray[np.int64]:
     ranks = np.empty(order.size, dtype=np.int64)
     ranks[order] = np.arange(1, order.size + 1)
     return ranks
-
-
-def _surface_word(kind: SurfaceKind | str) -> str:
-    return {
-        SurfaceKind.CONCRETE: "concrete or paving",
-        SurfaceKind.ASPHALT: "asphalt",
-        SurfaceKind.GRAVEL: "gravel",
-        SurfaceKind.LAWN: "lawn or soil",
-        SurfaceKind.PLANTING: "a planting bed",
-        SurfaceKind.WATER: "water",
-        SurfaceKind.ROOF: "a roof",
-        SurfaceKind.DECK: "a timber deck",
-    }[SurfaceKind(kind)]
 
 
 def assess(
@@ -435,33 +424,20 @@ def _assessment(
             id0, share0 = next(iter(landing.items()))
             kind0 = summary.landing_kind[i]
             assert kind0 is not None
-            factors.append(
-                f"Median drop {drop_pct[i, 1]:.1f} m; {share0:.0%} of falls land on "
-                f"{_surface_word(kind0)} ({id0})"
-            )
+            factors.append(Reason.of("drop_landing", drop_m=float(drop_pct[i, 1]),
+                                     share=float(share0), surface=SurfaceKind(kind0).value,
+                                     landing_id=str(id0)))
             water = float(water_share[i])
             if water > 0:
-                hazards.append(
-                    f"Water below ({water:.0%} of falls): a cat that survives the fall may drown"
-                )
-        factors.append(f"Median impact speed {speed_pct[i, 1]:.1f} m/s")
+                hazards.append(Reason.of("water_below", share=water))
+        factors.append(Reason.of("impact_speed", speed_mps=float(speed_pct[i, 1])))
         if drop_pct[i, 1] > CALIBRATED_DROP_MAX_M:
-            factors.append(
-                f"Higher than the falls of the published case series (up to about "
-                f"{CALIBRATED_DROP_MAX_M:.0f} m): the injury shares here are extrapolated and "
-                "may understate how badly cats are hurt"
-            )
-        factors.append(
-            f"At least half of the falls from here are {BANDS[int(exp_band[i])]}"
-            + (" or worse" if exp_band[i] < len(BANDS) - 1 else "")
-        )
+            factors.append(Reason.of("beyond_calibration", limit_m=float(CALIBRATED_DROP_MAX_M)))
+        factors.append(Reason.of("median_band", band=int(exp_band[i])))
         if exp_band[i] < 3 and life_share[i] >= 0.05:
-            factors.append(f"{life_share[i]:.0%} of falls are life-threatening")
+            factors.append(Reason.of("life_share", share=float(life_share[i])))
         if unrighted_share[i] >= _MOSTLY_UNRIGHTED:
-            factors.append(
-                f"Short drop: {unrighted_share[i]:.0%} of cats land before they have fully "
-                "turned feet-down"
-            )
+            factors.append(Reason.of("short_drop", share=float(unrighted_share[i])))
         results.append(
             OpeningResult(
                 id=o.id,

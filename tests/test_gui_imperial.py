@@ -111,9 +111,6 @@ def test_imperial_tables_and_tooltips_show_no_metric_unit(imperial_window, qtbot
     assert not metric, "metric units in imperial mode:\n" + "\n".join(metric)
 
 
-@pytest.mark.xfail(reason="the risk layer still writes its factors as English sentences with "
-                          "metric numbers; structured factors rendered by present/ fix this",
-                   strict=False)
 def test_imperial_factors_show_no_metric_unit(imperial_window) -> None:  # type: ignore[no-untyped-def]
     window, views = imperial_window
     texts = _texts(views.ranked.model, set())  # factors included this time

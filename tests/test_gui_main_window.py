@@ -19,7 +19,7 @@ from petfall_audit.editing.query import select_openings
 from petfall_audit.gui.dialogs import BulkEditDialog, CautionsDialog, CopyFloorDialog, Prompts
 from petfall_audit.gui.main_window import MainWindow
 from petfall_audit.gui.settings import AppSettings
-from petfall_audit.io.building_file import load_building
+from petfall_audit.io.building_file import load_building, save_building
 from petfall_audit.model import Building, Floor, OpeningKind
 
 pytestmark = pytest.mark.gui
@@ -235,6 +235,25 @@ def test_a_broken_file_is_reported_and_the_work_kept(qtbot, tmp_path: Path) -> N
     bad.write_text("{not json", encoding="utf-8")
     assert not window.open_file(bad)
     assert window.document is before and window.prompts.errors
+
+
+def test_a_file_with_problems_names_each_place_in_words(qtbot, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
+    import json
+
+    window = make_window(qtbot)
+    good = tmp_path / "good.json"
+    save_building(sample_building("walkup"), good)
+    doc = json.loads(good.read_text(encoding="utf-8"))
+    doc["openings"][12]["floor"] = 42  # no such level
+    doc["floors"][2]["elevation_m"] = doc["floors"][1]["elevation_m"] - 0.5  # below the last
+    bad = tmp_path / "bad.json"
+    bad.write_text(json.dumps(doc), encoding="utf-8")
+    assert not window.open_file(bad)
+    (text,) = window.prompts.errors
+    opening = doc["openings"][12]["id"]
+    assert f"Opening {opening}, floor: level 42 does not exist" in text
+    assert doc["floors"][2]["label"] in text
+    assert "openings[" not in text and "floors[" not in text  # no file paths for people
 
 
 def test_recovery_file_after_edits_is_offered_on_the_next_start(qtbot, monkeypatch) -> None:  # type: ignore[no-untyped-def]

@@ -21,6 +21,7 @@ from petfall_audit.gui.views.common import wait_for_tasks
 from petfall_audit.gui.views.ranked import ID_ROLE
 from petfall_audit.io.building_file import save_building
 from petfall_audit.model import BALCONY_LIKE, Building
+from petfall_audit.present.explain import explain
 from petfall_audit.risk import assess
 
 pytestmark = pytest.mark.gui
@@ -239,7 +240,7 @@ def test_ranked_filters_and_orders(app_window) -> None:  # type: ignore[no-untyp
     _select_in_ranked(views, ranked.visible_ids()[0])
     text = ranked.details.toPlainText()
     assert "Why it ranks here" in text
-    assert a.result(ranked.visible_ids()[0]).factors[0] in text
+    assert explain(a.result(ranked.visible_ids()[0]).factors[0]) in text
 
 
 def test_floor_comparison_of_two_facades_and_of_an_earlier_audit(app_window, qtbot,
@@ -357,3 +358,61 @@ def test_a_partial_podium_is_drawn_where_it_lies_on_screen_and_paper(app_window)
     _, sx = facade_scales(elev, 480.0, 600.0)
     widths = [round(c.width / sx, 6) for c in d.contents if isinstance(c, Rect)]
     assert 6.0 in widths
+
+
+def _pdf_hatched(drawing: Any, elev: Any) -> set[str]:
+    """Openings the PDF elevation cross-hatched: one group per opening (rectangle first, in
+    the order of ``elev.opening_ids``); a hatch is a diagonal line inside the rectangle (the
+    rail is horizontal and sticks out past it)."""
+    from reportlab.graphics.shapes import Group, Line, Rect
+
+    groups = [g for g in drawing.contents if isinstance(g, Group)]
+    assert len(groups) == len(elev.opening_ids)
+    out = set()
+    for oid, g in zip(elev.opening_ids, groups, strict=True):
+        r = g.contents[0]
+        assert isinstance(r, Rect)
+        for line in g.contents[1:]:
+            if not isinstance(line, Line) or line.y1 == line.y2:
+                continue
+            inside = all(r.x - 1e-6 <= x <= r.x + r.width + 1e-6 for x in (line.x1, line.x2)) \
+                and all(r.y - 1e-6 <= y <= r.y + r.height + 1e-6 for y in (line.y1, line.y2))
+            if inside:
+                out.add(oid)
+    return out
+
+
+def test_screen_and_paper_hatch_the_same_protected_openings(app_window) -> None:  # type: ignore[no-untyped-def]
+    """One figure-data object drawn by the app and by the PDF: both hatch exactly the openings
+    whose barrier holds the building's cats (kittens here), not every opening with a barrier."""
+    from PySide6.QtCore import Qt as _Qt
+
+    from petfall_audit.model import CAT_PRESETS
+    from petfall_audit.report.charts import facade_drawing
+
+    base = sample_building("walkup")
+    assert base.cat_profile == CAT_PRESETS["kitten"]
+    change = {
+        "CY-1F": {"netting_mesh_mm": 100.0},  # balcony, coarse net: no protection
+        "CY-2F": {"netting_mesh_mm": 20.0},   # balcony, kitten net (20 mm, pet-net practice)
+        "CY-2K": {"limiter_gap_mm": 150.0},   # wider than any child limiter
+        "CY-3K": {"limiter_gap_mm": 20.0},    # narrower than a kitten's head
+        # CY-1K, CY-4K, CY-5K keep their 100 mm child limiters; CY-4B has a pet screen
+    }
+    b = dataclasses.replace(base, openings=tuple(
+        dataclasses.replace(o, **change.get(o.id, {})) for o in base.openings))
+    window, views = app_window(b)
+    window.view_tabs.setCurrentWidget(views.facade)
+    views.facade.set_facade("courtyard")
+    elev = views.facade.elevation
+    assert elev is not None and elev.facade_id == "courtyard"
+    expected = {"CY-2F", "CY-3K", "CY-4B"}
+    assert set(elev.protected_ids) == expected
+    screen = {oid for oid, item in views.facade.items.items()
+              if item.overlay.brush().style() == _Qt.BrushStyle.DiagCrossPattern}
+    paper = _pdf_hatched(facade_drawing(elev, 480.0, 600.0), elev)
+    assert screen == paper == expected
+    # the tooltip says why a coarse barrier is not hatched, in the display units
+    tip = views.facade.items["CY-1F"].tooltip_text
+    assert "100 mm mesh (lets 100% of these cats through)" in tip
+    assert "20 mm mesh (holds these cats)" in views.facade.items["CY-2F"].tooltip_text

@@ -29,6 +29,7 @@ from petfall_audit.model import (
     Screen,
     Uniform,
 )
+from petfall_audit.present.explain import REASON_CODES, explain_all
 
 ADULT = CAT_PRESETS["adult"]
 KITTEN = CAT_PRESETS["kitten"]
@@ -141,18 +142,25 @@ def test_tilt_and_turn_entrapment_is_a_separate_hazard() -> None:
                              replace(tt, screen=Screen.PET_RESISTANT)])
     assert ENTRAPMENT_HAZARD in res.hazards[0]
     assert res.hazards[1] == () and res.hazards[2] == () and res.hazards[3] == ()
-    assert not any("trapped" in f for f in res.factors[0])
+    assert not any("trapped" in f for f in explain_all(res.factors[0]))
 
 
-def test_factors_are_plain_words() -> None:
+def test_factors_are_codes_that_read_as_plain_words() -> None:
     ops = [BALCONY, replace(BALCONY, largest_gap_mm=90.0, flat_rail_top=True, netting_mesh_mm=30),
            replace(WINDOW, limiter_gap_mm=100.0, escape_window=True),
            replace(WINDOW, screen=Screen.INSECT)]
     res = assess_likelihood(ops)
-    for words in res.factors:
-        assert words and all(isinstance(w, str) and w and "{" not in w for w in words)
-    assert any("jump" in w for w in res.factors[0])
-    assert any("escape" in w for w in res.factors[2])
+    for reasons in res.factors:
+        assert reasons and all(r.code in FACTORS for r in reasons)
+        words = explain_all(reasons)
+        assert all(isinstance(w, str) and w and "{" not in w for w in words)
+        # every code has its own words (an unknown code would read as the code itself)
+        assert all(r.code in REASON_CODES for r in reasons)
+    assert any("jump" in w for w in explain_all(res.factors[0]))
+    assert any("escape" in w for w in explain_all(res.factors[2]))
+    # the limiter's gap travels as a length in metres, not as text
+    limiter = next(r for r in res.factors[2] if r.code.startswith("limiter"))
+    assert limiter.number("gap_m") == pytest.approx(0.100)
     assert all(f.source for f in FACTORS.values())
     np.testing.assert_allclose(res.one_in_n, 1 / res.annual_probability)
     assert np.all((res.annual_probability > 0) & (res.annual_probability < 1))

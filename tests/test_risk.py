@@ -29,6 +29,7 @@ from petfall_audit.model import (
     SurfaceKind,
 )
 from petfall_audit.physics import peak_speed_of_falls
+from petfall_audit.present.explain import explain_all
 from petfall_audit.risk import HHSRS_CLASS_WEIGHTS, MODEL_VERSION, assess, risk_score
 from petfall_audit.sampling import sample_cat_profile
 from petfall_audit.sensitivity import with_sensitivity
@@ -238,10 +239,10 @@ def test_factors_hazards_and_ranked_views() -> None:
     b = replace(b, surfaces=tuple(s for s in b.surfaces if s.id != "lawn"))
     a = assess(b, samples=N)
     r = {o.id: o for o in a.openings}
-    assert any("trapped" in h for h in r["tt"].hazards)
-    assert any("drown" in h for h in r["low"].hazards)
-    assert any("110 mm" in f for f in r["gappy"].factors)
-    assert any("rail top" in f for f in r["gappy"].factors)
+    assert any("trapped" in h for h in explain_all(r["tt"].hazards))
+    assert any("drown" in h for h in explain_all(r["low"].hazards))
+    assert any("110 mm" in f for f in explain_all(r["gappy"].factors))
+    assert any("rail top" in f for f in explain_all(r["gappy"].factors))
     assert all(o.factors for o in a.openings)
     assert [o.rank for o in a.ranked("band")] == [1, 2, 3]
     assert [o.risk_rank for o in a.ranked("risk")] == [1, 2, 3]

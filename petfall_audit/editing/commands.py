@@ -20,7 +20,7 @@ from enum import StrEnum
 from typing import Any, get_type_hints
 
 from petfall_audit.editing.document import Document, validate
-from petfall_audit.errors import PetfallError, Problem
+from petfall_audit.errors import PetfallError, Place, Problem
 from petfall_audit.field_registry import field_words, section_fields
 from petfall_audit.model import (
     Building,
@@ -101,13 +101,16 @@ def refusal_text(problems: Sequence[Problem], *, limit: int = 3) -> str:
     return text or "edit refused"
 
 
-def _refuse(where: str, message: str) -> EditRefused:
+_FLOOR_LEVEL = Place("floors", None, "level")
+
+
+def _refuse(where: str | Place, message: str) -> EditRefused:
     return EditRefused([Problem(where, message)])
 
 
-def _problem_key(problem: Problem) -> tuple[str, str]:
+def _problem_key(problem: Problem) -> tuple[str, str, str]:
     # Indices shift when items are added or removed; compare problems without them.
-    return re.sub(r"\[\d+\]", "[]", problem.where), problem.message
+    return problem.place.section, problem.place.field, problem.message
 
 
 def new_problems(before: Sequence[Problem], after: Sequence[Problem]) -> list[Problem]:
@@ -197,7 +200,7 @@ def _coerce_changes(cls: type, changes: Mapping[str, Any], where: str) -> dict[s
     out: dict[str, Any] = {}
     for name, value in changes.items():
         if name not in names:
-            raise _refuse(f"{where}.{name}", f"there is no field {name!r}")
+            raise _refuse(Place(where, None, name), f"there is no field {name!r}")
         hint = hints[name]
         enum_types = [t for t in getattr(hint, "__args__", (hint,)) if isinstance(t, type)
                       and issubclass(t, StrEnum)]
@@ -206,7 +209,7 @@ def _coerce_changes(cls: type, changes: Mapping[str, Any], where: str) -> dict[s
                 value = enum_types[0](value)
             except ValueError:
                 allowed = ", ".join(m.value for m in enum_types[0])
-                raise _refuse(f"{where}.{name}", f"must be one of {allowed}") from None
+                raise _refuse(Place(where, None, name), f"must be one of {allowed}") from None
         out[name] = value
     return out
 
@@ -253,7 +256,7 @@ class SetOpeningFields(BuildingCommand):
             raise ValueError("ids: give at least one opening id")
         self.changes = _coerce_changes(Opening, changes, "openings")
         if "id" in self.changes and len(self.ids) > 1:
-            raise _refuse("openings.id", "several openings cannot take the same id")
+            raise _refuse(Place("openings", None, "id"), "several openings cannot take the same id")
         fields = field_words("openings", self.changes)
         target = self.ids[0] if len(self.ids) == 1 else _plural(len(self.ids), "opening")
         self._default_label = label is None
@@ -296,7 +299,7 @@ class AddOpenings(BuildingCommand):
         existing = {o.id for o in building.openings}
         clash = sorted({o.id for o in self.openings} & existing)
         if clash:
-            raise _refuse("openings.id", f"id already used: {', '.join(clash)}")
+            raise _refuse(Place("openings", None, "id"), f"id already used: {', '.join(clash)}")
         items = list(building.openings)
         at = len(items) if self.index is None else max(0, min(self.index, len(items)))
         items[at:at] = self.openings
@@ -377,7 +380,7 @@ class AddFloor(BuildingCommand):
 
     def apply(self, building: Building) -> Building:
         if any(f.level == self.floor.level for f in building.floors):
-            raise _refuse("floors.level", f"there is already a floor at level {self.floor.level}")
+            raise _refuse(_FLOOR_LEVEL, f"there is already a floor at level {self.floor.level}")
         return dataclasses.replace(building, floors=_sorted_floors((*building.floors, self.floor)))
 
 
@@ -392,7 +395,7 @@ class AddFloors(BuildingCommand):
         taken = {f.level for f in building.floors}
         clash = sorted({f.level for f in self.floors} & taken)
         if clash or len({f.level for f in self.floors}) != len(self.floors):
-            raise _refuse("floors.level", "there is already a floor at level "
+            raise _refuse(_FLOOR_LEVEL, "there is already a floor at level "
                           + ", ".join(map(str, clash or [self.floors[0].level])))
         return dataclasses.replace(building,
                                    floors=_sorted_floors((*building.floors, *self.floors)))
@@ -439,7 +442,7 @@ class SetFloor(BuildingCommand):
         new_level = self.changes.get("level", self.level)
         if new_level != self.level:
             if any(f.level == new_level for f in building.floors):
-                raise _refuse("floors.level", f"there is already a floor at level {new_level}")
+                raise _refuse(_FLOOR_LEVEL, f"there is already a floor at level {new_level}")
             openings = tuple(
                 dataclasses.replace(o, floor=new_level) if o.floor == self.level else o
                 for o in openings

@@ -9,6 +9,7 @@ from typing import TYPE_CHECKING
 import numpy as np
 from numpy.typing import NDArray
 
+from petfall_audit.barriers import is_protected
 from petfall_audit.figures.floors import floors_by_elevation
 from petfall_audit.model import BALCONY_LIKE, Building
 from petfall_audit.present.labels import surface_label
@@ -47,6 +48,8 @@ class FacadeElevation:
     ``bottom_m`` / ``top_m``: drawn extent of each opening above the datum (windows from the sill,
     balconies from the floor). ``guard_m``: rail top above the datum for balcony-like openings,
     NaN for windows. ``band``: expected injury band, -1 when unknown. ``rank``: 1 = worst.
+    ``protected``: a barrier fitted to the opening holds the building's cat profile
+    (:func:`petfall_audit.barriers.is_protected`); screen and paper hatch these openings.
     """
 
     facade_id: str
@@ -66,7 +69,14 @@ class FacadeElevation:
     guard_m: NDArray[np.float64]
     band: NDArray[np.int_]
     rank: NDArray[np.int_]
+    protected: NDArray[np.bool_]
     surfaces: tuple[SurfaceBand, ...] = ()
+
+    @property
+    def protected_ids(self) -> frozenset[str]:
+        """Ids of the openings drawn as protected."""
+        return frozenset(i for i, p in zip(self.opening_ids, self.protected.tolist(), strict=True)
+                         if p)
 
 
 def storey_heights_m(building: Building) -> dict[int, float]:
@@ -90,7 +100,7 @@ def facade_elevations(assessment: Assessment) -> list[FacadeElevation]:
     floors = floors_by_elevation(building)
     levels = np.array([f.level for f in floors], dtype=int)
     elev = np.array([f.elevation_m for f in floors], dtype=float)
-    ground = min([s.elevation_m for s in building.surfaces] + [float(elev.min(initial=0.0))])
+    lowest_floor_m = float(elev.min(initial=0.0))
     roof = float(elev.max(initial=0.0)) + (storey[floors[-1].level] if floors else 0.0)
     floor_elev = {f.level: f.elevation_m for f in floors}
     out: list[FacadeElevation] = []
@@ -104,6 +114,10 @@ def facade_elevations(assessment: Assessment) -> list[FacadeElevation]:
         balcony = np.array([o.kind in BALCONY_LIKE for o in ops], dtype=bool)
         head = np.minimum(HEAD_HEIGHT_M, h - 0.2)
         sill = np.minimum(perch, head - 0.3)
+        below = facade_context(building, facade.id).surfaces
+        # the ground line of this facade: its own surfaces (a light well on another facade
+        # does not lower it)
+        ground = min([sb.elevation_m for sb in below] + [lowest_floor_m])
         out.append(
             FacadeElevation(
                 facade_id=facade.id,
@@ -123,7 +137,9 @@ def facade_elevations(assessment: Assessment) -> list[FacadeElevation]:
                 guard_m=np.where(balcony, base + np.minimum(perch, head), np.nan),
                 band=np.array([band_of.get(o.id, -1) for o in ops], dtype=int),
                 rank=np.array([rank_of.get(o.id, 0) for o in ops], dtype=int),
-                surfaces=facade_context(building, facade.id).surfaces,
+                protected=np.array([is_protected(o, building.cat_profile) for o in ops],
+                                   dtype=bool),
+                surfaces=below,
             )
         )
     return out

@@ -101,12 +101,13 @@ class ViewOptions(QObject):
             self.changed.emit()
 
 
-def push_command(history: History, cmd: Command) -> str | None:
-    """Push ``cmd``; return ``None`` on success or the plain-words reason it was refused."""
+def push_command(history: History, cmd: Command, system: str = "metric") -> str | None:
+    """Push ``cmd``; return ``None`` on success or the plain-words reason it was refused (its
+    numbers in the units of ``system``)."""
     try:
         history.push(cmd)
     except EditRefused as exc:
-        return problem_words(exc.problems, exc.building or history.doc.building)
+        return problem_words(exc.problems, exc.building or history.doc.building, system=system)
     except ValueError as exc:
         return str(exc)
     return None
@@ -300,7 +301,7 @@ class RecordTableModel(QAbstractTableModel):
             self.refused = (*self._editing, message)
 
     def _push(self, key: Any, field_name: str, cmd: Command) -> bool:
-        reason = push_command(self._history, cmd)
+        reason = push_command(self._history, cmd, self._options.units)
         if reason is not None:
             self.edit_failed.emit(str(key), field_name, reason)
             return False
@@ -458,4 +459,5 @@ class ResultsTableModel(QAbstractTableModel):
             return r.id
         if role == Qt.ItemDataRole.DisplayRole:
             return self._text(r, column)
-        return result_style(r, column, role, stale=self.stale, palette=self._options.palette)
+        return result_style(r, column, role, stale=self.stale, palette=self._options.palette,
+                            system=self._options.units)

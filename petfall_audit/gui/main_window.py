@@ -42,7 +42,8 @@ from petfall_audit.editing.document import MODEL_KINDS, PLAN_ONLY_KINDS, Documen
 from petfall_audit.editing.fields import OPENING_FIELDS, field_spec
 from petfall_audit.editing.history import History
 from petfall_audit.editing.query import applicable_openings
-from petfall_audit.errors import BuildingFileError
+from petfall_audit.editing.words import problem_words
+from petfall_audit.errors import BuildingFileError, ValidationFailed
 from petfall_audit.gui.actions import create_actions
 from petfall_audit.gui.adapters import ResultsTableModel, ViewOptions, push_command
 from petfall_audit.gui.dialogs import APP_TITLE, Prompts
@@ -336,7 +337,7 @@ class MainWindow(QMainWindow):
 
     def push(self, cmd: Any) -> str | None:
         """Push an edit; on refusal show why in the status bar and return the reason."""
-        reason = push_command(self.history, cmd)
+        reason = push_command(self.history, cmd, self.options.units)
         if reason is not None:
             self.status_label.setText(f"! Not changed: {reason}")
             self.status_label.setStyleSheet(ERROR_STYLE)
@@ -459,6 +460,12 @@ class MainWindow(QMainWindow):
             return False
         try:
             building = load_building(path)
+        except ValidationFailed as exc:
+            known = exc.building if isinstance(exc.building, Building) else None
+            self.prompts.show_error(self, "Cannot open the building file",
+                                    f"{Path(path).name}:\n"
+                                    + problem_words(exc.problems, known, limit=10, sep="\n"))
+            return False
         except BuildingFileError as exc:
             self.prompts.show_error(self, "Cannot open the building file",
                                     f"{Path(path).name}:\n{exc}")

@@ -13,6 +13,7 @@ from PySide6.QtGui import QBrush, QColor, QFont
 from petfall_audit.injury import BANDS
 from petfall_audit.palette import band_style
 from petfall_audit.present import SPEED_TERMS, Units, enum_label, fmt_one_in, fmt_risk
+from petfall_audit.present.explain import explain, explain_all
 
 __all__ = ["result_text", "result_style", "result_tooltip", "two_line_title", "STALE_TEXT",
            "NUMERIC_COLUMNS"]
@@ -63,21 +64,24 @@ def result_text(r: Any, column: str, units: Units, palette: str,
     if column == "risk":
         return fmt_risk(r.risk)
     if column == "factor":
-        return r.factors[0] if r.factors else ""
+        return explain(r.factors[0], units.system) if r.factors else ""
     raise KeyError(column)
 
 
-def result_tooltip(r: Any, column: str = "") -> str:
-    """The expected band of result ``r``, then its factors and hazards, one a line; in the
-    ``speed`` column first what that speed is (one opening shows several)."""
+def result_tooltip(r: Any, column: str = "", system: str = "metric") -> str:
+    """The expected band of result ``r``, then its factors and hazards (in ``system`` units),
+    one a line; in the ``speed`` column first what that speed is (one opening shows several)."""
     lead = [SPEED_TERMS["impact_median"] + "."] if column == "speed" else []
     return "\n".join([*lead, f"{r.id}: {BANDS[r.expected_band]} expected",
-                      *(f"• {f}" for f in r.factors), *(f"• {h}" for h in r.hazards)])
+                      *(f"• {f}" for f in explain_all(r.factors, system)),
+                      *(f"• {h}" for h in explain_all(r.hazards, system))])
 
 
-def result_style(r: Any, column: str, role: int, *, stale: bool, palette: str) -> Any:
+def result_style(r: Any, column: str, role: int, *, stale: bool, palette: str,
+                 system: str = "metric") -> Any:
     """Alignment, band colours (the ``band`` column), grey italics while ``stale`` and the
-    tooltip of result ``r`` for an item-data ``role``; ``None`` for other roles."""
+    tooltip of result ``r`` (in ``system`` units) for an item-data ``role``; ``None`` for other
+    roles."""
     if role == Qt.ItemDataRole.TextAlignmentRole and column in NUMERIC_COLUMNS:
         return int(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
     if role == Qt.ItemDataRole.BackgroundRole and column == "band" and not stale:
@@ -92,5 +96,5 @@ def result_style(r: Any, column: str, role: int, *, stale: bool, palette: str) -
         font.setItalic(True)
         return font
     if role == Qt.ItemDataRole.ToolTipRole:
-        return result_tooltip(r, column)
+        return result_tooltip(r, column, system)
     return None

@@ -17,7 +17,7 @@ from typing import Any
 
 import numpy as np
 
-from petfall_audit.errors import Problem
+from petfall_audit.errors import Place, Problem
 from petfall_audit.io._schema import CAT_PARAMETERS, LIMITS, is_iso_date
 from petfall_audit.io.photos import photo_problem
 from petfall_audit.model import (
@@ -38,6 +38,7 @@ from petfall_audit.model import (
     OpeningKind,
     Uniform,
 )
+from petfall_audit.reasons import Reason
 
 __all__ = ["Places", "check_model", "code_profile_warnings", "describe", "number", "unit_of"]
 
@@ -114,9 +115,9 @@ class Places:
             }
         )
 
-    def at(self, section: str, i: int, field: str = "") -> str:
-        place = f"{section}[{self.index[section][i]}]"
-        return f"{place}.{field}" if field else place
+    def at(self, section: str, i: int, field: str = "") -> Place:
+        """The place of item ``i`` of ``section`` (its index in the file) and its ``field``."""
+        return Place(section, self.index[section][i], field)
 
 
 def _finite(x: object) -> bool:
@@ -125,7 +126,7 @@ def _finite(x: object) -> bool:
 
 def _range(
     problems: list[Problem],
-    where: str,
+    where: str | Place,
     value: float | None,
     unit: str,
     lo: float | None = None,
@@ -148,13 +149,24 @@ def _range(
     tail = f" ({why})" if why else ""
     if lo is not None and (value <= lo if lo_open else value < lo):
         word = "greater than" if lo_open else "at least"
-        problems.append(Problem(where, f"must be {word} {number(lo)}{u}{got}"))
+        problems.append(Problem(where, f"must be {word} {number(lo)}{u}{got}",
+                                reason=_range_reason("range_low", value, lo, unit, lo_open, why)))
         return False
     if hi is not None and (value >= hi if hi_open else value > hi):
         word = "less than" if hi_open else "at most"
-        problems.append(Problem(where, f"must be {word} {number(hi)}{u}{got}{tail}"))
+        problems.append(Problem(where, f"must be {word} {number(hi)}{u}{got}{tail}",
+                                reason=_range_reason("range_high", value, hi, unit, hi_open, why)))
         return False
     return True
+
+
+def _range_reason(code: str, value: float, limit: float, unit: str, open_: bool, why: str
+                  ) -> Reason:
+    """A value out of its range as a reason: lengths in metres (``quantity`` ``length``, or
+    ``gap`` for millimetre sizes), other quantities in their own ``unit``."""
+    scale, quantity = {"m": (1.0, "length"), "mm": (1e-3, "gap")}.get(unit, (1.0, "plain"))
+    return Reason.of(code, value=float(value) * scale, limit=float(limit) * scale,
+                     quantity=quantity, unit=unit, open=int(open_), why=why)
 
 
 def _duplicates(
@@ -200,14 +212,14 @@ def check_model(b: Building, places: Places, incomplete: frozenset[str]) -> list
 
 def _check_info(problems: list[Problem], info: BuildingInfo) -> None:
     L = LIMITS
-    where = "building.site_altitude_m"
-    _range(problems, where, info.site_altitude_m, "m", L.altitude_min_m, L.altitude_max_m)
-    where = "building.air_temperature_c"
-    _range(problems, where, info.air_temperature_c, "°C", L.temperature_min_c, L.temperature_max_c)
+    _range(problems, Place("building", None, "site_altitude_m"), info.site_altitude_m, "m",
+           L.altitude_min_m, L.altitude_max_m)
+    _range(problems, Place("building", None, "air_temperature_c"), info.air_temperature_c, "°C",
+           L.temperature_min_c, L.temperature_max_c)
     if info.audit_date and not is_iso_date(info.audit_date):
         problems.append(
             Problem(
-                "building.audit_date",
+                Place("building", None, "audit_date"),
                 f"expected a date written YYYY-MM-DD (or empty), got {describe(info.audit_date)}",
             )
         )
@@ -243,6 +255,10 @@ def _check_floors(problems: list[Problem], b: Building, places: Places) -> None:
                         places.at("floors", i, "elevation_m"),
                         f"level {f.level} at {f.elevation_m:g} m is not above level "
                         f"{previous.level} at {previous.elevation_m:g} m ({below})",
+                        reason=Reason.of("floor_not_above", level=f.level,
+                                         elevation_m=float(f.elevation_m),
+                                         below_level=previous.level,
+                                         below_m=float(previous.elevation_m)),
                     )
                 )
         previous = f
@@ -449,6 +465,9 @@ def _check_landing(
                     f"at {s_elev[si]:g} m this surface is above the openings it would catch: "
                     f"{places.at('openings', first)} ({o.id!r}, level {o.floor} at "
                     f"{o_elev[first]:g} m){more}; check its elevation, facade and extent",
+                    reason=Reason.of("surface_above_openings", surface_m=float(s_elev[si]),
+                                     opening_id=o.id, level=o.floor,
+                                     opening_m=float(o_elev[first]), more=len(hits) - 1),
                 )
             )
     # Every opening must land somewhere: below each opening, along its whole width, the
@@ -495,6 +514,10 @@ def _check_landing(
                     f"nothing lies below opening {o.id!r} on facade {facade.id!r} {extent}"
                     f"{where} (its floor at {o_elev[i]:g} m): add a surface there, e.g. the "
                     f"ground running on without end (outer edge empty, to_facade_m null)",
+                    reason=Reason.of(
+                        "nothing_below", opening_id=o.id, facade=facade.id, out_from_m=start,
+                        out_to_m=end, along_from_m=max(a, 0.0), along_to_m=z,
+                        floor_m=float(o_elev[i])),
                 )
             )
             break  # one message per facade is enough to act on
@@ -537,17 +560,21 @@ def _check_profile(problems: list[Problem], p: CatProfile, *, compare: bool = Tr
     if p.preset is not None and p.preset not in CAT_PRESETS:
         problems.append(
             Problem(
-                "cat_profile.preset",
+                Place("cat_profile", None, "preset"),
                 f"unknown preset {p.preset!r} (known: {', '.join(CAT_PRESETS)})",
             )
         )
-    _range(problems, "cat_profile.relax_probability", p.relax_probability, "", 0.0, 1.0)
+    _range(problems, Place("cat_profile", None, "relax_probability"), p.relax_probability, "",
+           0.0, 1.0)
     fine = True
     for name in CAT_PARAMETERS:
         lo, lo_open, hi, hi_open, why = _PARAM_LIMITS[name]
         unit = unit_of((name,)).strip()
         d: Distribution = getattr(p, name)
-        at = f"cat_profile.{name}"
+        at = Place("cat_profile", None, name)
+
+        def part(sub: str, name: str = name) -> Place:
+            return Place("cat_profile", None, f"{name}.{sub}")
         before = len(problems)
 
         value = functools.partial(
@@ -557,25 +584,25 @@ def _check_profile(problems: list[Problem], p: CatProfile, *, compare: bool = Tr
         if isinstance(d, Fixed):
             value(at, d.value)
         elif isinstance(d, Normal):
-            value(f"{at}.mean", d.mean)
-            _range(problems, f"{at}.sd", d.sd, unit, 0.0, hi, why=why)
+            value(part("mean"), d.mean)
+            _range(problems, part("sd"), d.sd, unit, 0.0, hi, why=why)
         elif isinstance(d, Uniform):
-            value(f"{at}.min", d.min)
-            value(f"{at}.max", d.max)
+            value(part("min"), d.min)
+            value(part("max"), d.max)
             if len(problems) == before and d.min > d.max:
                 problems.append(
-                    Problem(f"{at}.max", f"must not be below min ({d.min:g}), got {d.max:g}")
+                    Problem(part("max"), f"must not be below min ({d.min:g}), got {d.max:g}")
                 )
         elif isinstance(d, LogNormal):
-            value(f"{at}.lognormal.mean", d.mean)
-            _range(problems, f"{at}.lognormal.sd", d.sd, unit, 0.0, hi, why=why)
+            value(part("lognormal.mean"), d.mean)
+            _range(problems, part("lognormal.sd"), d.sd, unit, 0.0, hi, why=why)
         else:
             problems.append(Problem(at, DISTRIBUTION_WORDS))
         fine = fine and len(problems) == before
     if compare and fine and _centre(p.cda_spread_m2) < _centre(p.cda_tense_m2):
         problems.append(
             Problem(
-                "cat_profile.cda_spread_m2",
+                Place("cat_profile", None, "cda_spread_m2"),
                 f"the spread-out posture ({_centre(p.cda_spread_m2):g} m²) must not meet less "
                 f"air than the tense one ({_centre(p.cda_tense_m2):g} m²)",
             )

@@ -23,7 +23,7 @@ from typing import Any
 
 from pydantic import BaseModel, TypeAdapter, ValidationError
 
-from petfall_audit.errors import FileFormatError, Problem, ValidationFailed
+from petfall_audit.errors import FileFormatError, Place, Problem, ValidationFailed
 from petfall_audit.io._checks import Places, check_model, describe, number, unit_of
 from petfall_audit.io._schema import (
     ALL_FIELD_NAMES,
@@ -145,7 +145,7 @@ def load_building(path: str | Path) -> Building:
     building = _parse(doc, early)
     folder = Path(path).parent
     refused = [
-        Problem(f"openings[{i}].photos[{k}]", f"photo {describe(photo)} refused: {why}")
+        Problem(Place("openings", i, f"photos[{k}]"), f"photo {describe(photo)} refused: {why}")
         for i, o in enumerate(building.openings)
         for k, photo in enumerate(o.photos)
         if (why := photo_problem(folder, photo)) is not None
@@ -216,14 +216,14 @@ def _surrogate_problems(doc: object) -> list[Problem]:
             m = _SURROGATE.search(value)
             if m:
                 problems.append(Problem(
-                    _where(loc) or "(document)",
+                    _where(loc),
                     f"text holds an invalid character (a lone surrogate, \\u{ord(m.group()):04x}, "
                     f"at character {m.start() + 1}): replace it"))
         elif isinstance(value, dict):
             for key, item in reversed(list(value.items())):
                 if isinstance(key, str) and _SURROGATE.search(key):
                     problems.append(Problem(
-                        _where(loc) or "(document)",
+                        _where(loc),
                         "a field name holds an invalid character (a lone surrogate): replace it"))
                     continue
                 stack.append((item, (*loc, key)))
@@ -557,19 +557,29 @@ def _json_message(msg: str) -> str:
 _IDENT = re.compile(r"^[A-Za-z_][A-Za-z0-9_]*$")
 
 
-def _where(loc: Sequence[Any]) -> str:
-    """``('openings', 12, 'floor')`` -> ``openings[12].floor``; union tags (``<...>``) dropped."""
-    out = ""
-    for part in loc:
+def _where(loc: Sequence[Any]) -> Place:
+    """``('openings', 12, 'floor')`` -> the place ``openings[12].floor``; union tags
+    (``<...>``) dropped; a key that is not a plain name is quoted (``["a b"]``); no parts: the
+    whole document."""
+
+    def key(part: Any) -> str:
+        text = str(part)
+        return text if _IDENT.match(text) else f"[{json.dumps(text, ensure_ascii=False)}]"
+
+    parts = [p for p in loc
+             if not (isinstance(p, str) and p.startswith("<") and p.endswith(">"))]
+    if not parts:
+        return Place("(document)")
+    section = "" if isinstance(parts[0], int) else key(parts.pop(0))
+    index = parts.pop(0) if parts and isinstance(parts[0], int) else None
+    field = ""
+    for part in parts:
         if isinstance(part, int) and not isinstance(part, bool):
-            out += f"[{part}]"
-        elif isinstance(part, str) and part.startswith("<") and part.endswith(">"):
-            continue
-        elif isinstance(part, str) and _IDENT.match(part):
-            out += f".{part}" if out else part
+            field += f"[{part}]"
         else:
-            out += f"[{json.dumps(str(part), ensure_ascii=False)}]"
-    return out
+            name = key(part)
+            field += f".{name}" if field and not name.startswith("[") else name
+    return Place(section, index, field)
 
 
 def _pydantic_problems(exc: ValidationError) -> list[Problem]:
@@ -627,7 +637,7 @@ def _pydantic_problems(exc: ValidationError) -> list[Problem]:
             message = str(ctx.get("error", err["msg"]))
         else:  # pragma: no cover - a pydantic error type not met in the tests
             message = str(err["msg"]).replace("Input should be", "should be")
-        problems.append(Problem(where or "(document)", message))
+        problems.append(Problem(where, message))
     return problems
 
 
@@ -637,19 +647,18 @@ _SECTION_FIELDS: dict[str, list[str]] = {
     **{name: list(model.model_fields) for name, model in _LIST_SECTIONS.items()},
     "cat_profile": list(CatProfileModel.model_fields),
 }
-_PLACE = re.compile(r"^([A-Za-z_]+)(?:\[(\d+)\])?(?:\.([A-Za-z_0-9]+))?")
 
 
 def _sorted_problems(problems: Iterable[Problem]) -> list[Problem]:
     """Problems in file order: by section, item index and field; stable within a field."""
 
     def key(p: Problem) -> tuple[int, int, int]:
-        m = _PLACE.match(p.where)
-        if not m:
+        place = p.place
+        if not _IDENT.match(place.section):  # the whole document, a line of the JSON text
             return (-1, 0, 0)
-        section, index, field = m.group(1), int(m.group(2) or 0), m.group(3)
-        fields = _SECTION_FIELDS.get(section, [])
-        rank = fields.index(field) if field in fields else (-1 if field is None else len(fields))
-        return (_SECTION_RANK.get(section, len(_SECTION_RANK)), index, rank)
+        head = place.field.replace("[", ".").split(".", 1)[0]
+        fields = _SECTION_FIELDS.get(place.section, [])
+        rank = fields.index(head) if head in fields else (-1 if not head else len(fields))
+        return (_SECTION_RANK.get(place.section, len(_SECTION_RANK)), place.index or 0, rank)
 
     return sorted(problems, key=key)

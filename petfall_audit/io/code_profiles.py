@@ -21,7 +21,7 @@ from pydantic import BaseModel, ConfigDict, Field, ValidationError, model_valida
 
 from petfall_audit._resources import resource_path
 from petfall_audit.code_profile import PROFILE_IDS, ROLES, CodeProfile, CodeRule, ProfileWords
-from petfall_audit.errors import CodeProfileError, Problem
+from petfall_audit.errors import CodeProfileError, Place, Problem
 
 __all__ = [
     "PROFILE_FORMAT",
@@ -136,13 +136,6 @@ def profile_path(profile_id: str) -> Path:
     return resource_path(_FOLDER) / f"{profile_id}.json"
 
 
-def _where(loc: tuple[int | str, ...]) -> str:
-    out = ""
-    for part in loc:
-        out += f"[{part}]" if isinstance(part, int) else (f".{part}" if out else str(part))
-    return out
-
-
 def parse_code_profile(doc: Any, *, source: str = "") -> CodeProfile:
     """A :class:`~petfall_audit.code_profile.CodeProfile` from a decoded JSON document. Raises
     :class:`CodeProfileError` listing every located problem."""
@@ -150,7 +143,7 @@ def parse_code_profile(doc: Any, *, source: str = "") -> CodeProfile:
         m = ProfileFileModel.model_validate(doc)
     except ValidationError as exc:
         problems = [
-            Problem(_where(tuple(e["loc"])) or "profile", e["msg"])
+            Problem(Place.of_path(tuple(e["loc"])) if e["loc"] else "profile", e["msg"])
             for e in exc.errors(include_url=False)
         ]
         raise CodeProfileError(problems, source) from None

@@ -18,6 +18,7 @@ from petfall_audit.cautions import CAUTIONS
 from petfall_audit.injury import BANDS
 from petfall_audit.io.csv_safe import csv_writer
 from petfall_audit.model import CatProfile, Distribution, Fixed, LogNormal, Normal, Uniform
+from petfall_audit.reasons import Reason
 from petfall_audit.risk import Assessment, OpeningResult, Percentiles
 
 __all__ = [
@@ -76,6 +77,8 @@ def profile_to_dict(profile: CatProfile) -> dict[str, Any]:
 
 
 def _opening(o: OpeningResult) -> dict[str, Any]:
+    from petfall_audit.present.explain import explain_all  # present reads this module's rounding
+
     return {
         "id": o.id,
         "floor": o.floor,
@@ -93,9 +96,17 @@ def _opening(o: OpeningResult) -> dict[str, Any]:
         "impact_speed_mps": _pct(o.impact_speed_mps),
         "landing": {k: _r(v) for k, v in o.landing.items()},
         "bands": {name: _r(o.bands[name]) for name in BANDS},
-        "factors": list(o.factors),
-        "hazards": list(o.hazards),
+        "factors": list(explain_all(o.factors)),
+        "hazards": list(explain_all(o.hazards)),
+        "factor_codes": [_reason(f) for f in o.factors],
+        "hazard_codes": [_reason(h) for h in o.hazards],
     }
+
+
+def _reason(r: Reason) -> dict[str, Any]:
+    """A reason's code and its SI values (numbers rounded like every other number)."""
+    return {"code": r.code,
+            "values": {k: _r(v) if isinstance(v, float) else v for k, v in r.items}}
 
 
 def _sensitivity(a: Assessment) -> dict[str, Any] | None:
@@ -170,6 +181,8 @@ _CSV_COLUMNS = (
 
 def assessment_to_csv(a: Assessment) -> str:
     """One row per opening in the default order; the cautions first, as ``#`` comment lines."""
+    from petfall_audit.present.explain import explain_all
+
     buf = io.StringIO()
     for line in CAUTIONS:
         buf.write(f"# {line}\n")
@@ -183,6 +196,6 @@ def assessment_to_csv(a: Assessment) -> str:
             _r(o.annual_probability), _r(o.one_in_n), _r(o.risk),
             _r(o.drop_m.p5), _r(o.drop_m.p50), _r(o.drop_m.p95),
             _r(o.impact_speed_mps.p5), _r(o.impact_speed_mps.p50), _r(o.impact_speed_mps.p95),
-            main, "; ".join(o.factors), "; ".join(o.hazards),
+            main, "; ".join(explain_all(o.factors)), "; ".join(explain_all(o.hazards)),
         ])
     return buf.getvalue()

@@ -12,7 +12,7 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
-from petfall_audit.errors import Problem
+from petfall_audit.errors import Place, Problem
 from petfall_audit.io._checks import code_profile_warnings
 from petfall_audit.model import Building
 
@@ -53,7 +53,7 @@ def survey_warnings(building: Building) -> list[Problem]:
         if items:
             warnings.append(
                 Problem(
-                    f"openings[{i}]",
+                    Place("openings", i),
                     f"{opening.id!r} (level {opening.floor}): not surveyed yet, the file holds "
                     f"defaults for: {', '.join(items)}; survey them, then delete the "
                     f"'{SURVEY_PREFIX}' line from its notes",

@@ -7,6 +7,7 @@ exports, so that one number or name reads the same everywhere. Units are an argu
 
 from __future__ import annotations
 
+from petfall_audit.present.explain import barrier_words, explain, explain_all, reason_json
 from petfall_audit.present.labels import (
     DRAG_AREA_NOTE,
     ENUM_LABELS,
@@ -55,6 +56,10 @@ __all__ = [
     "SPEED_TERMS",
     "Units",
     "band_label",
+    "barrier_words",
+    "explain",
+    "explain_all",
+    "reason_json",
     "enum_label",
     "fmt_change_pct",
     "fmt_count",

@@ -12,6 +12,7 @@ from typing import TYPE_CHECKING, Literal
 
 from petfall_audit.cautions import CAUTIONS, CAUTIONS_SHORT
 from petfall_audit.injury import BANDS
+from petfall_audit.present.explain import explain
 from petfall_audit.present.numbers import (
     fmt_count,
     fmt_int,
@@ -90,7 +91,7 @@ def assessment_to_table(a: Assessment, *, by: Literal["band", "risk"] = "risk",
     if hazards:
         lines += ["", "Other hazards:"]
         for oid, h in hazards:
-            lines += textwrap.wrap(f"{oid}: {h}", TEXT_WIDTH, initial_indent="  ",
+            lines += textwrap.wrap(f"{oid}: {explain(h, system)}", TEXT_WIDTH, initial_indent="  ",
                                    subsequent_indent="    ")
     note = ("Speed and drop are medians of the simulated cats; 'Per year' is the chance of a "
             "fall in 12 months, as 1 in N.")

@@ -9,7 +9,7 @@ import dataclasses
 import math
 
 import numpy as np
-from reportlab.graphics.shapes import Drawing, Line, PolyLine, Rect, String
+from reportlab.graphics.shapes import Drawing, Group, Line, PolyLine, Rect, String
 from reportlab.lib import colors
 from reportlab.pdfbase.pdfmetrics import stringWidth
 
@@ -28,6 +28,7 @@ from petfall_audit.report.styles import INK, MUTED, RULE
 __all__ = [
     "facade_drawing",
     "facade_scales",
+    "hatch_segments",
     "floor_chart",
     "fall_profile_drawing",
     "sensitivity_drawing",
@@ -141,7 +142,9 @@ def facade_scales(elev: FacadeElevation, width: float, max_height: float) -> tup
 def facade_drawing(elev: FacadeElevation, width: float, max_height: float,
                    palette: str = "standard", label_ranks_upto: int = 10) -> Drawing:
     """Elevation of one facade: floors, every opening filled and marked by its band; the worst
-    ``label_ranks_upto`` openings carry their rank number."""
+    ``label_ranks_upto`` openings carry their rank number; openings whose barrier holds the cats
+    (``elev.protected``) are cross-hatched, as on screen. Each opening is one group (its
+    rectangle first), in the order of ``elev.opening_ids``, after the floors and surfaces."""
     label_w, pad = _facade_label_w(elev, width), _FACADE_PAD
     span_x, span_y = _facade_span(elev)
     scale, sx = facade_scales(elev, width, max_height)
@@ -190,19 +193,48 @@ def facade_drawing(elev: FacadeElevation, width: float, max_height: float,
         x0, y0 = x_of(float(elev.x_m[i])), y_of(float(elev.bottom_m[i]))
         w = float(elev.width_m[i]) * sx
         hh = (float(elev.top_m[i]) - float(elev.bottom_m[i])) * scale
-        d.add(Rect(x0, y0, w, hh, fillColor=colour(st.fill), strokeColor=INK, strokeWidth=0.35))
+        item = Group(Rect(x0, y0, w, hh, fillColor=colour(st.fill), strokeColor=INK,
+                          strokeWidth=0.35))
+        if bool(elev.protected[i]):  # a barrier that holds the cats: cross-hatch, as on screen
+            ink = colour(st.text)
+            hatch = colors.Color(ink.red, ink.green, ink.blue, alpha=0.6)
+            for (xa, ya), (xb, yb) in hatch_segments(x0, y0, w, hh, _HATCH_STEP_PT):
+                item.add(Line(xa, ya, xb, yb, strokeColor=hatch, strokeWidth=0.3))
         g = float(elev.guard_m[i])
         if math.isfinite(g):  # balcony rail
-            d.add(Line(x0 - 1, y_of(g), x0 + w + 1, y_of(g), strokeColor=INK, strokeWidth=0.9))
+            item.add(Line(x0 - 1, y_of(g), x0 + w + 1, y_of(g), strokeColor=INK,
+                          strokeWidth=0.9))
         rank = int(elev.rank[i])
         text = st.mark
         if 0 < rank <= label_ranks_upto:
             text = f"{st.mark} #{rank}"
         size = min(6.5, hh * 0.7, w / max(len(text), 1) * 1.6)
         if size >= 3.0:
-            d.add(_text(x0 + w / 2, y0 + hh / 2 - size * 0.35, text, size, anchor="middle",
-                        colour_=colour(st.text), bold=True))
+            item.add(_text(x0 + w / 2, y0 + hh / 2 - size * 0.35, text, size, anchor="middle",
+                           colour_=colour(st.text), bold=True))
+        d.add(item)
     return d
+
+
+_HATCH_STEP_PT = 3.0  # spacing of the cross-hatch on a protected opening
+
+
+def hatch_segments(x0: float, y0: float, w: float, h: float, step: float
+                   ) -> list[tuple[tuple[float, float], tuple[float, float]]]:
+    """Cross-hatch of the rectangle ``x0, y0, w, h`` (pt): both diagonals every ``step`` pt,
+    each segment clipped to the rectangle."""
+    out: list[tuple[tuple[float, float], tuple[float, float]]] = []
+    if w <= 0 or h <= 0 or step <= 0:
+        return out
+    n = int(math.ceil((w + h) / step))
+    for k in range(1, n):
+        c = k * step  # rising lines: x - x0 + (y - y0) = c; falling: x - x0 = c - (y1 - y)
+        lo_x, hi_x = max(0.0, c - h), min(w, c)
+        if hi_x <= lo_x:
+            continue
+        out.append(((x0 + lo_x, y0 + c - lo_x), (x0 + hi_x, y0 + c - hi_x)))
+        out.append(((x0 + lo_x, y0 + h - (c - lo_x)), (x0 + hi_x, y0 + h - (c - hi_x))))
+    return out
 
 
 _FLOOR_ROW_MIN_PT = 4.0

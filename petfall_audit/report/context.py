@@ -44,6 +44,7 @@ from petfall_audit.present import (
     preset_label,
 )
 from petfall_audit.present.code import CodeRuleRow, code_profile_lead, code_rule_rows
+from petfall_audit.present.explain import explain_all
 from petfall_audit.present.labels import landing_names
 from petfall_audit.report.leaflet_sections import (
     LeafletChoice,
@@ -377,7 +378,8 @@ def _code_notes(assessment: Assessment, opening_id: str) -> tuple[str, ...]:
     building = assessment.building
     return tuple(
         why_code_compliant_is_not_cat_safe(building.opening(opening_id),
-                                           code=building_profile(building))
+                                           code=building_profile(building),
+                                           cat=building.cat_profile)
     )
 
 
@@ -442,8 +444,8 @@ def _details(assessment: Assessment, plan: Plan | None, top_n: int, bands: tuple
                 band=int(o.expected_band),
                 facts=facts,
                 band_probs=tuple((b, fmt_percent(float(o.bands.get(b, 0.0)))) for b in bands),
-                factors=tuple(str(f) for f in o.factors),
-                hazards=tuple(str(h) for h in o.hazards),
+                factors=explain_all(o.factors),
+                hazards=explain_all(o.hazards),
                 code_notes=_code_notes(assessment, o.id),
                 control=control,
                 notes=op.notes,

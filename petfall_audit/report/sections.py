@@ -227,6 +227,8 @@ def build_facades(elevations: Sequence[FacadeElevation], ctx: AuditContext, st: 
             f"Elevation of facade {elev.label} ({fmt_length(elev.length_m)} long, "
             f"{len(elev.opening_ids)} openings). Fill and mark show each opening's expected "
             "injury band; #n marks the highest-risk openings; a thick line marks a balcony rail."
+            + (" Cross-hatching marks an opening whose net, pet-resistant screen or limiter "
+               "holds these cats." if bool(elev.protected.any()) else "")
             + (f" Widths drawn {fmt_number(sx / sy)}× the height scale for legibility."
                if sx > 1.05 * sy else " Drawn to scale."),
             st.caption)

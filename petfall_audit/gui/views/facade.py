@@ -2,7 +2,8 @@
 
 Floors are bands; every opening is drawn at its position and size, filled with the colour of
 its expected injury band and marked with the band's text mark (so a grey print still reads).
-Openings with a net, a pet-resistant screen or a limiter carry a cross-hatch. Balconies show
+Openings whose net, pet-resistant screen or limiter holds the building's cats carry a
+cross-hatch (the figure data's ``protected`` array, drawn the same on paper). Balconies show
 their slab (they can catch a cat from above) and rail; the surfaces below are drawn at their
 height and listed under the ground line. Hover shows an opening's numbers; a click selects it
 in every view; the arrow keys move the selection, + and - zoom.
@@ -51,18 +52,18 @@ from petfall_audit.figures import (
 )
 from petfall_audit.gui.views.common import ViewContext, band_qstyle
 from petfall_audit.injury import BANDS
-from petfall_audit.model import BALCONY_LIKE, Opening, Screen
+from petfall_audit.model import BALCONY_LIKE, CatProfile, Opening
 from petfall_audit.present import (
     SPEED_TERMS,
-    fmt_length,
     fmt_one_in,
     fmt_percent,
     fmt_risk,
     surface_kind_label,
 )
+from petfall_audit.present.explain import barrier_words
 from petfall_audit.present.labels import landing_names
 
-__all__ = ["FacadeView", "OpeningItem", "opening_tooltip", "SELECT_COLOUR", "is_protected"]
+__all__ = ["FacadeView", "OpeningItem", "opening_tooltip", "SELECT_COLOUR"]
 
 #: Outline of selected openings: a vermilion that stands out from the straw-to-navy bands.
 SELECT_COLOUR = "#D55E00"
@@ -70,29 +71,13 @@ _FLOOR_FILLS = ("#FAFAF7", "#EFEFEA")
 _MIN_STOREY_PX = 40.0  # zoom so that a storey is at least this tall on screen
 
 
-def is_protected(opening: Opening) -> bool:
-    """True when a net, a pet-resistant screen or a limiter is recorded on the opening."""
-    return (opening.netting_mesh_mm is not None or opening.screen == Screen.PET_RESISTANT
-            or opening.limiter_gap_mm is not None)
-
-
-def _protection_text(opening: Opening, system: str = "metric") -> str:
-    parts = []
-    if opening.netting_mesh_mm is not None:
-        parts.append(f"net, {fmt_length(opening.netting_mesh_mm / 1000, system, small=True)} mesh")
-    if opening.screen == Screen.PET_RESISTANT:
-        parts.append("pet-resistant screen")
-    if opening.limiter_gap_mm is not None:
-        parts.append(f"limiter, {fmt_length(opening.limiter_gap_mm / 1000, system, small=True)} "
-                     "gap")
-    return ", ".join(parts) or "none recorded"
-
-
 def opening_tooltip(result: Any, opening: Opening | None, units: Any,
-                    names: dict[str, str] | None = None, where: str | None = None) -> str:
+                    names: dict[str, str] | None = None, where: str | None = None,
+                    profile: CatProfile | None = None) -> str:
     """Plain-text numbers of one opening for a tooltip or the hover line; ``names``: what to
     call the places a cat lands (:func:`petfall_audit.present.labels.landing_names`);
-    ``where``: its floor and facade in words (default: level number and facade id)."""
+    ``where``: its floor and facade in words (default: level number and facade id); its
+    barrier and whether it holds the cats of ``profile`` (default: the adult preset)."""
     lines = [
         f"{result.id} — {where or f'floor {result.floor}, {result.facade}'}",
         f"Expected injury: {BANDS[result.expected_band]} (rank {result.risk_rank} by risk "
@@ -111,7 +96,7 @@ def opening_tooltip(result: Any, opening: Opening | None, units: Any,
         lines.append("Lands on: " + ", ".join(f"{(names or {}).get(k, k)} {fmt_percent(v)}"
                                                for k, v in top))
     if opening is not None:
-        lines.append(f"Barrier against cats: {_protection_text(opening, units.system)}")
+        lines.append(f"Barrier against cats: {barrier_words(opening, profile, units.system)}")
     lines.append(SPEED_TERMS["impact_median"] + ".")
     return "\n".join(lines)
 
@@ -144,7 +129,7 @@ def _pen(colour: str, width: float = 1.0, style: Qt.PenStyle = Qt.PenStyle.Solid
 
 class OpeningItem(QGraphicsRectItem):
     """One opening on the elevation. ``band`` is its expected band (-1: no result); ``protected``
-    whether a net, pet screen or limiter is drawn over it."""
+    (from the figure data's ``protected`` array) whether it is hatched as holding the cats."""
 
     def __init__(self, view: FacadeView, opening_id: str, rect: QRectF, band: int, mark: str,
                  palette: str, protected: bool, tooltip: str, mark_y: float | None = None
@@ -322,6 +307,11 @@ class FacadeView(QWidget):
     def facade_id(self) -> str | None:
         return self._facade_id
 
+    @property
+    def elevation(self) -> FacadeElevation | None:
+        """The figure data drawn now (the PDF elevation draws the same object)."""
+        return self._elevations.get(self._facade_id or "")
+
     def set_facade(self, facade_id: str) -> None:
         i = self.facade_box.findData(facade_id)
         if i >= 0:
@@ -423,6 +413,7 @@ class FacadeView(QWidget):
         ctx = facade_context(building, self._facade_id)
         ground = e.ground_m
         notes = []
+        labelled: list[float] = []
         for s in e.surfaces:
             lo, hi = s.span_along_m(width)
             lo = -1.0 if s.x_from_m is None else lo  # a strip that runs on past both ends
@@ -444,7 +435,11 @@ class FacadeView(QWidget):
             notes.append(f"{s.label} — {kind}, {extent}, at "
                          f"{units.fmt_length(s.elevation_m)}")
             if s.elevation_m > ground + 0.5:
-                t = _Text(f"{s.label.split(':')[0]} ({kind})", "#303030", anchor=(0.0, 1.1))
+                # labels of surfaces at about the same height stack upwards, never overlap
+                row = sum(abs(z - s.elevation_m) < 1.0 for z in labelled)
+                labelled.append(s.elevation_m)
+                t = _Text(f"{s.label.split(':')[0]} ({kind})", "#303030",
+                          anchor=(0.0, 1.1 * (row + 1)))
                 t.setPos(width + 0.3, y(s.elevation_m))
                 self.scene.addItem(t)
         below = _Text("Below this facade, nearest first:\n" + "\n".join(notes)
@@ -469,11 +464,12 @@ class FacadeView(QWidget):
             opening = openings.get(oid)
             res = results.get(oid)
             where = f"{floor_names.get(res.floor, res.floor)}, {e.label}" if res else ""
-            tip = opening_tooltip(res, opening, units, names, where) if res is not None else oid
+            tip = (opening_tooltip(res, opening, units, names, where, building.cat_profile)
+                   if res is not None else oid)
             g = float(e.guard_m[i])
             mark_y = y(0.5 * (g + z1)) if math.isfinite(g) else None  # above the rail
             item = OpeningItem(self, oid, QRectF(x0, y(z1), w, z1 - z0), band, style.mark,
-                               palette, bool(opening and is_protected(opening)), tip, mark_y)
+                               palette, bool(e.protected[i]), tip, mark_y)
             self.scene.addItem(item)
             self.items[oid] = item
             if math.isfinite(g):
@@ -612,6 +608,6 @@ class FacadeView(QWidget):
             s = band_qstyle(b, self._ctx.palette)
             cells.append(f"<span style='background:{s.fill}; color:{s.text};'>&nbsp;{s.mark}"
                          f"&nbsp;</span>&nbsp;{name} ({b + 1})")
-        cells.append("▦ net, pet screen or limiter fitted")
+        cells.append("▦ net, pet screen or limiter that holds these cats")
         cells.append("━ balcony slab &nbsp; ┄ rail")
         self.legend.setText("&nbsp;&nbsp; ".join(cells))

@@ -36,6 +36,7 @@ from petfall_audit.gui.views.common import ViewContext, band_qstyle
 from petfall_audit.gui.widgets.tables import keep_columns_fitted
 from petfall_audit.injury import BAND_DESCRIPTIONS, BANDS
 from petfall_audit.present import SPEED_TERMS, enum_label, fmt_one_in, fmt_percent, fmt_risk
+from petfall_audit.present.explain import explain, explain_all
 
 __all__ = ["RankedModel", "RankedFilter", "RankedView", "SORT_ROLE", "ID_ROLE"]
 
@@ -127,11 +128,18 @@ class RankedModel(QAbstractTableModel):
         if role == SORT_ROLE:
             return (r.risk_rank, r.rank, r.id, r.floor, r.facade, str(r.kind),
                     -r.expected_band * 1e6 + r.rank, -r.annual_probability, -r.drop_m.p50,
-                    -r.impact_speed_mps.p50, -r.risk, r.factors[0] if r.factors else "")[col]
+                    -r.impact_speed_mps.p50, -r.risk,
+                    explain(r.factors[0], units.system) if r.factors else "")[col]
         if role == Qt.ItemDataRole.DisplayRole:
             return result_text(r, self.KEYS[col], units, self._ctx.palette, self._floor_labels,
                                self._facade_labels)
-        return result_style(r, self.KEYS[col], role, stale=self.stale, palette=self._ctx.palette)
+        return result_style(r, self.KEYS[col], role, stale=self.stale, palette=self._ctx.palette,
+                            system=units.system)
+
+    def words(self, r: Any) -> list[str]:
+        """The factors and hazards of result ``r`` in words, in the display units."""
+        system = self._ctx.units.system
+        return [*explain_all(r.factors, system), *explain_all(r.hazards, system)]
 
 
 class RankedFilter(QSortFilterProxyModel):
@@ -172,7 +180,7 @@ class RankedFilter(QSortFilterProxyModel):
             return False
         if self.text:
             needle = self.text.lower()
-            hay = " ".join([r.id, *r.factors, *r.hazards]).lower()
+            hay = " ".join([r.id, *model.words(r)]).lower()
             if needle not in hay:
                 return False
         return True
@@ -185,8 +193,8 @@ def _factors_html(r: Any, palette: str, units: Any) -> str:
         f"<tr><td>{band_qstyle(i, palette).mark} {html.escape(name)}</td>"
         f"<td align='right'>{fmt_percent(r.bands.get(name, 0.0))}</td></tr>"
         for i, name in enumerate(BANDS))
-    factors = "".join(f"<li>{html.escape(f)}</li>" for f in r.factors)
-    hazards = "".join(f"<li>{html.escape(h)}</li>" for h in r.hazards)
+    factors = "".join(f"<li>{html.escape(f)}</li>" for f in explain_all(r.factors, units.system))
+    hazards = "".join(f"<li>{html.escape(h)}</li>" for h in explain_all(r.hazards, units.system))
     return (
         f"<h3 style='margin:0'>{html.escape(r.id)}</h3>"
         f"<p style='margin:2px 0'><span style='background:{style.fill}; color:{style.text}'>"

@@ -219,7 +219,7 @@ class OpeningsPanel(QWidget):
             cmd = SetOpeningFields(fits, {name: value})
         except ValueError as exc:
             return str(exc)
-        reason = push_command(self._history, cmd)
+        reason = push_command(self._history, cmd, self._options.units)
         if reason is None and skipped:
             self.table_error.setText(f"! {len(skipped)} of the selected openings left as they "
                                      f"were: {why}")
@@ -247,11 +247,13 @@ class OpeningsPanel(QWidget):
             level, facade = self._place_hint()
         opening, problems = new_opening(b, level=level, facade=facade)
         if opening is None:
-            self.table_error.setText("! No opening added: " + problem_words(problems, b))
+            self.table_error.setText("! No opening added: " + problem_words(problems, b,
+                                                                system=self._options.units))
             self.table_error.show()
             return None
         index = self.model.row_of_key(ids[-1]) + 1 if ids else None
-        reason = push_command(self._history, AddOpenings([opening], index=index))
+        reason = push_command(self._history, AddOpenings([opening], index=index),
+                              self._options.units)
         if reason is not None:
             self.table_error.setText(f"! {reason}")
             self.table_error.show()
@@ -287,7 +289,7 @@ class OpeningsPanel(QWidget):
             reason = "nothing to paste: copy rows from a spreadsheet or this table first"
         else:
             cmd = PasteOpenings([r.values for r in rows])
-            reason = push_command(self._history, cmd)
+            reason = push_command(self._history, cmd, self._options.units)
             if reason is None:
                 self.select_ids([*cmd.updated, *cmd.added])
                 return None
@@ -303,7 +305,8 @@ class OpeningsPanel(QWidget):
         copies = duplicates(self._doc.building, ids)
         index = max(self.model.row_of_key(i) for i in ids) + 1
         label = f"Duplicate {ids[0]}" if len(ids) == 1 else f"Duplicate {len(ids)} openings"
-        reason = push_command(self._history, AddOpenings(copies, index=index, label=label))
+        reason = push_command(self._history, AddOpenings(copies, index=index, label=label),
+                              self._options.units)
         if reason is not None:
             self.table_error.setText(f"! {reason}")
             self.table_error.show()
@@ -314,7 +317,7 @@ class OpeningsPanel(QWidget):
     def remove_selected(self) -> None:
         ids = self.selected_ids()
         if ids:
-            reason = push_command(self._history, RemoveOpenings(ids))
+            reason = push_command(self._history, RemoveOpenings(ids), self._options.units)
             if reason is not None:
                 self.table_error.setText(f"! {reason}")
                 self.table_error.show()

@@ -41,6 +41,7 @@ class SitePanel(QWidget):
         super().__init__(parent)
         self._doc = doc
         self._history = history
+        self._options = options
         self.facades_model = RecordTableModel(
             doc, history, options, kind="facades", items=lambda b: b.facades, key="id",
             fields=FACADE_FIELDS, make_command=lambda key, ch: SetFacade(key, ch), parent=self)
@@ -102,7 +103,7 @@ class SitePanel(QWidget):
 
     def _push(self, cmd) -> None:  # type: ignore[no-untyped-def]
         self.error.hide()
-        reason = push_command(self._history, cmd)
+        reason = push_command(self._history, cmd, self._options.units)
         if reason:
             self._show_error(reason)
 

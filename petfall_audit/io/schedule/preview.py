@@ -10,7 +10,6 @@ or millimetres for gaps); the rows are then checked together and against the bui
 from __future__ import annotations
 
 import math
-import re
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
 from typing import Any
@@ -290,7 +289,6 @@ def _floors_to_apply(
     )
 
 
-_WHERE = re.compile(r"^(?P<section>openings|floors|facades)\[(?P<index>\d+)\](?:\.(?P<field>\w+))?")
 
 
 def _check_merged(
@@ -322,11 +320,11 @@ def _check_merged(
     new_facades = {f.id for f in trial.facades} - {f.id for f in building.facades}
     problems_of = {n: p for n, _, p in parsed}
     for problem in validate_building(trial):
-        m = _WHERE.match(problem.where)
-        if m is None:
+        place = problem.place
+        section, index = place.section, place.index
+        if section not in ("openings", "floors", "facades") or index is None:
             continue
-        index, field_name = int(m.group("index")), m.group("field") or ""
-        section = m.group("section")
+        field_name = place.field.replace("[", ".").split(".", 1)[0]
         rows: list[int] = []
         if section == "openings":
             rows = [row_of_id[i] for i in (trial.openings[index].id,) if i in row_of_id]
