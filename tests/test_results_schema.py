@@ -77,3 +77,19 @@ def test_batch_result_files_and_the_portfolio_plan(validator: Any, tmp_path: Pat
     assert estate["contents"] == ["portfolio"]
     assert [b["result_file"] for b in estate["portfolio"]["buildings"]] == ["walkup.json",
                                                                            "block.json"]
+
+
+def test_compare_json(validator: Any, tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
+    # The comparison of two audits is the same envelope, its keys at the top level (issue 16).
+    walkup = str(sample_path("walkup"))
+    assert main(["compare", walkup, walkup, "--format", "json", *FAST]) == 0
+    doc = _valid(validator, capsys.readouterr().out)
+    assert doc["contents"] == ["comparison"]
+    assert doc["results"] is None and doc["plan"] is None
+    assert {o["status"] for o in doc["openings"]} == {"unchanged"}
+    assert doc["risk_before"] == doc["risk_after"]
+    # a comparison without its openings is refused by the schema
+    broken = dict(doc)
+    del broken["openings"]
+    with pytest.raises(jsonschema.ValidationError):
+        validator.validate(broken)

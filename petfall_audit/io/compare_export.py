@@ -36,12 +36,10 @@ from petfall_audit.present.comparison import (
 )
 from petfall_audit.risk import OpeningResult
 
-__all__ = ["COMPARISON_FORMAT", "COMPARISON_VERSION", "METHOD", "comparison_to_dict",
+__all__ = ["METHOD", "comparison_fields", "comparison_to_dict",
            "comparison_json_text",
            "comparison_to_csv", "comparison_to_table", "CSV_COLUMNS"]
 
-COMPARISON_FORMAT = "petfall-audit-comparison"
-COMPARISON_VERSION = 1
 TEXT_WIDTH = 80
 CSV_COLUMNS = (
     "id", "earlier_id", "status", "changes", "floor", "facade", "kind",
@@ -119,12 +117,10 @@ def _audit(c: Comparison, which: str) -> dict[str, Any]:
     return {"name": info.name, "audit_date": info.audit_date, "openings": len(a.openings)}
 
 
-def comparison_to_dict(c: Comparison) -> dict[str, Any]:
-    """The comparison as JSON-ready values (keys in the module docstring)."""
+def comparison_fields(c: Comparison) -> dict[str, Any]:
+    """The comparison's own keys (in the module docstring), which the results envelope carries
+    at its top level."""
     return {
-        "format": COMPARISON_FORMAT,
-        "version": COMPARISON_VERSION,
-        "software_version": __version__,
         "model_version": c.later.model_version,
         "samples": c.samples,
         "seed": c.seed,
@@ -144,14 +140,19 @@ def comparison_to_dict(c: Comparison) -> dict[str, Any]:
         "fixes_fitted": [_fitted(c, r) for r in fitted_records(c)],
         "method": METHOD,
         "openings": [_opening(o) for o in c.openings],
-        "cautions": list(CAUTIONS),
     }
 
 
+def comparison_to_dict(c: Comparison) -> dict[str, Any]:
+    """The comparison in the one results envelope (:mod:`petfall_audit.io.results_envelope`),
+    ``"contents": ["comparison"]``, its keys at the top level."""
+    from petfall_audit.io.results_envelope import results_document
+
+    return results_document(comparison=c)
+
+
 def comparison_json_text(c: Comparison) -> str:
-    """:func:`comparison_to_dict` as indented UTF-8 JSON text ending in a newline (written like
-    the results envelope of :mod:`petfall_audit.io.results_envelope`; the comparison keeps its
-    own top-level keys, ``openings``, ``risk_before`` and ``risk_after``)."""
+    """:func:`comparison_to_dict` as indented UTF-8 JSON text ending in a newline."""
     import json
 
     return json.dumps(comparison_to_dict(c), indent=2, ensure_ascii=False) + "\n"

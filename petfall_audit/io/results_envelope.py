@@ -9,6 +9,8 @@ json``, the app's JSON exports and ``portfolio-plan.json`` are all this document
      "results": <assessment> | null,           # petfall_audit.io.results_export
      "plan": <a building's fix plan> | null,   # petfall_audit.io.plan_export
      "portfolio": <an estate's plan> | null,   # petfall_audit.io.portfolio_export
+     ...,                                      # with "comparison" in contents: the keys of
+                                               # petfall_audit.io.compare_export at top level
      "caution": "<one line>", "cautions": ["...", ...]}
 
 The parts keep the keys they always had, so a reader of ``doc["results"]["openings"]`` or
@@ -27,6 +29,7 @@ from petfall_audit.cautions import CAUTIONS, CAUTIONS_SHORT
 if TYPE_CHECKING:
     from petfall_audit.plan import Plan
     from petfall_audit.portfolio import PortfolioPlan
+    from petfall_audit.compare import Comparison
     from petfall_audit.risk import Assessment
 
 __all__ = ["RESULTS_FORMAT", "RESULTS_VERSION", "RESULTS_SCHEMA", "results_document",
@@ -39,15 +42,35 @@ RESULTS_SCHEMA = "results.schema.json"
 
 
 def results_document(*, assessment: Assessment | None = None, plan: Plan | None = None,
-                     portfolio: PortfolioPlan | None = None) -> dict[str, Any]:
+                     portfolio: PortfolioPlan | None = None,
+                     comparison: Comparison | None = None) -> dict[str, Any]:
     """The envelope holding whichever of ``assessment``, ``plan`` and ``portfolio`` are given
-    (at least one)."""
+    (at least one), or a ``comparison`` of two audits alone (its keys at the top level:
+    ``openings``, ``risk_before``, ``risk_after``, ...)."""
     from petfall_audit.io.plan_export import plan_to_dict
     from petfall_audit.io.portfolio_export import portfolio_to_dict
     from petfall_audit.io.results_export import assessment_to_dict
 
+    if comparison is not None:
+        if assessment is not None or plan is not None or portfolio is not None:
+            raise ValueError("a comparison of two audits is a results document of its own")
+        from petfall_audit.io.compare_export import comparison_fields
+
+        return {
+            "format": RESULTS_FORMAT,
+            "version": RESULTS_VERSION,
+            "software_version": __version__,
+            "contents": ["comparison"],
+            "results": None,
+            "plan": None,
+            "portfolio": None,
+            **comparison_fields(comparison),
+            "caution": CAUTIONS_SHORT,
+            "cautions": list(CAUTIONS),
+        }
     if assessment is None and plan is None and portfolio is None:
-        raise ValueError("a results document needs an assessment, a plan or a portfolio")
+        raise ValueError("a results document needs an assessment, a plan, a portfolio or a "
+                         "comparison")
     parts = {
         "results": assessment_to_dict(assessment) if assessment is not None else None,
         "plan": plan_to_dict(plan) if plan is not None else None,
