@@ -21,7 +21,6 @@ import io
 import textwrap
 from typing import Any
 
-from petfall_audit import __version__
 from petfall_audit.cautions import CAUTIONS, CAUTIONS_SHORT
 from petfall_audit.compare import Comparison, FieldChange, OpeningComparison, fitted_records
 from petfall_audit.injury import BANDS

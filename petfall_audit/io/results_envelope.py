@@ -27,9 +27,9 @@ from petfall_audit import __version__
 from petfall_audit.cautions import CAUTIONS, CAUTIONS_SHORT
 
 if TYPE_CHECKING:
+    from petfall_audit.compare import Comparison
     from petfall_audit.plan import Plan
     from petfall_audit.portfolio import PortfolioPlan
-    from petfall_audit.compare import Comparison
     from petfall_audit.risk import Assessment
 
 __all__ = ["RESULTS_FORMAT", "RESULTS_VERSION", "RESULTS_SCHEMA", "results_document",
