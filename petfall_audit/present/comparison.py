@@ -150,10 +150,13 @@ def summary_lines(c: Comparison, *, what_if: bool = False) -> list[str]:
     else:
         first = (f"Earlier audit: {e.name}, {fmt_date(e.audit_date)}; later audit: {la.name}, "
                  f"{fmt_date(la.audit_date)}. Both assessed with {cats}.")
+        other = _rounded(c.removed_by_other) or 0.0
+        other_share = fmt_percent(abs(_rounded(c.share_by_other) or 0.0))
+        other_text = (f"every other change removed {risk(other)} ({other_share})" if other >= 0
+                      else f"every other change added {risk(-other)} ({other_share})")
         fixes = (f"Removed by barriers fitted since: {risk(c.removed_by_fixes)} "
-                 f"({fmt_percent(_rounded(c.share_by_fixes))} of the earlier risk); by every "
-                 f"other change: {risk(c.removed_by_other)} "
-                 f"({fmt_percent(_rounded(c.share_by_other))}).")
+                 f"({fmt_percent(_rounded(c.share_by_fixes))} of the earlier risk); "
+                 f"{other_text}.")
     lines = [
         first,
         f"Summed risk score: {risk(c.risk_before)} before, "

@@ -7,7 +7,7 @@ from __future__ import annotations
 
 from collections.abc import Callable, Sequence
 
-from reportlab.platypus import CondPageBreak, Flowable, Paragraph, Table, TableStyle
+from reportlab.platypus import CondPageBreak, Flowable, Paragraph, Spacer, Table, TableStyle
 
 from petfall_audit.compare import Comparison
 from petfall_audit.present.comparison import (
@@ -137,5 +137,5 @@ def build_since(c: Comparison, st: Styles, width: float, *, what_if: bool = Fals
     if building:
         out.append(_p("Changed in the building", st.h2))
         out += [Paragraph(markup(s), st.bullet, bulletText="•") for s in building]
-    out.append(_p(METHOD, st.small))
+    out += [Spacer(1, 6), _p(METHOD, st.small)]
     return out
