@@ -75,13 +75,13 @@ def test_the_window_asks_before_saving_over_another_save(qtbot, tmp_path: Path) 
     theirs = dataclasses.replace(sample_building("walkup"), info=dataclasses.replace(
         sample_building("walkup").info, name="Theirs"))
     save_building(theirs, path)
-    assert not window.save()
+    assert not window.session.save()
     assert prompts.asked == ["overwrite b.json"]
     assert load_building(path).info.name == "Theirs"
     prompts.overwrite = True
-    assert window.save()
+    assert window.session.save()
     assert load_building(path).info.name != "Theirs"
-    assert window.save() and prompts.asked == ["overwrite b.json"] * 2  # not asked again
+    assert window.session.save() and prompts.asked == ["overwrite b.json"] * 2  # not asked again
 
 
 # --- links, permissions, leftovers ---------------------------------------------------------------

@@ -120,7 +120,7 @@ window.show()
 window.building_panel.form.commit_text("name", sys.argv[2])
 
 def report():
-    if window.recovery.path is not None and window.recovery.path.exists():
+    if window.session.recovery.path is not None and window.session.recovery.path.exists():
         print("copy written", flush=True)
     else:
         QTimer.singleShot(20, report)
@@ -164,7 +164,7 @@ def _crash_two_apps(tmp_path: Any) -> tuple[Any, Any]:
 def test_two_crashed_apps_are_both_offered_and_recovered(qtbot, tmp_path) -> None:  # type: ignore[no-untyped-def]
     walkup, block = _crash_two_apps(tmp_path)
     window = open_window(qtbot)
-    assert window.offer_recovery()
+    assert window.session.offer_recovery()
     assert window.prompts.asked == ["recover", "recover"]
     windows = [window, *window.extra_windows]
     for w in windows[1:]:
@@ -174,7 +174,7 @@ def test_two_crashed_apps_are_both_offered_and_recovered(qtbot, tmp_path) -> Non
     assert all(w.document.dirty for w in windows)
     # each recovered window now holds its own copy; the crashed apps' copies are gone
     assert sorted(c.source_path for c in _copies()) == sorted([walkup, block])
-    assert {c.path for c in _copies()} == {w.recovery.path for w in windows}
+    assert {c.path for c in _copies()} == {w.session.recovery.path for w in windows}
 
 
 def test_answering_no_discards_only_that_copy(qtbot, tmp_path) -> None:  # type: ignore[no-untyped-def]
@@ -194,14 +194,14 @@ def test_answering_no_discards_only_that_copy(qtbot, tmp_path) -> None:  # type:
 
     window.prompts.ask_recover = ask  # type: ignore[method-assign]
     with pytest.raises(KeyboardInterrupt):
-        window.offer_recovery()
+        window.session.offer_recovery()
     declined, undecided = offered
     left = autosave.find_recoveries()
     assert [c.source_path for c in left] == [undecided]  # the undecided copy stays
     assert declined != undecided
     # the next start offers the one left, and only it
     window.prompts.ask_recover = lambda parent, rec: offered.append(rec.source_path) or True  # type: ignore[method-assign]
-    assert window.offer_recovery()
+    assert window.session.offer_recovery()
     assert offered[-1] == undecided and len(offered) == 3
     assert window.document.building.info.name == f"Edited {undecided.stem}"
 
@@ -233,14 +233,14 @@ def test_result_columns_fit_at_the_default_size_after_the_full_results(qtbot) ->
     qtbot.waitSignal(window.results_refined, timeout=60000)
     qtbot.waitUntil(lambda: window.results_samples == 256, timeout=60000)
     qtbot.wait(50)
-    table = window.results_table
+    table = window.views.ranked.table
     assert not table.wordWrap()
     assert clipped_cells(table) == []
 
 
 def test_editor_columns_fit_after_a_new_building_fills(qtbot) -> None:  # type: ignore[no-untyped-def]
     window = open_window(qtbot)
-    assert window.new_document()
+    assert window.session.new()
     window.floors_panel.add_floor()
     window.floors_panel.add_floor()
     window.actions_.add_opening.trigger()
@@ -353,12 +353,10 @@ def test_the_window_message_reads_in_plain_order() -> None:
 
 def _window_with_views(qtbot, building: Building | None = None, path: Any = None) -> Any:  # type: ignore[no-untyped-def]
     from petfall_audit.demo import sample_building
-    from petfall_audit.gui.views import install_views
-
     window = MainWindow(Document(building or sample_building("walkup"), path),
                         prompts=FakePrompts(), samples=SAMPLES, refine_samples=0)
     qtbot.addWidget(window)
-    views = install_views(window)
+    views = window.views
     window.resize(1280, 720)
     window.show()
     qtbot.waitUntil(lambda: views.plan.plan is not None, timeout=30000)
@@ -380,7 +378,7 @@ def test_the_budget_typed_is_saved_with_the_audit_and_comes_back(qtbot, tmp_path
     assert not plan.budget_is_default and window.document.dirty
     qtbot.waitUntil(lambda: plan.plan is not None and plan.plan.budget == 1200.0, timeout=30000)
     path = tmp_path / "walkup.json"
-    assert window.save_as(path)
+    assert window.session.save_as(path)
     assert load_building(path).plan.budget == 1200.0
     # undo takes the budget back to the default
     window.actions_.undo.trigger()

@@ -20,7 +20,6 @@ from petfall_audit.editing.document import Document
 from petfall_audit.gui.dialogs import Prompts
 from petfall_audit.gui.export_actions import EXPORTS, ExportPrompts
 from petfall_audit.gui.main_window import MainWindow
-from petfall_audit.gui.views import install_views
 from petfall_audit.gui.views.common import wait_for_tasks
 
 pytestmark = pytest.mark.gui
@@ -52,7 +51,7 @@ def window(qtbot):  # type: ignore[no-untyped-def]
     w = MainWindow(Document(sample_building("walkup")), prompts=QuietPrompts(), samples=SAMPLES,
                    refine_samples=0)
     qtbot.addWidget(w)
-    views = install_views(w)
+    views = w.views
     views.exports.samples = SAMPLES  # the export's own full recomputation, kept small here
     w.show()
     qtbot.waitUntil(lambda: views.plan.plan is not None, timeout=20000)

@@ -17,7 +17,7 @@ def test_injury_bands_are_edited_undone_and_reset(qtbot) -> None:  # type: ignor
     window = make_window(qtbot)
     doc = window.document
     panel = window.building_panel
-    worst = window.results_model.row_result(0)
+    worst = window.views.ranked.row_result(0)
     before = result_of(window, worst.id).bands["life-threatening"]
     with qtbot.waitSignal(window.results_updated, timeout=20000):
         assert panel.injury_form.commit_text("life_threatening_g", "120 g")

@@ -66,17 +66,17 @@ def make_window(qtbot, building: Building | None = None, **kwargs: Any) -> MainW
 
 
 def result_of(window: MainWindow, opening_id: str) -> Any:
-    return window.results_model.assessment.result(opening_id)
+    return window.state.results.assessment.result(opening_id)
 
 
 def test_sample_opens_and_results_fill_the_ranked_table(qtbot) -> None:  # type: ignore[no-untyped-def]
     window = make_window(qtbot, sample_building("tower"))
-    model = window.results_model
+    model = window.views.ranked.proxy  # as shown: sorted worst first
     assert model.rowCount() == len(window.document.building.openings) == 166
     ranks = [int(model.data(model.index(r, 0))) for r in range(model.rowCount())]
     assert ranks == sorted(ranks) and ranks[0] == 1
-    assert model.data(model.index(0, 6)).startswith("1 in ")
-    assert model.data(model.index(0, 7)).endswith(" m/s")
+    assert model.data(model.index(0, 7)).startswith("1 in ")  # likelihood
+    assert model.data(model.index(0, 9)).endswith(" m/s")  # impact speed
     assert window.document.building.info.name in window.windowTitle()
     assert not window.isWindowModified()
 
@@ -85,7 +85,7 @@ def test_editing_an_opening_updates_results_and_undo_restores_exactly(qtbot) -> 
     window = make_window(qtbot)
     doc = window.document
     original = doc.building
-    worst = window.results_model.row_result(0)
+    worst = window.views.ranked.row_result(0)
     assert worst.one_in_n < float("inf")
     panel = window.openings_panel
     panel.select_ids([worst.id])
@@ -164,7 +164,7 @@ def test_copy_a_typical_floor_to_ten_levels(qtbot) -> None:  # type: ignore[no-u
     for level in targets:
         assert sum(o.floor == level for o in after.openings) == n_source
     assert window.openings_panel.model.rowCount() == len(after.openings)
-    assert window.results_model.rowCount() == len(after.openings)
+    assert window.views.ranked.model.rowCount() == len(after.openings)
     window.undo()
     assert window.document.building is tall
 
@@ -217,13 +217,13 @@ def test_save_reopen_equal_and_recent_files(qtbot, tmp_path: Path) -> None:  # t
     panel.form.commit_text("notes", "planter by the rail")
     window.prompts.save_to = tmp_path / "walkup-audit.json"
     assert window.isWindowModified()
-    assert window.save()  # no file yet: asks where, then saves
+    assert window.session.save()  # no file yet: asks where, then saves
     assert not window.isWindowModified()
     assert "walkup-audit.json" in window.windowTitle()
     edited = window.document.building
     assert load_building(tmp_path / "walkup-audit.json") == edited
     other = make_window(qtbot)
-    assert other.open_file(tmp_path / "walkup-audit.json")
+    assert other.session.open_file(tmp_path / "walkup-audit.json")
     assert other.document.building == edited and not other.document.dirty
     assert AppSettings().recent_files()[0] == (tmp_path / "walkup-audit.json").resolve()
 
@@ -233,7 +233,7 @@ def test_a_broken_file_is_reported_and_the_work_kept(qtbot, tmp_path: Path) -> N
     before = window.document
     bad = tmp_path / "broken.json"
     bad.write_text("{not json", encoding="utf-8")
-    assert not window.open_file(bad)
+    assert not window.session.open_file(bad)
     assert window.document is before and window.prompts.errors
 
 
@@ -266,7 +266,7 @@ def test_recovery_file_after_edits_is_offered_on_the_next_start(qtbot, monkeypat
     # the next start after a crash: the app that wrote the copy is gone
     monkeypatch.setattr(autosave, "_owner_running", lambda owner, pid: False)
     second = make_window(qtbot)
-    assert second.offer_recovery()
+    assert second.session.offer_recovery()
     assert second.prompts.asked == ["recover"]
     assert second.document.building == edited
     assert second.document.dirty and second.isWindowModified()
@@ -282,9 +282,9 @@ def test_declined_recovery_is_discarded(qtbot, monkeypatch) -> None:  # type: ig
     autosave.write_recovery(sample_building("walkup"), None, owner="ended-app")
     window = make_window(qtbot)
     window.prompts.recover_answer = False
-    assert not window.offer_recovery()
+    assert not window.session.offer_recovery()
     assert autosave.find_recoveries() == []
-    assert not window.offer_recovery() and window.prompts.asked == ["recover"]
+    assert not window.session.offer_recovery() and window.prompts.asked == ["recover"]
 
 
 def test_closing_with_unsaved_work_asks_first(qtbot) -> None:  # type: ignore[no-untyped-def]
@@ -309,9 +309,9 @@ def test_new_document_asks_and_starts_clean(qtbot) -> None:  # type: ignore[no-u
     panel.select_ids([window.document.building.openings[0].id])
     panel.form.commit_text("width_m", "1.4 m")
     window.prompts.save_answer = "cancel"
-    assert not window.new_document()
+    assert not window.session.new()
     window.prompts.save_answer = "discard"
-    assert window.new_document()
+    assert window.session.new()
     assert window.document.building.openings == () and not window.history.can_undo
 
 
@@ -326,7 +326,8 @@ def test_imperial_units_show_and_read_feet_and_inches(qtbot) -> None:  # type: i
     assert isinstance(editor, QLineEdit) and editor.text().endswith(" in")
     assert panel.form.commit_text("perch_height_m", "3 ft 6 in")
     assert window.document.building.opening(opening_id).perch_height_m == pytest.approx(1.0668)
-    assert window.results_model.data(window.results_model.index(0, 7)).endswith("mph")
+    ranked = window.views.ranked.proxy
+    assert ranked.data(ranked.index(0, 9)).endswith("mph")  # impact speed
     window.set_units("metric")
     assert panel.form.editor("perch_height_m").text() == "1.067 m"
 
@@ -378,15 +379,6 @@ def test_cautions_are_in_the_window_and_in_the_dialog(qtbot) -> None:  # type: i
         assert caution in text
 
 
-def test_views_can_be_added(qtbot) -> None:  # type: ignore[no-untyped-def]
-    from PySide6.QtWidgets import QWidget
-
-    window = make_window(qtbot)
-    index = window.add_view("Facade elevation", QWidget())
-    assert window.view_tabs.tabText(index) == "Facade elevation"
-    assert window.view_tabs.count() == 2
-
-
 def test_settings_persist_contact_block_and_palette(qtbot) -> None:  # type: ignore[no-untyped-def]
     window = make_window(qtbot)
     window.settings.set_contact({"organisation": "Riverside Cat Rescue (invented)",
@@ -430,7 +422,7 @@ def test_quick_results_are_refined_to_the_full_assessment(qtbot) -> None:  # typ
     assert window.samples_label.text() == "4000 simulated falls per opening"
     assert window.results_samples == 4000 and not window.results_stale
     shown = refined.args[0]
-    assert shown is window.results_model.assessment
+    assert shown is window.state.results.assessment
     # the same numbers as the command line and the report: assess(samples=4000, seed=1)
     expected = assess(window.document.building, samples=4000, seed=1)
     ids = [r.id for r in expected.ranked()[:5]] + [first]

@@ -99,7 +99,7 @@ def test_add_copies_outside_photos_into_the_photos_folder_and_undo(qtbot, tmp_pa
     window.redo()
     assert _photos(window) == ("photos/guard.png",) and strip.list.count() == 1
     # Saved and loaded again, the path is relative to the building file.
-    assert window.save()
+    assert window.session.save()
     assert load_building(tmp_path / "site" / "walkup.json").opening(OPENING).photos == (
         "photos/guard.png",)
 

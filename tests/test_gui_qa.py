@@ -19,7 +19,7 @@ from petfall_audit.gui.dialogs import Prompts
 from petfall_audit.gui.export_actions import ExportPrompts
 from petfall_audit.gui.import_dialog import ImportPrompts, import_schedule
 from petfall_audit.gui.main_window import MainWindow
-from petfall_audit.gui.views import VIEW_NAMES, install_views
+from petfall_audit.gui.views import VIEW_NAMES
 from petfall_audit.gui.views.common import wait_for_tasks
 from petfall_audit.model import BALCONY_LIKE, Building, BuildingInfo
 
@@ -69,9 +69,10 @@ def app(qtbot):  # type: ignore[no-untyped-def]
 
     def make(building: Building | None = None) -> MainWindow:
         window = MainWindow(Document(building or sample_building("walkup")),
-                            prompts=RecordingPrompts(), samples=SAMPLES, refine_samples=0)
+                            prompts=RecordingPrompts(), samples=SAMPLES, refine_samples=0,
+                            export_prompts=ExportTo())
         qtbot.addWidget(window)
-        views = install_views(window, export_prompts=ExportTo())
+        views = window.views
         views.exports.samples = SAMPLES
         window.show()
         qtbot.waitUntil(lambda: views.context.assessment is not None
@@ -262,7 +263,7 @@ def test_a_damaged_recovery_copy_is_explained_and_discarded(app) -> None:  # typ
     window = app()
     damaged = autosave.recovery_dir() / "999998.json"
     damaged.write_text("{ not a building")
-    assert not window.offer_recovery()
+    assert not window.session.offer_recovery()
     title, text = window.prompts.errors[-1]
     assert title == "Cannot recover" and "damaged" in text and "discarded" in text
     assert not damaged.exists()

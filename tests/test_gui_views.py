@@ -16,7 +16,7 @@ from petfall_audit.editing.document import Document
 from petfall_audit.figures import level_summary
 from petfall_audit.gui.dialogs import Prompts
 from petfall_audit.gui.main_window import MainWindow
-from petfall_audit.gui.views import VIEW_NAMES, InstalledViews, install_views
+from petfall_audit.gui.views import VIEW_NAMES, InstalledViews
 from petfall_audit.gui.views.common import wait_for_tasks
 from petfall_audit.gui.views.ranked import ID_ROLE
 from petfall_audit.io.building_file import save_building
@@ -48,7 +48,7 @@ def app_window(qtbot):  # type: ignore[no-untyped-def]
                             prompts=QuietPrompts(), samples=SAMPLES,
                             refine_samples=0)  # one set of results per edit
         qtbot.addWidget(window)
-        views = install_views(window)
+        views = window.views
         window.resize(1366, 768)
         window.show()
         qtbot.waitUntil(lambda: views.context.assessment is not None
@@ -317,7 +317,7 @@ def test_cat_assumptions_wait_for_the_full_results(qtbot, monkeypatch) -> None: 
     window = MainWindow(Document(sample_building("walkup")), prompts=QuietPrompts(),
                         samples=32, refine_samples=SAMPLES, refine_delay_ms=50)
     qtbot.addWidget(window)
-    views = install_views(window)
+    views = window.views
     window.show()
     try:
         qtbot.waitUntil(lambda: views.sensitivity.section is not None, timeout=30000)

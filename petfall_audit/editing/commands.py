@@ -45,6 +45,7 @@ __all__ = [
     "PasteOpenings",
     "AddFloors",
     "AddFloor",
+    "PasteFloors",
     "RemoveFloor",
     "SetFloor",
     "SetFloorElevations",
@@ -399,6 +400,40 @@ class AddFloors(BuildingCommand):
                           + ", ".join(map(str, clash or [self.floors[0].level])))
         return dataclasses.replace(building,
                                    floors=_sorted_floors((*building.floors, *self.floors)))
+
+
+class PasteFloors(BuildingCommand):
+    """Rows pasted from a spreadsheet, as one step: a row whose level exists changes that
+    floor (only the columns pasted), any other row adds a floor (it needs a level and a floor
+    level above the datum). ``added`` and ``updated`` hold the levels after :meth:`do`."""
+
+    def __init__(self, rows: Sequence[Mapping[str, Any]], *, label: str | None = None) -> None:
+        self.rows = [dict(r) for r in rows]
+        self.added: tuple[int, ...] = ()
+        self.updated: tuple[int, ...] = ()
+        super().__init__(label or f"Paste {_plural(len(self.rows), 'floor')}")
+
+    def apply(self, building: Building) -> Building:
+        floors = {f.level: f for f in building.floors}
+        added: list[int] = []
+        updated: list[int] = []
+        for n, row in enumerate(self.rows, 1):
+            values = _coerce_changes(Floor, row, "floors")
+            level = values.get("level")
+            if level is None:
+                raise _refuse(f"row {n}", "a pasted floor needs its level; the row has none")
+            if level in floors:
+                floors[level] = dataclasses.replace(floors[level], **values)
+                updated.append(level)
+                continue
+            if "elevation_m" not in values:
+                raise _refuse(f"row {n}", "a new floor needs its floor level above the datum; "
+                                          "the row has none")
+            floors[level] = Floor(level=level, label=values.get("label") or "",
+                                  elevation_m=values["elevation_m"])
+            added.append(level)
+        self.added, self.updated = tuple(added), tuple(updated)
+        return dataclasses.replace(building, floors=_sorted_floors(floors.values()))
 
 
 class RemoveFloor(BuildingCommand):

@@ -1,17 +1,37 @@
-"""The window's actions, menus and shortcuts."""
+"""The window's actions, menus and shortcuts: :func:`create_actions` returns them by name
+(:class:`Actions`, its menus in :class:`Menus`), so nothing is ever looked up by its text."""
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from collections.abc import Callable
+from dataclasses import dataclass, field
+from typing import TYPE_CHECKING
 
 from PySide6.QtGui import QAction, QActionGroup, QKeySequence
 from PySide6.QtWidgets import QMainWindow, QMenu
 
 from petfall_audit.palette import palette_label, palette_names
 
-__all__ = ["Actions", "create_actions"]
+__all__ = ["Actions", "Menus", "create_actions"]
+
+if TYPE_CHECKING:
+    from petfall_audit.gui.main_window import MainWindow
 
 SK = QKeySequence.StandardKey
+
+
+@dataclass
+class Menus:
+    """The menu bar's menus, and the submenus other parts fill."""
+
+    file: QMenu
+    edit: QMenu
+    view: QMenu
+    settings: QMenu
+    help: QMenu
+    recent: QMenu
+    units: QMenu
+    palette: QMenu
 
 
 @dataclass
@@ -31,11 +51,16 @@ class Actions:
     contact: QAction
     cautions: QAction
     about: QAction
+    guide: QAction
+    import_schedule: QAction
     recent_menu: QMenu
     palette_group: QActionGroup
+    #: The menus (set once the menu bar is built).
+    menus: Menus = field(init=False)
 
 
-def _action(window: QMainWindow, text: str, slot, shortcut=None, tip: str = "") -> QAction:  # type: ignore[no-untyped-def]
+def _action(window: QMainWindow, text: str, slot: Callable[[], object],
+            shortcut: str | QKeySequence.StandardKey | None = None, tip: str = "") -> QAction:
     action = QAction(text, window)
     if shortcut is not None:
         action.setShortcut(QKeySequence(shortcut))
@@ -47,14 +72,16 @@ def _action(window: QMainWindow, text: str, slot, shortcut=None, tip: str = "") 
     return action
 
 
-def create_actions(window) -> Actions:  # type: ignore[no-untyped-def]
-    """Create the actions of ``window`` (a MainWindow) and its menu bar."""
+def create_actions(window: MainWindow) -> Actions:
+    """Create the actions of ``window`` and its menu bar; the file actions act on its file
+    session."""
     w = window
+    f = window.session
     a = Actions(
-        new=_action(w, "&New building", w.new_document, SK.New, "Start a new, empty building"),
-        open=_action(w, "&Open…", w.open_dialog, SK.Open, "Open a building file"),
-        save=_action(w, "&Save", w.save, SK.Save, "Save the building"),
-        save_as=_action(w, "Save &as…", w.save_as, SK.SaveAs, "Save the building to a new file"),
+        new=_action(w, "&New building", f.new, SK.New, "Start a new, empty building"),
+        open=_action(w, "&Open…", f.open_dialog, SK.Open, "Open a building file"),
+        save=_action(w, "&Save", f.save, SK.Save, "Save the building"),
+        save_as=_action(w, "Save &as…", f.save_as, SK.SaveAs, "Save the building to a new file"),
         quit=_action(w, "&Quit", w.close, SK.Quit),
         undo=_action(w, "&Undo", w.undo, SK.Undo),
         redo=_action(w, "&Redo", w.redo, SK.Redo),
@@ -68,9 +95,17 @@ def create_actions(window) -> Actions:  # type: ignore[no-untyped-def]
         contact=_action(w, "Contact details for &leaflets…", w.edit_contact),
         cautions=_action(w, "&Cautions…", w.show_cautions),
         about=_action(w, "&About…", w.show_about),
+        guide=_action(w, "&How to audit a building", w.show_guide, SK.HelpContents,
+                      "The workflow in five steps"),
+        import_schedule=_action(w, "&Import schedule or model (CSV, XLSX, IFC)…",
+                                w.import_schedule, "Ctrl+I",
+                                "Add or update floors and openings from a window and balcony "
+                                "schedule or a building model (IFC)"),
         recent_menu=QMenu("Open &recent", w),
         palette_group=QActionGroup(w),
     )
+    a.import_schedule.setObjectName("import_schedule")
+    a.guide.setObjectName("show_guide")
     # redo answers to Ctrl+Y and Ctrl+Shift+Z on every platform, beside the platform's own key
     redo_keys = [*QKeySequence.keyBindings(SK.Redo), QKeySequence("Ctrl+Y"),
                  QKeySequence("Ctrl+Shift+Z")]
@@ -89,6 +124,8 @@ def create_actions(window) -> Actions:  # type: ignore[no-untyped-def]
     file_menu.addMenu(a.recent_menu)
     file_menu.addSeparator()
     file_menu.addActions([a.save, a.save_as])
+    file_menu.addSeparator()
+    file_menu.addAction(a.import_schedule)
     file_menu.addSeparator()
     file_menu.addAction(a.quit)
 
@@ -113,5 +150,8 @@ def create_actions(window) -> Actions:  # type: ignore[no-untyped-def]
     settings_menu.addAction(a.contact)
 
     help_menu = bar.addMenu("&Help")
-    help_menu.addActions([a.cautions, a.about])
+    help_menu.addActions([a.guide, a.cautions, a.about])
+    a.menus = Menus(file=file_menu, edit=edit_menu, view=view_menu, settings=settings_menu,
+                    help=help_menu, recent=a.recent_menu, units=units_menu,
+                    palette=palette_menu)
     return a

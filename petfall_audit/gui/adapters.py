@@ -8,12 +8,11 @@
   ``beginRemoveRows``/``beginInsertRows``/``dataChanged``. Edits typed in a cell are read by the
   shared field specs and pushed as commands; a bad value emits ``edit_failed`` and the old value
   stays.
-- :class:`ResultsTableModel` shows the ranked openings of an assessment.
 """
 
 from __future__ import annotations
 
-from collections.abc import Callable, Iterable, Sequence
+from collections.abc import Callable, Sequence
 from typing import Any
 
 from PySide6.QtCore import (
@@ -25,7 +24,7 @@ from PySide6.QtCore import (
     Signal,
 )
 
-from petfall_audit.editing.commands import Command, EditRefused
+from petfall_audit.editing.commands import Command
 from petfall_audit.editing.document import Document
 from petfall_audit.editing.fields import (
     FieldSpec,
@@ -33,16 +32,13 @@ from petfall_audit.editing.fields import (
     parse_value,
 )
 from petfall_audit.editing.history import History
-from petfall_audit.editing.words import problem_words
-from petfall_audit.gui.result_cells import result_style, result_text, two_line_title
+from petfall_audit.editing.state import DisplayOptions, push_command
 from petfall_audit.model import Building
-from petfall_audit.present import units_of
 
 __all__ = [
     "DocumentSignals",
     "ViewOptions",
     "RecordTableModel",
-    "ResultsTableModel",
     "push_command",
     "KEY_ROLE",
     "SPEC_ROLE",
@@ -70,47 +66,33 @@ class DocumentSignals(QObject):
 
 
 class ViewOptions(QObject):
-    """Display units (``"metric"``/``"imperial"``) and band palette; ``changed`` on a change."""
+    """The Qt face of the window's :class:`~petfall_audit.editing.state.DisplayOptions`
+    (display units and band palette): ``changed`` is a Qt signal, so a widget that is deleted
+    stops receiving it."""
 
     changed = Signal()
 
-    def __init__(self, units: str = "metric", palette: str = "standard",
+    def __init__(self, model: DisplayOptions | None = None,
                  parent: QObject | None = None) -> None:
         super().__init__(parent)
-        self._units = units
-        self._palette = palette
+        self.model = model if model is not None else DisplayOptions()
+        self._disconnect = self.model.changed.connect(self.changed.emit)
 
     @property
     def units(self) -> str:
-        return self._units
+        return self.model.units
 
     @units.setter
     def units(self, value: str) -> None:
-        if value != self._units:
-            self._units = value
-            self.changed.emit()
+        self.model.units = value
 
     @property
     def palette(self) -> str:
-        return self._palette
+        return self.model.palette
 
     @palette.setter
     def palette(self, value: str) -> None:
-        if value != self._palette:
-            self._palette = value
-            self.changed.emit()
-
-
-def push_command(history: History, cmd: Command, system: str = "metric") -> str | None:
-    """Push ``cmd``; return ``None`` on success or the plain-words reason it was refused (its
-    numbers in the units of ``system``)."""
-    try:
-        history.push(cmd)
-    except EditRefused as exc:
-        return problem_words(exc.problems, exc.building or history.doc.building, system=system)
-    except ValueError as exc:
-        return str(exc)
-    return None
+        self.model.palette = value
 
 
 class RecordTableModel(QAbstractTableModel):
@@ -374,90 +356,3 @@ def _runs(indices: list[int]) -> list[tuple[int, int]]:
 
 
 # --- results --------------------------------------------------------------------------------------
-
-
-class ResultsTableModel(QAbstractTableModel):
-    """The ranked openings of an assessment (read-only). ``stale`` greys it out while a newer
-    result is computed."""
-
-    COLUMNS = ("Rank", "Opening", "Floor", "Facade", "Kind", "Expected injury band",
-               "Likelihood per year", "Impact speed (median)", "Risk score")
-    KEYS = ("risk_rank", "id", "floor", "facade", "kind", "band", "likelihood", "speed", "risk")
-
-    def __init__(self, options: ViewOptions, parent: QObject | None = None) -> None:
-        super().__init__(parent)
-        self._options = options
-        self._rows: list[Any] = []
-        self._assessment: Any = None
-        self._floor_labels: dict[int, str] = {}
-        self._facade_labels: dict[str, str] = {}
-        self.stale = True
-        options.changed.connect(self._on_options_changed)
-
-    @property
-    def assessment(self) -> Any:
-        return self._assessment
-
-    def set_assessment(self, assessment: Any) -> None:
-        """Show a new assessment (an object with ``ranked()``); it is current."""
-        self.beginResetModel()
-        self._assessment = assessment
-        self._rows = list(assessment.ranked()) if assessment is not None else []
-        b = getattr(assessment, "building", None)
-        self._floor_labels = {f.level: f.label for f in b.floors} if b is not None else {}
-        self._facade_labels = ({f.id: f.label or f.id for f in b.facades} if b is not None
-                               else {})
-        self.stale = False
-        self.endResetModel()
-
-    def set_stale(self, stale: bool) -> None:
-        if stale != self.stale:
-            self.stale = stale
-            if self._rows:  # grey italics: the look changes, not the text
-                self.dataChanged.emit(
-                    self.index(0, 0), self.index(len(self._rows) - 1, len(self.COLUMNS) - 1),
-                    [Qt.ItemDataRole.ForegroundRole, Qt.ItemDataRole.BackgroundRole,
-                     Qt.ItemDataRole.FontRole])
-
-    def _on_options_changed(self) -> None:
-        if self._rows:
-            self.dataChanged.emit(self.index(0, 0),
-                                  self.index(len(self._rows) - 1, len(self.COLUMNS) - 1))
-
-    def rowCount(self, parent: Index = QModelIndex()) -> int:  # noqa: B008
-        return 0 if parent.isValid() else len(self._rows)
-
-    def columnCount(self, parent: Index = QModelIndex()) -> int:  # noqa: B008
-        return 0 if parent.isValid() else len(self.COLUMNS)
-
-    def headerData(self, section: int, orientation: Qt.Orientation,
-                   role: int = Qt.ItemDataRole.DisplayRole) -> Any:
-        if role == Qt.ItemDataRole.DisplayRole and orientation == Qt.Orientation.Horizontal:
-            return two_line_title(self.COLUMNS[section])
-        return None
-
-    def row_result(self, row: int) -> Any:
-        return self._rows[row]
-
-    def display_texts(self, column: int, rows: Iterable[int]) -> list[str]:
-        """The shown text of ``rows`` in ``column``, as :meth:`data` gives it, without a model
-        index per cell (column fitting reads a few thousand cells after every result)."""
-        key = self.KEYS[column]
-        return [self._text(self._rows[r], key) for r in rows]
-
-    def _text(self, r: Any, column: str) -> str:
-        """The one place a cell's text is made (:meth:`data` and :meth:`display_texts`)."""
-        return result_text(r, column, units_of(self._options.units), self._options.palette,
-                           self._floor_labels, self._facade_labels)
-
-    def data(self, index: Index, role: int = Qt.ItemDataRole.DisplayRole) -> Any:
-        if not index.isValid():
-            return None
-        r = self._rows[index.row()]
-        column = self.KEYS[index.column()]
-        if role == KEY_ROLE:
-            return r.id
-        if role == Qt.ItemDataRole.DisplayRole:
-            return self._text(r, column)
-        return result_style(r, column, role, stale=self.stale, palette=self._options.palette,
-                            system=self._options.units)

@@ -11,7 +11,6 @@ from PySide6.QtWidgets import QApplication
 from petfall_audit.editing.document import Document
 from petfall_audit.gui.dialogs import APP_TITLE
 from petfall_audit.gui.main_window import MainWindow, blank_building
-from petfall_audit.gui.views import install_views
 from petfall_audit.gui.views.common import stop_tasks
 from petfall_audit.model import Building
 
@@ -32,18 +31,10 @@ def sample_document() -> Document:
     return Document(_sample_building())
 
 
-def _window_for(doc: Document) -> MainWindow:
-    """A main window with its views on ``doc``; further windows it opens get views too."""
-    window = MainWindow(doc)
-    install_views(window)
-    window.window_factory = _window_for
-    return window
-
-
 def create_window(path: Path | None = None) -> MainWindow:
     """A main window on the file at ``path``, or on the sample building."""
-    window = _window_for(sample_document())
-    if path is not None and not window.open_file(Path(path), confirm=False):
+    window = MainWindow(sample_document())
+    if path is not None and not window.session.open_file(Path(path), confirm=False):
         window.status_label.setText(f"Could not open {path}; showing the sample building")
     return window
 
@@ -53,7 +44,7 @@ def close_window(window: MainWindow) -> None:
     that), then the window and its views deleted while the application still exists, so that
     nothing of Qt is left for the interpreter to tear down at exit."""
     if window.isVisible():  # the application quit without the window closing
-        window.autosave_now()  # unsaved work stays recoverable
+        window.session.autosave_now()  # unsaved work stays recoverable
         window.hide()
     window.recomputer.shutdown()
     stop_tasks()
@@ -69,7 +60,7 @@ def run_app(path: Path | None = None) -> int:
     app.setOrganizationName("petfall-audit")
     window = create_window(path)
     window.show()
-    QTimer.singleShot(0, window.offer_recovery)
+    QTimer.singleShot(0, window.session.offer_recovery)
     code = int(app.exec())
     windows, pending = [], [window]
     while pending:  # the windows opened for recovered work, and the ones they opened

@@ -1,10 +1,14 @@
 """The main window: editors for the building above, result views below, cautions always shown.
 
-Views are tabs in the lower area; more can be added with :meth:`MainWindow.add_view`. Every edit
-is a command on the document's history; each change of the model starts a recomputation off the
-GUI thread, marks the shown results as out of date until the new ones arrive, and schedules a
-recovery copy of the unsaved work. Quick results (few simulated falls per opening) come first;
-the full assessment replaces them when the user pauses (see :mod:`petfall_audit.gui.worker`).
+The window composes itself once from typed, Qt-free state (:class:`~petfall_audit.editing.state.
+WindowState`: the workspace with the document and its history, the display options, the
+selection and the current results): the editors and the six result views
+(:mod:`petfall_audit.gui.views`) are each given the parts they show, never the window. Files and
+the recovery copy are the window's :class:`~petfall_audit.editing.session.FileSession`
+(``window.session``). Every edit is a command on the document's history; each change of the
+model starts a recomputation off the GUI thread and marks the shown results as out of date until
+the new ones arrive. Quick results (few simulated falls per opening) come first; the full
+assessment replaces them when the user pauses (see :mod:`petfall_audit.gui.worker`).
 
 The editors sit in scroll areas, so the splitter between them and the views can give the views
 most of the height; the user's split is remembered.
@@ -13,22 +17,19 @@ most of the height; the user's split is remembered.
 from __future__ import annotations
 
 import threading
-import time
+from collections.abc import Callable
 from pathlib import Path
 from typing import Any
 
 from PySide6.QtCore import QModelIndex, Qt, QTimer, Signal
-from PySide6.QtGui import QCloseEvent, QShowEvent
+from PySide6.QtGui import QAction, QCloseEvent, QKeySequence, QShowEvent
 from PySide6.QtWidgets import (
-    QAbstractItemView,
     QFrame,
-    QHeaderView,
     QLabel,
     QMainWindow,
     QProgressBar,
     QScrollArea,
     QSplitter,
-    QTableView,
     QTabWidget,
     QToolBar,
     QVBoxLayout,
@@ -38,22 +39,26 @@ from PySide6.QtWidgets import (
 from petfall_audit.cautions import CAUTIONS_SHORT
 from petfall_audit.editing import autosave
 from petfall_audit.editing.commands import CopyFloorOpenings, SetOpeningFields
-from petfall_audit.editing.document import MODEL_KINDS, PLAN_ONLY_KINDS, Document
+from petfall_audit.editing.document import MODEL_KINDS, Document
 from petfall_audit.editing.fields import OPENING_FIELDS, field_spec
 from petfall_audit.editing.history import History
 from petfall_audit.editing.query import applicable_openings
-from petfall_audit.editing.words import problem_words
-from petfall_audit.errors import BuildingFileError, ValidationFailed
+from petfall_audit.editing.session import FileSession
+from petfall_audit.editing.state import CurrentResults, DisplayOptions, WindowState, Workspace
 from petfall_audit.gui.actions import create_actions
-from petfall_audit.gui.adapters import ResultsTableModel, ViewOptions, push_command
+from petfall_audit.gui.adapters import ViewOptions
 from petfall_audit.gui.dialogs import APP_TITLE, Prompts
+from petfall_audit.gui.file_session import AutosaveTimer, DialogPrompts, fill_recent_menu
+from petfall_audit.gui.guide import GuideDialog
 from petfall_audit.gui.settings import AppSettings
+from petfall_audit.gui.views import VIEW_NAMES, InstalledViews, build_views
+from petfall_audit.gui.views.common import Assessor, ViewContext, stop_tasks
+from petfall_audit.gui.views.ranked import ID_ROLE
 from petfall_audit.gui.widgets.building import BuildingPanel
 from petfall_audit.gui.widgets.field_form import ERROR_STYLE
 from petfall_audit.gui.widgets.floors import FloorsPanel
 from petfall_audit.gui.widgets.openings import OpeningsPanel
 from petfall_audit.gui.widgets.site import SitePanel
-from petfall_audit.gui.widgets.tables import keep_columns_fitted
 from petfall_audit.gui.worker import (
     INTERACTIVE_SAMPLES,
     REFINE_DELAY_MS,
@@ -94,13 +99,13 @@ class MainWindow(QMainWindow):
     ``prompts`` asks the user questions (replace it in tests); ``assess`` computes results
     (default :func:`petfall_audit.risk.assess`) with ``samples`` cats per opening, then again
     with ``refine_samples`` once the user pauses for ``refine_delay_ms`` (a count at or below
-    ``samples`` turns this off).
+    ``samples`` turns this off). ``export_prompts`` and ``import_prompts`` ask where to export
+    and what to import (replace them in tests).
     """
 
     results_updated = Signal(object)  # the new assessment (quick or refined)
     results_refined = Signal(object)  # the full assessment, after results_updated
     results_failed = Signal(str)
-    plan_settings_changed = Signal(object)  # the document's PlanSettings (loaded or edited)
 
     def __init__(self, document: Document | None = None, *, settings: AppSettings | None = None,
                  prompts: Prompts | None = None, assess: AssessFn | None = None,
@@ -108,11 +113,12 @@ class MainWindow(QMainWindow):
                  refine_delay_ms: int = REFINE_DELAY_MS,
                  autosave_delay_ms: int = int(autosave.IDLE_DELAY_S * 1000),
                  autosave_max_wait_ms: int = int(autosave.MAX_WAIT_S * 1000),
+                 export_prompts: Any = None, import_prompts: Any = None,
                  parent: QWidget | None = None) -> None:
         super().__init__(parent)
         self.settings = settings or AppSettings(parent=self)
         self.prompts = prompts or Prompts()
-        self.options = ViewOptions(self.settings.units, self.settings.palette, self)
+        self.import_prompts = import_prompts
         self.recomputer = Recomputer(assess, samples=samples, refine_samples=refine_samples,
                                      refine_delay_ms=refine_delay_ms, parent=self)
         self.recomputer.finished.connect(self._on_results)
@@ -121,31 +127,37 @@ class MainWindow(QMainWindow):
         self.recomputer.refining.connect(self._on_refining)
         self.recomputer.refined.connect(self._on_refined)
         self.last_compute_s: float | None = None
-        #: Simulated falls per opening behind the shown results (``None`` before the first).
-        self.results_samples: int | None = None
-        self._split_restored = False
-        #: This window's recovery copy and when to write it (a pause, or at most a second).
-        self.recovery = autosave.RecoveryCopy()
-        self._autosave_schedule = autosave.AutosaveSchedule(autosave_delay_ms / 1000,
-                                                            autosave_max_wait_ms / 1000)
-        self._autosave_timer = QTimer(self)
-        self._autosave_timer.setSingleShot(True)
-        self._autosave_timer.timeout.connect(self.autosave_now)
+        #: What the window shows, each concern in its own typed object (no Qt).
+        self.state = WindowState(
+            workspace=Workspace(document or Document(blank_building())),
+            results=CurrentResults(self.recomputer.final_samples),
+            options=DisplayOptions(self.settings.units, self.settings.palette))
+        self.options = ViewOptions(self.state.options, self)
+        #: Open, save, recovery: the file session of this window.
+        self.session = FileSession(self.state.workspace, DialogPrompts(self.prompts, self),
+                                   new_building=blank_building, remember=self.settings.add_recent,
+                                   open_elsewhere=self._open_extra_window,
+                                   idle_s=autosave_delay_ms / 1000,
+                                   max_wait_s=autosave_max_wait_ms / 1000)
+        self.session.status.connect(self._show_status)
+        self.autosave_timer = AutosaveTimer(self.session, self)
         #: Windows opened for further recovered work (kept alive here).
         self.extra_windows: list[MainWindow] = []
-        #: Makes the window for a further recovered document (the app sets one with its views).
-        self.window_factory: Any = None
+        self._split_restored = False
         self._panels: list[Any] = []
-        #: Called when the window closes, after the recomputation has stopped (the views stop
-        #: their own background work here).
-        self.on_close: list[Any] = []
-        self._disconnects: list[Any] = []
+        self._disconnects: list[Callable[[], None]] = []
+        self._syncing_selection = False
+        self.guide: GuideDialog | None = None  # Help ▸ How to audit a building, once opened
         self.setObjectName("main_window")
         self.resize(1280, 820)
 
         self.actions_ = create_actions(self)
+        self.menus = self.actions_.menus
         self._build_layout()
-        self.actions_.recent_menu.aboutToShow.connect(self._fill_recent_menu)
+        self.views = self._build_views(export_prompts)
+        self.actions_.recent_menu.aboutToShow.connect(
+            lambda: fill_recent_menu(self.actions_.recent_menu, self.settings,
+                                     self.session.open_file))
         self.settings.changed.connect(self._on_settings_changed)
         self._on_settings_changed("units")
         self._on_settings_changed("palette")
@@ -154,11 +166,38 @@ class MainWindow(QMainWindow):
             self.restoreGeometry(geometry)
         if state is not None:
             self.restoreState(state)
+        self._fit_screen()
         split = self.settings.splitter_state()
         if split is not None and self.splitter.restoreState(split):
             self._split_restored = True
-        self.load_document(document or Document(blank_building()))
+        self.state.workspace.loaded.connect(self._on_loaded)
+        self.state.selection.changed.connect(self._selection_to_editor)
+        self._on_loaded(self.document)
         QTimer.singleShot(WARM_UP_DELAY_MS, _warm_up_unit_parser)
+
+    # --- the state --------------------------------------------------------------------------------
+
+    @property
+    def document(self) -> Document:
+        return self.state.workspace.document
+
+    @property
+    def history(self) -> History:
+        return self.state.workspace.history
+
+    @property
+    def results_stale(self) -> bool:
+        return self.state.results.stale
+
+    @property
+    def results_samples(self) -> int | None:
+        """Simulated falls per opening behind the shown results (``None`` before the first)."""
+        return self.state.results.samples
+
+    @property
+    def results_state(self) -> QLabel:
+        """The line above the ranked openings: ranked, recomputing, or why it failed."""
+        return self.views.ranked.state_note
 
     # --- layout ----------------------------------------------------------------------------------
 
@@ -177,28 +216,6 @@ class MainWindow(QMainWindow):
         self.editor_tabs.setObjectName("editor_tabs")
         self.view_tabs = QTabWidget()
         self.view_tabs.setObjectName("view_tabs")
-
-        self.results_model = ResultsTableModel(self.options, self)
-        self.results_table = QTableView()
-        self.results_table.setObjectName("results_table")
-        self.results_table.setModel(self.results_model)
-        self.results_table.setSelectionBehavior(QAbstractItemView.SelectionBehavior.SelectRows)
-        self.results_table.setEditTriggers(QAbstractItemView.EditTrigger.NoEditTriggers)
-        self.results_table.verticalHeader().hide()
-        self.results_table.verticalHeader().setDefaultSectionSize(22)
-        header = self.results_table.horizontalHeader()
-        header.setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
-        header.setStretchLastSection(True)
-        keep_columns_fitted(self.results_table)
-        self.results_table.doubleClicked.connect(self._on_result_activated)
-        self.results_state = QLabel("Computing results…")
-        self.results_state.setObjectName("results_state")
-        results = QWidget()
-        results_layout = QVBoxLayout(results)
-        results_layout.setContentsMargins(2, 2, 2, 2)
-        results_layout.addWidget(self.results_state)
-        results_layout.addWidget(self.results_table, 1)
-        self.add_view("Ranked openings", results)
 
         splitter = QSplitter(Qt.Orientation.Vertical)
         splitter.setObjectName("main_splitter")
@@ -239,6 +256,65 @@ class MainWindow(QMainWindow):
         status.addPermanentWidget(self.progress)
         status.addPermanentWidget(self.samples_label)
 
+    def _build_views(self, export_prompts: Any) -> InstalledViews:
+        """The result views, once, from the window's state; their tabs, File ▸ Export and the
+        View menu's shortcuts."""
+        from petfall_audit.gui.export_actions import ExportActions
+
+        r = self.recomputer
+        context = ViewContext(self.state, self.options,
+                              Assessor(r.assess, r.seed, r.final_samples))
+        widgets = build_views(context)
+        for name, widget in zip(VIEW_NAMES, widgets, strict=True):
+            widget.setObjectName(widget.objectName() or f"view_{name}")
+            self.view_tabs.addTab(widget, name)
+        ranked, facade, floors, profile, plan, sensitivity, compare = widgets
+
+        def what_if() -> None:  # the plan's what-if, beside the audit
+            compare.show_what_if(plan.plan, plan.catalogue)
+            self.show_view(compare)
+
+        plan.what_if_button.clicked.connect(lambda _c=False: what_if())
+        ranked.table.doubleClicked.connect(self._on_result_activated)
+
+        exports = ExportActions(
+            self, prompts=export_prompts,
+            budget=lambda: float(plan.budget.value()) if plan.catalogue is not None else None,
+            budget_is_default=lambda: plan.budget_is_default)
+        file_menu, quit_action = self.menus.file, self.actions_.quit
+        file_menu.insertMenu(quit_action, exports.menu)  # below Import, above Quit
+        file_menu.insertSeparator(quit_action)
+
+        view_actions: list[QAction] = []
+        self.menus.view.addSeparator()
+        for n, (name, widget) in enumerate(zip(VIEW_NAMES, widgets, strict=True), start=1):
+            action = QAction(f"Show {name.lower()}", self)
+            action.setShortcut(QKeySequence(f"Ctrl+{n}"))
+            action.triggered.connect(lambda _c=False, w=widget: self.show_view(w))
+            self.addAction(action)
+            self.menus.view.addAction(action)
+            view_actions.append(action)
+        results_only = QAction("Show &results only", self)
+        results_only.setObjectName("results_only")
+        results_only.setCheckable(True)
+        results_only.setShortcut(QKeySequence("Ctrl+0"))
+        results_only.setStatusTip("Hide the editors to give the result views the whole window")
+        results_only.toggled.connect(lambda on: self.editor_tabs.setVisible(not on))
+        self.addAction(results_only)
+        self.menus.view.addAction(results_only)
+        view_actions.append(results_only)
+        self.view_tabs.setCurrentWidget(ranked)
+        return InstalledViews(context=context, ranked=ranked, facade=facade, floors=floors,
+                              profile=profile, plan=plan, sensitivity=sensitivity,
+                              compare=compare, exports=exports,
+                              import_action=self.actions_.import_schedule,
+                              view_actions=view_actions)
+
+    def show_view(self, view: QWidget) -> None:
+        """Bring the result view ``view`` to the front, with the keyboard focus."""
+        self.view_tabs.setCurrentWidget(view)
+        view.setFocus()
+
     def showEvent(self, event: QShowEvent) -> None:
         super().showEvent(event)
         if not self._split_restored:  # the first time: the default share, once laid out
@@ -252,15 +328,22 @@ class MainWindow(QMainWindow):
         editors = int(share * total + 0.5)  # pixels, to the nearest
         self.splitter.setSizes([editors, total - editors])
 
-    def add_view(self, name: str, widget: QWidget) -> int:
-        """Add a result view as a tab of the lower area; returns its tab index."""
-        widget.setObjectName(widget.objectName() or f"view_{name}")
-        return self.view_tabs.addTab(widget, name)
+    def _fit_screen(self) -> None:
+        """Keep the window inside the screen's free area (a small or scaled screen)."""
+        screen = self.screen()
+        if screen is None:
+            return
+        free = screen.availableGeometry()
+        self.resize(min(self.width(), free.width()), min(self.height(), free.height()))
 
     # --- the document -----------------------------------------------------------------------------
 
     def load_document(self, doc: Document) -> None:
-        """Show ``doc`` (its history starts empty); rebuilds the editors."""
+        """Show ``doc`` (its history starts empty)."""
+        self.state.workspace.load(doc)
+
+    def _on_loaded(self, doc: Document) -> None:
+        """Another document is shown: new editors on it, its results computed."""
         for disconnect in self._disconnects:
             disconnect()
         for panel in self._panels:
@@ -271,14 +354,13 @@ class MainWindow(QMainWindow):
             self.editor_tabs.removeTab(0)
             if w is not None:
                 w.deleteLater()
-        self.document = doc
-        self.history = History(doc)
         a = self.actions_
-        self.openings_panel = OpeningsPanel(doc, self.history, self.options, host=self,
+        history = self.history
+        self.openings_panel = OpeningsPanel(doc, history, self.options, host=self,
                                             place_hint=self._place_hint)
-        self.floors_panel = FloorsPanel(doc, self.history, self.options, actions=[a.copy_floor])
-        self.site_panel = SitePanel(doc, self.history, self.options)
-        self.building_panel = BuildingPanel(doc, self.history, self.options)
+        self.floors_panel = FloorsPanel(doc, history, self.options, actions=[a.copy_floor])
+        self.site_panel = SitePanel(doc, history, self.options)
+        self.building_panel = BuildingPanel(doc, history, self.options)
         self.building_panel.code_profile_picked.connect(self.set_units)
         self._panels = [self.openings_panel, self.floors_panel, self.site_panel,
                         self.building_panel]
@@ -287,12 +369,15 @@ class MainWindow(QMainWindow):
                             (self.building_panel, "Building and cats")):
             self.editor_tabs.addTab(_scrolled(panel), name)
         self.editor_tabs.setCurrentIndex(max(current, 0))
+        panel = self.openings_panel
+        panel.table.selectionModel().selectionChanged.connect(
+            lambda *_args, p=panel: self._selection_from_editor(p))
         self._disconnects = [doc.on_changed("*", self._on_doc_changed),
-                             self.history.on_changed(self._update_undo_actions)]
+                             history.on_changed(self._update_undo_actions),
+                             self.state.workspace.pushed.connect(self._on_pushed)]
         self._update_title()
         self._update_undo_actions()
         self._start_in_profile_units(doc)
-        self.plan_settings_changed.emit(doc.building.plan)
         self.recompute()
 
     def show_editor(self, panel: QWidget) -> None:
@@ -304,19 +389,27 @@ class MainWindow(QMainWindow):
                 return
 
     def _on_doc_changed(self, kind: str) -> None:
-        if kind in PLAN_ONLY_KINDS:
-            self.plan_settings_changed.emit(self.document.building.plan)
-        elif kind in MODEL_KINDS:
-            self.recompute()
         if kind in MODEL_KINDS:
-            delay_s = self._autosave_schedule.edited(time.monotonic())
-            self._autosave_timer.start(int(delay_s * 1000))
+            self.recompute()
         elif kind in ("dirty", "path"):
             self._update_title()
-            if kind == "dirty" and not self.document.dirty:
-                self._autosave_timer.stop()
-                self._autosave_schedule.written()
-                self.recovery.discard()
+
+    def _selection_from_editor(self, panel: OpeningsPanel) -> None:
+        if self._syncing_selection or panel is not self.openings_panel:
+            return
+        ids = panel.selected_ids()
+        if set(ids) != set(self.state.selection.ids):
+            self.state.selection.set_ids(ids)
+
+    def _selection_to_editor(self, ids: tuple[str, ...]) -> None:
+        panel = self.openings_panel
+        if set(panel.selected_ids()) == set(ids):
+            return
+        self._syncing_selection = True
+        try:
+            panel.select_ids(list(ids))
+        finally:
+            self._syncing_selection = False
 
     def _update_title(self) -> None:
         self.setWindowTitle(f"{self.document.display_name}[*] — {APP_TITLE}")
@@ -337,28 +430,29 @@ class MainWindow(QMainWindow):
 
     def push(self, cmd: Any) -> str | None:
         """Push an edit; on refusal show why in the status bar and return the reason."""
-        reason = push_command(self.history, cmd, self.options.units)
+        return self.state.workspace.push(cmd, self.options.units)
+
+    def _on_pushed(self, outcome: tuple[str, str | None]) -> None:
+        label, reason = outcome
         if reason is not None:
             self.status_label.setText(f"! Not changed: {reason}")
             self.status_label.setStyleSheet(ERROR_STYLE)
         else:
             self.status_label.setStyleSheet("")
-            self.status_label.setText(cmd.label)
-        return reason
+            self.status_label.setText(label)
+
+    def _show_status(self, text: str) -> None:
+        self.status_label.setStyleSheet(ERROR_STYLE if text.startswith("!") else "")
+        self.status_label.setText(text)
 
     # --- recomputation ----------------------------------------------------------------------------
 
     def recompute(self) -> None:
         """Start computing results for the current building; the shown ones become stale."""
-        self.results_model.set_stale(True)
-        self.results_state.setText("Results are out of date: recomputing…")
+        self.state.results.set_stale()
         self.progress.setRange(0, 0)
         self.progress.show()
         self.recomputer.request(self.document.building)
-
-    @property
-    def results_stale(self) -> bool:
-        return self.results_model.stale
 
     def _on_progress(self, _generation: int, done: int, total: int) -> None:
         self.progress.setRange(0, max(total, 1))
@@ -386,206 +480,55 @@ class MainWindow(QMainWindow):
 
     def _on_results(self, _generation: int, assessment: Any, seconds: float) -> None:
         self.last_compute_s = seconds
-        self.results_samples = self.recomputer.samples
+        self.state.results.set_assessment(assessment, self.recomputer.samples)
         self._show_samples("quick" if self.recomputer.refines else "final")
-        self.results_model.set_assessment(assessment)
         self.progress.hide()
-        self._show_ranked(assessment)
         self.results_updated.emit(assessment)
-
-    def _show_ranked(self, assessment: Any) -> None:
-        self.results_state.setStyleSheet("")  # a failure shown before is over
-        n = len(getattr(assessment, "openings", ()))
-        self.results_state.setText(
-            f"{n} openings ranked, worst first (by risk score, as in the PDF and the exports). "
-            f"Double-click a row to edit the opening.")
 
     def _on_refining(self, _generation: int) -> None:
         self._show_samples("refining")
         self.progress.setRange(0, 0)
         self.progress.show()
 
-    def _on_refined(self, _generation: int, assessment: Any, seconds: float) -> None:
-        # after the quick results, or at once when an edit changed few openings' falls
-        self.last_compute_s = seconds
-        self.results_samples = self.recomputer.refine_samples
+    def _on_refined(self, _generation: int, assessment: Any, _seconds: float) -> None:
+        self.state.results.set_assessment(assessment, self.recomputer.refine_samples)
         self._show_samples("final")
         self.progress.hide()
-        self._show_ranked(assessment)
-        self.results_model.set_assessment(assessment)
         self.results_updated.emit(assessment)
         self.results_refined.emit(assessment)
 
     def _on_results_failed(self, _generation: int, message: str) -> None:
         self.progress.hide()
-        self.results_state.setText(f"! Results could not be computed: {message}")
-        self.results_state.setStyleSheet(ERROR_STYLE)
+        self.state.results.set_failed(message)
         self.results_failed.emit(message)
 
     def _on_result_activated(self, index: QModelIndex) -> None:
-        opening_id = self.results_model.row_result(index.row()).id
+        opening_id = index.data(ID_ROLE)
+        if opening_id is None:
+            return
         self.show_editor(self.openings_panel)
         self.openings_panel.select_ids([opening_id])
 
     # --- files ------------------------------------------------------------------------------------
 
-    def confirm_discard(self) -> bool:
-        """True if the current work may be replaced: saved, or the user chose to save/discard."""
-        if not self.document.dirty:
-            return True
-        answer = self.prompts.ask_save_changes(self, self.document.display_name)
-        if answer == "save":
-            return self.save()
-        return answer == "discard"
-
-    def new_document(self) -> bool:
-        if not self.confirm_discard():
-            return False
-        self.recovery.discard()
-        self.load_document(Document(blank_building()))
-        return True
-
-    def open_dialog(self) -> bool:
-        folder = self.document.path.parent if self.document.path else None
-        if not self.confirm_discard():
-            return False
-        path = self.prompts.open_path(self, folder)
-        return self.open_file(path, confirm=False) if path else False
-
-    def open_file(self, path: Path, *, confirm: bool = True) -> bool:
-        """Open the building file at ``path``; problems are shown, the current work kept."""
-        from petfall_audit.io.building_file import load_building
-
-        if confirm and not self.confirm_discard():
-            return False
-        try:
-            building = load_building(path)
-        except ValidationFailed as exc:
-            known = exc.building if isinstance(exc.building, Building) else None
-            self.prompts.show_error(self, "Cannot open the building file",
-                                    f"{Path(path).name}:\n"
-                                    + problem_words(exc.problems, known, limit=10, sep="\n"))
-            return False
-        except BuildingFileError as exc:
-            self.prompts.show_error(self, "Cannot open the building file",
-                                    f"{Path(path).name}:\n{exc}")
-            return False
-        self.recovery.discard()
-        self.load_document(Document(building, Path(path)))
-        self.settings.add_recent(Path(path))
-        self.status_label.setText(f"Opened {Path(path).name}")
-        return True
-
-    def save(self) -> bool:
-        """Save to the document's file (asks for one if it has none)."""
-        from petfall_audit.io.building_file import save_building
-
-        if self.document.path is None:
-            return self.save_as()
-        path = self.document.path
-        if self.document.changed_on_disk() and not self.prompts.ask_overwrite_changed(
-                self, path.name):
-            return False
-        try:
-            save_building(self.document.building, path)
-        except (OSError, ValueError) as exc:
-            self.prompts.show_error(self, "Cannot save", f"{path}:\n{exc}")
-            return False
-        self.document.remember_disk_state()
-        self.history.set_clean()
-        self.recovery.discard()
-        self.settings.add_recent(path)
-        self.status_label.setStyleSheet("")
-        self.status_label.setText(f"Saved {path.name}")
-        return True
-
     def save_as(self, path: Path | None = None) -> bool:
-        if path is None:
-            name = self.document.building.info.name or "building"
-            suggested = (self.document.path or Path.home() / f"{name}.json")
-            path = self.prompts.save_path(self, suggested)
-            if path is None:
-                return False
-        old = self.document.path
-        self.document.path = Path(path)
-        if not self.save():
-            self.document.path = old
-            return False
-        return True
+        """Save to a new file (the photo strip saves a new building before adding photos)."""
+        return self.session.save_as(path)
 
-    def _fill_recent_menu(self) -> None:
-        menu = self.actions_.recent_menu
-        menu.clear()
-        recent = self.settings.recent_files()
-        for path in recent:
-            action = menu.addAction(str(path))
-            action.triggered.connect(lambda _c=False, p=path: self.open_file(p))
-        if not recent:
-            menu.addAction("(none yet)").setEnabled(False)
-        else:
-            menu.addSeparator()
-            menu.addAction("Clear list", self.settings.clear_recent)
-
-    # --- recovery ---------------------------------------------------------------------------------
-
-    def autosave_now(self) -> Path | None:
-        """Write the recovery copy of unsaved work now (or remove it if all is saved)."""
-        self._autosave_timer.stop()
-        self._autosave_schedule.written()
-        if not self.document.dirty:
-            self.recovery.discard()
-            return None
-        try:
-            return self.recovery.write(self.document.building, self.document.path)
-        except (OSError, ValueError) as exc:
-            self.status_label.setText(f"! Recovery copy not written: {exc}")
-            return None
-
-    def offer_recovery(self) -> bool:
-        """Offer, one by one, the unsaved work that apps which ended left behind; True if any
-        was recovered. The first accepted copy opens here (unless this window has unsaved work),
-        the others in windows of their own. A copy is deleted only once the user has decided
-        about it, and a recovered copy only after its window has written its own."""
-        recovered = False
-        for rec in autosave.find_recoveries():
-            if not rec.path.exists():  # another window decided about it meanwhile
-                continue
-            if not self.prompts.ask_recover(self, rec):
-                autosave.discard_recovery(rec)
-                continue
-            try:
-                building = autosave.load_recovery(rec)
-            except BuildingFileError as exc:
-                self.prompts.show_error(
-                    self, "Cannot recover",
-                    f"The recovery copy from {rec.saved_at_text} is damaged and cannot be "
-                    f"opened; it has been discarded.\n\n{exc}")
-                autosave.discard_recovery(rec)
-                continue
-            doc = Document(building, rec.source_path)
-            if recovered or self.document.dirty:
-                target = self._open_extra_window(doc)
-            else:
-                self.load_document(doc)
-                target = self
-            target.history.forget_clean()
-            if target.autosave_now() is not None:  # its own copy first, then the old one goes
-                autosave.discard_recovery(rec)
-            recovered = True
-        return recovered
-
-    def _open_extra_window(self, doc: Document) -> MainWindow:
-        """A new window on ``doc`` (a further recovered building), shown beside this one."""
-        if self.window_factory is not None:
-            window: MainWindow = self.window_factory(doc)
-        else:
-            window = MainWindow(doc, settings=self.settings, prompts=self.prompts,
-                                samples=self.recomputer.samples,
-                                refine_samples=self.recomputer.refine_samples)
-        window.window_factory = self.window_factory
+    def _open_extra_window(self, doc: Document) -> FileSession:
+        """A new window on ``doc`` (a further recovered building), shown beside this one;
+        its file session."""
+        window = MainWindow(doc, settings=self.settings, prompts=self.prompts,
+                            assess=self.recomputer.assess, samples=self.recomputer.samples,
+                            refine_samples=self.recomputer.refine_samples)
         self.extra_windows.append(window)
         window.show()
-        return window
+        return window.session
+
+    def import_schedule(self) -> None:
+        from petfall_audit.gui.import_dialog import import_schedule
+
+        import_schedule(self, prompts=self.import_prompts)
 
     # --- edits with dialogs -----------------------------------------------------------------------
 
@@ -698,17 +641,23 @@ class MainWindow(QMainWindow):
     def show_about(self) -> None:
         self.prompts.show_cautions(self, about=True)
 
+    def show_guide(self) -> None:
+        """Help ▸ How to audit a building: the workflow in five steps, beside the window."""
+        if self.guide is None:
+            self.guide = GuideDialog(self)
+        self.guide.show()
+        self.guide.raise_()
+
     # --- closing ----------------------------------------------------------------------------------
 
     def closeEvent(self, event: QCloseEvent) -> None:
-        if not self.confirm_discard():
+        if not self.session.confirm_discard():
             event.ignore()
             return
-        self._autosave_timer.stop()
+        self.autosave_timer.stop()
         self.recomputer.shutdown()  # waits for the worker threads to end
-        for stop in self.on_close:
-            stop()
-        self.recovery.discard()
+        stop_tasks()  # and the views' background work
+        self.session.close()
         self.settings.set_window_state(self.saveGeometry(), self.saveState())
         self.settings.set_splitter_state(self.splitter.saveState())
         self.settings.sync()

@@ -1,20 +1,24 @@
 """Shared pieces of the result views: the selection every view follows, a background task
 runner and band styling for Qt (numbers and names: :mod:`petfall_audit.present`).
 
-The views reach the window only through :class:`ViewContext`: the latest assessment, the
-selection, the history to push edits to, the options (units, palette) and the settings.
+The views never reach the window: each is given a :class:`ViewContext` of the window's typed
+state (:mod:`petfall_audit.editing.state`): the current results, the selection, the workspace
+to push edits to, the display options and how to assess another building.
 """
 
 from __future__ import annotations
 
 import traceback
-from collections.abc import Callable, Iterable, Sequence
+from collections.abc import Callable, Sequence
+from dataclasses import dataclass
 from typing import Any
 
 from PySide6.QtCore import QObject, QRunnable, Qt, QThreadPool, Signal, Slot
 from PySide6.QtGui import QBrush, QColor, QFont
 from PySide6.QtWidgets import QLabel, QWidget
 
+from petfall_audit.editing.state import CurrentResults, Event, Selection, WindowState, Workspace
+from petfall_audit.gui.adapters import ViewOptions
 from petfall_audit.palette import BandStyle, band_style
 from petfall_audit.present import Units, units_of
 
@@ -28,33 +32,8 @@ __all__ = [
     "band_qstyle",
     "StaleLabel",
     "ViewContext",
+    "Assessor",
 ]
-
-
-class Selection(QObject):
-    """The openings selected in any view; ``changed(ids)`` with a tuple of ids, first = current."""
-
-    changed = Signal(object)
-
-    def __init__(self, parent: QObject | None = None) -> None:
-        super().__init__(parent)
-        self._ids: tuple[str, ...] = ()
-
-    @property
-    def ids(self) -> tuple[str, ...]:
-        return self._ids
-
-    @property
-    def current(self) -> str | None:
-        """The first selected opening, or ``None``."""
-        return self._ids[0] if self._ids else None
-
-    def set_ids(self, ids: Iterable[str]) -> None:
-        """Select ``ids`` (order kept, duplicates dropped); emits only on a change."""
-        new = tuple(dict.fromkeys(str(i) for i in ids))
-        if new != self._ids:
-            self._ids = new
-            self.changed.emit(new)
 
 
 # --- background work --------------------------------------------------------------------------
@@ -213,54 +192,72 @@ class StaleLabel(QLabel):
         self.setFont(font)
 
 
-class ViewContext(QObject):
-    """What the views share: the window, the latest assessment and the selection.
+@dataclass(frozen=True)
+class Assessor:
+    """How the window assesses a building, for a view that assesses another one (an earlier
+    audit): ``assess(building, samples=..., seed=...)`` with the full count of falls."""
 
-    ``assessment_changed(assessment)`` after each new result; ``stale_changed(bool)`` when a
-    recomputation starts or ends. Edits go through :meth:`push` (the window's history)."""
+    assess: Callable[..., Any]
+    seed: int
+    samples: int
 
-    assessment_changed = Signal(object)
-    stale_changed = Signal(bool)
 
-    def __init__(self, window: Any, parent: QObject | None = None) -> None:
-        super().__init__(parent)
-        self.window = window
-        self.selection = Selection(self)
-        self.assessment: Any = None
+class ViewContext:
+    """What a view is given: the current results, the selection, the display options and the
+    workspace to push edits to (all typed; none of them is the window).
+
+    ``assessment_changed(assessment)`` after each new result and ``stale_changed(bool)`` when
+    a recomputation starts or ends are the results' own events."""
+
+    def __init__(self, state: WindowState, options: ViewOptions, assessor: Assessor) -> None:
+        self.state = state
+        self.results: CurrentResults = state.results
+        self.selection: Selection = state.selection
+        self.workspace: Workspace = state.workspace
+        self.options = options
+        self.assessor = assessor
         self.plan: Any = None  # the fix plan view's current plan
-        self.stale = True
 
     @property
-    def options(self) -> Any:
-        return self.window.options
+    def assessment_changed(self) -> Event[Any]:
+        return self.results.assessment_changed
+
+    @property
+    def stale_changed(self) -> Event[bool]:
+        return self.results.stale_changed
+
+    @property
+    def assessment(self) -> Any:
+        return self.results.assessment
+
+    @property
+    def stale(self) -> bool:
+        return self.results.stale
 
     @property
     def units(self) -> Units:
-        return units_of(self.window.options.units)
+        return units_of(self.options.units)
 
     @property
     def palette(self) -> str:
-        return str(self.window.options.palette)
-
-    def set_assessment(self, assessment: Any) -> None:
-        self.assessment = assessment
-        self.stale = False
-        self.stale_changed.emit(False)
-        self.assessment_changed.emit(assessment)
-        known = {o.id for o in assessment.openings} if assessment is not None else set()
-        kept = [i for i in self.selection.ids if i in known]
-        if len(kept) != len(self.selection.ids):
-            self.selection.set_ids(kept)
-
-    def set_stale(self) -> None:
-        if not self.stale:
-            self.stale = True
-            self.stale_changed.emit(True)
+        return str(self.options.palette)
 
     def push(self, cmd: Any) -> str | None:
-        """Push an edit to the window's history; the refusal reason or ``None``."""
-        reason: str | None = self.window.push(cmd)
-        return reason
+        """Push an edit to the workspace's history; the refusal reason or ``None``."""
+        return self.workspace.push(cmd, self.options.units)
 
     def select(self, ids: Sequence[str]) -> None:
         self.selection.set_ids(ids)
+
+    def derived(self) -> ViewContext:
+        """A context of its own results and selection (e.g. an earlier audit shown beside this
+        one), with the same options, workspace and assessor."""
+        state = WindowState(workspace=self.workspace,
+                            results=CurrentResults(self.results.final_samples),
+                            options=self.state.options, selection=Selection())
+        return ViewContext(state, self.options, self.assessor)
+
+    def set_assessment(self, assessment: Any) -> None:
+        """Show ``assessment`` in this context (a derived one: the window's own results come
+        from its recomputation)."""
+        self.results.set_assessment(assessment, getattr(assessment, "samples", None))

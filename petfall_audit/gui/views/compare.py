@@ -147,8 +147,8 @@ class CompareView(QWidget):
         self.note.setObjectName("compare_note")
         self.note.setWordWrap(True)
         # the facade elevation before and after, side by side, the same facade on both
-        self.before_context = ViewContext(context.window, self)
-        self.after_context = ViewContext(context.window, self)
+        self.before_context = context.derived()
+        self.after_context = context.derived()
         self.before_facade = FacadeView(self.before_context)
         self.before_facade.setObjectName("facade_before")
         self.after_facade = FacadeView(self.after_context)
@@ -271,7 +271,7 @@ class CompareView(QWidget):
         after, self.what_if_left = apply_plan(current.building, self.what_if_actions,
                                               self.what_if_catalogue)
         samples, seed = current.samples, current.seed
-        assess_fn = self._ctx.window.recomputer.assess
+        assess_fn = self._ctx.assessor.assess
         self.summary.setText("Assessing the building after the plan with the same simulated "
                              "cats…")
         if self._task is not None:
@@ -296,7 +296,7 @@ class CompareView(QWidget):
         if self.earlier_building is None or current is None:
             return None
         building, samples, seed = self.earlier_building, current.samples, current.seed
-        assess_fn = self._ctx.window.recomputer.assess
+        assess_fn = self._ctx.assessor.assess
         self.summary.setText(f"Assessing {self.earlier_name} with the same simulated cats…")
         if self._task is not None:
             self._task.cancel()

@@ -169,9 +169,8 @@ class FloorsView(QWidget):
         except BuildingFileError as exc:
             self.note.setText(f"! Cannot open {Path(path).name}: {exc}")
             return None
-        recomputer = self._ctx.window.recomputer
-        assess_fn, seed = recomputer.assess, recomputer.seed
-        samples = recomputer.final_samples
+        assessor = self._ctx.assessor
+        assess_fn, seed, samples = assessor.assess, assessor.seed, assessor.samples
         self.note.setText(f"Assessing {Path(path).name}…")
         if self._task is not None:
             self._task.cancel()

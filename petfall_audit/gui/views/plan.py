@@ -229,10 +229,8 @@ class PlanView(QWidget):
         context.assessment_changed.connect(self._on_assessment)
         context.selection.changed.connect(self._on_selection)
         context.stale_changed.connect(self._on_stale)
-        saved = getattr(context.window, "plan_settings_changed", None)
-        if saved is not None:
-            saved.connect(self._on_saved_settings)
-            self._on_saved_settings(context.window.document.building.plan)
+        context.workspace.plan_settings_changed.connect(self._on_saved_settings)
+        self._on_saved_settings(context.workspace.plan_settings)
         if context.assessment is not None:
             self._on_assessment(context.assessment)
 
@@ -405,16 +403,14 @@ class PlanView(QWidget):
         self._place_line()
         self._plan_timer.start()
         self._show_budget_note()
-        doc = getattr(self._ctx.window, "document", None)
-        if doc is not None and doc.building.plan.budget != float(value):
+        if self._ctx.workspace.plan_settings.budget != float(value):
             from petfall_audit.editing.commands import SetPlanSettings
             from petfall_audit.model import PlanSettings
 
-            recomputer = getattr(self._ctx.window, "recomputer", None)
+            assessor = self._ctx.assessor  # the falls the budget was chosen with
             self._ctx.push(SetPlanSettings(PlanSettings(
                 budget=float(value), currency=self.currency,
-                samples=getattr(recomputer, "final_samples", doc.building.plan.samples),
-                seed=getattr(recomputer, "seed", doc.building.plan.seed))))
+                samples=assessor.samples, seed=assessor.seed)))
 
     def _on_line_moved(self, line: pg.InfiniteLine) -> None:
         value = float(10.0 ** float(line.value()))
@@ -469,8 +465,7 @@ class PlanView(QWidget):
         from petfall_audit.present.changes import fix_status_label
         from petfall_audit.present.numbers import fmt_date
 
-        doc = getattr(self._ctx.window, "document", None)
-        records = latest_records(doc.building) if doc is not None else {}
+        records = latest_records(self._ctx.workspace.document.building)
         actions = sorted(self.plan.actions, key=lambda o: -o.risk_removed) if self.plan else []
         for row, o in enumerate(actions):
             rec = records.get((o.opening_id, o.control_id))

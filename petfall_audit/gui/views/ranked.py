@@ -33,6 +33,7 @@ from PySide6.QtWidgets import (
 
 from petfall_audit.gui.result_cells import result_style, result_text, two_line_title
 from petfall_audit.gui.views.common import ViewContext, band_qstyle
+from petfall_audit.gui.widgets.field_form import ERROR_STYLE
 from petfall_audit.gui.widgets.tables import keep_columns_fitted
 from petfall_audit.injury import BAND_DESCRIPTIONS, BANDS
 from petfall_audit.present import SPEED_TERMS, enum_label, fmt_one_in, fmt_percent, fmt_risk
@@ -288,8 +289,14 @@ class RankedView(QWidget):
         splitter.setStretchFactor(1, 1)
         splitter.setChildrenCollapsible(False)
         self.details.setMinimumWidth(220)
+        #: One line over the table: how the openings are ranked, that they are being
+        #: recomputed, or why the results could not be computed.
+        self.state_note = QLabel("Computing results…")
+        self.state_note.setObjectName("results_state")
+        self.state_note.setWordWrap(True)
         layout = QVBoxLayout(self)
         layout.setContentsMargins(2, 2, 2, 2)
+        layout.addWidget(self.state_note)
         layout.addLayout(bar)
         layout.addWidget(splitter, 1)
         self.setFocusProxy(self.table)
@@ -298,6 +305,8 @@ class RankedView(QWidget):
         self.table.selectionModel().selectionChanged.connect(self._on_table_selection)
         context.assessment_changed.connect(self._on_assessment)
         context.stale_changed.connect(self.model.set_stale)
+        context.stale_changed.connect(self._on_stale)
+        context.results.failed.connect(self._on_failed)
         context.selection.changed.connect(self._on_selection)
         context.options.changed.connect(self._on_options)
         self.table.sortByColumn(0, Qt.SortOrder.AscendingOrder)  # risk_rank: the default order
@@ -311,13 +320,33 @@ class RankedView(QWidget):
         """Opening ids in the order shown."""
         return [self.proxy.index(r, 0).data(ID_ROLE) for r in range(self.proxy.rowCount())]
 
+    def row_result(self, row: int) -> Any:
+        """The result of the opening shown in ``row`` (0 = the top row as sorted)."""
+        return self.model.result(self.proxy.mapToSource(self.proxy.index(row, 0)).row())
+
     def set_order(self, by: str) -> None:
         """``"band"`` or ``"risk"`` (the default)."""
         self.order_box.setCurrentIndex(self.order_box.findData(1 if by == "band" else 0))
 
     # --- handlers --------------------------------------------------------------------------------
 
+    def _on_stale(self, stale: bool) -> None:
+        if stale:
+            self.state_note.setText("Results are out of date: recomputing…")
+
+    def _on_failed(self, message: str) -> None:
+        self.state_note.setText(f"! Results could not be computed: {message}")
+        self.state_note.setStyleSheet(ERROR_STYLE)
+
     def _on_assessment(self, assessment: Any) -> None:
+        n = len(getattr(assessment, "openings", ()))
+        self.state_note.setStyleSheet("")  # a failure shown before is over
+        self.state_note.setText(
+            f"{n} openings ranked, worst first (by risk score, as in the PDF and the exports). "
+            "Double-click a row to edit the opening." if n else
+            "No openings yet. Start on the Floors tab (the storeys and their heights), then "
+            "add the balconies and windows on the Openings tab, or import a schedule "
+            "(File ▸ Import). Help ▸ How to audit a building has the five steps.")
         self._fill_filters(assessment)
         self.model.set_assessment(assessment)  # the columns fit themselves (tables.py)
         self._on_filter_changed()

@@ -132,9 +132,7 @@ class SensitivityView(QWidget):
     # --- when to compute ---------------------------------------------------------------------
 
     def _is_final(self) -> bool:
-        w = self._ctx.window
-        rec = getattr(w, "recomputer", None)
-        return rec is None or getattr(w, "results_samples", None) == rec.final_samples
+        return self._ctx.results.is_final
 
     def _on_assessment(self, assessment: Any) -> None:
         self._generation[0] += 1  # any running analysis is for older results now

@@ -22,7 +22,7 @@ from petfall_audit.editing.document import Document
 from petfall_audit.editing.fields import INFO_FIELDS, INJURY_FIELDS
 from petfall_audit.editing.history import History
 from petfall_audit.gui.adapters import ViewOptions, push_command
-from petfall_audit.gui.widgets.field_form import FieldForm
+from petfall_audit.gui.widgets.field_form import ERROR_STYLE, FieldForm
 from petfall_audit.model import CAT_PRESETS, InjuryThresholds
 from petfall_audit.present import PRESET_LABELS
 from petfall_audit.present.code import code_profile_lead, code_rule_rows, profile_choices
@@ -86,10 +86,16 @@ class BuildingPanel(QWidget):
         for key, label in PRESET_LABELS.items():
             self.profile.addItem(label, key)
         self.profile.activated.connect(self._on_profile_chosen)
+        #: Why the last change of population was refused (hidden while there is none).
         self.profile_error = QLabel()
+        self.profile_error.setObjectName("profile_error")
+        self.profile_error.setWordWrap(True)
+        self.profile_error.setStyleSheet(ERROR_STYLE)
+        self.profile_error.hide()
         cats = QGroupBox("Cats at risk")
         cats_layout = QFormLayout(cats)
         cats_layout.addRow("Population", self.profile)
+        cats_layout.addRow(self.profile_error)
         cats_layout.addRow(QLabel("Mass, body drag, chance of relaxing in the fall and righting "
                                   "time are sampled from the chosen population; see the method "
                                   "notes in the audit report."))
@@ -180,4 +186,7 @@ class BuildingPanel(QWidget):
         if key is None or key == self._doc.building.cat_profile.preset:
             return
         reason = push_command(self._history, SetCatProfile(CAT_PRESETS[key]))
-        self.profile_error.setText(reason or "")
+        self.profile_error.setText(f"! Not changed: {reason}" if reason else "")
+        self.profile_error.setVisible(reason is not None)
+        if reason is not None:  # the box shows the population still in force
+            self._on_profile_changed("profile")

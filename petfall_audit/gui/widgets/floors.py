@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 
+from PySide6.QtCore import QItemSelection, QItemSelectionModel
 from PySide6.QtGui import QAction, QKeySequence
 from PySide6.QtWidgets import (
     QLabel,
@@ -12,11 +13,12 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from petfall_audit.editing.clipboard import rows_to_tsv
+from petfall_audit.editing.clipboard import parse_tsv, rows_to_tsv
 from petfall_audit.editing.commands import (
     AddFloor,
     AddFloors,
     Command,
+    PasteFloors,
     RemoveFloor,
     SetFloor,
     SetFloorElevations,
@@ -30,9 +32,11 @@ from petfall_audit.editing.query import (
     next_floors,
     storey_heights_m,
 )
+from petfall_audit.editing.words import problem_words
 from petfall_audit.gui.adapters import RecordTableModel, ViewOptions, push_command
 from petfall_audit.gui.widgets.tables import (
     add_remove_bar,
+    clipboard_text,
     error_label,
     record_table,
     refusal_line,
@@ -92,6 +96,7 @@ class FloorsPanel(QWidget):
         SK = QKeySequence.StandardKey
         table_action(self.table, "Remove selected floor", SK.Delete, self.remove_selected)
         table_action(self.table, "Copy rows (tab-separated)", SK.Copy, self.copy_selected)
+        table_action(self.table, "Paste rows", SK.Paste, self.paste)
         hint = QLabel("Floor levels are finished-floor heights above the building's datum. "
                       "Changing a storey height moves every floor above it.")
         hint.setWordWrap(True)
@@ -158,6 +163,37 @@ class FloorsPanel(QWidget):
         if text:
             set_clipboard_text(text)
         return text
+
+    def paste(self, text: str | None = None) -> str | None:
+        """Paste tab-separated rows (default: the clipboard) as one step: a row with an existing
+        level changes that floor, others are added. The reason if refused."""
+        self._clear_messages()
+        text = clipboard_text() if text is None else text
+        rows, problems = parse_tsv(text, FLOOR_FIELDS, self._options.units)
+        reason: str | None
+        if problems:
+            reason = "nothing pasted: " + problem_words(problems)
+        elif not rows:
+            reason = "nothing to paste: copy rows from a spreadsheet or this table first"
+        else:
+            cmd = PasteFloors([r.values for r in rows])
+            reason = push_command(self._history, cmd)
+            if reason is None:
+                self.select_levels([*cmd.updated, *cmd.added])
+                return None
+        self._show_error(reason)
+        return reason
+
+    def select_levels(self, levels: Sequence[int]) -> None:
+        """Select the rows of the floors at ``levels``."""
+        selection = QItemSelection()
+        for level in levels:
+            row = self.model.row_of_key(level)
+            if row >= 0:
+                selection.select(self.model.index(row, 0),
+                                 self.model.index(row, self.model.columnCount() - 1))
+        self.table.selectionModel().select(
+            selection, QItemSelectionModel.SelectionFlag.ClearAndSelect)
 
     def remove_selected(self) -> str | None:
         """Remove the selected floor and its openings; the reason if refused."""
