@@ -45,7 +45,7 @@ def main(argv: list[str] | None = None) -> int:
     from petfall_audit.editing.document import Document
     from petfall_audit.gui.app import close_window, sample_document
     from petfall_audit.gui.main_window import MainWindow
-    from petfall_audit.gui.views import VIEW_NAMES, install_views
+    from petfall_audit.gui.views import VIEW_NAMES
     from petfall_audit.gui.views.common import wait_for_tasks
 
     app = QApplication.instance() or QApplication(sys.argv[:1])
@@ -58,7 +58,7 @@ def main(argv: list[str] | None = None) -> int:
     else:
         doc = sample_document()
     window = MainWindow(doc)
-    views = getattr(window, "views", None) or install_views(window)
+    views = window.views
     window.resize(width, height)
     window.show()
 

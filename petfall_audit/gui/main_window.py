@@ -144,6 +144,7 @@ class MainWindow(QMainWindow):
         #: Windows opened for further recovered work (kept alive here).
         self.extra_windows: list[MainWindow] = []
         self._split_restored = False
+        self._fitted = False
         self._panels: list[Any] = []
         self._disconnects: list[Callable[[], None]] = []
         self._syncing_selection = False
@@ -317,6 +318,9 @@ class MainWindow(QMainWindow):
 
     def showEvent(self, event: QShowEvent) -> None:
         super().showEvent(event)
+        if not self._fitted:  # the frame is known now: the whole window inside the screen
+            self._fitted = True
+            self._fit_screen()
         if not self._split_restored:  # the first time: the default share, once laid out
             self._split_restored = True
             self.set_editor_share(EDITOR_SHARE)
@@ -329,12 +333,23 @@ class MainWindow(QMainWindow):
         self.splitter.setSizes([editors, total - editors])
 
     def _fit_screen(self) -> None:
-        """Keep the window inside the screen's free area (a small or scaled screen)."""
+        """Keep the window, its frame included, inside the screen's free area (a small screen,
+        or one scaled to 150 %)."""
         screen = self.screen()
         if screen is None:
             return
         free = screen.availableGeometry()
-        self.resize(min(self.width(), free.width()), min(self.height(), free.height()))
+        frame = self.frameGeometry()
+        extra_w = max(frame.width() - self.width(), 0)
+        extra_h = max(frame.height() - self.height(), 0)
+        width = min(self.width(), free.width() - extra_w)
+        height = min(self.height(), free.height() - extra_h)
+        if (width, height) != (self.width(), self.height()):
+            self.resize(width, height)
+        frame = self.frameGeometry()
+        if not free.contains(frame):
+            self.move(max(free.left(), min(frame.left(), free.right() - frame.width() + 1)),
+                      max(free.top(), min(frame.top(), free.bottom() - frame.height() + 1)))
 
     # --- the document -----------------------------------------------------------------------------
 

@@ -231,6 +231,10 @@ class _Canvas(QGraphicsView):
         self._owner.fit_if_auto()
 
 
+#: The facade view's info line when no opening is current.
+HOVER_HINT = "Hover over an opening to see its numbers; click to select it."
+
+
 class FacadeView(QWidget):
     """Elevation of one facade at a time; the facade is chosen in a list above it."""
 
@@ -280,7 +284,7 @@ class FacadeView(QWidget):
         self.scene = QGraphicsScene(self)
         self.canvas = _Canvas(self)
         self.canvas.setScene(self.scene)
-        self.info = QLabel("Hover over an opening to see its numbers; click to select it.")
+        self.info = QLabel(HOVER_HINT)
         self.info.setObjectName("facade_info")
         self.info.setWordWrap(True)
         self.info.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
@@ -557,6 +561,19 @@ class FacadeView(QWidget):
             item.setOpacity(0.45 if stale else 1.0)
         if stale:
             self.info.setText("Recomputing: the colours show the previous results…")
+        else:  # final again: what the line says when nothing is recomputed
+            self._show_info()
+
+    def _show_info(self) -> None:
+        """The current opening's numbers, or what to do."""
+        current = self._ctx.selection.current
+        if current in self.items:
+            self.info.setText(self.items[current].tooltip_text.replace("\n", " · "))
+        elif not self.items:
+            self.info.setText("No openings on this facade yet: add balconies and windows on "
+                              "the Openings tab above (Help ▸ How to audit a building).")
+        else:
+            self.info.setText(HOVER_HINT)
 
     def handle_key(self, event: QKeyEvent) -> bool:
         """Arrow keys move the selection to the nearest opening that way; +/- zoom."""

@@ -263,7 +263,13 @@ class FloorsView(QWidget):
         self.band_plot.clear()
         self.lik_plot.clear()
         self.series = self._series()
-        if self.series is None:
+        a = self._ctx.assessment
+        empty = a is not None and not a.building.openings
+        self.charts.setVisible(not empty)  # no axes around nothing
+        if empty:
+            self.note.setText("No openings yet: the floors are compared once the building has "
+                              "balconies or windows (Openings tab above).")
+        if self.series is None or empty:
             return
         sa, sb = self.series
         n = len(sa.levels)

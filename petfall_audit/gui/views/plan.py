@@ -231,6 +231,8 @@ class PlanView(QWidget):
         context.stale_changed.connect(self._on_stale)
         context.workspace.plan_settings_changed.connect(self._on_saved_settings)
         self._on_saved_settings(context.workspace.plan_settings)
+        self.empty_note: pg.TextItem | None = None
+        self._draw_curve()
         if context.assessment is not None:
             self._on_assessment(context.assessment)
 
@@ -526,16 +528,42 @@ class PlanView(QWidget):
     def _draw_curve(self) -> None:
         plot = self.curve_plot
         plot.clear()
-        if self.curve is not None:
-            budgets, residual = self.curve
-            keep = budgets > 0  # a log axis: "no budget" is the summary's "before"
-            plot.plot(budgets[keep], residual[keep], pen=pg.mkPen("#1B2C57", width=2),
-                      symbol="o", symbolSize=5, symbolBrush="#1B2C57")
+        budgets, residual = self.curve if self.curve is not None else (np.empty(0), np.empty(0))
+        keep = budgets > 0  # a log axis: "no budget" is the summary's "before"
+        if not np.any(keep) or not self.options:
+            self._draw_empty_curve()
+            return
+        self.empty_note = None
+        for axis in ("left", "bottom"):
+            plot.showAxis(axis)
+        plot.enableAutoRange()
+        plot.plot(budgets[keep], residual[keep], pen=pg.mkPen("#1B2C57", width=2),
+                  symbol="o", symbolSize=5, symbolBrush="#1B2C57")
+        self.budget_line.show()
         plot.addItem(self.budget_line)
         self._place_line()
         if self.plan is not None and self.plan.budget > 0:
             plot.plot([self.plan.budget], [self.plan.risk_after], pen=None, symbol="s",
                       symbolSize=11, symbolBrush="#D55E00", symbolPen="#1A1A1A")
+
+    def _draw_empty_curve(self) -> None:
+        """No curve (no openings, or none that a control helps): a plain frame that says so,
+        not an axis around nothing."""
+        plot = self.curve_plot
+        plot.disableAutoRange()
+        plot.setXRange(2.0, 5.0, padding=0.0)  # 100 to 100,000 (log axis)
+        plot.setYRange(0.0, 1.0, padding=0.0)
+        self.budget_line.hide()
+        for axis in ("left", "bottom"):  # no numbers around nothing
+            plot.hideAxis(axis)
+        waiting = self.curve is None and self._ctx.assessment is None
+        text = pg.TextItem("The curve appears\nwith the results." if waiting else
+                           "Nothing to plan yet:\nthe curve appears once\nthe building has "
+                           "openings\nthat a fix can make safer.",
+                           color="#1A1A1A", anchor=(0.5, 0.5))
+        text.setPos(3.5, 0.5)
+        plot.addItem(text)
+        self.empty_note = text
 
     def _on_selection(self, _ids: Any) -> None:
         self._fill_options()

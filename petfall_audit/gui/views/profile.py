@@ -96,6 +96,7 @@ class ProfileView(QWidget):
         layout.setContentsMargins(2, 2, 2, 2)
         layout.addWidget(self.caption)
         layout.addWidget(splitter, 1)
+        self.plots = splitter
 
         context.assessment_changed.connect(self._on_assessment)
         context.selection.changed.connect(self._on_selection)
@@ -107,6 +108,7 @@ class ProfileView(QWidget):
     # --- handlers --------------------------------------------------------------------------------
 
     def _on_assessment(self, assessment: Any) -> None:
+        self.plots.setVisible(bool(assessment.openings))  # no empty axes for no openings
         self.curve = impact_speed_curve(assessment) if assessment.openings else None
         self._draw_curve()
         self._on_selection(self._ctx.selection.ids)
@@ -150,8 +152,12 @@ class ProfileView(QWidget):
         self.speed_plot.setLabel("left", f"speed ({units.speed})")
         self.accel_plot.setLabel("left", f"acceleration ({units.length}/s²)")
         if not self.paths or self.opening_id is None:
-            self.caption.setText("Select an opening (in the list, on a facade or on the curve) to "
-                                 "see how a cat falls from it.")
+            a = self._ctx.assessment
+            self.caption.setText(
+                "No openings yet: add a balcony or window on the Openings tab and the fall "
+                "from it is drawn here." if a is not None and not a.openings else
+                "Select an opening (in the list, on a facade or on the curve) to see how a cat "
+                "falls from it.")
             return
         a = self._ctx.assessment
         r = a.result(self.opening_id)

@@ -244,11 +244,17 @@ class RankedView(QWidget):
             box.setSizeAdjustPolicy(QComboBox.SizeAdjustPolicy.AdjustToContents)
             box.setSizePolicy(QSizePolicy.Policy.Maximum, QSizePolicy.Policy.Fixed)
             box.currentIndexChanged.connect(self._on_filter_changed)
+        # full width when there is room; on a small or scaled screen the boxes shrink (their
+        # text elided) so that the window still fits
+        em = self.fontMetrics().horizontalAdvance("M")
+        for box, chars in ((self.order_box, 9), (self.floor_box, 5), (self.facade_box, 5),
+                           (self.kind_box, 5), (self.band_box, 5)):
+            box.setMinimumWidth(chars * em)
         self.search = QLineEdit()
         self.search.setObjectName("ranked_search")
         self.search.setPlaceholderText("Search id or factor…")
         self.search.setClearButtonEnabled(True)
-        self.search.setMinimumWidth(170)  # the placeholder stays readable
+        self.search.setMinimumWidth(8 * self.fontMetrics().horizontalAdvance("M"))
         self.search.textChanged.connect(self._on_filter_changed)
         self.count = QLabel()
         bar = QHBoxLayout()
