@@ -168,6 +168,7 @@ class MainWindow(QMainWindow):
         if state is not None:
             self.restoreState(state)
         self._fit_screen()
+        self._own_size = self.size()
         split = self.settings.splitter_state()
         if split is not None and self.splitter.restoreState(split):
             self._split_restored = True
@@ -320,7 +321,8 @@ class MainWindow(QMainWindow):
         super().showEvent(event)
         if not self._fitted:  # the frame is known now: the whole window inside the screen
             self._fitted = True
-            self._fit_screen()
+            if self.size() == self._own_size:  # unless the caller chose a size since
+                self._fit_screen()
         if not self._split_restored:  # the first time: the default share, once laid out
             self._split_restored = True
             self.set_editor_share(EDITOR_SHARE)
