@@ -2,7 +2,8 @@
 
 The public API is listed in ``__all__``; everything else is private. Importing this package
 never imports Qt, and the computation functions are loaded on first use so that
-``import petfall_audit`` stays light.
+``import petfall_audit`` stays light. The package is typed (``py.typed``): a type checker sees
+every public name with its real signature (the ``TYPE_CHECKING`` imports below).
 
 Typical use::
 
@@ -15,7 +16,7 @@ Typical use::
 from __future__ import annotations
 
 from importlib import import_module
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from petfall_audit.errors import (
     BuildingFileError,
@@ -40,6 +41,26 @@ from petfall_audit.model import (
     Surface,
     SurfaceKind,
 )
+
+if TYPE_CHECKING:  # what the lazy names below are, for type checkers (never run)
+    from petfall_audit.cautions import CAUTIONS as CAUTIONS
+    from petfall_audit.fixes import load_catalogue as load_catalogue
+    from petfall_audit.injury import BANDS as BANDS
+    from petfall_audit.io.building_file import load_building as load_building
+    from petfall_audit.io.building_file import parse_building as parse_building
+    from petfall_audit.io.building_file import save_building as save_building
+    from petfall_audit.io.building_file import validate_building as validate_building
+    from petfall_audit.physics import air_density as air_density
+    from petfall_audit.physics import fall_profile as fall_profile
+    from petfall_audit.physics import fall_time as fall_time
+    from petfall_audit.physics import impact_speed as impact_speed
+    from petfall_audit.physics import simulate_falls as simulate_falls
+    from petfall_audit.plan import Plan as Plan
+    from petfall_audit.plan import make_plan as make_plan
+    from petfall_audit.risk import MODEL_VERSION as MODEL_VERSION
+    from petfall_audit.risk import Assessment as Assessment
+    from petfall_audit.risk import assess as assess
+    from petfall_audit.sampling import sample_cat_profile as sample_cat_profile
 
 __version__ = "0.1.0"
 

@@ -11,7 +11,9 @@
     ├── ScheduleImportError         a schedule spreadsheet cannot be imported
     ├── ModelImportError            a building model (IFC) cannot be imported
     ├── PlanError                   the budgeted fix plan cannot be solved
-    └── ReportError                 a report or export cannot be written
+    ├── ReportError                 a report or export cannot be written
+    └── EditRefused                 an edit would add problems to the building (``.problems``);
+                                    also a ``ValueError`` (in :mod:`petfall_audit.editing`)
 
 Invalid arguments to the computation functions raise the built-in ``ValueError``, naming the
 argument.

@@ -15,10 +15,10 @@ assessment.
 from __future__ import annotations
 
 from collections.abc import Callable
-from typing import Any
 
 import numpy as np
 import numpy.typing as npt
+from numpy.typing import ArrayLike
 
 from petfall_audit import _physics_kernels as _k
 from petfall_audit._interception import simulate as _simulate
@@ -63,7 +63,7 @@ _ALTITUDE_RANGE_M = (-1_000.0, 11_000.0)
 # --- argument checks -----------------------------------------------------------------------------
 
 
-def _as_float(name: str, value: Any) -> FloatArray:
+def _as_float(name: str, value: ArrayLike) -> FloatArray:
     try:
         a = np.asarray(value, dtype=float)
     except (TypeError, ValueError) as exc:
@@ -73,21 +73,21 @@ def _as_float(name: str, value: Any) -> FloatArray:
     return a
 
 
-def _positive(name: str, value: Any) -> FloatArray:
+def _positive(name: str, value: ArrayLike) -> FloatArray:
     a = _as_float(name, value)
     if not np.all(a > 0):
         raise ValueError(f"{name} must be positive, got min {float(np.min(a))}")
     return a
 
 
-def _non_negative(name: str, value: Any) -> FloatArray:
+def _non_negative(name: str, value: ArrayLike) -> FloatArray:
     a = _as_float(name, value)
     if not np.all(a >= 0):
         raise ValueError(f"{name} must not be negative, got min {float(np.min(a))}")
     return a
 
 
-def _fraction(name: str, value: Any) -> FloatArray:
+def _fraction(name: str, value: ArrayLike) -> FloatArray:
     a = _as_float(name, value)
     if not np.all((a > 0) & (a < 1)):
         raise ValueError(f"{name} must lie strictly between 0 and 1")
@@ -99,8 +99,9 @@ def _out(a: FloatArray) -> FloatOrArray:
 
 
 def _fall_args(
-    mass_kg: Any, cda_tense_m2: Any, cda_spread_m2: Any, relax_fraction: Any, rho_kg_m3: Any,
-    g: Any,
+    mass_kg: ArrayLike, cda_tense_m2: ArrayLike, cda_spread_m2: ArrayLike,
+    relax_fraction: ArrayLike, rho_kg_m3: ArrayLike,
+    g: ArrayLike,
 ) -> tuple[FloatArray, FloatArray, FloatArray, float]:
     """Checked ``(beta_tense, beta_spread, relax_fraction, g)``."""
     m = _positive("mass_kg", mass_kg)
@@ -119,14 +120,14 @@ def _fall_args(
 # --- atmosphere ----------------------------------------------------------------------------------
 
 
-def isa_temperature_c(altitude_m: Any) -> FloatOrArray:
+def isa_temperature_c(altitude_m: ArrayLike) -> FloatOrArray:
     """ISO 2533 standard-atmosphere temperature (°C) at geometric ``altitude_m`` (troposphere)."""
     h = _altitude(altitude_m)
     geopotential_m = _EARTH_RADIUS_M * h / (_EARTH_RADIUS_M + h)
     return _out(_T0_K - _LAPSE_K_PER_M * geopotential_m - 273.15)
 
 
-def _altitude(altitude_m: Any) -> FloatArray:
+def _altitude(altitude_m: ArrayLike) -> FloatArray:
     h = _as_float("altitude_m", altitude_m)
     lo, hi = _ALTITUDE_RANGE_M
     if not np.all((h >= lo) & (h <= hi)):
@@ -134,7 +135,7 @@ def _altitude(altitude_m: Any) -> FloatArray:
     return h
 
 
-def air_density(altitude_m: Any, temperature_c: Any) -> FloatOrArray:
+def air_density(altitude_m: ArrayLike, temperature_c: ArrayLike) -> FloatOrArray:
     """Air density (kg/m³) at the site: ISO 2533 / ICAO standard-atmosphere pressure at geometric
     ``altitude_m`` (m above mean sea level, troposphere), ideal gas at ``temperature_c`` (°C):
     ``ρ = p / (R T)``. Dry air; 1.225 kg/m³ at sea level and 15 °C."""
@@ -151,7 +152,9 @@ def air_density(altitude_m: Any, temperature_c: Any) -> FloatOrArray:
 # --- vertical fall -------------------------------------------------------------------------------
 
 
-def terminal_speed(mass_kg: Any, cda_m2: Any, rho_kg_m3: Any, g: float = G0) -> FloatOrArray:
+def terminal_speed(
+    mass_kg: ArrayLike, cda_m2: ArrayLike, rho_kg_m3: ArrayLike, g: float = G0,
+) -> FloatOrArray:
     """Terminal speed (m/s) ``sqrt(2 m g / (ρ C_d A))``."""
     m = _positive("mass_kg", mass_kg)
     c = _positive("cda_m2", cda_m2)
@@ -161,8 +164,9 @@ def terminal_speed(mass_kg: Any, cda_m2: Any, rho_kg_m3: Any, g: float = G0) -> 
 
 
 def impact_speed(
-    drop_m: Any, *, mass_kg: Any, cda_tense_m2: Any, cda_spread_m2: Any, relax_fraction: Any,
-    rho_kg_m3: Any, g: float = G0,
+    drop_m: ArrayLike, *, mass_kg: ArrayLike, cda_tense_m2: ArrayLike, cda_spread_m2: ArrayLike,
+    relax_fraction: ArrayLike,
+    rho_kg_m3: ArrayLike, g: float = G0,
 ) -> FloatOrArray:
     """Speed (m/s) after falling ``drop_m`` (m) from rest in two postures; broadcasts.
 
@@ -175,8 +179,9 @@ def impact_speed(
 
 
 def fall_time(
-    drop_m: Any, *, mass_kg: Any, cda_tense_m2: Any, cda_spread_m2: Any, relax_fraction: Any,
-    rho_kg_m3: Any, g: float = G0,
+    drop_m: ArrayLike, *, mass_kg: ArrayLike, cda_tense_m2: ArrayLike, cda_spread_m2: ArrayLike,
+    relax_fraction: ArrayLike,
+    rho_kg_m3: ArrayLike, g: float = G0,
 ) -> FloatOrArray:
     """Time (s) to fall ``drop_m`` (m) from rest in two postures; same arguments as
     :func:`impact_speed`."""
@@ -187,7 +192,8 @@ def fall_time(
 
 
 def switch_drop(
-    *, mass_kg: Any, cda_tense_m2: Any, relax_fraction: Any, rho_kg_m3: Any, g: float = G0
+    *, mass_kg: ArrayLike, cda_tense_m2: ArrayLike, relax_fraction: ArrayLike,
+    rho_kg_m3: ArrayLike, g: float = G0,
 ) -> FloatOrArray:
     """Drop (m) after which a relaxing cat spreads out: ``−v_t² ln(1 − f²) / (2 g)``."""
     b1, _, f, _g = _fall_args(mass_kg, cda_tense_m2, cda_tense_m2, relax_fraction, rho_kg_m3, g)
@@ -198,8 +204,9 @@ def switch_drop(
 
 
 def outward_travel_m(
-    drop_m: Any, *, launch_speed_mps: Any, mass_kg: Any, cda_tense_m2: Any, cda_spread_m2: Any,
-    relax_fraction: Any, rho_kg_m3: Any, g: float = G0,
+    drop_m: ArrayLike, *, launch_speed_mps: ArrayLike, mass_kg: ArrayLike, cda_tense_m2: ArrayLike,
+    cda_spread_m2: ArrayLike,
+    relax_fraction: ArrayLike, rho_kg_m3: ArrayLike, g: float = G0,
 ) -> FloatOrArray:
     """Outward distance (m) from the perch when the cat has dropped ``drop_m`` (m), having left
     it horizontally at ``launch_speed_mps`` (m/s).
@@ -220,8 +227,9 @@ def outward_travel_m(
 
 
 def drop_to_reach_m(
-    distance_m: Any, *, launch_speed_mps: Any, mass_kg: Any, cda_tense_m2: Any,
-    cda_spread_m2: Any, relax_fraction: Any, rho_kg_m3: Any, g: float = G0,
+    distance_m: ArrayLike, *, launch_speed_mps: ArrayLike, mass_kg: ArrayLike,
+    cda_tense_m2: ArrayLike,
+    cda_spread_m2: ArrayLike, relax_fraction: ArrayLike, rho_kg_m3: ArrayLike, g: float = G0,
 ) -> FloatOrArray:
     """Drop (m) at which the outward travel of :func:`outward_travel_m` reaches ``distance_m``
     (m): its exact inverse; 0 for distances ≤ 0, ``inf`` where the cat never gets that far out."""

@@ -79,3 +79,71 @@ def test_every_subpackage_is_packaged() -> None:
         for p in (root / "petfall_audit").rglob("__init__.py")
     }
     assert found <= listed, f"add to [tool.setuptools] packages: {sorted(found - listed)}"
+
+
+def _layers() -> list[list[str]]:
+    import tomllib
+
+    config = tomllib.loads((Path(__file__).resolve().parents[1] / "pyproject.toml").read_text())
+    contract = next(c for c in config["tool"]["importlinter"]["contracts"]
+                    if c["type"] == "layers")
+    return [[m.strip() for m in layer.replace("|", ":").split(":")]
+            for layer in contract["layers"]]
+
+
+def test_every_module_has_its_place_in_the_layers() -> None:
+    """A new module outside every layer would escape the one-way rule: each module of the
+    package is a layer's module or inside one (the root and the io package's own __init__, which
+    hold no code of their own, aside)."""
+    listed = [m for layer in _layers() for m in layer]
+    names = [info.name for info in pkgutil.walk_packages(petfall_audit.__path__,
+                                                         prefix="petfall_audit.")
+             if not info.name.startswith(("petfall_audit.resources",
+                                          "petfall_audit.sample_buildings"))]
+    assert "petfall_audit.risk" in names and "petfall_audit.gui.main_window" in names
+    outside = [n for n in names if n != "petfall_audit.io"
+               and not any(n == m or n.startswith(m + ".") for m in listed)]
+    assert outside == [], f"modules in no layer of pyproject.toml: {outside}"
+
+
+def test_the_layers_keep_the_documented_order() -> None:
+    """The flow of issue 13: files and model at the bottom, then physics, risk, fixes, the
+    presentation layer, and report / gui / cli on top."""
+    where = {m: i for i, layer in enumerate(_layers()) for m in layer}  # 0 = top
+    order = ["petfall_audit.model", "petfall_audit.io.building_file", "petfall_audit.physics",
+             "petfall_audit.risk", "petfall_audit.fixes", "petfall_audit.present",
+             "petfall_audit.report", "petfall_audit.gui", "petfall_audit.cli"]
+    depths = [where[m] for m in order]
+    assert depths == sorted(depths, reverse=True)
+    assert where["petfall_audit.report"] > where["petfall_audit.cli"]
+
+
+def test_every_exception_is_drawn_in_the_tree_of_errors_py() -> None:
+    """Each exception class the package raises on purpose (a PetfallError) appears in the tree
+    drawn in errors.py's docstring, under its real base class."""
+    import importlib
+    import re
+
+    from petfall_audit import errors
+
+    for info in pkgutil.walk_packages(petfall_audit.__path__, prefix="petfall_audit."):
+        if not info.name.startswith(("petfall_audit.gui", "petfall_audit.resources",
+                                     "petfall_audit.sample_buildings")):
+            importlib.import_module(info.name)
+
+    def subclasses(cls: type) -> list[type]:
+        return [c for sub in cls.__subclasses__() for c in (sub, *subclasses(sub))]
+
+    found = subclasses(errors.PetfallError)
+    assert found and any(c.__name__ == "EditRefused" for c in found)
+    doc = errors.__doc__ or ""
+    tree = [line for line in doc.splitlines() if re.search(r"[├└]── \w+", line)]
+    drawn = {re.search(r"[├└]── (\w+)", line).group(1): line.index("──")  # type: ignore[union-attr]
+             for line in tree}
+    missing = sorted(c.__name__ for c in found if c.__name__ not in drawn)
+    assert missing == [], f"exceptions missing from the tree in errors.py: {missing}"
+    top = min(drawn.values())  # the column of PetfallError's own branches
+    for cls in found:  # drawn one level below its base
+        base = next(b for b in cls.__mro__[1:] if issubclass(b, errors.PetfallError))
+        expected = top if base is errors.PetfallError else drawn[base.__name__] + 4
+        assert drawn[cls.__name__] == expected, cls.__name__

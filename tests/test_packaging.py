@@ -46,3 +46,11 @@ def test_installed_copy_finds_resources_and_samples(tmp_path: Path) -> None:
     out = subprocess.run([sys.executable, "-c", code], check=True, capture_output=True,
                          text=True, cwd=tmp_path, env=env)
     assert out.stdout.strip()
+    # the installed copy is typed: a user's mypy --strict reads it (py.typed in the wheel)
+    assert (target / "petfall_audit" / "py.typed").is_file()
+    typing_test = ROOT / "tests" / "test_public_typing.py"
+    run = subprocess.run(
+        [sys.executable, "-m", "pytest", "-q", "-p", "no:cacheprovider", str(typing_test)],
+        capture_output=True, text=True, cwd=tmp_path, env=env, timeout=600)
+    assert run.returncode == 0, run.stdout[-3000:] + run.stderr[-2000:]
+    assert "2 passed" in run.stdout
