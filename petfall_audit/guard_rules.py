@@ -19,7 +19,7 @@ from __future__ import annotations
 from petfall_audit.barriers import gap_holds, is_protected
 from petfall_audit.code_profile import CodeProfile, CodeRule, code_profile
 from petfall_audit.model import BALCONY_LIKE, CAT_PRESETS, CatProfile, Opening, OpeningKind, Screen
-from petfall_audit.present import fmt_length
+from petfall_audit.present.numbers import fmt_length
 
 __all__ = [
     "CAT_CRANIAL_WIDTH_MM",

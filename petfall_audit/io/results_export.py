@@ -10,7 +10,6 @@ severity index in g. Every output carries the cautions.
 from __future__ import annotations
 
 import io
-import math
 from typing import Any
 
 from petfall_audit import __version__
@@ -18,6 +17,7 @@ from petfall_audit.cautions import CAUTIONS
 from petfall_audit.injury import BANDS
 from petfall_audit.io.csv_safe import csv_writer
 from petfall_audit.model import CatProfile, Distribution, Fixed, LogNormal, Normal, Uniform
+from petfall_audit.present.numbers import SIGNIFICANT_DIGITS, round_significant
 from petfall_audit.reasons import Reason
 from petfall_audit.risk import Assessment, OpeningResult, Percentiles
 
@@ -28,20 +28,6 @@ __all__ = [
     "assessment_to_csv",
     "profile_to_dict",
 ]
-
-SIGNIFICANT_DIGITS = 4
-
-
-def round_significant(x: float) -> float | None:
-    """Round to :data:`SIGNIFICANT_DIGITS` significant digits; ``None`` for NaN or infinity.
-    Every JSON export rounds model numbers this way: the model is not more precise than that,
-    and rounded numbers keep the files stable and readable."""
-    x = float(x)
-    if not math.isfinite(x):
-        return None
-    r = float(f"{x:.{SIGNIFICANT_DIGITS}g}")
-    return 0.0 if r == 0 else r  # no "-0.0"
-
 
 _r = round_significant
 

@@ -11,10 +11,11 @@ import math
 import re
 from dataclasses import dataclass
 
-from petfall_audit.io.results_export import round_significant
 from petfall_audit.units import FOOT_M, INCH_M, SYSTEMS
 
 __all__ = [
+    "SIGNIFICANT_DIGITS",
+    "round_significant",
     "NO_VALUE",
     "DATE_STYLES",
     "fmt_one_in",
@@ -37,6 +38,20 @@ __all__ = [
     "Units",
     "units_of",
 ]
+
+#: Significant digits of a model number written for a person or a file: the model is not more
+#: precise than that, and rounded numbers keep exports stable and readable.
+SIGNIFICANT_DIGITS = 4
+
+
+def round_significant(x: float) -> float | None:
+    """Round to :data:`SIGNIFICANT_DIGITS` significant digits; ``None`` for NaN or infinity.
+    Every JSON export rounds model numbers this way."""
+    x = float(x)
+    if not math.isfinite(x):
+        return None
+    r = float(f"{x:.{SIGNIFICANT_DIGITS}g}")
+    return 0.0 if r == 0 else r  # no "-0.0"
 
 #: What a missing or undefined number reads (an en dash).
 NO_VALUE = "\u2013"
