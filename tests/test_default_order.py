@@ -16,7 +16,6 @@ from petfall_audit.demo import sample_building
 from petfall_audit.editing.document import Document
 from petfall_audit.gui.dialogs import Prompts
 from petfall_audit.gui.main_window import MainWindow
-from petfall_audit.gui.views import install_views
 from petfall_audit.gui.views.common import wait_for_tasks
 from petfall_audit.io.building_file import save_building
 from petfall_audit.model import (
@@ -97,15 +96,15 @@ def test_app_pdf_cli_and_json_list_the_openings_in_the_same_order(
     window = MainWindow(Document(building), prompts=_QuietPrompts(), samples=SAMPLES,
                         refine_samples=0)
     qtbot.addWidget(window)
-    views = install_views(window)
+    views = window.views
     window.show()
     try:
         qtbot.waitUntil(lambda: views.context.assessment is not None
                         and not window.results_stale, timeout=20000)
         assessment = views.context.assessment
         app_ranked = views.ranked.visible_ids()
-        model = window.results_model
-        app_table = [model.row_result(r).id for r in range(model.rowCount())]
+        ranked = views.ranked
+        app_table = [ranked.row_result(r).id for r in range(ranked.proxy.rowCount())]
     finally:
         window.recomputer.cancel()
         window.recomputer.wait(10000)

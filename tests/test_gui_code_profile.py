@@ -19,7 +19,6 @@ from petfall_audit.gui.dialogs import Prompts
 from petfall_audit.gui.export_actions import ExportPrompts
 from petfall_audit.gui.leaflet_dialog import LeafletDialog
 from petfall_audit.gui.main_window import MainWindow
-from petfall_audit.gui.views import install_views
 from petfall_audit.gui.views.common import wait_for_tasks
 from petfall_audit.gui.widgets.building import BuildingPanel
 
@@ -72,7 +71,7 @@ def window(qtbot):  # type: ignore[no-untyped-def]
     w = MainWindow(Document(sample_building("walkup")), prompts=QuietPrompts(), samples=SAMPLES,
                    refine_samples=0)
     qtbot.addWidget(w)
-    views = install_views(w)
+    views = w.views
     views.exports.samples = SAMPLES
     w.show()
     qtbot.waitUntil(lambda: views.plan.plan is not None, timeout=20000)

@@ -14,7 +14,6 @@ from petfall_audit.demo import sample_building
 from petfall_audit.editing.document import Document
 from petfall_audit.gui.dialogs import Prompts
 from petfall_audit.gui.main_window import MainWindow
-from petfall_audit.gui.views import install_views
 from petfall_audit.gui.views.common import wait_for_tasks
 
 pytestmark = pytest.mark.gui
@@ -65,7 +64,7 @@ def imperial_window(qtbot):  # type: ignore[no-untyped-def]
     window = MainWindow(Document(sample_building("walkup")), prompts=_QuietPrompts(),
                         samples=64, refine_samples=0)
     qtbot.addWidget(window)
-    views = install_views(window)
+    views = window.views
     window.set_units("imperial")
     window.resize(1366, 768)
     window.show()
@@ -89,7 +88,7 @@ def test_imperial_tables_and_tooltips_show_no_metric_unit(imperial_window, qtbot
     factors = _factor_sentences(a)
     texts: list[str] = []
     texts += _texts(views.ranked.model, factors)
-    texts += _texts(window.results_model, factors)
+    texts += _texts(views.ranked.proxy, factors)  # as shown, sorted
     plan = views.plan
     first = views.ranked.visible_ids()[0]
     views.context.select([first])  # the options table fills for the selected opening
