@@ -13,7 +13,6 @@ from petfall_audit.cli import main
 from petfall_audit.editing.document import Document
 from petfall_audit.gui.dialogs import Prompts
 from petfall_audit.gui.main_window import MainWindow
-from petfall_audit.gui.views import install_views
 from petfall_audit.gui.views.common import wait_for_tasks
 from petfall_audit.gui.views.compare import COLUMNS
 from petfall_audit.io.building_file import save_building
@@ -38,7 +37,7 @@ def compared(qtbot, tmp_path: Path, capsys):  # type: ignore[no-untyped-def]
     window = MainWindow(Document(later_building()), prompts=QuietPrompts(), samples=SAMPLES,
                         refine_samples=0)
     qtbot.addWidget(window)
-    views = install_views(window)
+    views = window.views
     window.resize(1366, 768)
     window.show()
     qtbot.waitUntil(lambda: views.context.assessment is not None and not window.results_stale,
