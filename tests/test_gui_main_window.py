@@ -248,7 +248,7 @@ def test_a_file_with_problems_names_each_place_in_words(qtbot, tmp_path: Path) -
     doc["floors"][2]["elevation_m"] = doc["floors"][1]["elevation_m"] - 0.5  # below the last
     bad = tmp_path / "bad.json"
     bad.write_text(json.dumps(doc), encoding="utf-8")
-    assert not window.open_file(bad)
+    assert not window.session.open_file(bad)
     (text,) = window.prompts.errors
     opening = doc["openings"][12]["id"]
     assert f"Opening {opening}, floor: level 42 does not exist" in text

@@ -178,6 +178,7 @@ class CompareView(QWidget):
         self.pages.setDocumentMode(True)
         self.pages.addTab(self.table, "&Openings that changed")
         self.pages.addTab(self.facades, "Facades &before and after")
+        self.pages.setMinimumHeight(110)  # the window still fits a small or scaled screen
         layout = QVBoxLayout(self)
         layout.setContentsMargins(2, 2, 2, 2)
         layout.addLayout(bar)
