@@ -20,7 +20,6 @@ from __future__ import annotations
 
 import dataclasses
 import datetime as _dt
-import json
 from typing import Annotated, Any, Literal, Union
 
 from pydantic import (
@@ -34,6 +33,7 @@ from pydantic import (
 )
 
 from petfall_audit.field_registry import field_def, schema_constraints
+from petfall_audit.io._json_schema import dumps_schema_text, schema_of
 from petfall_audit.limits import LIMITS, Limits
 from petfall_audit.model import (
     CAT_PRESETS,
@@ -504,38 +504,17 @@ ALL_FIELD_NAMES: frozenset[str] = _field_names(
 
 def building_json_schema() -> dict[str, Any]:
     """The JSON Schema (draft 2020-12) of the current building file version."""
-    schema = DocumentModel.model_json_schema(mode="validation")
-    title = schema.get("title", "")
-    _drop_titles(schema)
-    description = (
+    return schema_of(
+        DocumentModel,
         f"petfall-audit building file, version {CURRENT_VERSION}. The schema checks the "
         "shape of a file; cross-references (floors, facades, duplicate ids) are checked "
-        "by the loader. See docs/building-file.md."
+        "by the loader. See docs/building-file.md.",
     )
-    return {
-        "$schema": "https://json-schema.org/draft/2020-12/schema",
-        "title": title,
-        "description": description,
-        **{k: v for k, v in schema.items() if k != "description"},
-    }
-
-
-def _drop_titles(node: Any) -> None:
-    """Remove the generated titles ("Site Altitude M"); the descriptions say more.
-
-    (No field of the file is itself called "title", so every "title" key is a schema title.)"""
-    if isinstance(node, dict):
-        node.pop("title", None)
-        for value in node.values():
-            _drop_titles(value)
-    elif isinstance(node, list):
-        for item in node:
-            _drop_titles(item)
 
 
 def dumps_schema() -> str:
-    """The schema as committed: indented, keys in generation order, ending with a newline."""
-    return json.dumps(building_json_schema(), indent=2, ensure_ascii=False) + "\n"
+    """The schema as committed: indented, ending with a newline."""
+    return dumps_schema_text(building_json_schema())
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -22,6 +22,7 @@ from pydantic import BaseModel, ConfigDict, Field, ValidationError, model_valida
 from petfall_audit._resources import resource_path
 from petfall_audit.code_profile import PROFILE_IDS, ROLES, CodeProfile, CodeRule, ProfileWords
 from petfall_audit.errors import CodeProfileError, Place, Problem
+from petfall_audit.io._json_schema import dumps_schema_text, schema_of
 
 __all__ = [
     "PROFILE_FORMAT",
@@ -197,31 +198,16 @@ def load_code_profile(profile_id: str, path: str | Path | None = None) -> CodePr
 
 def profile_json_schema() -> dict[str, Any]:
     """The JSON Schema (draft 2020-12) of a code profile file."""
-    schema = ProfileFileModel.model_json_schema(mode="validation")
-    title = schema.pop("title", "")
-    _drop_titles(schema)
-    return {
-        "$schema": "https://json-schema.org/draft/2020-12/schema",
-        "title": title,
-        "description": "petfall-audit code profile, version 1: the rules of one jurisdiction "
+    return schema_of(
+        ProfileFileModel,
+        "petfall-audit code profile, version 1: the rules of one jurisdiction "
         "with their clause, edition and confidence. See docs/code-profiles.md.",
-        **{k: v for k, v in schema.items() if k != "description"},
-    }
-
-
-def _drop_titles(node: Any) -> None:
-    if isinstance(node, dict):
-        node.pop("title", None)
-        for value in node.values():
-            _drop_titles(value)
-    elif isinstance(node, list):
-        for item in node:
-            _drop_titles(item)
+    )
 
 
 def dumps_profile_schema() -> str:
     """The schema as committed: indented, ending with a newline."""
-    return json.dumps(profile_json_schema(), indent=2, ensure_ascii=False) + "\n"
+    return dumps_schema_text(profile_json_schema())
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -147,7 +147,7 @@ def comparison_to_dict(c: Comparison) -> dict[str, Any]:
     ``"contents": ["comparison"]``, its keys at the top level."""
     from petfall_audit.io.results_envelope import results_document
 
-    return results_document(comparison=c)
+    return results_document(comparison=comparison_fields(c))
 
 
 def comparison_json_text(c: Comparison) -> str:

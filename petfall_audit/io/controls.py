@@ -25,6 +25,7 @@ from pydantic import BaseModel, ConfigDict, Field, ValidationError
 
 from petfall_audit._resources import resource_path
 from petfall_audit.errors import CatalogueError, Problem
+from petfall_audit.io._json_schema import dumps_schema_text, schema_of
 from petfall_audit.io._schema import (
     OpenFrequencyName,
     OpeningKindName,
@@ -437,33 +438,18 @@ def load_catalogue(path: str | Path | None = None) -> Catalogue:
 
 def catalogue_json_schema() -> dict[str, Any]:
     """The JSON Schema (draft 2020-12) of a control catalogue file."""
-    schema = CatalogueFileModel.model_json_schema(mode="validation")
-    title = schema.pop("title", "")
-    _drop_titles(schema)
-    return {
-        "$schema": "https://json-schema.org/draft/2020-12/schema",
-        "title": title,
-        "description": f"petfall-audit control catalogue, version {CATALOGUE_VERSION}: the "
+    return schema_of(
+        CatalogueFileModel,
+        f"petfall-audit control catalogue, version {CATALOGUE_VERSION}: the "
         "controls against cat falls, where each applies, its effect on an opening, its cost and "
         "the rules that go with it. Cross-field rules (escape windows, unique ids) are checked "
         "by the loader. See docs/fixes.md.",
-        **{k: v for k, v in schema.items() if k != "description"},
-    }
-
-
-def _drop_titles(node: Any) -> None:
-    if isinstance(node, dict):
-        node.pop("title", None)
-        for value in node.values():
-            _drop_titles(value)
-    elif isinstance(node, list):
-        for item in node:
-            _drop_titles(item)
+    )
 
 
 def dumps_catalogue_schema() -> str:
     """The schema as committed: indented, ending with a newline."""
-    return json.dumps(catalogue_json_schema(), indent=2, ensure_ascii=False) + "\n"
+    return dumps_schema_text(catalogue_json_schema())
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -20,6 +20,7 @@ The parts keep the keys they always had, so a reader of ``doc["results"]["openin
 from __future__ import annotations
 
 import json
+from collections.abc import Mapping
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
@@ -27,7 +28,6 @@ from petfall_audit import __version__
 from petfall_audit.cautions import CAUTIONS, CAUTIONS_SHORT
 
 if TYPE_CHECKING:
-    from petfall_audit.compare import Comparison
     from petfall_audit.plan import Plan
     from petfall_audit.portfolio import PortfolioPlan
     from petfall_audit.risk import Assessment
@@ -43,10 +43,11 @@ RESULTS_SCHEMA = "results.schema.json"
 
 def results_document(*, assessment: Assessment | None = None, plan: Plan | None = None,
                      portfolio: PortfolioPlan | None = None,
-                     comparison: Comparison | None = None) -> dict[str, Any]:
+                     comparison: Mapping[str, Any] | None = None) -> dict[str, Any]:
     """The envelope holding whichever of ``assessment``, ``plan`` and ``portfolio`` are given
-    (at least one), or a ``comparison`` of two audits alone (its keys at the top level:
-    ``openings``, ``risk_before``, ``risk_after``, ...)."""
+    (at least one), or the keys of a ``comparison`` of two audits alone
+    (:func:`petfall_audit.io.compare_export.comparison_fields`), which stand at the top level:
+    ``openings``, ``risk_before``, ``risk_after``, ..."""
     from petfall_audit.io.plan_export import plan_to_dict
     from petfall_audit.io.portfolio_export import portfolio_to_dict
     from petfall_audit.io.results_export import assessment_to_dict
@@ -54,8 +55,6 @@ def results_document(*, assessment: Assessment | None = None, plan: Plan | None 
     if comparison is not None:
         if assessment is not None or plan is not None or portfolio is not None:
             raise ValueError("a comparison of two audits is a results document of its own")
-        from petfall_audit.io.compare_export import comparison_fields
-
         return {
             "format": RESULTS_FORMAT,
             "version": RESULTS_VERSION,
@@ -64,7 +63,7 @@ def results_document(*, assessment: Assessment | None = None, plan: Plan | None 
             "results": None,
             "plan": None,
             "portfolio": None,
-            **comparison_fields(comparison),
+            **comparison,
             "caution": CAUTIONS_SHORT,
             "cautions": list(CAUTIONS),
         }
