@@ -16,7 +16,6 @@ from pathlib import Path
 
 _ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(_ROOT))  # run from a source checkout
-sys.path.insert(0, str(_ROOT / "tests"))  # the model builder the tests use
 
 
 def main() -> int:
@@ -28,7 +27,8 @@ def main() -> int:
     args = parser.parse_args()
     try:
         import ifcopenshell
-        from ifc_builder import IfcModelBuilder, box_tower
+
+        from tests.ifc_builder import IfcModelBuilder, box_tower
     except ImportError:
         print('needs ifcopenshell: pip install "petfall_audit[bim]"')
         return 2

@@ -147,3 +147,18 @@ def test_every_exception_is_drawn_in_the_tree_of_errors_py() -> None:
         base = next(b for b in cls.__mro__[1:] if issubclass(b, errors.PetfallError))
         expected = top if base is errors.PetfallError else drawn[base.__name__] + 4
         assert drawn[cls.__name__] == expected, cls.__name__
+
+
+def test_tests_mirror_the_package() -> None:
+    """Each folder of tests/ is named after the package (or module) of petfall_audit it tests,
+    and a package's tests live in its folder (no tests/test_gui_*.py beside tests/gui/)."""
+    root = Path(__file__).resolve().parents[1]
+    package = root / "petfall_audit"
+    folders = [p for p in (root / "tests").iterdir()
+               if p.is_dir() and p.name not in ("fixtures", "__pycache__")]
+    assert folders, "tests are grouped by package"
+    for folder in folders:
+        assert (package / folder.name).is_dir() or (package / f"{folder.name}.py").is_file(), (
+            f"tests/{folder.name}/ names no part of petfall_audit")
+        stray = sorted(p.name for p in (root / "tests").glob(f"test_{folder.name}_*.py"))
+        assert not stray, f"move {stray} into tests/{folder.name}/"

@@ -48,7 +48,10 @@ def test_installed_copy_finds_resources_and_samples(tmp_path: Path) -> None:
     assert out.stdout.strip()
     # the installed copy is typed: a user's mypy --strict reads it (py.typed in the wheel)
     assert (target / "petfall_audit" / "py.typed").is_file()
-    typing_test = ROOT / "tests" / "test_public_typing.py"
+    # a copy outside the checkout, so that nothing but the installed package is importable
+    typing_test = tmp_path / "typing_check" / "test_public_typing.py"
+    typing_test.parent.mkdir()
+    shutil.copy(ROOT / "tests" / "test_public_typing.py", typing_test)
     run = subprocess.run(
         [sys.executable, "-m", "pytest", "-q", "-p", "no:cacheprovider", str(typing_test)],
         capture_output=True, text=True, cwd=tmp_path, env=env, timeout=600)

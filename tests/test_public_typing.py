@@ -63,6 +63,10 @@ def test_mypy_strict_reports_a_misuse_of_assess_and_passes_a_correct_script(
     monkeypatch.setenv("PYTHONPATH", os.pathsep.join(
         [str(site), *filter(None, [os.environ.get("PYTHONPATH")])]))
     monkeypatch.delenv("MYPYPATH", raising=False)
+    # mypy run in this process reads its search path from sys.path and drops its first entry
+    # (the script's folder), so the package's folder must not stand first
+    monkeypatch.syspath_prepend(str(site))
+    monkeypatch.syspath_prepend(str(tmp_path))
     monkeypatch.chdir(tmp_path)  # no project config: the user's own strict run
     stdout, stderr, status = mypy_api.run([
         "--strict", "--no-incremental", "--cache-dir", str(tmp_path / "cache"),

@@ -16,7 +16,7 @@ from petfall_audit.errors import ScheduleImportError
 from petfall_audit.io.schedule import read as schedule  # the reading step holds the limits
 from petfall_audit.io.schedule import read_table
 
-FIXTURES = Path(__file__).parent / "fixtures" / "schedules"
+FIXTURES = Path(__file__).parents[1] / "fixtures" / "schedules"
 HEAD = ["Opening ID", "Floor", "Facade", "Type", "Position along facade (m)", "Width (m)",
         "Rail or sill height (m)"]
 ROW = ["N-1", 1, "north", "balcony", 1.0, 2.0, 0.85]

@@ -18,8 +18,6 @@ import pytest
 
 pytest.importorskip("ifcopenshell")
 
-from ifc_builder import IfcModelBuilder, box_tower  # noqa: E402
-
 from petfall_audit.cli import main  # noqa: E402
 from petfall_audit.errors import ModelImportError, ValidationFailed  # noqa: E402
 from petfall_audit.io.building_file import (  # noqa: E402
@@ -40,6 +38,7 @@ from petfall_audit.model import (  # noqa: E402
     Surface,
     SurfaceKind,
 )
+from tests.ifc_builder import IfcModelBuilder, box_tower  # noqa: E402
 
 # Storeys at 0, 4.5, 7.6, ... m: a tall ground floor, then 3.1 m floor to floor (invented).
 ELEVATIONS_M = (0.0, 4.5, 7.6, 10.7, 13.8)

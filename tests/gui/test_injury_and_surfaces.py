@@ -8,7 +8,7 @@ from PySide6.QtCore import Qt
 from petfall_audit.demo import sample_building
 from petfall_audit.editing.fields import SURFACE_FIELDS
 from petfall_audit.model import InjuryThresholds
-from tests.test_gui_main_window import make_window, result_of
+from tests.gui.test_main_window import make_window, result_of
 
 pytestmark = pytest.mark.gui
 

@@ -26,7 +26,7 @@ from petfall_audit.model import (
 
 pytestmark = pytest.mark.gui
 
-FIXTURES = Path(__file__).parent / "fixtures" / "schedules"
+FIXTURES = Path(__file__).parents[1] / "fixtures" / "schedules"
 
 
 def _building() -> Building:

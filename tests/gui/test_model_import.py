@@ -10,14 +10,13 @@ import pytest
 
 pytest.importorskip("ifcopenshell")
 
-from ifc_builder import IfcModelBuilder, box_tower  # noqa: E402
-
 from petfall_audit.editing.document import Document  # noqa: E402
 from petfall_audit.gui.dialogs import Prompts  # noqa: E402
 from petfall_audit.gui.import_dialog import ImportPrompts, import_schedule  # noqa: E402
 from petfall_audit.gui.main_window import MainWindow, blank_building  # noqa: E402
 from petfall_audit.gui.model_import_dialog import ModelImportDialog  # noqa: E402
 from petfall_audit.io.ifc_import import read_model  # noqa: E402
+from tests.ifc_builder import IfcModelBuilder, box_tower  # noqa: E402
 
 pytestmark = pytest.mark.gui
 

@@ -21,7 +21,7 @@ from petfall_audit.model import (
     SurfaceKind,
 )
 
-FIXTURES = Path(__file__).parent / "fixtures" / "schedules"
+FIXTURES = Path(__file__).parents[1] / "fixtures" / "schedules"
 
 
 def _building(*, openings: bool = True) -> Building:

@@ -57,7 +57,7 @@ def test_the_document_knows_when_its_file_changed_on_disk(tmp_path: Path) -> Non
 @pytest.mark.gui
 def test_the_window_asks_before_saving_over_another_save(qtbot, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
     from petfall_audit.gui.main_window import MainWindow
-    from tests.test_gui_main_window import FakePrompts
+    from tests.gui.test_main_window import FakePrompts
 
     class Asking(FakePrompts):
         overwrite = False

@@ -713,7 +713,7 @@ def test_the_file_words_are_the_model_words() -> None:
 
 
 def test_the_example_in_the_documentation_loads() -> None:
-    docs = Path(__file__).resolve().parent.parent / "docs" / "building-file.md"
+    docs = Path(__file__).resolve().parents[2] / "docs" / "building-file.md"
     text = docs.read_text(encoding="utf-8")
     example = text.split("## Example", 1)[1].split("```json", 1)[1].split("```", 1)[0]
     b = parse_building(json.loads(example))

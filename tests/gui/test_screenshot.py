@@ -14,7 +14,7 @@ from petfall_audit.gui.views import VIEW_NAMES
 
 pytestmark = pytest.mark.gui
 
-ROOT = Path(__file__).resolve().parents[1]
+ROOT = Path(__file__).resolve().parents[2]
 
 
 def test_screenshot_tool_writes_every_view(tmp_path: Path) -> None:

@@ -15,7 +15,7 @@ from PySide6.QtCore import Qt
 from petfall_audit.editing.document import Document
 from petfall_audit.gui.main_window import MainWindow, blank_building
 from petfall_audit.model import Building, Floor, Surface, SurfaceKind
-from tests.test_gui_main_window import FakePrompts
+from tests.gui.test_main_window import FakePrompts
 
 pytestmark = pytest.mark.gui
 
@@ -141,7 +141,7 @@ def _crash_two_apps(tmp_path: Any) -> tuple[Any, Any]:
     files = []
     for name in ("walkup", "block"):
         target = tmp_path / f"{name}.json"
-        shutil.copy(Path(__file__).parents[1] / "sample_buildings" / f"{name}.json", target)
+        shutil.copy(Path(__file__).parents[2] / "sample_buildings" / f"{name}.json", target)
         files.append(target)
     env = {**os.environ, "QT_QPA_PLATFORM": "offscreen"}
     procs = [subprocess.Popen([sys.executable, "-c", _CRASHING_APP, str(f), f"Edited {f.stem}"],
@@ -397,7 +397,7 @@ def test_the_budget_typed_is_saved_with_the_audit_and_comes_back(qtbot, tmp_path
 def test_a_file_without_plan_settings_loads_and_saves_as_before(tmp_path) -> None:
     from petfall_audit.io.building_file import dumps_building, load_building
 
-    source = Path(__file__).parents[1] / "sample_buildings" / "walkup.json"
+    source = Path(__file__).parents[2] / "sample_buildings" / "walkup.json"
     b = load_building(source)
     assert b.plan.budget is None
     assert '"plan"' not in dumps_building(b)

@@ -13,7 +13,7 @@ from pathlib import Path
 
 import pytest
 
-ROOT = Path(__file__).resolve().parents[1]
+ROOT = Path(__file__).resolve().parents[2]
 SAMPLES = ROOT / "sample_buildings"
 
 # A MILP solve that prints on both descriptors as some solver builds do, then solves (or fails)
