@@ -24,7 +24,12 @@ from petfall_audit.present import fmt_money, fmt_percent, fmt_risk
 from petfall_audit.report.charts import budget_curve_drawing, building_bars_drawing
 from petfall_audit.report.context import LIMITS
 from petfall_audit.report.fonts import markup
-from petfall_audit.report.styles import HEADER_FILL, RULE, Styles, audit_styles
+from petfall_audit.report.styles import (
+    HEADED_TABLE,
+    TABLE_GRID,
+    Styles,
+    audit_styles,
+)
 from petfall_audit.report.template import AuditDocTemplate, write_pdf_atomic
 
 __all__ = ["PortfolioContext", "build_portfolio_context", "write_portfolio_report"]
@@ -33,14 +38,6 @@ TITLE = "Estate fix plan"
 #: Buildings drawn in the spend and risk chart (the rest are in the table).
 MAX_CHART_BUILDINGS = 40
 
-_GRID = [
-    ("GRID", (0, 0), (-1, -1), 0.3, RULE),
-    ("VALIGN", (0, 0), (-1, -1), "TOP"),
-    ("LEFTPADDING", (0, 0), (-1, -1), 3),
-    ("RIGHTPADDING", (0, 0), (-1, -1), 3),
-    ("TOPPADDING", (0, 0), (-1, -1), 2),
-    ("BOTTOMPADDING", (0, 0), (-1, -1), 2),
-]
 
 
 @dataclass(frozen=True, slots=True)
@@ -143,7 +140,7 @@ def portfolio_story(ctx: PortfolioContext, st: Styles, width: float) -> list[Flo
     """The flowables of the estate summary."""
     facts = Table([[_p(k, st.cell_bold), _p(v, st.cell)] for k, v in ctx.facts],
                   colWidths=[0.35 * width, 0.65 * width])
-    facts.setStyle(TableStyle(_GRID))
+    facts.setStyle(TableStyle(TABLE_GRID))
     out: list[Flowable] = [
         Spacer(1, 12 * mm), _p(TITLE, st.title),
         _p("One budget over every opening of every building", st.subtitle),
@@ -167,7 +164,7 @@ def portfolio_story(ctx: PortfolioContext, st: Styles, width: float) -> list[Flo
     data += [[_p(c, st.cell) for c in row] for row in ctx.rows]
     table = Table(data, colWidths=[width * f for f in (0.26, 0.2, 0.09, 0.12, 0.12, 0.12, 0.09)],
                   repeatRows=1)
-    table.setStyle(TableStyle([*_GRID, ("BACKGROUND", (0, 0), (-1, 0), HEADER_FILL)]))
+    table.setStyle(TableStyle(HEADED_TABLE))
     out += [table, _p("The building with the most risk left after the plan comes first. Each "
                       "building's own results and conditions are in its result file.",
                       st.caption)]

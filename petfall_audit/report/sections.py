@@ -42,7 +42,7 @@ from petfall_audit.report.charts import (
 from petfall_audit.report.context import AuditContext
 from petfall_audit.report.fonts import markup
 from petfall_audit.report.photos import build_photos
-from petfall_audit.report.styles import HEADER_FILL, INK, RULE, Styles
+from petfall_audit.report.styles import HEADED_TABLE, HEADER_FILL, INK, TABLE_GRID, Styles
 
 __all__ = [
     "build_cover",
@@ -60,14 +60,6 @@ __all__ = [
     "build_signoff",
 ]
 
-_GRID = [
-    ("GRID", (0, 0), (-1, -1), 0.3, RULE),
-    ("VALIGN", (0, 0), (-1, -1), "TOP"),
-    ("LEFTPADDING", (0, 0), (-1, -1), 3),
-    ("RIGHTPADDING", (0, 0), (-1, -1), 3),
-    ("TOPPADDING", (0, 0), (-1, -1), 2),
-    ("BOTTOMPADDING", (0, 0), (-1, -1), 2),
-]
 
 
 #: Said instead of an empty table when the building has no openings.
@@ -104,7 +96,7 @@ def _kv_table(rows: Sequence[tuple[str, str]], st: Styles, width: float,
               key_frac: float = 0.32) -> Table:
     data = [[_p(k, st.cell_bold), _p(v, st.cell)] for k, v in rows]
     t = Table(data, colWidths=[width * key_frac, width * (1 - key_frac)], splitInRow=1)
-    t.setStyle(TableStyle([*_GRID, ("BACKGROUND", (0, 0), (0, -1), HEADER_FILL)]))
+    t.setStyle(TableStyle([*TABLE_GRID, ("BACKGROUND", (0, 0), (0, -1), HEADER_FILL)]))
     return t
 
 
@@ -158,7 +150,7 @@ def build_summary(ctx: AuditContext, st: Styles, width: float, palette: str) -> 
     rows += [[_band_cell(name, i, st, palette), _p(str(n), st.cell)]
              for i, (name, n) in enumerate(ctx.band_counts)]
     t = Table(rows, colWidths=[55 * mm, 25 * mm], hAlign="LEFT")
-    t.setStyle(TableStyle([*_GRID, ("BACKGROUND", (0, 0), (-1, 0), HEADER_FILL)]))
+    t.setStyle(TableStyle(HEADED_TABLE))
     out += [t, _p("Highest risks", st.h2)]
     if not ctx.top_risks:
         out.append(_p(NO_OPENINGS, st.body))
@@ -168,7 +160,7 @@ def build_summary(ctx: AuditContext, st: Styles, width: float, palette: str) -> 
              for a, b, c, d in ctx.top_risks]
     t = Table(rows, colWidths=[width * f for f in (0.25, 0.3, 0.25, 0.2)], repeatRows=1,
               splitInRow=1)
-    t.setStyle(TableStyle([*_GRID, ("BACKGROUND", (0, 0), (-1, 0), HEADER_FILL)]))
+    t.setStyle(TableStyle(HEADED_TABLE))
     out.append(t)
     return out
 
@@ -200,7 +192,7 @@ def build_code_profile(ctx: AuditContext, st: Styles, width: float) -> list[Flow
                      _p(r.confidence, st.cell)])
     t = Table(data, colWidths=[width * f for f in (0.2, 0.42, 0.24, 0.14)], repeatRows=1,
               splitInRow=1)
-    t.setStyle(TableStyle([*_GRID, ("BACKGROUND", (0, 0), (-1, 0), HEADER_FILL)]))
+    t.setStyle(TableStyle(HEADED_TABLE))
     return [*out, t]
 
 
@@ -304,7 +296,7 @@ def build_ranked_table(ctx: AuditContext, st: Styles, width: float, palette: str
         return _p(text, st.cell)
 
     data: list[list[object]] = [[_p(h, hstyle) for h in head]]
-    style = [*_GRID, ("BACKGROUND", (0, 0), (-1, 0), HEADER_FILL),
+    style = [*HEADED_TABLE,
              ("FONT", (0, 1), (-1, -1), font, size, size * 1.15)]
     for r, row in enumerate(ctx.ranked, start=1):
         bs = band_style(row.band, palette)
@@ -343,7 +335,7 @@ def build_details(ctx: AuditContext, profiles: dict[str, FallProfileFigure], st:
         probs = Table([[_p(n.capitalize(), st.cell_bold) for n, _ in det.band_probs],
                        [_p(p, st.cell) for _, p in det.band_probs]], repeatRows=0,
                       hAlign="LEFT")
-        probs.setStyle(TableStyle([*_GRID, ("BACKGROUND", (0, 0), (-1, 0), HEADER_FILL)]))
+        probs.setStyle(TableStyle(HEADED_TABLE))
         out += [_kv_table(det.facts, st, width, 0.36), Spacer(1, 2 * mm),
                 _p(f"Injury band probabilities (expected band marked {bs.mark}):", st.small), probs]
         if det.photos:
@@ -382,7 +374,7 @@ def build_plan(ctx: AuditContext, st: Styles, width: float) -> list[Flowable]:
                      _p(c.risk_removed, st.cell), _p(_refs(c.notes), st.cell)])
     t = Table(data, colWidths=[width * f for f in (0.4, 0.12, 0.14, 0.14, 0.2)], repeatRows=1,
               splitInRow=1)
-    t.setStyle(TableStyle([*_GRID, ("BACKGROUND", (0, 0), (-1, 0), HEADER_FILL)]))
+    t.setStyle(TableStyle(HEADED_TABLE))
     out += [_p("Controls in the plan", st.h2), t]
     if ctx.plan_notes:
         out.append(_p("Conditions", st.h2))
@@ -396,7 +388,7 @@ def build_plan(ctx: AuditContext, st: Styles, width: float) -> list[Flowable]:
                      _p(_refs(r.notes), st.cell)])
     t = Table(data, colWidths=[width * f for f in (0.14, 0.38, 0.12, 0.12, 0.12, 0.12)],
               repeatRows=1, splitInRow=1)
-    t.setStyle(TableStyle([*_GRID, ("BACKGROUND", (0, 0), (-1, 0), HEADER_FILL)]))
+    t.setStyle(TableStyle(HEADED_TABLE))
     out += [_p("Actions by opening", st.h2), t]
     return out
 
@@ -426,7 +418,7 @@ def build_signoff(ctx: AuditContext, st: Styles, width: float) -> list[Flowable]
              _p(labels[i + 2], st.cell_bold), ""] for i in range(0, len(labels), 3)]
     t = Table(rows, colWidths=[w * width for w in (0.13, 0.22, 0.12, 0.22, 0.08, 0.23)],
               rowHeights=[14 * mm] * len(rows))
-    t.setStyle(TableStyle([*_GRID, ("VALIGN", (0, 0), (-1, -1), "MIDDLE")]))
+    t.setStyle(TableStyle([*TABLE_GRID, ("VALIGN", (0, 0), (-1, -1), "MIDDLE")]))
     return [KeepTogether([_p("Sign-off", st.h1), _p(
         "The signatories confirm that the openings were inspected as recorded in this report. "
         "This sign-off does not certify structural adequacy or code compliance.", st.body), t])]

@@ -19,7 +19,7 @@ from petfall_audit.present.comparison import (
     summary_lines,
 )
 from petfall_audit.report.fonts import markup
-from petfall_audit.report.styles import HEADER_FILL, RULE, Styles
+from petfall_audit.report.styles import HEADED_TABLE, Styles
 
 __all__ = ["SINCE_TITLE", "WHAT_IF_TITLE", "build_since"]
 
@@ -31,15 +31,6 @@ WHAT_IF_NOTE = (
     "cats as this audit. Fixes that rely on people (tenant guidance, keeping a window shut) "
     "are not shown here: an opening's fields cannot show them. Nothing has been fitted yet."
 )
-_GRID = [
-    ("GRID", (0, 0), (-1, -1), 0.3, RULE),
-    ("VALIGN", (0, 0), (-1, -1), "TOP"),
-    ("LEFTPADDING", (0, 0), (-1, -1), 3),
-    ("RIGHTPADDING", (0, 0), (-1, -1), 3),
-    ("TOPPADDING", (0, 0), (-1, -1), 2),
-    ("BOTTOMPADDING", (0, 0), (-1, -1), 2),
-    ("BACKGROUND", (0, 0), (-1, 0), HEADER_FILL),
-]
 
 
 def _p(text: str, style: object) -> Paragraph:
@@ -60,7 +51,7 @@ def _table(rows: Sequence[ComparisonRow], head: Sequence[str],
     for r in rows:
         data.append([_p(x, st.cell) for x in cells(r)])
     t = Table(data, colWidths=[width * f for f in fracs], repeatRows=1, splitInRow=1)
-    t.setStyle(TableStyle(_GRID))
+    t.setStyle(TableStyle(HEADED_TABLE))
     return t
 
 
@@ -131,7 +122,7 @@ def build_since(c: Comparison, st: Styles, width: float, *, what_if: bool = Fals
         data += [[_p(x, st.cell) for x in row] for row in fitted]
         t = Table(data, colWidths=[width * f for f in (0.12, 0.38, 0.16, 0.14, 0.2)],
                   repeatRows=1, splitInRow=1)
-        t.setStyle(TableStyle(_GRID))
+        t.setStyle(TableStyle(HEADED_TABLE))
         out.append(t)
     building = building_change_lines(c)
     if building:

@@ -11,12 +11,24 @@ from reportlab.lib.styles import ParagraphStyle
 
 from petfall_audit.report.fonts import fonts
 
-__all__ = ["Styles", "audit_styles", "leaflet_styles", "INK", "MUTED", "RULE", "HEADER_FILL"]
+__all__ = ["Styles", "audit_styles", "leaflet_styles", "INK", "MUTED", "RULE", "HEADER_FILL",
+           "TABLE_GRID", "HEADED_TABLE"]
 
 INK = colors.HexColor("#111111")
 MUTED = colors.HexColor("#4d4d4d")  # still legible as grey print (contrast about 8:1 on white)
 RULE = colors.HexColor("#8c8c8c")
 HEADER_FILL = colors.HexColor("#e3e3e3")
+#: The lines and padding of every table of the audit (a reportlab TableStyle command list).
+TABLE_GRID: list[tuple[object, ...]] = [
+    ("GRID", (0, 0), (-1, -1), 0.3, RULE),
+    ("VALIGN", (0, 0), (-1, -1), "TOP"),
+    ("LEFTPADDING", (0, 0), (-1, -1), 3),
+    ("RIGHTPADDING", (0, 0), (-1, -1), 3),
+    ("TOPPADDING", (0, 0), (-1, -1), 2),
+    ("BOTTOMPADDING", (0, 0), (-1, -1), 2),
+]
+#: :data:`TABLE_GRID` with the first row shaded as a header.
+HEADED_TABLE: list[tuple[object, ...]] = [*TABLE_GRID, ("BACKGROUND", (0, 0), (-1, 0), HEADER_FILL)]
 
 
 @dataclass(frozen=True, slots=True)
