@@ -11,6 +11,7 @@ from __future__ import annotations
 import traceback
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass
+from pathlib import Path
 from typing import Any
 
 from PySide6.QtCore import QObject, QRunnable, Qt, QThreadPool, Signal, Slot
@@ -33,7 +34,28 @@ __all__ = [
     "StaleLabel",
     "ViewContext",
     "Assessor",
+    "load_earlier_building",
 ]
+
+
+# --- an earlier audit ---------------------------------------------------------------------------
+
+
+def load_earlier_building(prompts: Any, parent: QWidget,
+                          path: Path | str | None = None) -> tuple[Any, Path] | str | None:
+    """The building of an earlier audit's file and its path: ``path``, or the file the user
+    picks (``None`` when they cancel); a plain message (``str``) when the file cannot be read."""
+    from petfall_audit.errors import BuildingFileError
+    from petfall_audit.io.building_file import load_building
+
+    if path is None:
+        path = prompts.open_path(parent)
+        if path is None:
+            return None
+    try:
+        return load_building(path), Path(path)
+    except BuildingFileError as exc:
+        return f"Cannot open {Path(path).name}: {exc}"
 
 
 # --- background work --------------------------------------------------------------------------

@@ -30,7 +30,7 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from petfall_audit.gui.views.common import Task, ViewContext, run_task
+from petfall_audit.gui.views.common import Task, ViewContext, load_earlier_building, run_task
 from petfall_audit.gui.views.facade import FacadeView
 from petfall_audit.gui.views.floors import EarlierAudit
 from petfall_audit.present.comparison import ComparisonRow
@@ -202,19 +202,14 @@ class CompareView(QWidget):
     def open_earlier(self, path: Path | None = None) -> Task | None:
         """Load an earlier building file and compare it with this audit's results (assessed off
         the GUI thread); ``compared`` when done."""
-        from petfall_audit.errors import BuildingFileError
-        from petfall_audit.io.building_file import load_building
-
-        if path is None:
-            path = self.prompts.open_path(self)
-            if path is None:
-                return None
-        try:
-            building = load_building(path)
-        except BuildingFileError as exc:
-            self.summary.setText(f"Cannot open {Path(path).name}: {exc}")
+        loaded = load_earlier_building(self.prompts, self, path)
+        if loaded is None:
             return None
-        self.earlier_building, self.earlier_name = building, Path(path).name
+        if isinstance(loaded, str):
+            self.summary.setText(loaded)
+            return None
+        building, path = loaded
+        self.earlier_building, self.earlier_name = building, path.name
         self.earlier = None
         self._set_mode("earlier")
         return self._assess_earlier()

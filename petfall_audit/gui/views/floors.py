@@ -23,7 +23,13 @@ from PySide6.QtWidgets import (
 )
 
 from petfall_audit.figures import LevelSummary, align_levels, level_summary
-from petfall_audit.gui.views.common import Task, ViewContext, band_qstyle, run_task
+from petfall_audit.gui.views.common import (
+    Task,
+    ViewContext,
+    band_qstyle,
+    load_earlier_building,
+    run_task,
+)
 from petfall_audit.injury import BANDS
 from petfall_audit.present import fmt_one_in
 
@@ -157,18 +163,13 @@ class FloorsView(QWidget):
     def open_earlier(self, path: Path | None = None) -> Task | None:
         """Load and assess an earlier building file off the GUI thread (the seed and the full
         count of simulated falls of this audit's results); ``earlier_ready`` when done."""
-        from petfall_audit.errors import BuildingFileError
-        from petfall_audit.io.building_file import load_building
-
-        if path is None:
-            path = self.prompts.open_path(self)
-            if path is None:
-                return None
-        try:
-            building = load_building(path)
-        except BuildingFileError as exc:
-            self.note.setText(f"! Cannot open {Path(path).name}: {exc}")
+        loaded = load_earlier_building(self.prompts, self, path)
+        if loaded is None:
             return None
+        if isinstance(loaded, str):
+            self.note.setText(f"! {loaded}")
+            return None
+        building, path = loaded
         assessor = self._ctx.assessor
         assess_fn, seed, samples = assessor.assess, assessor.seed, assessor.samples
         self.note.setText(f"Assessing {Path(path).name}…")
