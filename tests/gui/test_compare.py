@@ -179,3 +179,13 @@ def test_what_if_shows_the_plan_and_touches_nothing_until_accepted(compared, qtb
     assert fitted.openings == after.openings
     window.history.undo()
     assert window.document.building.openings == before.openings
+
+
+def test_an_unreadable_earlier_file_is_said_in_words_in_both_views(compared, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
+    _window, views, view, _doc = compared
+    bad = tmp_path / "broken.json"
+    bad.write_text("{ not json", encoding="utf-8")
+    assert view.open_earlier(bad) is None
+    assert view.summary.text().startswith("Cannot open broken.json")
+    assert views.floors.open_earlier(bad) is None
+    assert "Cannot open broken.json" in views.floors.note.text()
