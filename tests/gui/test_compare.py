@@ -181,7 +181,7 @@ def test_what_if_shows_the_plan_and_touches_nothing_until_accepted(compared, qtb
     assert window.document.building.openings == before.openings
 
 
-def test_an_unreadable_earlier_file_is_said_in_words_in_both_views(compared, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
+def test_an_unreadable_earlier_file_is_said_in_words(compared, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
     _window, views, view, _doc = compared
     bad = tmp_path / "broken.json"
     bad.write_text("{ not json", encoding="utf-8")
