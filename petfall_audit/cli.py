@@ -28,6 +28,7 @@ from petfall_audit.errors import (
 if TYPE_CHECKING:
     from petfall_audit.batch import BuildingOutcome
     from petfall_audit.compare import Comparison
+    from petfall_audit.fixes import Catalogue
     from petfall_audit.model import Building
     from petfall_audit.plan import Plan
     from petfall_audit.report.leaflet_sections import LeafletChoice
@@ -117,6 +118,20 @@ def _load(path: str) -> Building:
     except BuildingFileError as exc:
         _print_problems(exc, path)
         raise _Stop(EXIT_INVALID) from None
+
+
+def _load_catalogue(path: str | None) -> Catalogue:
+    """The control catalogue in ``path`` (``None``: the shipped one); its problems go to stderr
+    and end the command with exit 2."""
+    from petfall_audit.fixes import load_catalogue
+
+    try:
+        return load_catalogue(path)
+    except CatalogueError as exc:
+        _print_problems(exc, path or "the shipped control catalogue")
+        raise _Stop(EXIT_INVALID) from None
+    except OSError as exc:
+        raise _refuse(f"{path}: {exc.strerror or exc}") from None
 
 
 def _add_sampling_options(p: argparse.ArgumentParser) -> None:
@@ -345,7 +360,6 @@ def _cmd_assess(args: argparse.Namespace) -> int:
 
 
 def _cmd_plan(args: argparse.Namespace) -> int:
-    from petfall_audit.fixes import load_catalogue
     from petfall_audit.io.plan_export import plan_to_csv
     from petfall_audit.io.results_envelope import results_json_text
     from petfall_audit.plan import make_plan
@@ -360,13 +374,7 @@ def _cmd_plan(args: argparse.Namespace) -> int:
     budget = _budget_of(args, building)
     if budget is None:
         raise _refuse(f"{args.file}: no budget is saved with this audit; give one with --budget")
-    try:
-        catalogue = load_catalogue(args.controls)
-    except CatalogueError as exc:
-        _print_problems(exc, args.controls)
-        return EXIT_INVALID
-    except OSError as exc:
-        raise _refuse(f"{args.controls}: {exc.strerror or exc}") from None
+    catalogue = _load_catalogue(args.controls)
     plan = make_plan(_assess(args, building), budget, catalogue=catalogue)
     if args.write_after:
         from petfall_audit.fix_tracking import apply_plan
@@ -557,7 +565,6 @@ def _cmd_compare(args: argparse.Namespace) -> int:
 
 def _cmd_fixes(args: argparse.Namespace) -> int:
     from petfall_audit.fix_tracking import apply_fitted, record_plan, set_fix_status
-    from petfall_audit.fixes import load_catalogue
     from petfall_audit.io._schema import is_iso_date
     from petfall_audit.io.building_file import save_building
     from petfall_audit.plan import make_plan
@@ -570,13 +577,7 @@ def _cmd_fixes(args: argparse.Namespace) -> int:
                       "starts; FILE is left as it is)")
     _check_output(args.output)
     building = _load(args.file)
-    try:
-        catalogue = load_catalogue(args.controls)
-    except CatalogueError as exc:
-        _print_problems(exc, args.controls)
-        return EXIT_INVALID
-    except OSError as exc:
-        raise _refuse(f"{args.controls}: {exc.strerror or exc}") from None
+    catalogue = _load_catalogue(args.controls)
     changed = building
     if args.record_plan:
         budget = _budget_of(args, building)
