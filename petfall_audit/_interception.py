@@ -36,6 +36,7 @@ import numpy.typing as npt
 from petfall_audit import _physics_kernels as _k
 from petfall_audit._physics_kernels import G0
 from petfall_audit._physics_results import GROUND_ID, FallResults
+from petfall_audit._threads import in_order_ahead
 from petfall_audit.model import BALCONY_LIKE, Building, SurfaceKind
 from petfall_audit.sampling import CatSamples
 
@@ -375,10 +376,16 @@ def simulate_chunks(
     chunk_elements: int = _CHUNK_ELEMENTS,
     geometry: FallGeometry | None = None,
     rows: IntArray | None = None,
+    then: Callable[[int, int, FallResults], None] | None = None,
 ) -> Iterator[tuple[int, int, FallResults]]:
     """The falls of :func:`simulate`, a block of openings at a time: yields ``(a, b, falls)``
     with the falls of openings ``a`` to ``b - 1`` (building order), so that a caller can
     summarise each block and let it go: memory stays bounded whatever the building's size.
+
+    Blocks are computed ahead on up to two cores (:mod:`petfall_audit._threads`);
+    ``then(a, b, falls)``, when given, runs right after each block on the thread that computed
+    it, for the caller's own work on the block (it must only write what belongs to rows ``a``
+    to ``b - 1``), before the block is yielded.
 
     ``geometry``: :func:`fall_geometry` of ``building`` when the caller has it already;
     ``rows``: simulate only the openings at these indices (``a`` and ``b`` then count within
@@ -422,9 +429,8 @@ def simulate_chunks(
     counts = np.diff(pairs.start)
     step = max(1, int(chunk_elements) // n_s)
     fr = frac[None, :]
-    if progress is not None:
-        progress(0, n_op)
-    for a in range(0, n_op, step):
+
+    def block(a: int) -> tuple[int, int, FallResults]:
         b = min(a + step, n_op)
         # the last pair of every opening always catches; test the others from the lowest up,
         # so that the highest catching one is kept
@@ -449,7 +455,7 @@ def simulate_chunks(
         if moving:  # the outward part of the impact speed
             vx = _k.outward_speed(h, v0, b1, b2, f)
             np.hypot(speed, vx, out=speed)
-        yield a, b, FallResults(
+        part = FallResults(
             opening_ids=ids[a:b],
             landing_ids=landing_ids,
             landing_kinds=landing_kinds,
@@ -460,5 +466,13 @@ def simulate_chunks(
             righted=time >= righting[None, :],
             rho_kg_m3=rho,
         )
+        if then is not None:
+            then(a, b, part)
+        return a, b, part
+
+    if progress is not None:
+        progress(0, n_op)
+    for a, b, part in in_order_ahead(block, range(0, n_op, step)):
+        yield a, b, part
         if progress is not None:
             progress(b, n_op)

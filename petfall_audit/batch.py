@@ -141,7 +141,10 @@ def run_one(job: BatchJob) -> BuildingOutcome:
         too_many = _too_many_samples(job.samples, len(building.openings))
         if too_many:
             return BuildingOutcome(job.index, job.path, error=f"{job.path}: {too_many}")
-        return _assess_and_write(job, building, written)
+        from petfall_audit._threads import one_thread
+
+        with one_thread():  # one core per building: --jobs shares out the cores
+            return _assess_and_write(job, building, written)
     except PetfallError as exc:
         error = f"{job.path}: {exc}"
     except (ValueError, OSError, MemoryError) as exc:

@@ -1114,8 +1114,8 @@ def _build_parser() -> argparse.ArgumentParser:
                    help="also plan one budget of AMOUNT over every opening of every building: "
                         "writes DIR/portfolio-plan.json and the estate summary DIR/portfolio.pdf")
     p.add_argument("--jobs", type=int, default=None, metavar="N",
-                   help="buildings assessed at once, in separate processes (default: the "
-                        "number of cores, fewer if memory is short)")
+                   help="buildings assessed at once, in separate processes, one core each "
+                        "(default: the number of cores, fewer if memory is short)")
     _add_sampling_options(p)
     p.set_defaults(handler=_cmd_batch)
 

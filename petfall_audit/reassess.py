@@ -194,13 +194,20 @@ class Reassessor:
             fresh_of[i] = k
 
         part = _Summary(len(need), samples)
-        parts: list[tuple[FallResults, npt.NDArray[np.float64]]] = []
-        for a, b, falls in simulate_chunks(building, cat, rho_kg_m3=rho, progress=progress,
-                                           geometry=geo, rows=np.asarray(need, dtype=np.intp)):
+        doses: dict[int, npt.NDArray[np.float64]] = {}
+
+        def summarise(a: int, b: int, falls: FallResults) -> None:  # on the block's thread
             sev = severity_of_falls(falls, cat, self.stops)
             part.add(a, b, falls, sev, thresholds)
             if keep:
-                parts.append((falls, sev))
+                doses[a] = sev
+
+        parts: list[tuple[FallResults, npt.NDArray[np.float64]]] = []
+        for a, _, falls in simulate_chunks(building, cat, rho_kg_m3=rho, progress=progress,
+                                           geometry=geo, rows=np.asarray(need, dtype=np.intp),
+                                           then=summarise):
+            if keep:
+                parts.append((falls, doses.pop(a)))
         lik = likelihood_of_rows(self._likelihood_of(building))
 
         reuse = np.flatnonzero(src >= 0)

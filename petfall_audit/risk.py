@@ -299,12 +299,19 @@ def assess(
     rho = float(air_density(building.info.site_altitude_m, building.info.air_temperature_c))
     t = building.injury if thresholds is None else thresholds
     summary = _Summary(n_open, samples)
-    kept: list[tuple[int, int, FallResults, npt.NDArray[np.float64]]] = []
-    for a, b, part in simulate_chunks(building, cat, rho_kg_m3=rho, progress=progress):
+    doses: dict[int, npt.NDArray[np.float64]] = {}
+
+    def summarise(a: int, b: int, part: FallResults) -> None:  # on the block's own thread
         sev = severity_of_falls(part, cat, stops)
         summary.add(a, b, part, sev, t)
         if keep:
-            kept.append((a, b, part, sev))
+            doses[a] = sev
+
+    kept: list[tuple[int, int, FallResults, npt.NDArray[np.float64]]] = []
+    for a, b, part in simulate_chunks(building, cat, rho_kg_m3=rho, progress=progress,
+                                      then=summarise):
+        if keep:
+            kept.append((a, b, part, doses.pop(a)))
     falls, sev_all = _joined(building, kept, samples, rho) if keep else (None, None)
     return _assessment(building, cat, summary, samples=samples, seed=seed, thresholds=t,
                        stops=stops, rho_kg_m3=rho, falls=falls, severity_g=sev_all)

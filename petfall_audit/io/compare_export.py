@@ -151,10 +151,11 @@ def comparison_to_dict(c: Comparison) -> dict[str, Any]:
 
 
 def comparison_json_text(c: Comparison) -> str:
-    """:func:`comparison_to_dict` as indented UTF-8 JSON text ending in a newline."""
-    import json
+    """:func:`comparison_to_dict` as UTF-8 JSON text ending in a newline, one opening per line
+    (:func:`~petfall_audit.io.json_text.json_text`)."""
+    from petfall_audit.io.json_text import json_text
 
-    return json.dumps(comparison_to_dict(c), indent=2, ensure_ascii=False) + "\n"
+    return json_text(comparison_to_dict(c), block_depth=2)
 
 
 def comparison_to_csv(c: Comparison) -> str:

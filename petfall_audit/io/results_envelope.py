@@ -19,7 +19,6 @@ The parts keep the keys they always had, so a reader of ``doc["results"]["openin
 
 from __future__ import annotations
 
-import json
 from collections.abc import Mapping
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
@@ -48,10 +47,6 @@ def results_document(*, assessment: Assessment | None = None, plan: Plan | None 
     (at least one), or the keys of a ``comparison`` of two audits alone
     (:func:`petfall_audit.io.compare_export.comparison_fields`), which stand at the top level:
     ``openings``, ``risk_before``, ``risk_after``, ..."""
-    from petfall_audit.io.plan_export import plan_to_dict
-    from petfall_audit.io.portfolio_export import portfolio_to_dict
-    from petfall_audit.io.results_export import assessment_to_dict
-
     if comparison is not None:
         if assessment is not None or plan is not None or portfolio is not None:
             raise ValueError("a comparison of two audits is a results document of its own")
@@ -70,11 +65,21 @@ def results_document(*, assessment: Assessment | None = None, plan: Plan | None 
     if assessment is None and plan is None and portfolio is None:
         raise ValueError("a results document needs an assessment, a plan, a portfolio or a "
                          "comparison")
-    parts = {
-        "results": assessment_to_dict(assessment) if assessment is not None else None,
-        "plan": plan_to_dict(plan) if plan is not None else None,
-        "portfolio": portfolio_to_dict(portfolio) if portfolio is not None else None,
-    }
+    # each export is imported only when its part is there: an assessment alone never loads
+    # the planner and its solver
+    parts: dict[str, Any] = {"results": None, "plan": None, "portfolio": None}
+    if assessment is not None:
+        from petfall_audit.io.results_export import assessment_to_dict
+
+        parts["results"] = assessment_to_dict(assessment)
+    if plan is not None:
+        from petfall_audit.io.plan_export import plan_to_dict
+
+        parts["plan"] = plan_to_dict(plan)
+    if portfolio is not None:
+        from petfall_audit.io.portfolio_export import portfolio_to_dict
+
+        parts["portfolio"] = portfolio_to_dict(portfolio)
     return {
         "format": RESULTS_FORMAT,
         "version": RESULTS_VERSION,
@@ -88,10 +93,12 @@ def results_document(*, assessment: Assessment | None = None, plan: Plan | None 
 
 def results_json_text(*, assessment: Assessment | None = None, plan: Plan | None = None,
                       portfolio: PortfolioPlan | None = None) -> str:
-    """:func:`results_document` as indented UTF-8 JSON text ending in a newline (the same
-    input gives the same bytes)."""
-    doc = results_document(assessment=assessment, plan=plan, portfolio=portfolio)
-    return json.dumps(doc, indent=2, ensure_ascii=False) + "\n"
+    """:func:`results_document` as UTF-8 JSON text ending in a newline, one opening, action or
+    building per line (:func:`~petfall_audit.io.json_text.json_text`; the same input gives the
+    same bytes)."""
+    from petfall_audit.io.json_text import json_text
+
+    return json_text(results_document(assessment=assessment, plan=plan, portfolio=portfolio))
 
 
 def write_results_json(path: str | Path, *, assessment: Assessment | None = None,
