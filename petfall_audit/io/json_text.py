@@ -53,4 +53,4 @@ def _key(key: Any) -> str:
     """A key as ``json.dumps`` writes it (numbers, booleans and None become strings)."""
     if isinstance(key, str):
         return key
-    return next(iter(json.loads(json.dumps({key: None}))))
+    return str(next(iter(json.loads(json.dumps({key: None})))))
