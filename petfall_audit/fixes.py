@@ -93,6 +93,9 @@ __all__ = [
     "MIN_SHARE",
     "recommend",
     "recommendation_lines",
+    "full_fix_cost",
+    "DEFAULT_BUDGET_SHARE",
+    "default_budget",
 ]
 
 WIND_CONDITION = (
@@ -433,6 +436,27 @@ def recommend(
         else:
             out[oid] = min(opts, key=lambda o: (o.risk_after, o.cost, o.catalogue_index))
     return out
+
+
+def full_fix_cost(options: Mapping[str, Sequence[Option]]) -> float:
+    """What fitting every opening's most effective option costs together (the catalogue's
+    currency): beyond it more money removes no more risk. Ties: the cheaper option."""
+    total = 0.0
+    for opts in options.values():
+        if opts:
+            total += float(min(opts, key=lambda o: (-o.risk_removed, o.cost)).cost)
+    return total
+
+
+#: Share of :func:`full_fix_cost` proposed as the budget until one is set for the audit.
+DEFAULT_BUDGET_SHARE = 0.05
+
+
+def default_budget(options: Mapping[str, Sequence[Option]]) -> float:
+    """The budget proposed until one is set: :data:`DEFAULT_BUDGET_SHARE` of
+    :func:`full_fix_cost`, rounded up to hundreds (0 when nothing can be fixed). The app's fix
+    plan view and its exports propose this one."""
+    return float(math.ceil(DEFAULT_BUDGET_SHARE * full_fix_cost(options) / 100.0) * 100.0)
 
 
 def recommendation_lines(

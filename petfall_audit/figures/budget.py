@@ -28,13 +28,10 @@ def budget_grid(options: Mapping[str, Sequence[Option]], n_points: int = 25) -> 
     the cheapest option to a little beyond the cost at which every opening has its most effective
     option (more money removes no more risk), so the bend of the curve is resolved on a log axis;
     the catalogue's currency."""
-    top = 0.0
-    cheapest = math.inf
-    for opts in options.values():
-        if opts:
-            best = min(opts, key=lambda o: (-o.risk_removed, o.cost))
-            top += float(best.cost)
-            cheapest = min(cheapest, min(float(o.cost) for o in opts))
+    from petfall_audit.fixes import full_fix_cost
+
+    top = full_fix_cost(options)
+    cheapest = min((float(o.cost) for opts in options.values() for o in opts), default=math.inf)
     if top <= 0:
         return np.zeros(1)
     low = max(cheapest, top * 1e-5, 1.0)

@@ -64,15 +64,29 @@ class ExportPrompts:
         return dialog.choice() if dialog.exec() == QDialog.DialogCode.Accepted else None
 
 
-def report_inputs(building: Building, *, samples: int, seed: int, budget: float | None,
+#: The budget of an export whose plan takes the default budget
+#: (:func:`petfall_audit.fixes.default_budget` of the full assessment's options).
+DEFAULT_BUDGET = "default"
+
+
+def report_inputs(building: Building, *, samples: int, seed: int, budget: float | str | None,
                   progress: Callable[[int, int], None] | None = None) -> tuple[Any, Any]:
-    """The full assessment of ``building`` and its plan at ``budget`` (``None``: no plan)."""
+    """The full assessment of ``building`` and its plan at ``budget`` (``None``: no plan;
+    :data:`DEFAULT_BUDGET`: the default budget, as the fix plan view proposes it)."""
     from petfall_audit.plan import make_plan
     from petfall_audit.risk import assess
 
     assessment = assess(building, samples=samples, seed=seed, progress=progress)
-    plan = make_plan(assessment, budget) if budget is not None else None
-    return assessment, plan
+    if budget is None:
+        return assessment, None
+    if budget == DEFAULT_BUDGET:
+        from petfall_audit.fixes import default_budget, load_catalogue, opening_options
+
+        catalogue = load_catalogue()
+        options = opening_options(assessment, catalogue)
+        return assessment, make_plan(assessment, default_budget(options), catalogue=catalogue,
+                                     options=options)
+    return assessment, make_plan(assessment, float(budget))
 
 
 def _write(kind: str, assessment: Any, plan: Any, path: Path, contact: dict[str, str],
@@ -132,14 +146,15 @@ def _plain(message: str) -> str:
 class ExportActions(QObject):
     """The export actions of ``window`` and the File ▸ Export menu that holds them.
 
-    ``budget()`` gives the plan's budget (``None``: no plan); ``budget_is_default()`` whether
+    ``budget()`` gives the plan's budget (``None``: no plan, :data:`DEFAULT_BUDGET`: the
+    default one, worked out with the export); ``budget_is_default()`` whether
     it is a default the app proposed. ``finished(paths)`` or ``failed(message)`` after each
     export."""
 
     finished = Signal(object)  # list[Path]
     failed = Signal(str)
 
-    def __init__(self, window: Any, *, budget: Callable[[], float | None],
+    def __init__(self, window: Any, *, budget: Callable[[], float | str | None],
                  budget_is_default: Callable[[], bool] = lambda: False,
                  prompts: ExportPrompts | None = None, samples: int | None = None,
                  parent: QObject | None = None) -> None:

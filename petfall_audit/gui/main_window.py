@@ -281,7 +281,7 @@ class MainWindow(QMainWindow):
 
         exports = ExportActions(
             self, prompts=export_prompts,
-            budget=lambda: float(plan.budget.value()) if plan.catalogue is not None else None,
+            budget=plan.export_budget,
             budget_is_default=lambda: plan.budget_is_default)
         file_menu, quit_action = self.menus.file, self.actions_.quit
         file_menu.insertMenu(quit_action, exports.menu)  # below Import, above Quit

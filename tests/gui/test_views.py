@@ -152,6 +152,7 @@ def test_arrow_keys_move_the_selection_on_the_facade(app_window, qtbot) -> None:
 
 def test_netting_a_balcony_changes_its_fill_and_its_place(app_window, qtbot) -> None:  # type: ignore[no-untyped-def]
     window, views = app_window()
+    window.show_view(views.facade)  # the view looked at draws each result at once
     a = views.context.assessment
     building = a.building
     balcony = next(r for r in a.ranked("risk") if r.kind in BALCONY_LIKE
@@ -416,3 +417,33 @@ def test_screen_and_paper_hatch_the_same_protected_openings(app_window) -> None:
     tip = views.facade.items["CY-1F"].tooltip_text
     assert "100 mm mesh (lets 100% of these cats through)" in tip
     assert "20 mm mesh (holds these cats)" in views.facade.items["CY-2F"].tooltip_text
+
+
+def test_a_view_off_screen_draws_new_results_when_shown_or_when_the_user_pauses(
+        app_window, qtbot, monkeypatch) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.editing.commands import SetOpeningFields
+    from petfall_audit.gui.views.common import WhileHidden
+
+    window, views = app_window()
+    assert window.view_tabs.currentWidget() is views.ranked
+    balcony = next(o for o in window.document.building.openings
+                   if o.kind in BALCONY_LIKE and o.netting_mesh_mm is None)
+    box = views.facade.facade_box
+    box.setCurrentIndex(box.findData(balcony.facade))
+    assert not views.facade.opening_item(balcony.id).protected  # drawn once, before any edit
+    monkeypatch.setattr(WhileHidden, "CATCH_UP_MS", 60_000)  # no pause within the test
+    with qtbot.waitSignal(window.results_updated, timeout=20000):
+        window.history.push(SetOpeningFields([balcony.id], {"netting_mesh_mm": 30.0}))
+    # the list in front follows at once; the facade tab behind it still shows the old results
+    assert views.context.assessment.building.opening(balcony.id).netting_mesh_mm == 30.0
+    assert not views.facade.opening_item(balcony.id).protected
+    window.show_view(views.facade)  # shown: drawn before the user sees it
+    assert views.facade.opening_item(balcony.id).protected
+
+    window.show_view(views.ranked)
+    monkeypatch.setattr(WhileHidden, "CATCH_UP_MS", 50)
+    with qtbot.waitSignal(window.results_updated, timeout=20000):
+        window.undo()
+    # a pause: the views behind catch up without being shown
+    qtbot.waitUntil(lambda: not views.facade.opening_item(balcony.id).protected, timeout=5000)
+    assert window.view_tabs.currentWidget() is views.ranked

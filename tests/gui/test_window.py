@@ -151,6 +151,7 @@ def test_the_file_session_opens_saves_and_recovers_for_the_window(open_window, t
 def test_the_facade_line_says_recomputing_only_while_it_is(open_window, qtbot) -> None:  # type: ignore[no-untyped-def]
     window = open_window()
     facade = window.views.facade
+    window.show_view(facade)
     assert "Recomputing" not in facade.info.text()
     window.openings_panel.select_ids([window.document.building.openings[0].id])
     with qtbot.waitSignal(window.results_updated, timeout=20000):

@@ -14,7 +14,7 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
-from PySide6.QtCore import QObject, QRunnable, Qt, QThreadPool, Signal, Slot
+from PySide6.QtCore import QEvent, QObject, QRunnable, Qt, QThreadPool, Signal, Slot
 from PySide6.QtGui import QBrush, QColor, QFont
 from PySide6.QtWidgets import QLabel, QWidget
 
@@ -35,7 +35,105 @@ __all__ = [
     "ViewContext",
     "Assessor",
     "load_earlier_building",
+    "WhileHidden",
 ]
+
+
+# --- a view that is not on screen ----------------------------------------------------------------
+
+
+class WhileHidden(QObject):
+    """Holds the updates of a view that is not on screen until it is shown or the user pauses.
+
+    The views sit in tabs of one window: only one of them is on screen, and redrawing all the
+    others after every result would make the one the user looks at wait. ``follow(event, fn)``
+    connects ``fn`` to ``event``; while the view is hidden in a shown window, a call is kept
+    (the latest arguments of each ``fn``, in the order of the latest calls) and made when the
+    view is shown, or once no new result has come for :data:`CATCH_UP_MS` (the hidden views
+    then catch up one at a time, so that the window answers in between). A view in a window
+    that was never shown (a test, an export) updates at once.
+    """
+
+    #: Pause (ms) after the last held call before the hidden views catch up.
+    CATCH_UP_MS = 400
+    _queue: list[WhileHidden] = []  # views with held calls, oldest first
+    _timer: Any = None
+
+    def __init__(self, view: QWidget) -> None:
+        super().__init__(view)
+        self._view = view
+        self._pending: dict[Callable[..., Any], tuple[Any, ...]] = {}
+        view.installEventFilter(self)
+        self.destroyed.connect(lambda *_: WhileHidden._forget(self))
+
+    @property
+    def holding(self) -> bool:
+        """True while calls are kept: the window is on screen and the view is not."""
+        return self._view.window().isVisible() and not self._view.isVisible()
+
+    def follow(self, event: Any, fn: Callable[..., Any]) -> None:
+        """Connect ``fn`` to ``event`` (an :class:`Event` or a Qt signal), held while hidden
+        (through a relay owned by the view, so a Qt signal lets go of it with the view)."""
+        event.connect(_Relay(self, fn).fire)
+
+    def call(self, fn: Callable[..., Any], *args: Any) -> None:
+        """``fn(*args)`` now, or when the view is shown or the user pauses."""
+        self._pending.pop(fn, None)
+        if not self.holding:
+            fn(*args)
+            return
+        self._pending[fn] = args
+        if self not in WhileHidden._queue:
+            WhileHidden._queue.append(self)
+        WhileHidden._restart(WhileHidden.CATCH_UP_MS)
+
+    def flush(self) -> None:
+        """Make the kept calls now."""
+        WhileHidden._forget(self)
+        while self._pending:
+            fn = next(iter(self._pending))
+            fn(*self._pending.pop(fn))
+
+    def eventFilter(self, watched: QObject, event: QEvent) -> bool:  # noqa: N802 (Qt name)
+        if watched is self._view and event.type() == QEvent.Type.Show and self._pending:
+            self.flush()
+        return False
+
+    @staticmethod
+    def _forget(hidden: WhileHidden) -> None:
+        if hidden in WhileHidden._queue:
+            WhileHidden._queue.remove(hidden)
+
+    @staticmethod
+    def _restart(msecs: int) -> None:
+        if WhileHidden._timer is None:
+            from PySide6.QtCore import QTimer
+
+            timer = QTimer()
+            timer.setSingleShot(True)
+            timer.timeout.connect(WhileHidden._catch_up)
+            WhileHidden._timer = timer
+        WhileHidden._timer.start(msecs)
+
+    @staticmethod
+    def _catch_up() -> None:
+        """One hidden view catches up; the next one after the window had its turn."""
+        if WhileHidden._queue:
+            WhileHidden._queue[0].flush()
+        if WhileHidden._queue:
+            WhileHidden._restart(0)
+
+
+class _Relay(QObject):
+    """One followed call of a :class:`WhileHidden`, as a method of an object the view owns."""
+
+    def __init__(self, hidden: WhileHidden, fn: Callable[..., Any]) -> None:
+        super().__init__(hidden)
+        self._hidden = hidden
+        self._fn = fn
+
+    def fire(self, *args: Any) -> None:
+        self._hidden.call(self._fn, *args)
 
 
 # --- an earlier audit ---------------------------------------------------------------------------

@@ -30,7 +30,13 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from petfall_audit.gui.views.common import Task, ViewContext, load_earlier_building, run_task
+from petfall_audit.gui.views.common import (
+    Task,
+    ViewContext,
+    WhileHidden,
+    load_earlier_building,
+    run_task,
+)
 from petfall_audit.gui.views.facade import FacadeView
 from petfall_audit.gui.views.floors import EarlierAudit
 from petfall_audit.present.comparison import ComparisonRow
@@ -172,6 +178,7 @@ class CompareView(QWidget):
             lambda _i: self._same_facade(self.after_facade, self.before_facade))
         for side in (self.before_context, self.after_context):
             side.selection.changed.connect(lambda ids, s=side: self._on_side_selected(s, ids))
+        self._hidden = WhileHidden(self)  # off screen: new results drawn when shown or idle
         context.selection.changed.connect(self._on_main_selected)
         self.pages = QTabWidget()
         self.pages.setObjectName("compare_pages")
@@ -189,7 +196,7 @@ class CompareView(QWidget):
         self.filter_box.currentIndexChanged.connect(lambda _i: self._apply_filter())
         self.search.textChanged.connect(lambda _t: self._apply_filter())
         self.table.itemSelectionChanged.connect(self._on_row_selected)
-        context.assessment_changed.connect(self._on_assessment)
+        self._hidden.follow(context.assessment_changed, self._on_assessment)
 
     # --- public ----------------------------------------------------------------------------------
 

@@ -50,7 +50,7 @@ from petfall_audit.figures import (
     facade_context,
     facade_elevations,
 )
-from petfall_audit.gui.views.common import ViewContext, band_qstyle
+from petfall_audit.gui.views.common import ViewContext, WhileHidden, band_qstyle
 from petfall_audit.injury import BANDS
 from petfall_audit.model import BALCONY_LIKE, CatProfile, Opening
 from petfall_audit.present import (
@@ -297,7 +297,8 @@ class FacadeView(QWidget):
 
         self.facade_box.currentIndexChanged.connect(self._on_facade_chosen)
         self.hovered.connect(self._on_hovered)
-        context.assessment_changed.connect(self._on_assessment)
+        self._hidden = WhileHidden(self)  # off screen: new results drawn when shown or idle
+        self._hidden.follow(context.assessment_changed, self._on_assessment)
         context.stale_changed.connect(self._on_stale)
         context.selection.changed.connect(self._on_selection)
         context.options.changed.connect(self._on_options)

@@ -26,6 +26,7 @@ from petfall_audit.figures import LevelSummary, align_levels, level_summary
 from petfall_audit.gui.views.common import (
     Task,
     ViewContext,
+    WhileHidden,
     band_qstyle,
     load_earlier_building,
     run_task,
@@ -145,7 +146,8 @@ class FloorsView(QWidget):
         self.mode_box.currentIndexChanged.connect(self._on_mode_changed)
         self.a_box.currentIndexChanged.connect(self._on_choice_changed)
         self.b_box.currentIndexChanged.connect(self._on_choice_changed)
-        context.assessment_changed.connect(self._on_assessment)
+        self._hidden = WhileHidden(self)  # off screen: new results drawn when shown or idle
+        self._hidden.follow(context.assessment_changed, self._on_assessment)
         context.options.changed.connect(self.redraw)
         self._on_mode_changed(0)
         if context.assessment is not None:

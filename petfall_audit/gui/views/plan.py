@@ -34,7 +34,7 @@ from PySide6.QtWidgets import (
 )
 
 from petfall_audit.editing.commands import SetOpeningFields
-from petfall_audit.gui.views.common import Task, ViewContext, run_task
+from petfall_audit.gui.views.common import Task, ViewContext, WhileHidden, run_task
 from petfall_audit.present import (
     fmt_count,
     fmt_money,
@@ -224,9 +224,12 @@ class PlanView(QWidget):
         self._plan_timer = QTimer(self)
         self._plan_timer.setSingleShot(True)
         self._plan_timer.setInterval(150)
-        self._plan_timer.timeout.connect(self._start_plan)
         self.budget.valueChanged.connect(self._on_budget_changed)
-        context.assessment_changed.connect(self._on_assessment)
+        # off screen, the options, the plan and the curve wait until the view is shown (the
+        # exports work out the default budget themselves); the saved budget is always shown
+        self._hidden = WhileHidden(self)
+        self._hidden.follow(self._plan_timer.timeout, self._start_plan)
+        self._hidden.follow(context.assessment_changed, self._on_assessment)
         context.selection.changed.connect(self._on_selection)
         context.stale_changed.connect(self._on_stale)
         context.workspace.plan_settings_changed.connect(self._on_saved_settings)
@@ -241,6 +244,16 @@ class PlanView(QWidget):
     @property
     def currency(self) -> str:
         return str(getattr(self.catalogue, "currency", ""))
+
+    def export_budget(self) -> float | str:
+        """The budget of the plan an export holds: the one set for the audit, the default this
+        view shows, or ``"default"`` while the view has not worked it out (it was not shown
+        since the results came; the export then proposes the same default itself)."""
+        if self._budget_set_by_user or self.catalogue is not None:
+            return float(self.budget.value())
+        from petfall_audit.gui.export_actions import DEFAULT_BUDGET
+
+        return DEFAULT_BUDGET
 
     @property
     def budget_is_default(self) -> bool:
@@ -317,7 +330,6 @@ class PlanView(QWidget):
         self.options = result["options"]
         grid = result["grid"]
         self.budget.setSuffix(f" {self.currency}")
-        self._grid_top = float(grid[-1]) if len(grid) else 0.0
         if not self._budget_set_by_user:
             self._set_default_budget()
         self.curve_plot.setLabel("bottom", f"budget ({self.currency}, log scale)",
@@ -382,17 +394,15 @@ class PlanView(QWidget):
         self.progress.show()
 
     def _set_default_budget(self) -> None:
-        top = getattr(self, "_grid_top", 0.0)
-        if top > 0:
-            self._set_budget_quietly(0.05 * top)
-        self._show_budget_note()
+        from petfall_audit.fixes import default_budget
 
-    def _set_budget_quietly(self, amount: float) -> None:
-        """A default budget (rounded up to hundreds) that is not the user's choice."""
-        self.budget.blockSignals(True)
-        self.budget.setValue(float(np.ceil(amount / 100.0) * 100.0))
-        self.budget.blockSignals(False)
-        self._place_line()
+        amount = default_budget(self.options)
+        if amount > 0:  # a default that is not the user's choice
+            self.budget.blockSignals(True)
+            self.budget.setValue(amount)
+            self.budget.blockSignals(False)
+            self._place_line()
+        self._show_budget_note()
 
     def _place_line(self) -> None:
         value = float(self.budget.value())
@@ -512,14 +522,6 @@ class PlanView(QWidget):
 
     def _on_curve(self, curve: tuple[np.ndarray, np.ndarray]) -> None:
         self.curve = curve
-        budgets, residual = curve
-        if not self._budget_set_by_user and residual.size > 1:
-            # the smallest budget that removes 90 % of what the catalogue can remove
-            removed = residual[0] - residual
-            enough = np.flatnonzero(removed >= 0.9 * removed.max())
-            if enough.size and budgets[enough[0]] != self.budget.value():
-                self._set_budget_quietly(float(budgets[enough[0]]))
-                self._start_plan()
         if self.plan is not None or self._tasks.get("plan") is None:
             self.progress.hide()
         self._draw_curve()

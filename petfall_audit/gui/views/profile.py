@@ -13,7 +13,7 @@ from PySide6.QtGui import QColor, QPen
 from PySide6.QtWidgets import QHBoxLayout, QLabel, QSplitter, QVBoxLayout, QWidget
 
 from petfall_audit.figures import ImpactCurve, PosturePath, impact_speed_curve, posture_paths
-from petfall_audit.gui.views.common import ViewContext, band_qstyle
+from petfall_audit.gui.views.common import ViewContext, WhileHidden, band_qstyle
 from petfall_audit.present import SPEED_TERMS, fmt_percent, fmt_seconds
 
 __all__ = ["ProfileView", "PATH_STYLES"]
@@ -98,7 +98,8 @@ class ProfileView(QWidget):
         layout.addWidget(splitter, 1)
         self.plots = splitter
 
-        context.assessment_changed.connect(self._on_assessment)
+        self._hidden = WhileHidden(self)  # off screen: new results drawn when shown or idle
+        self._hidden.follow(context.assessment_changed, self._on_assessment)
         context.selection.changed.connect(self._on_selection)
         context.options.changed.connect(self._on_options)
         context.stale_changed.connect(self._on_stale)

@@ -47,7 +47,10 @@ Index = QModelIndex | QPersistentModelIndex
 
 
 class RankedModel(QAbstractTableModel):
-    """Every opening of an assessment, one row each, in building order (the view sorts)."""
+    """Every opening of an assessment, one row each, in the order of the sorted column.
+
+    The model sorts itself (:meth:`sort`, from precomputed keys): a large building re-sorted
+    by the proxy after every result would ask for tens of thousands of cells."""
 
     COLUMNS = ("Risk order", "Band order", "Opening", "Floor", "Facade", "Kind",
                "Expected injury", "Likelihood (12 months)", "Median drop", "Impact speed (median)",
@@ -55,6 +58,9 @@ class RankedModel(QAbstractTableModel):
     KEYS = ("risk_rank", "rank", "id", "floor", "facade", "kind", "band", "likelihood", "drop",
             "speed", "risk", "factor")
     BAND_COL = 6
+    #: The roles that show a result as out of date (the texts stay).
+    STALE_ROLES = (Qt.ItemDataRole.ForegroundRole, Qt.ItemDataRole.BackgroundRole,
+                   Qt.ItemDataRole.FontRole)
 
     def __init__(self, context: ViewContext, parent: QObject | None = None) -> None:
         super().__init__(parent)
@@ -62,11 +68,12 @@ class RankedModel(QAbstractTableModel):
         self._rows: list[Any] = []
         self._floor_labels: dict[int, str] = {}
         self._facade_labels: dict[str, str] = {}
+        self._sort: tuple[int, Qt.SortOrder] = (0, Qt.SortOrder.AscendingOrder)
         self.stale = True
 
     def set_assessment(self, assessment: Any) -> None:
         self.beginResetModel()
-        self._rows = list(assessment.openings) if assessment is not None else []
+        self._rows = self._ordered(list(assessment.openings) if assessment is not None else [])
         self._floor_labels = ({f.level: f.label for f in assessment.building.floors}
                               if assessment is not None else {})
         self._facade_labels = ({f.id: f.label or f.id for f in assessment.building.facades}
@@ -75,13 +82,68 @@ class RankedModel(QAbstractTableModel):
         self.endResetModel()
 
     def set_stale(self, stale: bool) -> None:
-        self.stale = stale
-        self.refresh()
+        if stale != self.stale:
+            self.stale = stale
+            self._changed(self.STALE_ROLES)  # grey italics: the look changes, not the text
 
     def refresh(self) -> None:
+        """Every cell may read differently (units, palette)."""
+        self._changed(())
+
+    def _changed(self, roles: tuple[Qt.ItemDataRole, ...]) -> None:
         if self._rows:
             self.dataChanged.emit(self.index(0, 0),
-                                  self.index(len(self._rows) - 1, len(self.COLUMNS) - 1))
+                                  self.index(len(self._rows) - 1, len(self.COLUMNS) - 1),
+                                  list(roles))
+
+    # --- order -----------------------------------------------------------------------------------
+
+    def sort_key(self, column: int, r: Any) -> Any:
+        """What ``column`` sorts result ``r`` by (ascending: worst first where it ranks)."""
+        key = self.KEYS[column]
+        if key in ("risk_rank", "rank", "id", "floor", "facade"):
+            return getattr(r, key)
+        if key == "kind":
+            return str(r.kind)
+        if key == "band":
+            return (-r.expected_band, r.rank)
+        if key == "likelihood":
+            return -r.annual_probability
+        if key == "drop":
+            return -r.drop_m.p50
+        if key == "speed":
+            return -r.impact_speed_mps.p50
+        if key == "risk":
+            return -r.risk
+        return explain(r.factors[0], self._ctx.units.system) if r.factors else ""
+
+    def _ordered(self, rows: list[Any]) -> list[Any]:
+        column, order = self._sort
+        # stable: equal keys keep the building's order, in either direction
+        return sorted(rows, key=lambda r: self.sort_key(column, r),
+                      reverse=order == Qt.SortOrder.DescendingOrder)
+
+    def sort(self, column: int, order: Qt.SortOrder = Qt.SortOrder.AscendingOrder) -> None:
+        if not 0 <= column < len(self.COLUMNS) or self._sort == (column, order):
+            return
+        self._sort = (column, order)
+        if not self._rows:
+            return
+        self.layoutAboutToBeChanged.emit()
+        old = self.persistentIndexList()
+        held = [self._rows[i.row()] for i in old]
+        self._rows = self._ordered(self._rows)
+        where = {id(r): k for k, r in enumerate(self._rows)}
+        self.changePersistentIndexList(
+            old, [self.index(where[id(r)], i.column()) for r, i in zip(held, old, strict=True)])
+        self.layoutChanged.emit()
+
+    def display_texts(self, column: int, rows: Any) -> list[str]:
+        """The shown text of ``rows`` in ``column``, as :meth:`data` gives it (column fitting
+        reads a few hundred cells after every result)."""
+        units, palette, key = self._ctx.units, self._ctx.palette, self.KEYS[column]
+        return [result_text(self._rows[r], key, units, palette, self._floor_labels,
+                            self._facade_labels) for r in rows]
 
     def result(self, row: int) -> Any:
         return self._rows[row]
@@ -127,10 +189,7 @@ class RankedModel(QAbstractTableModel):
         if role == ID_ROLE:
             return r.id
         if role == SORT_ROLE:
-            return (r.risk_rank, r.rank, r.id, r.floor, r.facade, str(r.kind),
-                    -r.expected_band * 1e6 + r.rank, -r.annual_probability, -r.drop_m.p50,
-                    -r.impact_speed_mps.p50, -r.risk,
-                    explain(r.factors[0], units.system) if r.factors else "")[col]
+            return self.sort_key(col, r)
         if role == Qt.ItemDataRole.DisplayRole:
             return result_text(r, self.KEYS[col], units, self._ctx.palette, self._floor_labels,
                                self._facade_labels)
@@ -154,9 +213,23 @@ class RankedFilter(QSortFilterProxyModel):
         self.kind: str | None = None
         self.band: int | None = None
         self.text = ""
-        self.setSortRole(SORT_ROLE)
+
+    def sort(self, column: int, order: Qt.SortOrder = Qt.SortOrder.AscendingOrder) -> None:
+        """The rows keep the source model's order, which :meth:`RankedModel.sort` sets."""
+        model = self.sourceModel()
+        if isinstance(model, RankedModel):
+            model.sort(column, order)
+
+    def display_texts(self, column: int, rows: Any) -> list[str]:
+        """The shown text of the shown ``rows`` in ``column`` (for column fitting)."""
+        model = self.sourceModel()
+        assert isinstance(model, RankedModel)
+        return model.display_texts(column, [self.mapToSource(self.index(r, 0)).row()
+                                            for r in rows])
 
     def set_filters(self, **values: Any) -> None:
+        if all(getattr(self, key) == value for key, value in values.items()):
+            return  # the same filters: nothing to redo
         if hasattr(self, "beginFilterChange"):  # Qt 6.10+; invalidateFilter is deprecated
             self.beginFilterChange()
             for key, value in values.items():

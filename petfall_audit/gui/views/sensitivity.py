@@ -29,6 +29,7 @@ from petfall_audit.gui.views.common import (
     StaleLabel,
     Task,
     ViewContext,
+    WhileHidden,
     run_task,
     wait_for_tasks,
 )
@@ -124,7 +125,8 @@ class SensitivityView(QWidget):
         layout.addWidget(self.note)
         layout.addWidget(splitter, 1)
 
-        context.assessment_changed.connect(self._on_assessment)
+        self._hidden = WhileHidden(self)  # off screen: new results drawn when shown or idle
+        self._hidden.follow(context.assessment_changed, self._on_assessment)
         context.stale_changed.connect(self._on_stale)
         if context.assessment is not None:
             self._on_assessment(context.assessment)
