@@ -32,7 +32,7 @@ from concurrent.futures import Future, ThreadPoolExecutor
 from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
 
-from PySide6.QtCore import QObject, QTimer, Signal
+from PySide6.QtCore import QObject, Qt, QTimer, Signal
 
 from petfall_audit.model import Building
 
@@ -96,6 +96,8 @@ class Recomputer(QObject):
     failed = Signal(int, str)
     refining = Signal(int)  # generation: the full assessment has started
     refined = Signal(int, object, float)  # generation, full assessment, compute time (s)
+    _done = Signal()  # a run ended (emitted from its worker thread, delivered in the GUI's)
+    _kick = Signal()  # start the pending run once the current event-loop turn is over
 
     def __init__(self, assess: AssessFn | None = None, *, samples: int = INTERACTIVE_SAMPLES,
                  refine_samples: int = REFINED_SAMPLES, refine_delay_ms: int = REFINE_DELAY_MS,
@@ -118,10 +120,11 @@ class Recomputer(QObject):
         self._refine_pool = ThreadPoolExecutor(max_workers=1,
                                                thread_name_prefix="petfall-refine")
         self._closed = False
-        self._start_timer = QTimer(self)
-        self._start_timer.setSingleShot(True)
-        self._start_timer.setInterval(0)  # gather the changes of one event-loop turn
-        self._start_timer.timeout.connect(self._start)
+        # the changes of one event-loop turn are gathered into one run, started by a posted
+        # call: it comes before the window repaints (and before zero-delay timers), so the
+        # computation runs while the window shows the results as out of date
+        self._start_due = False
+        self._kick.connect(self._start, Qt.ConnectionType.QueuedConnection)
         self._refine_timer = QTimer(self)
         self._refine_timer.setSingleShot(True)
         self._refine_timer.setInterval(max(int(refine_delay_ms), 0))
@@ -129,6 +132,7 @@ class Recomputer(QObject):
         self._poll = QTimer(self)
         self._poll.setInterval(_POLL_MS)
         self._poll.timeout.connect(self._collect)
+        self._done.connect(self._collect)  # at once, not at the next poll
 
     @property
     def incremental(self) -> bool:
@@ -165,14 +169,15 @@ class Recomputer(QObject):
         self._pending = building
         self._to_refine = None
         self._refine_timer.stop()
-        self._start_timer.start()
+        if not self._start_due:
+            self._start_due = True
+            self._kick.emit()
 
     def cancel(self) -> None:
         """Drop the pending and the running request, and its refinement."""
         self.generation += 1
         self._pending = None
         self._to_refine = None
-        self._start_timer.stop()
         self._refine_timer.stop()
 
     def wait(self, timeout_s: float = 30.0) -> bool:
@@ -248,11 +253,20 @@ class Recomputer(QObject):
                          else (self._pool, self.samples))
         generation = self.generation
         future = pool.submit(self._run, generation, building, samples, not refined)
+        future.add_done_callback(self._tell_done)
         self._runs.append(_Run(generation, building, refined, future))
         if not self._poll.isActive():
             self._poll.start()
 
+    def _tell_done(self, _future: Future[Any]) -> None:
+        """In the worker thread: wake the GUI thread to collect the result."""
+        try:
+            self._done.emit()
+        except RuntimeError:  # the window closed meanwhile: nothing to tell
+            pass
+
     def _start(self) -> None:
+        self._start_due = False
         if self._pending is None or self._closed:
             return
         building, self._pending = self._pending, None

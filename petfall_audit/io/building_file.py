@@ -173,13 +173,15 @@ def building_to_dict(building: Building) -> dict[str, object]:
 
 
 def dumps_building(building: Building) -> str:
-    """The building file text: stable key order, indented by two spaces, ending with a newline.
+    """The building file text: stable key order, indented by two spaces, one floor, facade,
+    surface, opening or fix per line, ending with a newline (quick to write for a large
+    building, which the app's recovery copy does while the user edits).
 
     Raises ``ValueError`` if a number is not finite (NaN or infinity cannot be written).
     """
-    return (
-        json.dumps(building_to_dict(building), indent=2, ensure_ascii=False, allow_nan=False) + "\n"
-    )
+    from petfall_audit.io.json_text import json_text
+
+    return json_text(building_to_dict(building), block_depth=2, allow_nan=False)
 
 
 def save_building(building: Building, path: str | Path) -> None:
@@ -460,15 +462,21 @@ def _injury(m: InjuryModel) -> InjuryThresholds:
 # --- writing ---------------------------------------------------------------------------------
 
 
+_FIELD_NAMES: dict[type, tuple[str, ...]] = {}
+
+
 def _plain(obj: Any) -> dict[str, object]:
+    names = _FIELD_NAMES.get(type(obj))
+    if names is None:  # the fields of a model class, looked up once
+        names = _FIELD_NAMES[type(obj)] = tuple(f.name for f in dataclasses.fields(obj))
     out: dict[str, object] = {}
-    for f in dataclasses.fields(obj):
-        value = getattr(obj, f.name)
+    for name in names:
+        value = getattr(obj, name)
         if isinstance(value, Enum):
             value = value.value
         elif isinstance(value, tuple):
             value = list(value)
-        out[f.name] = value
+        out[name] = value
     return out
 
 

@@ -16,11 +16,12 @@ __all__ = ["json_text"]
 _INDENT = "  "
 
 
-def json_text(value: Any, *, block_depth: int = 3) -> str:
+def json_text(value: Any, *, block_depth: int = 3, allow_nan: bool = True) -> str:
     """``value`` as UTF-8 JSON text ending in a newline: objects and arrays at depth below
     ``block_depth`` (the document itself is depth 0) one member per indented line, deeper ones
-    on a single line. Equal values give equal bytes; ``json.loads`` reads it back unchanged."""
-    inline = json.JSONEncoder(ensure_ascii=False, separators=(", ", ": "))
+    on a single line. Equal values give equal bytes; ``json.loads`` reads it back unchanged.
+    ``allow_nan=False``: ``ValueError`` for a NaN or an infinity (as ``json.dumps``)."""
+    inline = json.JSONEncoder(ensure_ascii=False, separators=(", ", ": "), allow_nan=allow_nan)
     out: list[str] = []
     _write(value, 0, max(0, int(block_depth)), inline, out)
     out.append("\n")

@@ -447,3 +447,21 @@ def test_a_view_off_screen_draws_new_results_when_shown_or_when_the_user_pauses(
     # a pause: the views behind catch up without being shown
     qtbot.waitUntil(lambda: not views.facade.opening_item(balcony.id).protected, timeout=5000)
     assert window.view_tabs.currentWidget() is views.ranked
+
+
+def test_a_quick_recompute_does_not_flash_the_list_grey_but_a_slow_one_greys_it(
+        app_window, qtbot) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.gui.views.ranked import STALE_LOOK_DELAY_MS
+
+    window, views = app_window()
+    model = views.ranked.model
+    assert not model.stale
+    views.context.results.set_stale()  # a recomputation started
+    assert not model.stale  # not yet: most results come back sooner
+    assert "out of date" in views.ranked.state_note.text()  # the line says it at once
+    qtbot.wait(STALE_LOOK_DELAY_MS + 150)
+    assert model.stale  # they did not: the old rows are shown as out of date
+    index = model.index(0, 0)
+    assert model.data(index, Qt.ItemDataRole.FontRole).italic()
+    views.context.results.set_assessment(views.context.assessment, SAMPLES)
+    assert not model.stale and model.data(index, Qt.ItemDataRole.FontRole) is None

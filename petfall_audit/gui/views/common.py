@@ -50,8 +50,10 @@ class WhileHidden(QObject):
     connects ``fn`` to ``event``; while the view is hidden in a shown window, a call is kept
     (the latest arguments of each ``fn``, in the order of the latest calls) and made when the
     view is shown, or once no new result has come for :data:`CATCH_UP_MS` (the hidden views
-    then catch up one at a time, so that the window answers in between). A view in a window
-    that was never shown (a test, an export) updates at once.
+    then catch up one at a time, so that the window answers in between). The views follow
+    new results and their out-of-date look this way; a selection or a change of units reaches
+    every view at once. A view in a window that was never shown (a test, an export) updates
+    at once.
     """
 
     #: Pause (ms) after the last held call before the hidden views catch up.

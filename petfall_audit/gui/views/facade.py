@@ -299,7 +299,7 @@ class FacadeView(QWidget):
         self.hovered.connect(self._on_hovered)
         self._hidden = WhileHidden(self)  # off screen: new results drawn when shown or idle
         self._hidden.follow(context.assessment_changed, self._on_assessment)
-        context.stale_changed.connect(self._on_stale)
+        self._hidden.follow(context.stale_changed, self._on_stale)
         context.selection.changed.connect(self._on_selection)
         context.options.changed.connect(self._on_options)
         self._update_legend()

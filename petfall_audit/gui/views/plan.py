@@ -231,7 +231,7 @@ class PlanView(QWidget):
         self._hidden.follow(self._plan_timer.timeout, self._start_plan)
         self._hidden.follow(context.assessment_changed, self._on_assessment)
         context.selection.changed.connect(self._on_selection)
-        context.stale_changed.connect(self._on_stale)
+        self._hidden.follow(context.stale_changed, self._on_stale)
         context.workspace.plan_settings_changed.connect(self._on_saved_settings)
         self._on_saved_settings(context.workspace.plan_settings)
         self.empty_note: pg.TextItem | None = None

@@ -102,7 +102,7 @@ class ProfileView(QWidget):
         self._hidden.follow(context.assessment_changed, self._on_assessment)
         context.selection.changed.connect(self._on_selection)
         context.options.changed.connect(self._on_options)
-        context.stale_changed.connect(self._on_stale)
+        self._hidden.follow(context.stale_changed, self._on_stale)
         if context.assessment is not None:
             self._on_assessment(context.assessment)
 

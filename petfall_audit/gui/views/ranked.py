@@ -15,6 +15,7 @@ from PySide6.QtCore import (
     QPersistentModelIndex,
     QSortFilterProxyModel,
     Qt,
+    QTimer,
 )
 from PySide6.QtWidgets import (
     QAbstractItemView,
@@ -44,6 +45,13 @@ __all__ = ["RankedModel", "RankedFilter", "RankedView", "SORT_ROLE", "ID_ROLE"]
 SORT_ROLE = Qt.ItemDataRole.UserRole + 11
 ID_ROLE = Qt.ItemDataRole.UserRole + 12
 Index = QModelIndex | QPersistentModelIndex
+#: How long (ms) new results may take before the rows show the old ones as out of date.
+STALE_LOOK_DELAY_MS = 250
+#: The roles the ranked model answers (the others are ``None`` at once).
+_ROLES = frozenset(int(r) for r in (
+    Qt.ItemDataRole.DisplayRole, Qt.ItemDataRole.TextAlignmentRole,
+    Qt.ItemDataRole.BackgroundRole, Qt.ItemDataRole.ForegroundRole, Qt.ItemDataRole.FontRole,
+    Qt.ItemDataRole.ToolTipRole, ID_ROLE, SORT_ROLE))
 
 
 class RankedModel(QAbstractTableModel):
@@ -70,8 +78,13 @@ class RankedModel(QAbstractTableModel):
         self._facade_labels: dict[str, str] = {}
         self._sort: tuple[int, Qt.SortOrder] = (0, Qt.SortOrder.AscendingOrder)
         self.stale = True
+        self._stale_timer = QTimer(self)
+        self._stale_timer.setSingleShot(True)
+        self._stale_timer.setInterval(STALE_LOOK_DELAY_MS)
+        self._stale_timer.timeout.connect(lambda: self._show_stale(True))
 
     def set_assessment(self, assessment: Any) -> None:
+        self._stale_timer.stop()
         self.beginResetModel()
         self._rows = self._ordered(list(assessment.openings) if assessment is not None else [])
         self._floor_labels = ({f.level: f.label for f in assessment.building.floors}
@@ -82,6 +95,17 @@ class RankedModel(QAbstractTableModel):
         self.endResetModel()
 
     def set_stale(self, stale: bool) -> None:
+        """The results are out of date (or current again). The rows turn grey only when new
+        results take longer than :data:`STALE_LOOK_DELAY_MS` (no flash on a quick edit; the
+        line over the table says it at once)."""
+        if stale:
+            if not self.stale and not self._stale_timer.isActive():
+                self._stale_timer.start()
+        else:
+            self._stale_timer.stop()
+            self._show_stale(False)
+
+    def _show_stale(self, stale: bool) -> None:
         if stale != self.stale:
             self.stale = stale
             self._changed(self.STALE_ROLES)  # grey italics: the look changes, not the text
@@ -181,20 +205,19 @@ class RankedModel(QAbstractTableModel):
         return None
 
     def data(self, index: Index, role: int = Qt.ItemDataRole.DisplayRole) -> Any:
-        if not index.isValid():
-            return None
+        if role not in _ROLES or not index.isValid():
+            return None  # the view asks for many roles per cell while it paints
         r = self._rows[index.row()]
         col = index.column()
-        units = self._ctx.units
         if role == ID_ROLE:
             return r.id
         if role == SORT_ROLE:
             return self.sort_key(col, r)
         if role == Qt.ItemDataRole.DisplayRole:
-            return result_text(r, self.KEYS[col], units, self._ctx.palette, self._floor_labels,
-                               self._facade_labels)
+            return result_text(r, self.KEYS[col], self._ctx.units, self._ctx.palette,
+                               self._floor_labels, self._facade_labels)
         return result_style(r, self.KEYS[col], role, stale=self.stale, palette=self._ctx.palette,
-                            system=units.system)
+                            system=self._ctx.options.units)
 
     def words(self, r: Any) -> list[str]:
         """The factors and hazards of result ``r`` in words, in the display units."""
@@ -213,6 +236,9 @@ class RankedFilter(QSortFilterProxyModel):
         self.kind: str | None = None
         self.band: int | None = None
         self.text = ""
+        # rows are filtered again when the results or the filters change, not on every cell
+        # change (an out-of-date look would refilter a large building twice per edit)
+        self.setDynamicSortFilter(False)
 
     def sort(self, column: int, order: Qt.SortOrder = Qt.SortOrder.AscendingOrder) -> None:
         """The rows keep the source model's order, which :meth:`RankedModel.sort` sets."""
@@ -224,6 +250,8 @@ class RankedFilter(QSortFilterProxyModel):
         """The shown text of the shown ``rows`` in ``column`` (for column fitting)."""
         model = self.sourceModel()
         assert isinstance(model, RankedModel)
+        if self.rowCount() == model.rowCount():  # nothing filtered out: the same rows
+            return model.display_texts(column, rows)
         return model.display_texts(column, [self.mapToSource(self.index(r, 0)).row()
                                             for r in rows])
 
@@ -433,6 +461,7 @@ class RankedView(QWidget):
 
     def _on_options(self) -> None:
         self.model.refresh()
+        self.proxy.invalidate()  # the words searched may read differently in other units
         self._show_details()
 
     def _fill_filters(self, assessment: Any) -> None:

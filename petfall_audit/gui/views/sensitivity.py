@@ -127,7 +127,7 @@ class SensitivityView(QWidget):
 
         self._hidden = WhileHidden(self)  # off screen: new results drawn when shown or idle
         self._hidden.follow(context.assessment_changed, self._on_assessment)
-        context.stale_changed.connect(self._on_stale)
+        self._hidden.follow(context.stale_changed, self._on_stale)
         if context.assessment is not None:
             self._on_assessment(context.assessment)
 

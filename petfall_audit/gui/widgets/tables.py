@@ -63,7 +63,7 @@ def fit_columns(table: QTableView) -> None:
     user_sized: set[int] = table.property("user_sized_columns") or set()
     # a model may give a column's texts without an index per cell (same texts as data())
     texts_of = getattr(model, "display_texts", None)
-    widths: dict[str, int] = {}  # a column repeats its texts: measure each once
+    widths = _text_widths(table)  # columns repeat their texts, from fit to fit too
     table.setProperty("fitting_columns", True)
     try:
         for col in range(model.columnCount()):
@@ -85,6 +85,20 @@ def fit_columns(table: QTableView) -> None:
                 header.resizeSection(col, want)
     finally:
         table.setProperty("fitting_columns", False)
+
+
+#: Most measured texts kept per table between fits.
+_WIDTHS_KEPT = 20_000
+
+
+def _text_widths(table: QTableView) -> dict[str, int]:
+    """The measured width (px) of each text ``table`` showed, kept while its font stays."""
+    key = table.font().key()
+    kept: tuple[str, dict[str, int]] | None = getattr(table, "_petfall_text_widths", None)
+    if kept is None or kept[0] != key or len(kept[1]) > _WIDTHS_KEPT:
+        kept = (key, {})
+        table._petfall_text_widths = kept  # type: ignore[attr-defined]
+    return kept[1]
 
 
 def _note_user_resize(table: QTableView, col: int) -> None:
