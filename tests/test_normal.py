@@ -6,7 +6,10 @@ from __future__ import annotations
 
 import decimal
 import math
+import subprocess
+import sys
 from fractions import Fraction
+from pathlib import Path
 
 import numpy as np
 import numpy.typing as npt
@@ -169,3 +172,16 @@ def test_ndtri_never_falls(a: float, b: float) -> None:
     q_lo, q_hi = float(ndtri(lo)), float(ndtri(hi))
     assert q_lo <= q_hi or q_lo - q_hi <= 8 * EPS * max(abs(q_lo), abs(q_hi)) + 1e-300
 
+
+def test_the_assessment_does_not_import_scipy_special() -> None:
+    """risk (and the injury and sampling it uses) starts without scipy.special, whose import
+    costs a large share of a short command. In a fresh interpreter, so that this test session's
+    own imports do not count."""
+    code = (
+        "import sys\n"
+        "import petfall_audit.risk, petfall_audit.injury, petfall_audit.sampling\n"
+        "print(','.join(sorted(m for m in sys.modules if m.startswith('scipy.special'))))\n"
+    )
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
+                         check=True, cwd=Path(__file__).resolve().parents[1])
+    assert out.stdout.strip() == "", f"scipy.special imported: {out.stdout.strip()}"
