@@ -27,8 +27,8 @@ from types import MappingProxyType
 
 import numpy as np
 import numpy.typing as npt
-from scipy import special
 
+from petfall_audit._normal import ndtr
 from petfall_audit.model import InjuryThresholds, SurfaceKind
 
 __all__ = [
@@ -201,7 +201,7 @@ def band_at_least(
         out: npt.NDArray[np.float64] = (z >= 0).astype(float)
         return out
     z /= thresholds.spread
-    return np.asarray(special.ndtr(z), dtype=float)
+    return ndtr(z, out=z)
 
 
 def band_of(
@@ -233,7 +233,7 @@ def band_probabilities(
             at_least[..., b] = np.count_nonzero(z >= 0, axis=-1) / float(n)
         else:
             z /= thresholds.spread
-            special.ndtr(z, out=z)
+            ndtr(z, out=z)
             at_least[..., b] = z.mean(axis=-1)
     # keep the tail shares nested against rounding (they are in exact arithmetic)
     at_least[..., 1] = np.minimum(at_least[..., 1], at_least[..., 0])

@@ -33,9 +33,9 @@ from dataclasses import dataclass
 
 import numpy as np
 import numpy.typing as npt
-from scipy import special
 
 from petfall_audit import sample_counts as _counts
+from petfall_audit._normal import ndtr, ndtri
 from petfall_audit.model import CatProfile, Distribution, Fixed, LogNormal, Normal, Uniform
 
 __all__ = ["DEFAULT_SAMPLES", "DEFAULT_SEED", "CatSamples", "sample_cat_profile"]
@@ -134,10 +134,10 @@ def _draw(
             z_lo = (math.log(lo) - loc) / scale if lo > 0 else -math.inf
             z_hi = (math.log(hi) - loc) / scale if math.isfinite(hi) else math.inf
         # Inverse CDF of the standard normal truncated to [z_lo, z_hi].
-        p_lo, p_hi = special.ndtr(z_lo), special.ndtr(z_hi)
+        p_lo, p_hi = float(ndtr(z_lo)), float(ndtr(z_hi))
         if p_hi - p_lo <= 0.0:
             raise ValueError(f"{name}: the distribution has no mass inside the valid range")
-        z = special.ndtri(p_lo + u * (p_hi - p_lo))
+        z = ndtri(p_lo + u * (p_hi - p_lo))
         z = np.clip(z, z_lo, z_hi)
         x = loc + scale * z
         if isinstance(dist, LogNormal):
