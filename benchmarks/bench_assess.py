@@ -8,8 +8,12 @@ Run: ``python benchmarks/bench_assess.py [--samples N] [--repeats R]``.
     size (openings × samples), in the same run;
 (c) the whole ``petfall-audit assess TOWER --format json`` command in a fresh Python process:
     start-up, loading the building file, the assessment, the sensitivity summary and writing
-    the JSON.
-Targets: a/b ≤ 4, c/b ≤ 3. Prints the median times and the ratios.
+    the JSON;
+(d) the same command on a building of one opening: what any command pays before it does work
+    that grows with the building (the interpreter, numpy, pydantic and the building file's
+    schema); and (e) ``python -c "import numpy"`` alone, for scale.
+Targets: a/b ≤ 4, c/b ≤ 3. Prints the median times and the ratios, and (c − d)/b: the part of
+the command that grows with the building against the bare pass.
 """
 
 from __future__ import annotations
@@ -70,13 +74,27 @@ def main() -> int:
 
         run_command()  # warm-up (file cache)
         t_c = median_time_s(run_command, args.command_repeats)
+        one = Path(tmp) / "one.json"
+        save_building(large_tower(1, 1), one)
+        small = [*command[:4], str(one), *command[5:]]
+
+        def run_small() -> None:
+            subprocess.run(small, check=True, cwd=root, stdout=subprocess.DEVNULL)
+
+        run_small()
+        t_d = median_time_s(run_small, args.command_repeats)
+        t_e = median_time_s(lambda: subprocess.run([sys.executable, "-c", "import numpy"],
+                                                   check=True), args.command_repeats)
     n = len(building.openings)
     print(f"building: {n} openings x {args.samples} samples = {n * args.samples:,} falls")
     print(f"(a) full assessment, median           {t_a:8.3f} s")
     print(f"(b) bare closed-form speed, median    {t_b:8.3f} s")
     print(f"(c) whole assess command, median      {t_c:8.3f} s")
+    print(f"(d) the command on one opening        {t_d:8.3f} s")
+    print(f"(e) python -c 'import numpy'          {t_e:8.3f} s")
     print(f"a/b = {t_a / t_b:.2f}   (target <= 4)")
     print(f"c/b = {t_c / t_b:.2f}   (target <= 3: start-up, file, assessment, sensitivity, JSON)")
+    print(f"(c-d)/b = {(t_c - t_d) / t_b:.2f}   (the part that grows with the building)")
     return 0
 
 

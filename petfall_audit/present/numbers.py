@@ -7,6 +7,7 @@ SI in (metres, m/s, probabilities 0..1), text out. ``system`` is ``"metric"`` or
 from __future__ import annotations
 
 import datetime as _dt
+import functools
 import math
 import re
 from dataclasses import dataclass
@@ -47,7 +48,12 @@ SIGNIFICANT_DIGITS = 4
 def round_significant(x: float) -> float | None:
     """Round to :data:`SIGNIFICANT_DIGITS` significant digits; ``None`` for NaN or infinity.
     Every JSON export rounds model numbers this way."""
-    x = float(x)
+    return _rounded(float(x))
+
+
+@functools.lru_cache(maxsize=1 << 16)
+def _rounded(x: float) -> float | None:
+    # cached: an export of a large building rounds the same values (shares, drops) many times
     if not math.isfinite(x):
         return None
     r = float(f"{x:.{SIGNIFICANT_DIGITS}g}")
