@@ -466,6 +466,9 @@ class RankedView(QWidget):
 
     def _fill_filters(self, assessment: Any) -> None:
         def fill(box: QComboBox, items: list[tuple[str, Any]]) -> None:
+            shown = [(box.itemText(i), box.itemData(i)) for i in range(1, box.count())]
+            if box.count() and shown == items:
+                return  # the same choices (most results): the box stays as it is
             keep = box.currentData()
             box.blockSignals(True)
             box.clear()
