@@ -55,7 +55,7 @@ from petfall_audit.gui.views import VIEW_NAMES, InstalledViews, build_views
 from petfall_audit.gui.views.common import Assessor, ViewContext, stop_tasks
 from petfall_audit.gui.views.ranked import ID_ROLE
 from petfall_audit.gui.widgets.building import BuildingPanel
-from petfall_audit.gui.widgets.field_form import ERROR_STYLE
+from petfall_audit.gui.widgets.field_form import ERROR_STYLE, set_style
 from petfall_audit.gui.widgets.floors import FloorsPanel
 from petfall_audit.gui.widgets.openings import OpeningsPanel
 from petfall_audit.gui.widgets.site import SitePanel
@@ -80,6 +80,8 @@ __all__ = ["MainWindow", "blank_building", "EDITOR_SHARE"]
 #: Share of the splitter's height given to the editors by default (the views get the rest):
 #: at 1366×768 about 230 px, the openings table shows six rows and the views about 410 px.
 EDITOR_SHARE = 0.36
+#: How long (ms) results may take before the status bar shows a progress bar.
+PROGRESS_DELAY_MS = 250
 
 
 def blank_building() -> Building:
@@ -251,6 +253,12 @@ class MainWindow(QMainWindow):
         self.progress.setMaximumWidth(180)
         self.progress.setTextVisible(False)
         self.progress.hide()
+        # shown only when results take a while: on a quick edit it would flash and lay the
+        # status bar out twice
+        self._progress_timer = QTimer(self)
+        self._progress_timer.setSingleShot(True)
+        self._progress_timer.setInterval(PROGRESS_DELAY_MS)
+        self._progress_timer.timeout.connect(self.progress.show)
         self.samples_label = QLabel()
         self.samples_label.setObjectName("samples_label")
         status = self.statusBar()
@@ -453,13 +461,13 @@ class MainWindow(QMainWindow):
         label, reason = outcome
         if reason is not None:
             self.status_label.setText(f"! Not changed: {reason}")
-            self.status_label.setStyleSheet(ERROR_STYLE)
+            set_style(self.status_label, ERROR_STYLE)
         else:
-            self.status_label.setStyleSheet("")
+            set_style(self.status_label, "")
             self.status_label.setText(label)
 
     def _show_status(self, text: str) -> None:
-        self.status_label.setStyleSheet(ERROR_STYLE if text.startswith("!") else "")
+        set_style(self.status_label, ERROR_STYLE if text.startswith("!") else "")
         self.status_label.setText(text)
 
     # --- recomputation ----------------------------------------------------------------------------
@@ -468,8 +476,17 @@ class MainWindow(QMainWindow):
         """Start computing results for the current building; the shown ones become stale."""
         self.state.results.set_stale()
         self.progress.setRange(0, 0)
-        self.progress.show()
+        self._show_progress()
         self.recomputer.request(self.document.building)
+
+    def _show_progress(self) -> None:
+        """The progress bar appears if the results take longer than :data:`PROGRESS_DELAY_MS`."""
+        if not self.progress.isVisible() and not self._progress_timer.isActive():
+            self._progress_timer.start()
+
+    def _hide_progress(self) -> None:
+        self._progress_timer.stop()
+        self.progress.hide()
 
     def _on_progress(self, _generation: int, done: int, total: int) -> None:
         self.progress.setRange(0, max(total, 1))
@@ -499,23 +516,23 @@ class MainWindow(QMainWindow):
         self.last_compute_s = seconds
         self.state.results.set_assessment(assessment, self.recomputer.samples)
         self._show_samples("quick" if self.recomputer.refines else "final")
-        self.progress.hide()
+        self._hide_progress()
         self.results_updated.emit(assessment)
 
     def _on_refining(self, _generation: int) -> None:
         self._show_samples("refining")
         self.progress.setRange(0, 0)
-        self.progress.show()
+        self._show_progress()
 
     def _on_refined(self, _generation: int, assessment: Any, _seconds: float) -> None:
         self.state.results.set_assessment(assessment, self.recomputer.refine_samples)
         self._show_samples("final")
-        self.progress.hide()
+        self._hide_progress()
         self.results_updated.emit(assessment)
         self.results_refined.emit(assessment)
 
     def _on_results_failed(self, _generation: int, message: str) -> None:
-        self.progress.hide()
+        self._hide_progress()
         self.state.results.set_failed(message)
         self.results_failed.emit(message)
 

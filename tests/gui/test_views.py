@@ -465,3 +465,83 @@ def test_a_quick_recompute_does_not_flash_the_list_grey_but_a_slow_one_greys_it(
     assert model.data(index, Qt.ItemDataRole.FontRole).italic()
     views.context.results.set_assessment(views.context.assessment, SAMPLES)
     assert not model.stale and model.data(index, Qt.ItemDataRole.FontRole) is None
+
+
+def _shown_texts(model: Any) -> list[list[str]]:
+    return [[model.data(model.index(row, col)) for col in range(model.columnCount())]
+            for row in range(model.rowCount())]
+
+
+def _fresh_texts(model: Any, views: InstalledViews) -> list[list[str]]:
+    """Every cell's text formatted anew from the results (no text kept from before)."""
+    from petfall_audit.gui.result_cells import result_text
+
+    a = views.context.assessment
+    floors = {f.level: f.label for f in a.building.floors}
+    facades = {f.id: f.label or f.id for f in a.building.facades}
+    return [[result_text(model.result(row), key, views.context.units, views.context.palette,
+                         floors, facades) for key in model.KEYS]
+            for row in range(model.rowCount())]
+
+
+def test_the_list_shows_each_result_as_it_is_after_edits_that_move_its_ranks(
+        app_window, qtbot) -> None:  # type: ignore[no-untyped-def]
+    """The list keeps a result's texts while the result stays the same; after edits that move
+    other openings' ranks, after undo and after a change of units every cell still reads as
+    the result it shows."""
+    window, views = app_window()
+    model = views.ranked.model
+    _shown_texts(model)  # every text asked for once (as a first paint does)
+    a = views.context.assessment
+    worst = a.ranked("risk")[0]
+    assert window.document.building.opening(worst.id).netting_mesh_mm is None
+    from petfall_audit.editing.commands import SetOpeningFields
+
+    with qtbot.waitSignal(window.results_updated, timeout=20000):
+        window.history.push(SetOpeningFields([worst.id], {"netting_mesh_mm": 30.0}))
+    after = views.context.assessment
+    moved = [r.id for r in after.openings if r.risk_rank != a.result(r.id).risk_rank]
+    assert len(moved) > 1  # the netted opening and those that moved up past it
+    assert _shown_texts(model) == _fresh_texts(model, views)
+    with qtbot.waitSignal(window.results_updated, timeout=20000):
+        window.undo()
+    assert _shown_texts(model) == _fresh_texts(model, views)
+    window.set_units("imperial")
+    shown = _shown_texts(model)
+    assert shown == _fresh_texts(model, views)
+    assert any(" ft" in text for text in shown[0])
+
+
+def test_the_progress_bar_shows_only_when_results_take_a_while(app_window, qtbot) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.gui.main_window import PROGRESS_DELAY_MS
+
+    window, views = app_window()
+    window.recomputer.cancel()  # the results never come: the recomputation "takes long"
+    window.state.results.set_stale()
+    window._show_progress()
+    assert not window.progress.isVisible()  # no flash on an edit that computes quickly
+    qtbot.waitUntil(window.progress.isVisible, timeout=PROGRESS_DELAY_MS + 2000)
+    with qtbot.waitSignal(window.results_updated, timeout=20000):
+        window.recompute()
+    assert not window.progress.isVisible()  # the results came: the bar goes
+
+
+def test_the_floors_table_counts_the_openings_of_each_floor_after_an_edit(app_window, qtbot) -> None:  # type: ignore[no-untyped-def]
+    window, views = app_window()
+    panel = window.floors_panel
+    model = panel.model
+    column = next(c for c in range(model.columnCount())
+                  if model.headerData(c, Qt.Orientation.Horizontal) == "Openings")
+    building = window.document.building
+    opening = building.openings[0]
+    row = next(r for r in range(model.rowCount())
+               if model.index(r, 0).data(Qt.ItemDataRole.EditRole) in (opening.floor,
+                                                                       str(opening.floor)))
+    before = int(model.index(row, column).data())
+    assert before == sum(o.floor == opening.floor for o in building.openings)
+    from petfall_audit.editing.commands import RemoveOpenings
+
+    window.history.push(RemoveOpenings([opening.id]))
+    assert int(model.index(row, column).data()) == before - 1
+    window.undo()
+    assert int(model.index(row, column).data()) == before

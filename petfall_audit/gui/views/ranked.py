@@ -3,7 +3,10 @@ order or risk order, with the factors behind the selected row beside the table."
 
 from __future__ import annotations
 
+import dataclasses
 import html
+import operator
+from collections.abc import Callable
 from typing import Any
 
 from PySide6.QtCore import (
@@ -34,7 +37,7 @@ from PySide6.QtWidgets import (
 
 from petfall_audit.gui.result_cells import result_style, result_text, two_line_title
 from petfall_audit.gui.views.common import ViewContext, band_qstyle
-from petfall_audit.gui.widgets.field_form import ERROR_STYLE
+from petfall_audit.gui.widgets.field_form import ERROR_STYLE, set_style
 from petfall_audit.gui.widgets.tables import keep_columns_fitted
 from petfall_audit.injury import BAND_DESCRIPTIONS, BANDS
 from petfall_audit.present import SPEED_TERMS, enum_label, fmt_one_in, fmt_percent, fmt_risk
@@ -52,6 +55,8 @@ _ROLES = frozenset(int(r) for r in (
     Qt.ItemDataRole.DisplayRole, Qt.ItemDataRole.TextAlignmentRole,
     Qt.ItemDataRole.BackgroundRole, Qt.ItemDataRole.ForegroundRole, Qt.ItemDataRole.FontRole,
     Qt.ItemDataRole.ToolTipRole, ID_ROLE, SORT_ROLE))
+#: The columns that sort by the result's field of the same name.
+_PLAIN_SORT_KEYS = frozenset(("risk_rank", "rank", "id", "floor", "facade"))
 
 
 class RankedModel(QAbstractTableModel):
@@ -77,6 +82,9 @@ class RankedModel(QAbstractTableModel):
         self._floor_labels: dict[int, str] = {}
         self._facade_labels: dict[str, str] = {}
         self._sort: tuple[int, Qt.SortOrder] = (0, Qt.SortOrder.AscendingOrder)
+        #: The shown texts of each row's result, by ``id(result)`` (rows hold the results, so
+        #: an id stays one result's); ``None`` where not yet asked for.
+        self._texts: dict[int, list[str | None]] = {}
         self.stale = True
         self._stale_timer = QTimer(self)
         self._stale_timer.setSingleShot(True)
@@ -86,13 +94,64 @@ class RankedModel(QAbstractTableModel):
     def set_assessment(self, assessment: Any) -> None:
         self._stale_timer.stop()
         self.beginResetModel()
+        old_rows = self._rows
         self._rows = self._ordered(list(assessment.openings) if assessment is not None else [])
-        self._floor_labels = ({f.level: f.label for f in assessment.building.floors}
-                              if assessment is not None else {})
-        self._facade_labels = ({f.id: f.label or f.id for f in assessment.building.facades}
-                               if assessment is not None else {})
+        floor_labels = ({f.level: f.label for f in assessment.building.floors}
+                        if assessment is not None else {})
+        facade_labels = ({f.id: f.label or f.id for f in assessment.building.facades}
+                         if assessment is not None else {})
+        same_labels = (floor_labels, facade_labels) == (self._floor_labels, self._facade_labels)
+        self._floor_labels, self._facade_labels = floor_labels, facade_labels
+        self._texts = self._kept_texts(old_rows) if same_labels else {}
         self.stale = False
         self.endResetModel()
+
+    #: The columns whose text is a rank (the only fields that differ between a result reused
+    #: by an incremental recompute and the one before it).
+    _RANK_COLS = tuple(i for i, k in enumerate(KEYS) if k in ("rank", "risk_rank"))
+    _RANK_FIELDS = ("rank", "risk_rank")
+
+    def _kept_texts(self, old_rows: list[Any]) -> dict[int, list[str | None]]:
+        """The texts of the old rows that the new rows show unchanged: a result that is the
+        same object keeps all of them, one that differs from the old result of its opening only
+        by its ranks keeps all but the ranks (after an edit most results are one or the other,
+        so a large building's texts are not formatted again after every result)."""
+        old_texts = self._texts
+        if not old_texts:
+            return {}
+        old_by_id = {r.id: r for r in old_rows}
+        kept: dict[int, list[str | None]] = {}
+        others: Callable[[Any], tuple[Any, ...]] | None = None
+        for r in self._rows:
+            old = old_by_id.get(r.id)
+            texts = old_texts.get(id(old)) if old is not None else None
+            if texts is None:
+                continue
+            if old is r:
+                kept[id(r)] = texts
+                continue
+            if others is None:
+                others = operator.attrgetter(*(f.name for f in dataclasses.fields(r)
+                                               if f.name not in self._RANK_FIELDS))
+            if all(map(operator.is_, others(r), others(old))):
+                texts = list(texts)
+                for col in self._RANK_COLS:
+                    texts[col] = None
+                kept[id(r)] = texts
+        return kept
+
+    def _text(self, row: int, col: int) -> str:
+        """The shown text of ``row`` in ``col`` (formatted once per result, see :attr:`_texts`)."""
+        r = self._rows[row]
+        texts = self._texts.get(id(r))
+        if texts is None:
+            texts = self._texts[id(r)] = [None] * len(self.KEYS)
+        text = texts[col]
+        if text is None:
+            text = texts[col] = result_text(r, self.KEYS[col], self._ctx.units,
+                                            self._ctx.palette, self._floor_labels,
+                                            self._facade_labels)
+        return text
 
     def set_stale(self, stale: bool) -> None:
         """The results are out of date (or current again). The rows turn grey only when new
@@ -112,6 +171,7 @@ class RankedModel(QAbstractTableModel):
 
     def refresh(self) -> None:
         """Every cell may read differently (units, palette)."""
+        self._texts = {}
         self._changed(())
 
     def _changed(self, roles: tuple[Qt.ItemDataRole, ...]) -> None:
@@ -125,7 +185,7 @@ class RankedModel(QAbstractTableModel):
     def sort_key(self, column: int, r: Any) -> Any:
         """What ``column`` sorts result ``r`` by (ascending: worst first where it ranks)."""
         key = self.KEYS[column]
-        if key in ("risk_rank", "rank", "id", "floor", "facade"):
+        if key in _PLAIN_SORT_KEYS:
             return getattr(r, key)
         if key == "kind":
             return str(r.kind)
@@ -143,8 +203,10 @@ class RankedModel(QAbstractTableModel):
 
     def _ordered(self, rows: list[Any]) -> list[Any]:
         column, order = self._sort
+        key = self.KEYS[column]
         # stable: equal keys keep the building's order, in either direction
-        return sorted(rows, key=lambda r: self.sort_key(column, r),
+        return sorted(rows, key=(operator.attrgetter(key) if key in _PLAIN_SORT_KEYS
+                                 else lambda r: self.sort_key(column, r)),
                       reverse=order == Qt.SortOrder.DescendingOrder)
 
     def sort(self, column: int, order: Qt.SortOrder = Qt.SortOrder.AscendingOrder) -> None:
@@ -165,9 +227,7 @@ class RankedModel(QAbstractTableModel):
     def display_texts(self, column: int, rows: Any) -> list[str]:
         """The shown text of ``rows`` in ``column``, as :meth:`data` gives it (column fitting
         reads a few hundred cells after every result)."""
-        units, palette, key = self._ctx.units, self._ctx.palette, self.KEYS[column]
-        return [result_text(self._rows[r], key, units, palette, self._floor_labels,
-                            self._facade_labels) for r in rows]
+        return [self._text(r, column) for r in rows]
 
     def result(self, row: int) -> Any:
         return self._rows[row]
@@ -214,8 +274,7 @@ class RankedModel(QAbstractTableModel):
         if role == SORT_ROLE:
             return self.sort_key(col, r)
         if role == Qt.ItemDataRole.DisplayRole:
-            return result_text(r, self.KEYS[col], self._ctx.units, self._ctx.palette,
-                               self._floor_labels, self._facade_labels)
+            return self._text(index.row(), col)
         return result_style(r, self.KEYS[col], role, stale=self.stale, palette=self._ctx.palette,
                             system=self._ctx.options.units)
 
@@ -269,6 +328,9 @@ class RankedFilter(QSortFilterProxyModel):
             self.invalidateFilter()
 
     def filterAcceptsRow(self, source_row: int, source_parent: Index) -> bool:
+        if (self.floor is None and self.facade is None and self.kind is None
+                and self.band is None and not self.text):
+            return True  # no filter (the usual case: every row, after every result)
         model = self.sourceModel()
         assert isinstance(model, RankedModel)
         r = model.result(source_row)
@@ -443,11 +505,11 @@ class RankedView(QWidget):
 
     def _on_failed(self, message: str) -> None:
         self.state_note.setText(f"! Results could not be computed: {message}")
-        self.state_note.setStyleSheet(ERROR_STYLE)
+        set_style(self.state_note, ERROR_STYLE)
 
     def _on_assessment(self, assessment: Any) -> None:
         n = len(getattr(assessment, "openings", ()))
-        self.state_note.setStyleSheet("")  # a failure shown before is over
+        set_style(self.state_note, "")  # a failure shown before is over
         self.state_note.setText(
             f"{n} openings ranked, worst first (by risk score, as in the PDF and the exports). "
             "Double-click a row to edit the opening." if n else

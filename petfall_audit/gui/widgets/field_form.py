@@ -28,7 +28,7 @@ from petfall_audit.editing.fields import FieldSpec, format_value, parse_value, u
 from petfall_audit.gui.adapters import ViewOptions
 from petfall_audit.present import enum_label
 
-__all__ = ["FieldForm", "MIXED", "ERROR_STYLE"]
+__all__ = ["FieldForm", "MIXED", "ERROR_STYLE", "set_style"]
 
 #: Marks a field whose selected records hold different values.
 MIXED = object()
@@ -37,6 +37,14 @@ ERROR_STYLE = "color: #8C2D04;"
 _INVALID_EDIT = "QLineEdit { border: 2px solid #8C2D04; }"
 
 CommitFn = Callable[[str, Any], str | None]
+
+
+def set_style(widget: QWidget, sheet: str) -> None:
+    """Give ``widget`` the style sheet ``sheet`` unless it has it already: setting a sheet,
+    even the same one, styles the widget again and lays its window out again (after every
+    edit, that is work the user waits for)."""
+    if widget.styleSheet() != sheet:
+        widget.setStyleSheet(sheet)
 
 
 class _LinesEdit(QPlainTextEdit):
@@ -289,12 +297,12 @@ class FieldForm(QWidget):
             label.setText(f"! {message}")
             label.show()
             if isinstance(editor, QLineEdit):
-                editor.setStyleSheet(_INVALID_EDIT)
+                set_style(editor, _INVALID_EDIT)
         else:
             self._errors.pop(name, None)
             label.clear()
             label.hide()
-            editor.setStyleSheet("")
+            set_style(editor, "")
 
     def _on_options_changed(self) -> None:
         self.set_values(self._values, enabled=self._enabled, keep_errors=True,

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from collections import Counter
 from collections.abc import Sequence
 
 from PySide6.QtCore import QItemSelection, QItemSelectionModel
@@ -50,13 +51,40 @@ __all__ = ["FloorsPanel"]
 _LENGTH = FieldSpec("storey_m", "Storey height", "length")
 
 
+class _PerBuilding:
+    """The storey heights (m) and opening counts by level of the last building asked about:
+    a table of floors reads them once per cell, and each takes a pass over the building."""
+
+    def __init__(self) -> None:
+        self._building: Building | None = None
+        self._heights: dict[int, float | None] = {}
+        self._counts: Counter[int] = Counter()
+
+    def _of(self, building: Building) -> None:
+        if building is not self._building:  # buildings are immutable: same object, same values
+            self._heights = storey_heights_m(building)
+            self._counts = Counter(o.floor for o in building.openings)
+            self._building = building
+
+    def storey_m(self, building: Building, level: int) -> float | None:
+        self._of(building)
+        return self._heights.get(level)
+
+    def openings(self, building: Building, level: int) -> int:
+        self._of(building)
+        return self._counts[level]
+
+
+_PER_BUILDING = _PerBuilding()
+
+
 def _storey_text(building: Building, floor: Floor, units: str) -> str:
-    height = storey_heights_m(building).get(floor.level)
+    height = _PER_BUILDING.storey_m(building, floor.level)
     return "—" if height is None else format_value(_LENGTH, height, units)
 
 
 def _openings_text(building: Building, floor: Floor, units: str) -> str:
-    return str(sum(o.floor == floor.level for o in building.openings))
+    return str(_PER_BUILDING.openings(building, floor.level))
 
 
 class FloorsPanel(QWidget):

@@ -35,7 +35,7 @@ from petfall_audit.editing.commands import SetOpeningFields
 from petfall_audit.editing.document import Document
 from petfall_audit.editing.history import History
 from petfall_audit.gui.adapters import push_command
-from petfall_audit.gui.widgets.field_form import ERROR_STYLE
+from petfall_audit.gui.widgets.field_form import ERROR_STYLE, set_style
 from petfall_audit.io.photos import (
     PHOTO_SUFFIXES,
     import_photo,
@@ -288,7 +288,7 @@ class PhotoStrip(QWidget):
 
     def _say(self, text: str, *, error: bool = False) -> None:
         self.message.setText(text)
-        self.message.setStyleSheet(ERROR_STYLE if error else "color: #4d4d4d;")
+        set_style(self.message, ERROR_STYLE if error else "color: #4d4d4d;")
 
     def _update_buttons(self) -> None:
         self.remove_button.setEnabled(self._opening_id is not None
