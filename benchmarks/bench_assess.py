@@ -11,9 +11,13 @@ Run: ``python benchmarks/bench_assess.py [--samples N] [--repeats R]``.
     the JSON;
 (d) the same command on a building of one opening: what any command pays before it does work
     that grows with the building (the interpreter, numpy, pydantic and the building file's
-    schema); and (e) ``python -c "import numpy"`` alone, for scale.
-Targets: a/b ≤ 4, c/b ≤ 3. Prints the median times and the ratios, and (c − d)/b: the part of
-the command that grows with the building against the bare pass.
+    schema); (e) ``python -c "import numpy"`` alone, for scale; and (f) the bare closed form
+    as a command of its own: a fresh Python process that imports numpy, reads the openings'
+    drops, draws the same number of cats (four parameters each), evaluates (b)'s formula on
+    every fall and writes each opening's mean speed as JSON: the same falls with start-up.
+Targets: a/b ≤ 4, c/b ≤ 3. Prints the median times and the ratios, (c − d)/b: the part of
+the command that grows with the building against the bare pass, and c/f: the whole command
+against the bare closed-form command.
 """
 
 from __future__ import annotations
@@ -45,6 +49,30 @@ def bare_speed(drop_m: np.ndarray, cat: CatSamples, rho: float) -> np.ndarray:
     )
     out: np.ndarray = np.where(drop_m < hs, tense, spread)
     return out
+
+
+#: (f): the bare closed form of (b) as a command of its own (argv: drops .npy, samples, output).
+BARE_COMMAND = """
+import json, sys
+import numpy as np
+drop = np.load(sys.argv[1])[:, None]
+n = int(sys.argv[2])
+rng = np.random.default_rng(1)
+m = rng.lognormal(np.log(4.2), 0.25, n)
+cda1 = rng.uniform(0.018, 0.03, n)
+cda2 = cda1 * rng.uniform(1.5, 2.5, n)
+f = rng.uniform(0.5, 0.8, n)
+g, rho = 9.80665, 1.2
+vt1 = np.sqrt(2 * m * g / (rho * cda1))
+vt2 = np.sqrt(2 * m * g / (rho * cda2))
+hs = -vt1**2 * np.log1p(-(f**2)) / (2 * g)
+tense = vt1 * np.sqrt(-np.expm1(-2 * g * drop / vt1**2))
+spread = np.sqrt(vt2**2 + ((f * vt1) ** 2 - vt2**2)
+                 * np.exp(-2 * g * np.maximum(drop - hs, 0) / vt2**2))
+speed = np.where(drop < hs, tense, spread)
+with open(sys.argv[3], "w") as out:
+    json.dump(speed.mean(axis=1).tolist(), out)
+"""
 
 
 def main() -> int:
@@ -85,6 +113,16 @@ def main() -> int:
         t_d = median_time_s(run_small, args.command_repeats)
         t_e = median_time_s(lambda: subprocess.run([sys.executable, "-c", "import numpy"],
                                                    check=True), args.command_repeats)
+        drops = Path(tmp) / "drops.npy"
+        np.save(drops, np.median(falls.drop_m, axis=1))
+        bare = [sys.executable, "-c", BARE_COMMAND, str(drops), str(args.samples),
+                str(Path(tmp) / "bare.json")]
+
+        def run_bare() -> None:
+            subprocess.run(bare, check=True)
+
+        run_bare()
+        t_f = median_time_s(run_bare, args.command_repeats)
     n = len(building.openings)
     print(f"building: {n} openings x {args.samples} samples = {n * args.samples:,} falls")
     print(f"(a) full assessment, median           {t_a:8.3f} s")
@@ -92,9 +130,12 @@ def main() -> int:
     print(f"(c) whole assess command, median      {t_c:8.3f} s")
     print(f"(d) the command on one opening        {t_d:8.3f} s")
     print(f"(e) python -c 'import numpy'          {t_e:8.3f} s")
+    print(f"(f) bare closed-form command          {t_f:8.3f} s")
     print(f"a/b = {t_a / t_b:.2f}   (target <= 4)")
     print(f"c/b = {t_c / t_b:.2f}   (target <= 3: start-up, file, assessment, sensitivity, JSON)")
     print(f"(c-d)/b = {(t_c - t_d) / t_b:.2f}   (the part that grows with the building)")
+    print(f"e/b = {t_e / t_b:.2f}   (the interpreter and numpy alone)")
+    print(f"c/f = {t_c / t_f:.2f}   (the whole command against the bare closed-form command)")
     return 0
 
 

@@ -20,6 +20,7 @@ The whole building is computed in one pass over ``(n_openings, n_samples)`` arra
 
 from __future__ import annotations
 
+import threading
 from collections.abc import Callable
 from dataclasses import dataclass, replace
 from typing import Any, Literal
@@ -299,46 +300,70 @@ def assess(
     rho = float(air_density(building.info.site_altitude_m, building.info.air_temperature_c))
     t = building.injury if thresholds is None else thresholds
     summary = _Summary(n_open, samples)
-    doses: dict[int, npt.NDArray[np.float64]] = {}
+    kept = _KeptFalls(n_open, samples) if keep else None
 
     def summarise(a: int, b: int, part: FallResults) -> None:  # on the block's own thread
         sev = severity_of_falls(part, cat, stops)
         summary.add(a, b, part, sev, t)
-        if keep:
-            doses[a] = sev
+        if kept is not None:
+            kept.put(a, b, part, sev)
 
-    kept: list[tuple[int, int, FallResults, npt.NDArray[np.float64]]] = []
-    for a, b, part in simulate_chunks(building, cat, rho_kg_m3=rho, progress=progress,
-                                      then=summarise):
-        if keep:
-            kept.append((a, b, part, doses.pop(a)))
-    falls, sev_all = _joined(building, kept, samples, rho) if keep else (None, None)
+    for _ in simulate_chunks(building, cat, rho_kg_m3=rho, progress=progress, then=summarise):
+        pass
+    falls, sev_all = kept.joined(building, rho) if kept is not None else (None, None)
     return _assessment(building, cat, summary, samples=samples, seed=seed, thresholds=t,
                        stops=stops, rho_kg_m3=rho, falls=falls, severity_g=sev_all)
 
 
-def _joined(
-    building: Building, kept: list[tuple[int, int, FallResults, npt.NDArray[np.float64]]],
-    samples: int, rho: float,
-) -> tuple[FallResults, npt.NDArray[np.float64]]:
-    """The kept blocks as one :class:`FallResults` and one dose array."""
-    if not kept:
-        empty = simulate_falls(building, sample_cat_profile(building.cat_profile, samples))
-        return empty, np.zeros((0, samples))
-    parts = [k[2] for k in kept]
-    first = parts[0]
-    falls = FallResults(
-        opening_ids=tuple(i for p in parts for i in p.opening_ids),
-        landing_ids=first.landing_ids,
-        landing_kinds=first.landing_kinds,
-        drop_m=np.concatenate([p.drop_m for p in parts]),
-        landing=np.concatenate([p.landing for p in parts]),
-        impact_speed_mps=np.concatenate([p.impact_speed_mps for p in parts]),
-        fall_time_s=np.concatenate([p.fall_time_s for p in parts]),
-        righted=np.concatenate([p.righted for p in parts]),
-        rho_kg_m3=rho,
-    )
-    return falls, np.concatenate([k[3] for k in kept])
+class _KeptFalls:
+    """Every fall of a building, written a block of openings at a time into arrays of the
+    whole building's shape (on the blocks' own threads: no copy of them all at the end)."""
+
+    _FIELDS = ("drop_m", "landing", "impact_speed_mps", "fall_time_s", "righted")
+
+    def __init__(self, n_open: int, samples: int) -> None:
+        self._shape = (n_open, samples)
+        self._lock = threading.Lock()
+        self._arrays: dict[str, npt.NDArray[Any]] = {}
+        self._landing: tuple[tuple[str, ...], tuple[SurfaceKind, ...]] | None = None
+
+    def _array(self, name: str, dtype: np.dtype[Any]) -> npt.NDArray[Any]:
+        with self._lock:
+            out = self._arrays.get(name)
+            if out is None:
+                out = self._arrays[name] = np.empty(self._shape, dtype=dtype)
+            return out
+
+    def put(self, a: int, b: int, part: FallResults, sev: npt.NDArray[np.float64]) -> None:
+        """The falls and doses of openings ``a`` to ``b - 1``."""
+        for name in self._FIELDS:
+            values = getattr(part, name)
+            self._array(name, values.dtype)[a:b] = values
+        self._array("severity_g", sev.dtype)[a:b] = sev
+        with self._lock:
+            if self._landing is None:
+                self._landing = (part.landing_ids, part.landing_kinds)
+
+    def joined(self, building: Building, rho: float
+               ) -> tuple[FallResults, npt.NDArray[np.float64]]:
+        """Every fall as one :class:`FallResults`, and the doses (g)."""
+        if self._landing is None:  # no opening: no block
+            empty = simulate_falls(building, sample_cat_profile(building.cat_profile,
+                                                                self._shape[1]))
+            return empty, np.zeros((0, self._shape[1]))
+        a = self._arrays
+        falls = FallResults(
+            opening_ids=tuple(o.id for o in building.openings),
+            landing_ids=self._landing[0],
+            landing_kinds=self._landing[1],
+            drop_m=a["drop_m"],
+            landing=a["landing"],
+            impact_speed_mps=a["impact_speed_mps"],
+            fall_time_s=a["fall_time_s"],
+            righted=a["righted"],
+            rho_kg_m3=rho,
+        )
+        return falls, a["severity_g"]
 
 
 class _Summary:

@@ -79,3 +79,26 @@ def test_two_threads_give_the_results_of_one_bit_for_bit() -> None:
     assert np.array_equal(one.falls.drop_m, two.falls.drop_m)
     assert np.array_equal(one.falls.landing, two.falls.landing)
     assert np.array_equal(one.severity_g, two.severity_g)
+
+
+def test_the_falls_kept_block_by_block_are_those_of_one_pass_over_the_building() -> None:
+    """assess(keep_falls=True) writes each block's falls into the building's arrays on the
+    block's own thread; they equal physics.simulate_falls over every opening at once, and the
+    kept doses those of risk.severity_of_falls on them."""
+    from petfall_audit.physics import simulate_falls
+    from petfall_audit.risk import DEFAULT_STOPS, severity_of_falls
+
+    building = sample_building()
+    samples = 4000
+    cat = sample_cat_profile(building.cat_profile, samples, seed=5)
+    whole = simulate_falls(building, cat)
+    got = assess(building, samples=samples, seed=5, keep_falls=True)
+    assert got.falls is not None and got.severity_g is not None
+    assert got.falls.opening_ids == whole.opening_ids
+    assert got.falls.landing_ids == whole.landing_ids
+    assert got.falls.landing_kinds == whole.landing_kinds
+    for name in ("drop_m", "landing", "impact_speed_mps", "fall_time_s", "righted"):
+        want = getattr(whole, name)
+        have = getattr(got.falls, name)
+        assert have.dtype == want.dtype and np.array_equal(have, want), name
+    assert np.array_equal(got.severity_g, severity_of_falls(whole, cat, DEFAULT_STOPS))

@@ -526,7 +526,7 @@ def test_the_progress_bar_shows_only_when_results_take_a_while(app_window, qtbot
     assert not window.progress.isVisible()  # the results came: the bar goes
 
 
-def test_the_floors_table_counts_the_openings_of_each_floor_after_an_edit(app_window, qtbot) -> None:  # type: ignore[no-untyped-def]
+def test_the_floors_table_counts_each_floors_openings_after_an_edit(app_window, qtbot) -> None:  # type: ignore[no-untyped-def]
     window, views = app_window()
     panel = window.floors_panel
     model = panel.model
