@@ -19,6 +19,10 @@ FloatArray = npt.NDArray[np.float64]
 GROUND_ID = "ground"
 
 
+#: The fields of :class:`FallResults` that hold one value per fall, ``(n_openings, n_samples)``.
+FALL_ARRAYS = ("drop_m", "landing", "impact_speed_mps", "fall_time_s", "righted")
+
+
 @dataclass(frozen=True, slots=True)
 class FallResults:
     """Every opening × every sampled cat.

@@ -25,6 +25,7 @@ import numpy as np
 import numpy.typing as npt
 
 from petfall_audit._interception import FallGeometry, fall_geometry, simulate_chunks
+from petfall_audit._physics_results import FALL_ARRAYS
 from petfall_audit.injury import DEFAULT_STOPS, InjuryThresholds, StoppingDistances
 from petfall_audit.likelihood import OpeningLikelihood, likelihood_of_rows, opening_likelihood
 from petfall_audit.model import Building, CatProfile, Opening, SurfaceKind
@@ -44,7 +45,8 @@ __all__ = ["Reassessor", "assess_deduplicated"]
 
 _SUMMARY_ARRAYS = ("probs", "mean_sev", "drop_pct", "speed_pct", "water_share",
                    "unrighted_share")
-_FALL_ARRAYS = ("drop_m", "impact_speed_mps", "fall_time_s", "righted")
+#: The per-fall arrays but the landing (whose indices move with the landing elements' order).
+_FALL_ARRAYS = tuple(name for name in FALL_ARRAYS if name != "landing")
 
 
 @dataclass(slots=True)

@@ -30,6 +30,7 @@ import numpy.typing as npt
 
 from petfall_audit import sample_counts as _counts
 from petfall_audit._interception import simulate_chunks
+from petfall_audit._physics_results import FALL_ARRAYS
 from petfall_audit.injury import (
     BANDS,
     CALIBRATED_DROP_MAX_M,
@@ -319,8 +320,6 @@ class _KeptFalls:
     """Every fall of a building, written a block of openings at a time into arrays of the
     whole building's shape (on the blocks' own threads: no copy of them all at the end)."""
 
-    _FIELDS = ("drop_m", "landing", "impact_speed_mps", "fall_time_s", "righted")
-
     def __init__(self, n_open: int, samples: int) -> None:
         self._shape = (n_open, samples)
         self._lock = threading.Lock()
@@ -336,7 +335,7 @@ class _KeptFalls:
 
     def put(self, a: int, b: int, part: FallResults, sev: npt.NDArray[np.float64]) -> None:
         """The falls and doses of openings ``a`` to ``b - 1``."""
-        for name in self._FIELDS:
+        for name in FALL_ARRAYS:
             values = getattr(part, name)
             self._array(name, values.dtype)[a:b] = values
         self._array("severity_g", sev.dtype)[a:b] = sev

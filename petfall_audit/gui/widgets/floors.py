@@ -52,8 +52,9 @@ _LENGTH = FieldSpec("storey_m", "Storey height", "length")
 
 
 class _PerBuilding:
-    """The storey heights (m) and opening counts by level of the last building asked about:
-    a table of floors reads them once per cell, and each takes a pass over the building."""
+    """The storey heights (m) and opening counts by level of the last building asked about,
+    and their texts: a table of floors reads them once per cell, and each takes a pass over
+    the building."""
 
     def __init__(self) -> None:
         self._building: Building | None = None
@@ -74,17 +75,12 @@ class _PerBuilding:
         self._of(building)
         return self._counts[level]
 
+    def storey_text(self, building: Building, floor: Floor, units: str) -> str:
+        height = self.storey_m(building, floor.level)
+        return "—" if height is None else format_value(_LENGTH, height, units)
 
-_PER_BUILDING = _PerBuilding()
-
-
-def _storey_text(building: Building, floor: Floor, units: str) -> str:
-    height = _PER_BUILDING.storey_m(building, floor.level)
-    return "—" if height is None else format_value(_LENGTH, height, units)
-
-
-def _openings_text(building: Building, floor: Floor, units: str) -> str:
-    return str(_PER_BUILDING.openings(building, floor.level))
+    def openings_text(self, building: Building, floor: Floor, units: str) -> str:
+        return str(self.openings(building, floor.level))
 
 
 class FloorsPanel(QWidget):
@@ -96,12 +92,13 @@ class FloorsPanel(QWidget):
         self._doc = doc
         self._history = history
         self._options = options
+        self._per_building = _PerBuilding()
         self.model = RecordTableModel(
             doc, history, options, kind="floors", items=lambda b: b.floors, key="level",
             fields=FLOOR_FIELDS,
             make_command=lambda level, changes: SetFloor(level, changes),
-            extra=[("Storey height (to floor above)", _storey_text),
-                   ("Openings", _openings_text)],
+            extra=[("Storey height (to floor above)", self._per_building.storey_text),
+                   ("Openings", self._per_building.openings_text)],
             editable_extra=self._edit_extra, extra_kinds=("openings",), parent=self,
         )
         self.table = record_table(self.model, "floors_table", lambda spec: [])
@@ -147,7 +144,7 @@ class FloorsPanel(QWidget):
         if column != 0:
             return None
         units = self._options.units
-        if text == _storey_text(self._doc.building, floor, units):
+        if text == self._per_building.storey_text(self._doc.building, floor, units):
             return None
         try:
             height_m = parse_value(_LENGTH, text, units)
