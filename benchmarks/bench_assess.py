@@ -53,6 +53,7 @@ def bare_speed(drop_m: np.ndarray, cat: CatSamples, rho: float) -> np.ndarray:
 
 
 #: (f): the bare closed form of (b) as a command of its own (argv: drops .npy, samples, output).
+#: Its cat parameters only give the work its size (a yardstick of time, not a check of values).
 BARE_COMMAND = """
 import json, sys
 import numpy as np
