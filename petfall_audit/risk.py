@@ -30,6 +30,7 @@ import numpy.typing as npt
 
 from petfall_audit import sample_counts as _counts
 from petfall_audit._interception import simulate_chunks
+from petfall_audit._percentiles import percentiles_last
 from petfall_audit._physics_results import FALL_ARRAYS
 from petfall_audit.injury import (
     BANDS,
@@ -197,11 +198,14 @@ def risk_score(
     return out
 
 
+#: The percentiles of drops and impact speeds that results report.
+_REPORTED_PERCENTILES = (5.0, 50.0, 95.0)
+
+
 def percentiles(values: npt.ArrayLike) -> npt.NDArray[np.float64]:
-    """5th, 50th and 95th percentiles along the last axis, shape ``(..., 3)``."""
-    a = np.asarray(values, dtype=float)
-    out: npt.NDArray[np.float64] = np.moveaxis(np.percentile(a, [5.0, 50.0, 95.0], axis=-1), 0, -1)
-    return out
+    """5th, 50th and 95th percentiles along the last axis, shape ``(..., 3)`` (as
+    ``numpy.percentile``, linear method)."""
+    return percentiles_last(values, _REPORTED_PERCENTILES)
 
 
 def severity_of_falls(

@@ -26,6 +26,7 @@ from dataclasses import dataclass, replace
 import numpy as np
 import numpy.typing as npt
 
+from petfall_audit._percentiles import percentiles_last
 from petfall_audit.injury import InjuryThresholds, StoppingDistances, band_probabilities
 from petfall_audit.model import BALCONY_LIKE, Building, CatProfile, Fixed
 from petfall_audit.physics import FallResults, simulate_falls
@@ -86,7 +87,7 @@ def _low_high(name: str, profile: CatProfile, cat: CatSamples) -> tuple[float, f
     values = np.asarray(getattr(cat, name), dtype=float)
     if name == "cda_spread_m2" and np.any(cat.relaxes):
         values = values[cat.relaxes]
-    lo, hi = np.percentile(values, [10.0, 90.0])
+    lo, hi = percentiles_last(values, (10.0, 90.0))
     return float(lo), float(hi)
 
 
