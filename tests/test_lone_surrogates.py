@@ -71,3 +71,26 @@ def test_commands_refuse_it_without_a_traceback(
     assert main(argv) == 2
     err = capsys.readouterr().err
     assert "building.name" in err and "Traceback" not in err
+
+
+@pytest.mark.parametrize("escape", ["\\uD800", "\\uDbFf", "\\udc00", "\\uDFFF"])
+def test_an_escape_in_capitals_is_refused_too(tmp_path: Path, escape: str) -> None:
+    # JSON escapes are case-blind (RFC 8259, §7): the loader's quick look at the text for
+    # surrogate escapes must see every spelling
+    name = '"Brackenhythe'
+    text = json.dumps(_doc(), ensure_ascii=True).replace(name, f'"{escape}{name[1:]}', 1)
+    assert escape in text
+    path = tmp_path / "b.json"
+    path.write_text(text, encoding="utf-8")
+    with pytest.raises(ValidationFailed) as err:
+        load_building(path)
+    assert any("surrogate" in p.message for p in err.value.problems)
+
+
+def test_a_surrogate_pair_is_a_character_and_loads(tmp_path: Path) -> None:
+    doc = _doc()
+    doc["building"]["name"] = "Flat \U0001f408 three"  # type: ignore[index]
+    path = tmp_path / "b.json"
+    path.write_text(json.dumps(doc, ensure_ascii=True), encoding="utf-8")
+    assert "\\ud83d\\udc08" in path.read_text(encoding="utf-8")
+    assert load_building(path).info.name == "Flat \U0001f408 three"

@@ -142,7 +142,7 @@ def load_building(path: str | Path) -> Building:
     except ValueError as exc:  # e.g. an integer with thousands of digits
         raise FileFormatError(f"not valid JSON: {exc}") from exc
     early = _duplicate_key_problems(doc, duplicates) if duplicates else []
-    building = _parse(doc, early)
+    building = _parse(doc, early, text_checked=_SURROGATE_ESCAPE.search(text) is None)
     folder = Path(path).parent
     refused = [
         Problem(Place("openings", i, f"photos[{k}]"), f"photo {describe(photo)} refused: {why}")
@@ -203,6 +203,9 @@ def validate_building(building: Building) -> list[Problem]:
 
 
 _SURROGATE = re.compile("[\ud800-\udfff]")
+#: A JSON escape of a surrogate (``\\ud800`` to ``\\udfff``): strictly decoded UTF-8 holds no
+#: surrogate itself, so a file's text without one of these decodes to texts without any.
+_SURROGATE_ESCAPE = re.compile(r"\\u[dD][89abcdefABCDEF]")
 _MAX_SURROGATE_PROBLEMS = 20
 
 
@@ -234,12 +237,14 @@ def _surrogate_problems(doc: object) -> list[Problem]:
     return problems
 
 
-def _parse(doc: object, early: list[Problem]) -> Building:
+def _parse(doc: object, early: list[Problem], *, text_checked: bool = False) -> Building:
+    """``text_checked``: the file's text was found to hold no surrogate (so no walk of ``doc``
+    for one)."""
     if not isinstance(doc, dict):
         raise FileFormatError(
             f"not a building file: expected a JSON object at the top, got {describe(doc)}"
         )
-    bad_text = _surrogate_problems(doc)
+    bad_text = [] if text_checked else _surrogate_problems(doc)
     if bad_text:
         raise ValidationFailed([*early, *bad_text])
     if "format" not in doc:
