@@ -8,6 +8,7 @@ everywhere and an imperial reader sees no metric unit.
 
 from __future__ import annotations
 
+import functools
 import math
 from collections.abc import Callable, Iterable, Mapping
 
@@ -202,10 +203,12 @@ _WRITERS: dict[str, _Writer] = {**_FACTOR_WORDS, **_PROBLEM_WORDS}
 REASON_CODES: frozenset[str] = frozenset(_WRITERS)
 
 
+@functools.lru_cache(maxsize=1 << 14)
 def explain(reason: Reason, system: str = "metric") -> str:
     """One reason in plain words, lengths and speeds in ``system`` (``"metric"`` or
     ``"imperial"``). An unknown code reads as its code in words (never an error: a newer file's
-    result still shows)."""
+    result still shows). Cached: a large building's results repeat the same reasons (equal
+    openings, the same guard and netting findings)."""
     writer = _WRITERS.get(reason.code)
     if writer is None:
         return reason.code.replace("_", " ").capitalize()
