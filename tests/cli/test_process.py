@@ -1,0 +1,52 @@
+"""The ``petfall-audit`` program as a process: exit codes, written output, and the garbage
+collector's settings while a command runs (petfall_audit.cli.run and main)."""
+
+from __future__ import annotations
+
+import gc
+import json
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+from petfall_audit import cli
+
+ROOT = Path(__file__).resolve().parents[2]
+WALKUP = ROOT / "sample_buildings" / "walkup.json"
+
+
+def _program(*args: str) -> subprocess.CompletedProcess[str]:
+    code = "import sys; from petfall_audit.cli import run; sys.argv[1:] = sys.argv[2:]; run()"
+    return subprocess.run([sys.executable, "-c", code, "--", *args], capture_output=True,
+                          text=True, cwd=ROOT, timeout=300)
+
+
+def test_the_program_exits_with_the_command_code_and_writes_its_output(tmp_path: Path) -> None:
+    out = tmp_path / "results.json"
+    done = _program("assess", str(WALKUP), "--format", "json", "--samples", "64", "-o", str(out))
+    assert done.returncode == 0, done.stderr
+    doc = json.loads(out.read_text(encoding="utf-8"))
+    assert len(doc["results"]["openings"]) == 50  # the walk-up's openings, all written
+    assert _program("check", str(tmp_path / "missing.json")).returncode == 2
+    assert _program("assess", str(WALKUP), "--samples", "0").returncode == 2
+
+
+def test_the_collector_runs_rarely_during_a_command_and_as_before_after(
+        monkeypatch: pytest.MonkeyPatch, tmp_path: Path) -> None:
+    seen: list[tuple[tuple[int, int, int], bool]] = []
+    real = cli._cmd_check
+
+    def spy(args: object) -> int:
+        seen.append((gc.get_threshold(), gc.isenabled()))
+        return real(args)  # type: ignore[arg-type]
+
+    monkeypatch.setattr(cli, "_cmd_check", spy)
+    before = gc.get_threshold()
+    assert cli.main(["check", str(WALKUP)]) == 0
+    assert seen == [(cli._COMMAND_GC_THRESHOLDS, True)]  # rarely, but still on
+    assert gc.get_threshold() == before
+    seen.clear()
+    assert cli.main(["check", str(tmp_path / "missing.json")]) == 2  # a failing command too
+    assert seen and gc.get_threshold() == before
