@@ -36,8 +36,6 @@ from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.optimize import Bounds, LinearConstraint, milp
-from scipy.sparse import coo_array, vstack
 
 from petfall_audit._solver_output import solver_output_filtered
 from petfall_audit.errors import PlanError
@@ -185,6 +183,11 @@ def solve_choice_knapsack(
                                      mip_rel_gap=mip_rel_gap, time_limit_s=time_limit_s)
         chosen[usable[mask]] = True
         return chosen, gap
+
+    # scipy's optimiser is loaded only here, where a trade-off is solved: importing it costs
+    # about 0.2 s, which a report, a batch worker or the app that plans nothing need not pay
+    from scipy.optimize import Bounds, LinearConstraint, milp
+    from scipy.sparse import coo_array, vstack
 
     k = usable.size
     one_per_group = coo_array((np.ones(k), (inverse, np.arange(k))), shape=(groups.size, k)).tocsr()

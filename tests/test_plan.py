@@ -11,7 +11,6 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-import petfall_audit.plan as plan_mod
 from petfall_audit.demo import make_large_tower, sample_building
 from petfall_audit.errors import PlanError
 from petfall_audit.fixes import Option, load_catalogue, opening_options
@@ -113,7 +112,10 @@ def test_solver_failure_raises_plan_error(monkeypatch: pytest.MonkeyPatch) -> No
     class Failed:
         status, x, message = 4, None, "numerical trouble"
 
-    monkeypatch.setattr(plan_mod, "milp", lambda *a, **k: Failed())
+    import scipy.optimize
+
+    # the planner takes milp from scipy.optimize when it solves (a lazy import)
+    monkeypatch.setattr(scipy.optimize, "milp", lambda *a, **k: Failed())
     group, cost, gain = np.array([0, 1]), np.array([10.0, 10.0]), np.array([1.0, 2.0])
     with pytest.raises(PlanError, match="numerical trouble"):
         solve_choice_knapsack(group, cost, gain, 10.0)

@@ -20,9 +20,9 @@ SAMPLES = ROOT / "sample_buildings"
 CHATTY = """
 import os, sys
 from pathlib import Path
-import petfall_audit.plan as plan
+import scipy.optimize as optimize
 
-real = plan.milp
+real = optimize.milp  # the planner takes milp from here when it solves
 marker = Path(sys.argv[1])
 
 class Failed:
@@ -34,7 +34,7 @@ def chatty(*args, **kwargs):
     os.write(2, b"solver line on descriptor 2\\n")
     return Failed() if os.environ.get("FAIL_SOLVE") else real(*args, **kwargs)
 
-plan.milp = chatty
+optimize.milp = chatty
 from petfall_audit.cli import main
 raise SystemExit(main(sys.argv[2:]))
 """
