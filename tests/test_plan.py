@@ -190,3 +190,14 @@ def test_large_tower_plans_quickly() -> None:
 def test_option_dataclass_fields_for_consumers() -> None:
     o = Option("A", "net", "Net", 10.0, 5.0, 1.0, ("c",))
     assert o.risk_removed == 4.0 and o.share_removed == 0.8
+
+
+def test_importing_the_planner_does_not_load_the_optimiser() -> None:
+    # scipy.optimize costs about 0.2 s to import; a batch worker with no budget never solves
+    import subprocess
+    import sys
+
+    code = ("import sys; import petfall_audit.plan, petfall_audit.report, petfall_audit.batch; "
+            "print('scipy.optimize' in sys.modules)")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert out.stdout.strip() == "False"
