@@ -6,7 +6,8 @@ Mechanics*, 2005, §2.4). The cat falls tense (``cda_tense_m2``) until its speed
 ``relax_fraction`` × its tense terminal speed, then spreads out (``cda_spread_m2`` ≥ tense) and
 tends to the spread terminal speed, slowing down if it was faster. Both postures have exact
 closed forms, so every opening × every sampled cat is one array computation; ``solve_ivp`` is
-the reference in the tests and gives the time series in :func:`fall_profile`.
+the reference in the tests. The time series of :func:`fall_profile` integrate the smooth
+spreading out with a fixed-step Runge–Kutta method (the rest of the fall in closed form).
 
 The results are an indicative model for ranking openings: not a structural or code-compliance
 assessment.
@@ -295,8 +296,9 @@ def fall_profile(
     relax_fraction: float, rho_kg_m3: float, transition_s: float = 0.3, g: float = G0,
     n_points: int = 400,
 ) -> FallProfile:
-    """Height, speed and acceleration against time for one fall of ``drop_m`` (m), integrated
-    with ``scipy.integrate.solve_ivp``.
+    """Height, speed and acceleration against time for one fall of ``drop_m`` (m): the closed
+    forms while the posture holds, the spreading out integrated with the classical fourth-order
+    Runge–Kutta method on a fixed grid (``petfall_audit._physics_profile``).
 
     The cat spreads out smoothly: after the switch its C_d·A moves from tense to spread over
     ``transition_s`` seconds (a smoothstep), so the impact speed and fall time here differ

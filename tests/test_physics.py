@@ -261,6 +261,74 @@ def test_profile_without_transition_matches_closed_form() -> None:
     assert p.switch_time_s == pytest.approx(fall_time(hs, **CAT), rel=1e-6)
 
 
+def ivp_profile(drop_m: float, m: float, c1: float, c2: float, f: float, rho: float,
+                transition_s: float):  # type: ignore[no-untyped-def]
+    """Independent reference for the time series: scipy.integrate.solve_ivp (DOP853) of
+    dv/dt = g − β(t) v², tense until the speed reaches f × the tense terminal speed (an event),
+    then β moving to the spread value over ``transition_s`` as a smoothstep 3x² − 2x³."""
+    b1, b2 = rho * c1 / (2 * m), rho * c2 / (2 * m)
+    v_switch = f * math.sqrt(G0 / b1)
+
+    def beta(t: float, t_switch: float | None) -> float:
+        if t_switch is None:
+            return b1
+        x = min(max((t - t_switch) / transition_s, 0.0), 1.0) if transition_s else 1.0
+        return b1 + (b2 - b1) * x * x * (3 - 2 * x)
+
+    def rhs(t_switch: float | None):  # type: ignore[no-untyped-def]
+        return lambda t, y: [y[1], G0 - beta(t, t_switch) * y[1] * abs(y[1])]
+
+    def land(t: float, y: np.ndarray) -> float:
+        return y[0] - drop_m
+
+    def switch(t: float, y: np.ndarray) -> float:
+        return y[1] - v_switch
+
+    land.terminal = switch.terminal = True  # type: ignore[attr-defined]
+    tol = {"rtol": 1e-13, "atol": 1e-12, "method": "DOP853", "dense_output": True}
+    events = [land, switch] if c2 > c1 else [land]
+    first = solve_ivp(rhs(None), (0, 1e4), [0.0, 0.0], events=events, **tol)
+    pieces, t_switch = [(0.0, first)], None
+    if c2 > c1 and first.t_events[1].size and not first.t_events[0].size:
+        t_switch = float(first.t_events[1][0])
+        step = transition_s / 50 if transition_s else np.inf
+        pieces.append((t_switch, solve_ivp(rhs(t_switch), (t_switch, t_switch + 1e4),
+                                           first.y_events[1][0], events=[land],
+                                           max_step=step, **tol)))
+    last = pieces[-1][1]
+    t_land, impact = float(last.t_events[0][0]), float(last.y_events[0][0][1])
+
+    def speed_at(t: np.ndarray) -> np.ndarray:
+        out = np.empty_like(t)
+        for start, sol in pieces:
+            sel = t >= start
+            out[sel] = sol.sol(t[sel])[1]
+        return out
+
+    return t_land, impact, t_switch, speed_at
+
+
+@pytest.mark.parametrize("transition_s", [0.0, 0.05, 0.3, 1.0])
+@pytest.mark.parametrize("drop_m", [1.0, 4.0, 9.0, 30.0, 120.0])
+@pytest.mark.parametrize("cat", CATS)
+def test_profile_matches_solve_ivp(cat: tuple[float, float, float, float], drop_m: float,
+                                   transition_s: float) -> None:
+    # Source: scipy.integrate.solve_ivp (DOP853, rtol 1e-13) of the same equation of motion,
+    # written above without the project's code. Landings before, during and after the
+    # transition are all in the grid.
+    m, c1, c2, f = cat
+    t_land, impact, t_switch, speed_at = ivp_profile(drop_m, m, c1, c2, f, RHO0, transition_s)
+    p = fall_profile(drop_m, mass_kg=m, cda_tense_m2=c1, cda_spread_m2=c2, relax_fraction=f,
+                     rho_kg_m3=RHO0, transition_s=transition_s, n_points=257)
+    assert p.fall_time_s == pytest.approx(t_land, rel=1e-10)
+    assert p.impact_speed_mps == pytest.approx(impact, rel=1e-10)
+    if t_switch is None:
+        assert p.switch_time_s is None
+    else:
+        assert p.switch_time_s == pytest.approx(t_switch, rel=1e-10)
+    np.testing.assert_allclose(p.speed_mps, speed_at(p.t_s), rtol=0, atol=1e-9 * impact)
+
+
 def test_profile_with_smooth_transition() -> None:
     p = fall_profile(60.0, **CAT, transition_s=0.3, n_points=300)
     assert p.t_s.shape == p.height_m.shape == p.speed_mps.shape == p.accel_mps2.shape == (300,)

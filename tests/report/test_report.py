@@ -6,6 +6,7 @@ import io
 import json
 import re
 from dataclasses import replace
+from pathlib import Path
 
 import pytest
 from pypdf import PdfReader
@@ -358,3 +359,25 @@ def test_the_cat_profile_is_named_in_words_not_by_its_preset_key() -> None:
     rows = dict(ctx.assumptions)
     assert rows["Cat profile"] == "Heavy adult cats (about 6 kg)"
     assert not any("heavy_adult" in v for _, v in ctx.assumptions)
+
+
+def test_an_audit_without_a_plan_does_not_load_scipy(tmp_path: Path) -> None:
+    # scipy takes about 0.2 s to import: a batch worker writing audits without a budget, and a
+    # report of the fall profiles alone, never need it (the planner loads it when it solves)
+    import subprocess
+    import sys
+
+    code = ("import os, sys\n"
+            "from petfall_audit.risk import assess\n"
+            "from petfall_audit._resources import sample_path\n"
+            "from petfall_audit.io.building_file import load_building\n"
+            "from petfall_audit.report import write_audit, write_leaflet\n"
+            "a = assess(load_building(sample_path('walkup')), samples=64)\n"
+            "d = sys.argv[1]\n"
+            "write_audit(a, None, os.path.join(d, 'a.pdf'))\n"
+            "write_leaflet(a, None, os.path.join(d, 'l.pdf'))\n"
+            "print(any(m == 'scipy' or m.startswith('scipy.') for m in sys.modules))\n")
+    out = subprocess.run([sys.executable, "-c", code, str(tmp_path)], capture_output=True,
+                         text=True, check=True)
+    assert out.stdout.strip() == "False"
+    assert (tmp_path / "a.pdf").stat().st_size > 0
