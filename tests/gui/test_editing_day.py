@@ -251,6 +251,36 @@ def test_editor_columns_fit_after_a_new_building_fills(qtbot) -> None:  # type: 
     assert clipped_cells(window.floors_panel.table) == []
 
 
+def test_a_table_behind_another_tab_fits_its_columns_when_it_is_shown(qtbot, monkeypatch) -> None:  # type: ignore[no-untyped-def]
+    # the editors behind other tabs follow every edit of the building: their columns are
+    # fitted when they are shown, not on each edit (a whole fit of a long table takes ms)
+    import petfall_audit.gui.widgets.tables as tables
+    from petfall_audit.demo import sample_building
+    from petfall_audit.editing.commands import SetFloor, SetOpeningFields
+
+    window = open_window(qtbot, sample_building("walkup"))
+    window.show_editor(window.openings_panel)
+    fitted: list[str] = []
+    for name in ("fit_columns", "widen_columns"):
+        real = getattr(tables, name)
+        monkeypatch.setattr(tables, name, lambda table, *a, real=real: (
+            fitted.append(table.objectName()), real(table, *a))[1])
+    floors = window.floors_panel.table
+    assert not floors.isVisible()
+    long_label = "Second floor, the former print works' drawing office"
+    window.history.push(SetFloor(2, {"label": long_label}))
+    first = window.document.building.openings[0]
+    window.history.push(SetOpeningFields([first.id], {"netting_mesh_mm": 30.0}))
+    qtbot.wait(50)
+    assert "floors_table" not in fitted
+    window.show_editor(window.floors_panel)
+    qtbot.waitUntil(lambda: "floors_table" in fitted, timeout=3000)
+    assert clipped_cells(floors) == []
+    model = floors.model()
+    assert long_label in [str(model.data(model.index(r, c))) for r in range(model.rowCount())
+                          for c in range(model.columnCount())]
+
+
 # --- item 4: a refused cell edit is explained at the cell and kept for correction ---------
 
 def _type_into_cell(qtbot, table: Any, row: int, col: int, text: str) -> None:  # type: ignore[no-untyped-def]

@@ -5,7 +5,7 @@ from __future__ import annotations
 
 from collections.abc import Callable, Iterable
 
-from PySide6.QtCore import QModelIndex, Qt, QTimer
+from PySide6.QtCore import QEvent, QModelIndex, QObject, Qt, QTimer
 from PySide6.QtGui import QAction, QGuiApplication, QKeySequence
 from PySide6.QtWidgets import QAbstractItemView, QLabel, QPushButton, QTableView, QToolBar
 
@@ -154,6 +154,8 @@ def keep_columns_fitted(table: QTableView) -> None:
     pending: dict[str, object] = {"whole": False, "rows": None}
 
     def fit_now() -> None:
+        if not table.isVisible():  # behind another tab: fitted when it is shown
+            return
         rows = pending["rows"]
         whole = bool(pending["whole"])
         pending["whole"], pending["rows"] = False, None
@@ -180,6 +182,7 @@ def keep_columns_fitted(table: QTableView) -> None:
         timer.start()
 
     timer.timeout.connect(fit_now)
+    table.installEventFilter(_FitWhenShown(table, fit_now))
     model = table.model()
     for signal in (model.modelReset, model.rowsInserted, model.layoutChanged):
         signal.connect(whole)
@@ -187,6 +190,20 @@ def keep_columns_fitted(table: QTableView) -> None:
     table.horizontalHeader().sectionResized.connect(
         lambda col, _old, _new: _note_user_resize(table, col))
     fit_columns(table)
+
+
+class _FitWhenShown(QObject):
+    """Runs the pending fit of a table when it is shown (a hidden table's changes wait: the
+    editors behind other tabs follow every edit of the building)."""
+
+    def __init__(self, table: QTableView, fit: Callable[[], None]) -> None:
+        super().__init__(table)
+        self._fit = fit
+
+    def eventFilter(self, watched: QObject, event: QEvent) -> bool:  # noqa: N802 (Qt's name)
+        if event.type() == QEvent.Type.Show:
+            self._fit()
+        return False
 
 
 def table_action(table: QTableView, text: str, shortcut: QKeySequence | QKeySequence.StandardKey
