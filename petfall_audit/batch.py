@@ -17,7 +17,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from petfall_audit.injury import BANDS
+from petfall_audit.band_names import BANDS
 
 if TYPE_CHECKING:
     from petfall_audit.errors import PetfallError

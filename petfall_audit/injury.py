@@ -29,6 +29,7 @@ import numpy as np
 import numpy.typing as npt
 
 from petfall_audit._normal import ndtr
+from petfall_audit.band_names import BANDS
 from petfall_audit.model import InjuryThresholds, SurfaceKind
 
 __all__ = [
@@ -55,8 +56,6 @@ __all__ = [
 
 G0 = 9.80665  # standard gravity, m/s² (ISO 80000-3)
 
-#: Injury bands, mildest first; the index into this tuple is the band number 0..3.
-BANDS: tuple[str, ...] = ("minor", "moderate", "serious", "life-threatening")
 
 #: What each band means for a cat, in plain words (for tables, the report and the leaflet).
 BAND_DESCRIPTIONS: Mapping[str, str] = MappingProxyType(
