@@ -56,7 +56,6 @@ __all__ = [
 
 G0 = 9.80665  # standard gravity, m/s² (ISO 80000-3)
 
-
 #: What each band means for a cat, in plain words (for tables, the report and the leaflet).
 BAND_DESCRIPTIONS: Mapping[str, str] = MappingProxyType(
     {

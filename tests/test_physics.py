@@ -253,8 +253,12 @@ CAT = dict(mass_kg=4.1, cda_tense_m2=0.114, cda_spread_m2=0.227, relax_fraction=
 
 
 def test_profile_without_transition_matches_closed_form() -> None:
-    # Source: the closed form (Taylor §2.4) against solve_ivp, switching at once.
+    # Switching at once, the profile is the closed form (Taylor §2.4) the engine uses; the
+    # outside reference is solve_ivp (ivp_fall above, and test_profile_matches_solve_ivp).
     p = fall_profile(60.0, **CAT, transition_s=0.0)
+    v_ref, t_ref = ivp_fall(60.0, 4.1, 0.114, 0.227, 0.75, RHO0)
+    assert p.impact_speed_mps == pytest.approx(v_ref, rel=1e-9)
+    assert p.fall_time_s == pytest.approx(t_ref, rel=1e-9)
     assert p.impact_speed_mps == pytest.approx(impact_speed(60.0, **CAT), rel=1e-6)
     assert p.fall_time_s == pytest.approx(fall_time(60.0, **CAT), rel=1e-6)
     hs = switch_drop(mass_kg=4.1, cda_tense_m2=0.114, relax_fraction=0.75, rho_kg_m3=RHO0)
