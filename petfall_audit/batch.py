@@ -17,6 +17,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import TYPE_CHECKING
 
+from petfall_audit._collector import set_up_worker
 from petfall_audit.band_names import BANDS
 
 if TYPE_CHECKING:
@@ -245,7 +246,8 @@ def _run_parallel(jobs: Sequence[BatchJob], workers: int, outcomes: dict[int, Bu
     import multiprocessing
 
     context = multiprocessing.get_context("spawn")
-    with ProcessPoolExecutor(max_workers=workers, mp_context=context) as pool:
+    with ProcessPoolExecutor(max_workers=workers, mp_context=context,
+                             initializer=set_up_worker) as pool:
         futures: dict[Future[BuildingOutcome], BatchJob] = {
             pool.submit(run_one, job): job for job in jobs
         }

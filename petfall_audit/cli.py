@@ -8,7 +8,6 @@ Problems go to stderr one a line; a traceback is never shown for a user's mistak
 from __future__ import annotations
 
 import argparse
-import gc
 import math
 import os
 import sys
@@ -18,6 +17,7 @@ from pathlib import Path
 from typing import IO, TYPE_CHECKING, NoReturn, TextIO
 
 from petfall_audit import __version__
+from petfall_audit._collector import few_collections, freeze_survivors
 from petfall_audit.errors import (
     BuildingFileError,
     CatalogueError,
@@ -1177,7 +1177,7 @@ def main(argv: Sequence[str] | None = None) -> int:
         return _cmd_open(argparse.Namespace(file=None))
     if args.handler is _cmd_open:
         return _run(args)
-    with _library_chatter_held() as held, _few_collections():
+    with _library_chatter_held() as held, few_collections():
         try:
             code = _run(args)
         except BaseException:  # an unexpected error: its traceback follows on stderr
@@ -1188,31 +1188,12 @@ def main(argv: Sequence[str] | None = None) -> int:
         return code
 
 
-#: Cyclic garbage collector thresholds while a command runs (Python's default is a young
-#: collection every 700 new objects, which the libraries' start-up meets a thousand times over).
-_COMMAND_GC_THRESHOLDS = (100_000, 20, 100)
-
-
-@contextmanager
-def _few_collections() -> Iterator[None]:
-    """While a command runs, the cyclic garbage collector runs rarely: a command makes few
-    reference cycles, and at the default thresholds the collector's passes over the start-up
-    objects of numpy and pydantic take tens of milliseconds of a short command. The collector
-    still runs (memory stays bounded in a long ``batch``); the thresholds are restored after."""
-    before = gc.get_threshold()
-    gc.set_threshold(*_COMMAND_GC_THRESHOLDS)
-    try:
-        yield
-    finally:
-        gc.set_threshold(*before)
-
-
 def run() -> NoReturn:
     """The ``petfall-audit`` program: :func:`main` on ``sys.argv``, then exit with its code.
     The objects left at exit are frozen out of the collector first: the interpreter's last
     collection would only walk them before the process ends."""
     code = main()
-    gc.freeze()
+    freeze_survivors()
     raise SystemExit(code)
 
 

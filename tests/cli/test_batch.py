@@ -5,6 +5,7 @@ from __future__ import annotations
 import csv
 import json
 from pathlib import Path
+from typing import Any
 
 import pytest
 
@@ -175,4 +176,29 @@ def test_the_batch_parent_starts_its_workers_before_it_imports_numpy(tmp_path: P
         capture_output=True, text=True, timeout=300)
     assert out.returncode == 0, out.stderr
     assert "numpy before workers: False" in out.stderr
+    assert len(list((tmp_path / "out").glob("*.json"))) == 2
+
+
+def test_batch_workers_run_with_the_commands_collector_settings(
+        monkeypatch: pytest.MonkeyPatch, tmp_path: Path) -> None:
+    # a worker is a fresh interpreter: without these its first building paid tens of
+    # milliseconds of young collections over the libraries' start-up, and its exit one more
+    # full collection, which the parent process avoids
+    from concurrent.futures import ProcessPoolExecutor
+
+    import petfall_audit.batch as batch
+    from petfall_audit._collector import set_up_worker
+
+    seen: list[object] = []
+
+    class Spy(ProcessPoolExecutor):
+        def __init__(self, *args: Any, **kwargs: Any) -> None:
+            seen.append(kwargs.get("initializer"))
+            super().__init__(*args, **kwargs)
+
+    monkeypatch.setattr(batch, "ProcessPoolExecutor", Spy)
+    files = [str(sample_path("walkup")), str(sample_path("block"))]
+    assert main(["batch", *files, "--out-dir", str(tmp_path / "out"), "--format", "json",
+                 "--samples", "64", "--jobs", "2"]) == 0
+    assert seen == [set_up_worker]
     assert len(list((tmp_path / "out").glob("*.json"))) == 2

@@ -12,6 +12,7 @@ from pathlib import Path
 import pytest
 
 from petfall_audit import cli
+from petfall_audit._collector import COMMAND_GC_THRESHOLDS
 
 ROOT = Path(__file__).resolve().parents[2]
 WALKUP = ROOT / "sample_buildings" / "walkup.json"
@@ -45,8 +46,24 @@ def test_the_collector_runs_rarely_during_a_command_and_as_before_after(
     monkeypatch.setattr(cli, "_cmd_check", spy)
     before = gc.get_threshold()
     assert cli.main(["check", str(WALKUP)]) == 0
-    assert seen == [(cli._COMMAND_GC_THRESHOLDS, True)]  # rarely, but still on
+    assert seen == [(COMMAND_GC_THRESHOLDS, True)]  # rarely, but still on
     assert gc.get_threshold() == before
     seen.clear()
     assert cli.main(["check", str(tmp_path / "missing.json")]) == 2  # a failing command too
     assert seen and gc.get_threshold() == before
+
+
+def test_a_worker_process_collects_rarely_and_freezes_its_survivors_at_exit() -> None:
+    # atexit runs its handlers last registered first: the check below runs after the freeze
+    code = (
+        "import atexit, gc\n"
+        "atexit.register(lambda: print('frozen at exit:', gc.get_freeze_count() > 0))\n"
+        "from petfall_audit._collector import set_up_worker\n"
+        "set_up_worker()\n"
+        "print('thresholds:', gc.get_threshold())\n"
+    )
+    done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
+                          cwd=ROOT, timeout=120)
+    assert done.returncode == 0, done.stderr
+    assert f"thresholds: {COMMAND_GC_THRESHOLDS}" in done.stdout
+    assert "frozen at exit: True" in done.stdout
