@@ -444,8 +444,14 @@ class MainWindow(QMainWindow):
         h = self.history
         self.actions_.undo.setEnabled(h.can_undo)
         self.actions_.redo.setEnabled(h.can_redo)
-        self.actions_.undo.setText(f"&Undo {h.undo_label}" if h.can_undo else "&Undo")
-        self.actions_.redo.setText(f"&Redo {h.redo_label}" if h.can_redo else "&Redo")
+        for action, verb, can, label in ((self.actions_.undo, "Undo", h.can_undo, h.undo_label),
+                                         (self.actions_.redo, "Redo", h.can_redo, h.redo_label)):
+            # the menu names the edit; the toolbar button keeps its short name (a button that
+            # grew with every edit moved the buttons beside it and relaid the whole window)
+            # and names the edit in its tooltip
+            action.setText(f"&{verb} {label}" if can else f"&{verb}")
+            action.setIconText(verb)
+            action.setToolTip(f"{verb} {label}" if can else f"Nothing to {verb.lower()}")
 
     def undo(self) -> None:
         self.history.undo()
