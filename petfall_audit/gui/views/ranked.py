@@ -38,6 +38,7 @@ from PySide6.QtWidgets import (
 from petfall_audit.gui.result_cells import result_style, result_text, two_line_title
 from petfall_audit.gui.views.common import ViewContext, band_qstyle
 from petfall_audit.gui.widgets.field_form import ERROR_STYLE, set_style
+from petfall_audit.gui.widgets.steady_line import SteadyLine
 from petfall_audit.gui.widgets.tables import keep_columns_fitted
 from petfall_audit.injury import BAND_DESCRIPTIONS, BANDS
 from petfall_audit.present import SPEED_TERMS, enum_label, fmt_one_in, fmt_percent, fmt_risk
@@ -465,7 +466,7 @@ class RankedView(QWidget):
         self.state_note.setWordWrap(True)
         layout = QVBoxLayout(self)
         layout.setContentsMargins(2, 2, 2, 2)
-        layout.addWidget(self.state_note)
+        layout.addWidget(SteadyLine(self.state_note))  # its changes do not relay out the page
         layout.addLayout(bar)
         layout.addWidget(splitter, 1)
         self.setFocusProxy(self.table)

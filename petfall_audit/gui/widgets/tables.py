@@ -168,6 +168,13 @@ def keep_columns_fitted(table: QTableView) -> None:
         pending["whole"] = True
         timer.start()
 
+    def reset() -> None:
+        # a reset comes alone (new results, another building): fitted at once, before the
+        # table repaints, which would otherwise paint it twice, before and after the fit
+        pending["whole"] = True
+        timer.stop()
+        fit_now()  # a hidden table keeps it pending until shown
+
     def changed(top: QModelIndex, bottom: QModelIndex, roles: list[int] | None = None) -> None:
         if roles and not any(int(r) in _TEXT_ROLES for r in roles):
             return  # colours, fonts, tooltips: no text changed
@@ -184,7 +191,8 @@ def keep_columns_fitted(table: QTableView) -> None:
     timer.timeout.connect(fit_now)
     table.installEventFilter(_FitWhenShown(table, fit_now))
     model = table.model()
-    for signal in (model.modelReset, model.rowsInserted, model.layoutChanged):
+    model.modelReset.connect(reset)
+    for signal in (model.rowsInserted, model.layoutChanged):
         signal.connect(whole)
     model.dataChanged.connect(changed)
     table.horizontalHeader().sectionResized.connect(
