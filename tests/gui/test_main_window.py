@@ -263,15 +263,16 @@ def test_recovery_file_after_edits_is_offered_on_the_next_start(qtbot, monkeypat
     panel.form.commit_text("width_m", "1.3 m")
     qtbot.waitUntil(lambda: bool(autosave.find_recoveries(include_running=True)), timeout=5000)
     edited = window.document.building
-    # the next start after a crash: the app that wrote the copy is gone
-    monkeypatch.setattr(autosave, "_owner_running", lambda owner, pid: False)
-    second = make_window(qtbot)
-    assert second.session.offer_recovery()
-    assert second.prompts.asked == ["recover"]
-    assert second.document.building == edited
-    assert second.document.dirty and second.isWindowModified()
-    assert autosave.find_recoveries(include_running=True)  # its own copy, not the old one
-    monkeypatch.undo()
+    # the next start after a crash: the app that wrote the copy is gone (only this patch is
+    # undone below: the test's own settings folder stays in place)
+    with monkeypatch.context() as crashed:
+        crashed.setattr(autosave, "_owner_running", lambda owner, pid: False)
+        second = make_window(qtbot)
+        assert second.session.offer_recovery()
+        assert second.prompts.asked == ["recover"]
+        assert second.document.building == edited
+        assert second.document.dirty and second.isWindowModified()
+        assert autosave.find_recoveries(include_running=True)  # its own copy, not the old one
     assert autosave.find_recoveries() == []
     # saving or reverting to the saved state removes the recovery copy
     window.undo()
