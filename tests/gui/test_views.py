@@ -120,6 +120,24 @@ def test_clicking_a_facade_shape_selects_it_everywhere(app_window, qtbot) -> Non
     assert oid in facade.info.text()
 
 
+def test_with_nothing_selected_a_tall_facade_opens_at_its_worst_opening(app_window, qtbot) -> None:  # type: ignore[no-untyped-def]
+    # the tower's facade is taller than the view and its lowest storeys have no openings:
+    # opening at the ground showed bare floors
+    window, views = app_window(sample_building("tower"))
+    assert views.context.selection.current is None
+    window.view_tabs.setCurrentWidget(views.facade)
+    facade = views.facade
+    qtbot.wait(20)
+    a = views.context.assessment
+    worst = min(facade.items, key=lambda oid: a.result(oid).risk_rank)
+    canvas = facade.canvas
+    seen = canvas.mapToScene(canvas.viewport().rect()).boundingRect()
+    assert seen.height() < facade.scene.sceneRect().height()  # it does not all fit
+    assert seen.contains(facade.items[worst].sceneBoundingRect().center())
+    ground = facade.elevation.ground_m
+    assert not seen.contains(seen.center().x(), -ground)  # not the bare ground floors
+
+
 def test_another_facade_can_be_shown_while_an_opening_is_selected(app_window) -> None:  # type: ignore[no-untyped-def]
     window, views = app_window()
     window.view_tabs.setCurrentWidget(views.facade)

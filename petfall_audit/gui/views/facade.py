@@ -512,11 +512,28 @@ class FacadeView(QWidget):
         scale = min(fit_w, max(fit_h, _MIN_STOREY_PX / storey_m), 60.0)
         self.canvas.setTransform(QTransform.fromScale(scale, scale))
         self._fit_marks()
+        # the selected opening, else the worst of this facade (a tall facade does not fit:
+        # its ground floors are often bare), else the ground
         current = self._ctx.selection.current
-        if current in self.items:
-            self.canvas.centerOn(self.items[current])
+        shown = current if current in self.items else self._worst_shown()
+        if shown is not None:
+            self.canvas.centerOn(self.items[shown])
         else:
             self.canvas.centerOn(0.5 * e.length_m, -e.ground_m)
+
+    def _worst_shown(self) -> str | None:
+        """The opening of the shown facade first in the risk order (``None`` if none)."""
+        a = self._ctx.assessment
+        if a is None or not self.items:
+            return None
+
+        def risk_rank(opening_id: str) -> int:
+            try:
+                return int(a.result(opening_id).risk_rank)
+            except KeyError:
+                return 10**9
+
+        return min(self.items, key=risk_rank)
 
     def _on_fit(self) -> None:
         self._auto_fit = True
@@ -625,7 +642,9 @@ class FacadeView(QWidget):
         for b, name in enumerate(BANDS):
             s = band_qstyle(b, self._ctx.palette)
             cells.append(f"<span style='background:{s.fill}; color:{s.text};'>&nbsp;{s.mark}"
-                         f"&nbsp;</span>&nbsp;{name} ({b + 1})")
-        cells.append("▦ net, pet screen or limiter that holds these cats")
-        cells.append("━ balcony slab &nbsp; ┄ rail")
+                         f"&nbsp;</span>&nbsp;{name.replace(' ', '&nbsp;')}&nbsp;({b + 1})")
+        cells.append("▦&nbsp;net, pet screen or limiter that holds these cats")
+        cells.append("━&nbsp;balcony&nbsp;slab")
+        cells.append("┄&nbsp;rail")
+        # a line breaks between the keys, never inside one
         self.legend.setText("&nbsp;&nbsp; ".join(cells))
