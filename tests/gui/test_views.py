@@ -530,6 +530,44 @@ def test_the_list_shows_each_result_as_it_is_after_edits_that_move_its_ranks(
     assert any(" ft" in text for text in shown[0])
 
 
+def test_new_results_of_the_same_openings_update_the_rows_in_place_and_keep_the_filter(
+        app_window, qtbot) -> None:  # type: ignore[no-untyped-def]
+    """After an edit the list is told which rows changed, not reset (a reset repainted and
+    refitted every row, also when no changed row was in view); the rows in place may hold
+    other openings then, so an active filter is applied again."""
+    from petfall_audit.editing.commands import SetOpeningFields
+
+    window, views = app_window()
+    ranked = views.ranked
+    model = ranked.model
+    resets: list[int] = []
+    changed: list[tuple[int, int]] = []
+    model.modelReset.connect(lambda: resets.append(1))
+    model.dataChanged.connect(lambda top, bottom, roles: changed.append((top.row(),
+                                                                         bottom.row())))
+    a = views.context.assessment
+    worst = a.ranked("risk")[0]
+    band = worst.expected_band
+    ranked.band_box.setCurrentIndex(ranked.band_box.findData(band))
+    assert ranked.proxy.rowCount() < model.rowCount()  # the filter leaves some out
+    with qtbot.waitSignal(window.results_updated, timeout=20000):
+        window.history.push(SetOpeningFields([worst.id], {"netting_mesh_mm": 30.0}))
+    after = views.context.assessment
+    assert resets == [] and changed  # in place
+    first, last = changed[0]
+    moved = [i for i, r in enumerate(after.ranked("risk")) if r.risk_rank != a.result(
+        r.id).risk_rank]
+    assert first <= min(moved) and last >= max(moved)
+    # every shown row is an opening of that band, and every opening of that band is shown
+    shown = ranked.visible_ids()
+    assert shown == [r.id for r in after.ranked("risk") if r.expected_band == band]
+    assert _shown_texts(model) == _fresh_texts(model, views)
+    # a building with other openings is a new list
+    with qtbot.waitSignal(window.results_updated, timeout=20000):
+        window.actions_.add_opening.trigger()
+    assert resets == [1]
+
+
 def test_the_progress_bar_shows_only_when_results_take_a_while(app_window, qtbot) -> None:  # type: ignore[no-untyped-def]
     from petfall_audit.gui.main_window import PROGRESS_DELAY_MS
 

@@ -92,20 +92,39 @@ class RankedModel(QAbstractTableModel):
         self._stale_timer.setInterval(STALE_LOOK_DELAY_MS)
         self._stale_timer.timeout.connect(lambda: self._show_stale(True))
 
-    def set_assessment(self, assessment: Any) -> None:
+    def set_assessment(self, assessment: Any) -> bool:
+        """Show ``assessment``'s results. Returns True if the rows stayed in place and only
+        the rows whose result changed were told (``dataChanged``; the rows' contents may have
+        moved, so a filter must be applied again), False after a reset.
+
+        After an edit the new results are mostly the old ones (the incremental recompute keeps
+        the results it did not change): a reset would make the table repaint and refit every
+        row, also when none of the changed rows is in view."""
         self._stale_timer.stop()
-        self.beginResetModel()
         old_rows = self._rows
-        self._rows = self._ordered(list(assessment.openings) if assessment is not None else [])
+        rows = self._ordered(list(assessment.openings) if assessment is not None else [])
         floor_labels = ({f.level: f.label for f in assessment.building.floors}
                         if assessment is not None else {})
         facade_labels = ({f.id: f.label or f.id for f in assessment.building.facades}
                          if assessment is not None else {})
         same_labels = (floor_labels, facade_labels) == (self._floor_labels, self._facade_labels)
+        if same_labels and old_rows and len(rows) == len(old_rows):
+            self._rows = rows
+            self._texts = self._kept_texts(old_rows)
+            changed = [i for i, (a, b) in enumerate(zip(old_rows, rows, strict=True))
+                       if a is not b]
+            if changed:
+                self.dataChanged.emit(self.index(changed[0], 0),
+                                      self.index(changed[-1], len(self.COLUMNS) - 1), [])
+            self._show_stale(False)
+            return True
+        self.beginResetModel()
+        self._rows = rows
         self._floor_labels, self._facade_labels = floor_labels, facade_labels
         self._texts = self._kept_texts(old_rows) if same_labels else {}
         self.stale = False
         self.endResetModel()
+        return False
 
     #: The columns whose text is a rank (the only fields that differ between a result reused
     #: by an incremental recompute and the one before it).
@@ -315,9 +334,19 @@ class RankedFilter(QSortFilterProxyModel):
         return model.display_texts(column, [self.mapToSource(self.index(r, 0)).row()
                                             for r in rows])
 
+    @property
+    def filtering(self) -> bool:
+        """True if some rows may be left out."""
+        return not (self.floor is None and self.facade is None and self.kind is None
+                    and self.band is None and not self.text)
+
     def set_filters(self, **values: Any) -> None:
         if all(getattr(self, key) == value for key, value in values.items()):
             return  # the same filters: nothing to redo
+        self.refilter(**values)
+
+    def refilter(self, **values: Any) -> None:
+        """Set the filters in ``values`` and filter every row again."""
         if hasattr(self, "beginFilterChange"):  # Qt 6.10+; invalidateFilter is deprecated
             self.beginFilterChange()
             for key, value in values.items():
@@ -329,8 +358,7 @@ class RankedFilter(QSortFilterProxyModel):
             self.invalidateFilter()
 
     def filterAcceptsRow(self, source_row: int, source_parent: Index) -> bool:
-        if (self.floor is None and self.facade is None and self.kind is None
-                and self.band is None and not self.text):
+        if not self.filtering:
             return True  # no filter (the usual case: every row, after every result)
         model = self.sourceModel()
         assert isinstance(model, RankedModel)
@@ -518,7 +546,9 @@ class RankedView(QWidget):
             "add the balconies and windows on the Openings tab, or import a schedule "
             "(File ▸ Import). Help ▸ How to audit a building has the five steps.")
         self._fill_filters(assessment)
-        self.model.set_assessment(assessment)  # the columns fit themselves (tables.py)
+        kept_rows = self.model.set_assessment(assessment)  # columns fit themselves (tables.py)
+        if kept_rows and self.proxy.filtering:
+            self.proxy.refilter()  # the rows in place may hold other openings now
         self._on_filter_changed()
         self._on_selection(self._ctx.selection.ids)
 
