@@ -11,7 +11,9 @@ from __future__ import annotations
 import dataclasses
 import difflib
 import functools
+import itertools
 import math
+import operator
 from collections.abc import Iterable, Sequence
 from typing import Any
 
@@ -331,16 +333,62 @@ def _check_surfaces(
 _OPENING_PROBLEMS: dict[int, tuple[Any, Any, tuple[Any, ...], list[Problem]]] = {}
 
 
+@dataclasses.dataclass(frozen=True, slots=True)
+class _LastOpenings:
+    """The openings of the last call with what their checks depended on, and the problems
+    of each, in order: when only some openings are other objects than then (an edit), only
+    those are looked at."""
+
+    openings: tuple[Opening, ...]
+    facades: tuple[Facade, ...]
+    floors: tuple[Floor, ...]
+    incomplete: frozenset[str]
+    index: list[int]
+    found: list[list[Problem]]
+
+
+_LAST_OPENINGS: _LastOpenings | None = None
+
+
 def _check_openings(
     problems: list[Problem], b: Building, places: Places, incomplete: frozenset[str]
 ) -> None:
+    global _OPENING_PROBLEMS, _LAST_OPENINGS
+    _duplicates(problems, places, "openings", [o.id for o in b.openings], "opening id")
+    index = places.index["openings"]
+    last = _LAST_OPENINGS
+    if (last is not None and last.facades is b.facades and last.floors is b.floors
+            and last.incomplete == incomplete and len(last.openings) == len(b.openings)
+            and last.index == index):
+        found = list(last.found)
+        changed = list(itertools.compress(range(len(found)),
+                                          map(operator.is_not, last.openings, b.openings)))
+        if changed:
+            facades = {f.id: f for f in b.facades}
+            levels = {f.level for f in b.floors}
+            for i in changed:
+                found[i] = []
+                _check_opening(found[i], b.openings[i],
+                               functools.partial(places.at, "openings", i),
+                               facades.get(b.openings[i].facade), levels, incomplete, facades)
+    else:
+        found = _check_all_openings(b, places, incomplete)
+    problems.extend(itertools.chain.from_iterable(found))
+    _LAST_OPENINGS = _LastOpenings(b.openings, b.facades, b.floors, incomplete, list(index),
+                                   found)
+
+
+def _check_all_openings(b: Building, places: Places,
+                        incomplete: frozenset[str]) -> list[list[Problem]]:
+    """The problems of each opening of ``b``, in order (reusing those of openings that are
+    the same objects, in the same context, as in an earlier call)."""
     global _OPENING_PROBLEMS
     facades = {f.id: f for f in b.facades}
     levels = {f.level for f in b.floors}
-    _duplicates(problems, places, "openings", [o.id for o in b.openings], "opening id")
     old = _OPENING_PROBLEMS
     new: dict[int, tuple[Any, Any, tuple[Any, ...], list[Problem]]] = {}
     floors_known, facades_known = "floors" not in incomplete, "facades" not in incomplete
+    out: list[list[Problem]] = []
     for i, o in enumerate(b.openings):
         facade = facades.get(o.facade)
         context = (places.index["openings"][i], o.floor in levels, floors_known, facades_known,
@@ -353,8 +401,9 @@ def _check_openings(
             _check_opening(found, o, functools.partial(places.at, "openings", i), facade,
                            levels, incomplete, facades)
         new[id(o)] = (o, facade, context, found)
-        problems.extend(found)
+        out.append(found)
     _OPENING_PROBLEMS = new
+    return out
 
 
 def _check_opening(
