@@ -54,6 +54,9 @@ def app_window(qtbot):  # type: ignore[no-untyped-def]
         qtbot.waitUntil(lambda: views.context.assessment is not None
                         and not window.results_stale, timeout=20000)
         qtbot.waitUntil(lambda: views.plan.plan is not None, timeout=20000)
+        # and the budget curve after it: a solve running on across the test's start would
+        # print past pytest's capture (pytest swaps descriptors 1 and 2 between phases)
+        assert wait_for_tasks(20000)
         made.append(window)
         return window, views
 
