@@ -68,7 +68,8 @@ STEPS = st.lists(st.tuples(
 
 @settings(max_examples=60, deadline=None, derandomize=True)
 @given(STEPS)
-def test_problems_after_any_edits_equal_those_from_scratch(steps: list[tuple[str, int, int]]) -> None:
+def test_problems_after_any_edits_equal_those_from_scratch(
+        steps: list[tuple[str, int, int]]) -> None:
     b = BASE
     validate_building(b)
     for step in steps:
