@@ -522,18 +522,12 @@ class FacadeView(QWidget):
             self.canvas.centerOn(0.5 * e.length_m, -e.ground_m)
 
     def _worst_shown(self) -> str | None:
-        """The opening of the shown facade first in the risk order (``None`` if none)."""
+        """The opening of the shown facade that comes first in the list's default order
+        (``None`` if none)."""
         a = self._ctx.assessment
         if a is None or not self.items:
             return None
-
-        def risk_rank(opening_id: str) -> int:
-            try:
-                return int(a.result(opening_id).risk_rank)
-            except KeyError:
-                return 10**9
-
-        return min(self.items, key=risk_rank)
+        return next((r.id for r in a.ranked() if r.id in self.items), None)
 
     def _on_fit(self) -> None:
         self._auto_fit = True
