@@ -19,8 +19,9 @@ Tilt-and-turn windows also carry an entrapment hazard, reported apart from falls
 
 from __future__ import annotations
 
-from collections.abc import Mapping, Sequence
-from dataclasses import dataclass
+import operator
+from collections.abc import Hashable, Mapping, Sequence
+from dataclasses import dataclass, fields
 from types import MappingProxyType
 
 import numpy as np
@@ -60,6 +61,7 @@ __all__ = [
     "assess_likelihood",
     "OpeningLikelihood",
     "opening_likelihood",
+    "opening_likelihoods",
     "likelihood_of_rows",
 ]
 
@@ -239,7 +241,7 @@ def assess_likelihood(
 
     ``profile`` decides which gaps the cats pass (default: the adult preset)."""
     prof = CAT_PRESETS["adult"] if profile is None else profile
-    return likelihood_of_rows([opening_likelihood(o, prof) for o in openings])
+    return likelihood_of_rows(opening_likelihoods(openings, prof))
 
 
 #: One opening's likelihood: yearly fall rate, factors and hazards (see :func:`opening_likelihood`).
@@ -250,6 +252,37 @@ def opening_likelihood(o: Opening, profile: CatProfile) -> OpeningLikelihood:
     """Yearly fall rate (1/year), factors and hazards of one opening: what
     :func:`assess_likelihood` combines (it depends on this opening and the profile only)."""
     return _one(o, profile)
+
+
+#: Fields of an opening that say where it is or describe it for people: the likelihood reads
+#: none of them (a test checks it), so openings that differ only there share one likelihood.
+#: Any other field, a new one too, is part of :func:`likelihood_key`.
+PLACEMENT_FIELDS = frozenset({"id", "floor", "facade", "x_m", "width_m", "projection_m",
+                              "perch_height_m", "notes", "photos"})
+_key_of = operator.attrgetter(*(f.name for f in fields(Opening)
+                                if f.name not in PLACEMENT_FIELDS))
+
+
+def likelihood_key(o: Opening) -> Hashable:
+    """The values of ``o`` that its likelihood depends on (every field but
+    :data:`PLACEMENT_FIELDS`): openings with equal keys have equal likelihoods."""
+    key: Hashable = _key_of(o)
+    return key
+
+
+def opening_likelihoods(openings: Sequence[Opening],
+                        profile: CatProfile) -> list[OpeningLikelihood]:
+    """:func:`opening_likelihood` of each opening, in order, worked out once per distinct
+    :func:`likelihood_key` (the openings of a building repeat: the same window on every floor)."""
+    seen: dict[Hashable, OpeningLikelihood] = {}
+    out: list[OpeningLikelihood] = []
+    for o in openings:
+        key = _key_of(o)
+        row = seen.get(key)
+        if row is None:
+            row = seen[key] = _one(o, profile)
+        out.append(row)
+    return out
 
 
 def likelihood_of_rows(rows: Sequence[OpeningLikelihood]) -> LikelihoodResult:

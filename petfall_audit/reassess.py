@@ -27,7 +27,12 @@ import numpy.typing as npt
 from petfall_audit._interception import FallGeometry, fall_geometry, simulate_chunks
 from petfall_audit._physics_results import FALL_ARRAYS
 from petfall_audit.injury import DEFAULT_STOPS, InjuryThresholds, StoppingDistances
-from petfall_audit.likelihood import OpeningLikelihood, likelihood_of_rows, opening_likelihood
+from petfall_audit.likelihood import (
+    OpeningLikelihood,
+    likelihood_key,
+    likelihood_of_rows,
+    opening_likelihood,
+)
 from petfall_audit.model import Building, CatProfile, Opening, SurfaceKind
 from petfall_audit.physics import FallResults, air_density
 from petfall_audit.risk import (
@@ -157,13 +162,17 @@ class Reassessor:
         profile = building.cat_profile
         old = self._likelihood
         new: dict[int, tuple[Opening, CatProfile, OpeningLikelihood]] = {}
+        by_key: dict[Hashable, OpeningLikelihood] = {}  # the openings of a building repeat
         rows = []
         for o in building.openings:
             hit = old.get(id(o))
             if hit is not None and hit[0] is o and (hit[1] is profile or hit[1] == profile):
                 row = hit[2]
             else:
-                row = opening_likelihood(o, profile)
+                key = likelihood_key(o)
+                known = by_key.get(key)
+                row = known if known is not None else by_key.setdefault(
+                    key, opening_likelihood(o, profile))
             new[id(o)] = (o, profile, row)  # the opening is held, so its id stays its own
             rows.append(row)
         self._likelihood = new

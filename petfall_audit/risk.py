@@ -439,57 +439,61 @@ def _assessment(
                                   kind="stable"), kind="stable").astype(float)
     risk_rank = _rank([-risk, -exp_band.astype(float), -mean_sev, by_id])
 
-    drop_pct, speed_pct = summary.drop_pct, summary.speed_pct
-    water_share = summary.water_share
-    unrighted_share = summary.unrighted_share
-    life_share = probs[:, 3]
+    # plain Python numbers, converted once (indexing numpy arrays one value at a time is slow)
+    drop_pct, speed_pct = summary.drop_pct.tolist(), summary.speed_pct.tolist()
+    water_share = summary.water_share.tolist()
+    unrighted_share = summary.unrighted_share.tolist()
+    prob_rows = probs.tolist()
+    bands_l, sev_l, risk_l = exp_band.tolist(), mean_sev.tolist(), risk.tolist()
+    p_year, one_in = lik.annual_probability.tolist(), lik.one_in_n.tolist()
+    band_rank_l, risk_rank_l = band_rank.tolist(), risk_rank.tolist()
 
     results: list[OpeningResult] = []
     for i, o in enumerate(building.openings):
         old = previous(i) if previous is not None else None
         if old is not None:
-            rank, rrank = int(band_rank[i]), int(risk_rank[i])
+            rank, rrank = band_rank_l[i], risk_rank_l[i]
             results.append(old if (old.rank, old.risk_rank) == (rank, rrank)
                            else replace(old, rank=rank, risk_rank=rrank))
             continue
         landing = summary.landing[i]
         factors = list(lik.factors[i])
         hazards = list(lik.hazards[i])
+        drop, speed, band, p = drop_pct[i], speed_pct[i], bands_l[i], prob_rows[i]
         if landing:
             id0, share0 = next(iter(landing.items()))
             kind0 = summary.landing_kind[i]
             assert kind0 is not None
-            factors.append(Reason.of("drop_landing", drop_m=float(drop_pct[i, 1]),
-                                     share=float(share0), surface=SurfaceKind(kind0).value,
-                                     landing_id=str(id0)))
-            water = float(water_share[i])
+            factors.append(Reason.of("drop_landing", drop_m=drop[1], share=float(share0),
+                                     surface=SurfaceKind(kind0).value, landing_id=str(id0)))
+            water = water_share[i]
             if water > 0:
                 hazards.append(Reason.of("water_below", share=water))
-        factors.append(Reason.of("impact_speed", speed_mps=float(speed_pct[i, 1])))
-        if drop_pct[i, 1] > CALIBRATED_DROP_MAX_M:
+        factors.append(Reason.of("impact_speed", speed_mps=speed[1]))
+        if drop[1] > CALIBRATED_DROP_MAX_M:
             factors.append(Reason.of("beyond_calibration", limit_m=float(CALIBRATED_DROP_MAX_M)))
-        factors.append(Reason.of("median_band", band=int(exp_band[i])))
-        if exp_band[i] < 3 and life_share[i] >= 0.05:
-            factors.append(Reason.of("life_share", share=float(life_share[i])))
+        factors.append(Reason.of("median_band", band=band))
+        if band < 3 and p[3] >= 0.05:
+            factors.append(Reason.of("life_share", share=p[3]))
         if unrighted_share[i] >= _MOSTLY_UNRIGHTED:
-            factors.append(Reason.of("short_drop", share=float(unrighted_share[i])))
+            factors.append(Reason.of("short_drop", share=unrighted_share[i]))
         results.append(
             OpeningResult(
                 id=o.id,
                 floor=o.floor,
                 facade=o.facade,
                 kind=o.kind,
-                rank=int(band_rank[i]),
-                risk_rank=int(risk_rank[i]),
-                risk=float(risk[i]),
-                expected_band=int(exp_band[i]),
-                expected_severity_g=float(mean_sev[i]),
-                annual_probability=float(lik.annual_probability[i]),
-                one_in_n=float(lik.one_in_n[i]),
-                drop_m=Percentiles(*(float(x) for x in drop_pct[i])),
-                impact_speed_mps=Percentiles(*(float(x) for x in speed_pct[i])),
+                rank=band_rank_l[i],
+                risk_rank=risk_rank_l[i],
+                risk=risk_l[i],
+                expected_band=band,
+                expected_severity_g=sev_l[i],
+                annual_probability=p_year[i],
+                one_in_n=one_in[i],
+                drop_m=Percentiles(*drop),
+                impact_speed_mps=Percentiles(*speed),
                 landing=landing,
-                bands={name: float(probs[i, b]) for b, name in enumerate(BANDS)},
+                bands=dict(zip(BANDS, p, strict=True)),
                 factors=tuple(factors),
                 hazards=tuple(hazards),
             )

@@ -164,3 +164,79 @@ def test_factors_are_codes_that_read_as_plain_words() -> None:
     assert all(f.source for f in FACTORS.values())
     np.testing.assert_allclose(res.one_in_n, 1 / res.annual_probability)
     assert np.all((res.annual_probability > 0) & (res.annual_probability < 1))
+
+
+# --- openings that differ only in where they are share one likelihood ------------------------
+
+from hypothesis import given, settings  # noqa: E402
+from hypothesis import strategies as st  # noqa: E402
+
+from petfall_audit.likelihood import (  # noqa: E402
+    PLACEMENT_FIELDS,
+    likelihood_key,
+    opening_likelihood,
+    opening_likelihoods,
+)
+
+_gaps = st.one_of(st.none(), st.floats(1.0, 250.0))
+
+
+@st.composite
+def _openings(draw: st.DrawFn) -> Opening:
+    return Opening(
+        id=draw(st.sampled_from(["A", "B", "C"])), floor=draw(st.integers(0, 30)),
+        facade=draw(st.sampled_from(["north", "south"])),
+        kind=draw(st.sampled_from(list(OpeningKind))), x_m=draw(st.floats(0.0, 40.0)),
+        width_m=draw(st.floats(0.3, 6.0)), projection_m=draw(st.floats(0.0, 3.0)),
+        perch_height_m=draw(st.floats(0.0, 2.0)), largest_gap_mm=draw(_gaps),
+        bottom_gap_mm=draw(_gaps), limiter_gap_mm=draw(_gaps), netting_mesh_mm=draw(_gaps),
+        climbable_infill=draw(st.booleans()), flat_rail_top=draw(st.booleans()),
+        climbing_aids=draw(st.booleans()), screen=draw(st.sampled_from(list(Screen))),
+        open_frequency=draw(st.sampled_from(list(OpenFrequency))),
+        cats_present=draw(st.sampled_from(list(CatsPresent))),
+        escape_window=draw(st.booleans()), notes=draw(st.sampled_from(["", "by the stairs"])),
+        photos=draw(st.sampled_from([(), ("photos/a.jpg",)])),
+    )
+
+
+@settings(max_examples=200, deadline=None)
+@given(_openings(), _openings(), st.sampled_from([ADULT, KITTEN]))
+def test_placement_fields_never_change_the_likelihood(a: Opening, b: Opening, profile) -> None:
+    """An opening moved, renamed, resized or described otherwise keeps its likelihood, so that
+    openings may share it by :func:`likelihood_key` (fails as soon as the likelihood reads a
+    field of PLACEMENT_FIELDS)."""
+    moved = replace(a, **{name: getattr(b, name) for name in PLACEMENT_FIELDS})
+    assert likelihood_key(moved) == likelihood_key(a)
+    assert opening_likelihood(moved, profile) == opening_likelihood(a, profile)
+
+
+@settings(max_examples=100, deadline=None)
+@given(st.lists(_openings(), min_size=1, max_size=6), st.lists(st.integers(0, 5), max_size=30),
+       st.sampled_from([ADULT, KITTEN]))
+def test_shared_likelihoods_equal_one_at_a_time(pool: list[Opening], picks: list[int],
+                                                profile) -> None:
+    """The likelihoods of a building with repeated openings, worked out once per key, equal
+    each opening's own, in order."""
+    openings = [pool[i % len(pool)] for i in picks] + pool
+    rows = opening_likelihoods(openings, profile)
+    assert rows == [opening_likelihood(o, profile) for o in openings]
+    one = assess_likelihood(openings, profile=profile)
+    assert one.rate_per_year.tolist() == [r[0] for r in rows]
+
+
+def test_every_field_outside_placement_is_in_the_key() -> None:
+    """A field that changes the likelihood is never left out of the key: changing any one
+    non-placement field of a guarded balcony changes the key."""
+    from dataclasses import fields
+
+    base = replace(BALCONY, largest_gap_mm=80.0, bottom_gap_mm=40.0, limiter_gap_mm=100.0,
+                   netting_mesh_mm=30.0)
+    changes = {"kind": OpeningKind.WINDOW_CASEMENT, "largest_gap_mm": 81.0,
+               "bottom_gap_mm": 41.0, "climbable_infill": True, "flat_rail_top": True,
+               "climbing_aids": True, "limiter_gap_mm": 101.0, "screen": Screen.INSECT,
+               "netting_mesh_mm": 31.0, "open_frequency": OpenFrequency.NEVER,
+               "cats_present": CatsPresent.NO, "escape_window": True}
+    others = {f.name for f in fields(Opening)} - PLACEMENT_FIELDS
+    assert set(changes) == others  # a new field: add it here and decide where it belongs
+    for name, value in changes.items():
+        assert likelihood_key(replace(base, **{name: value})) != likelihood_key(base), name
