@@ -11,6 +11,7 @@ from PySide6.QtWidgets import QApplication
 from petfall_audit.editing.document import Document
 from petfall_audit.gui.dialogs import APP_TITLE
 from petfall_audit.gui.main_window import MainWindow, blank_building
+from petfall_audit.gui.qt_messages import qt_messages_routed
 from petfall_audit.gui.views.common import stop_tasks
 from petfall_audit.model import Building
 
@@ -54,7 +55,14 @@ def close_window(window: MainWindow) -> None:
 
 
 def run_app(path: Path | None = None) -> int:
-    """Run the app on ``path`` (or the sample building) until its window closes; exit code."""
+    """Run the app on ``path`` (or the sample building) until its window closes; exit code.
+    Qt's notes stay off the terminal while it runs (its errors do not: see
+    :mod:`petfall_audit.gui.qt_messages`)."""
+    with qt_messages_routed():
+        return _run(path)
+
+
+def _run(path: Path | None) -> int:
     app = QApplication.instance() or QApplication(sys.argv[:1])
     app.setApplicationName(APP_TITLE)
     app.setOrganizationName("petfall-audit")
