@@ -123,5 +123,13 @@ def main(argv: list[str] | None = None) -> int:
     return 0
 
 
+def _main_quietly() -> int:
+    """:func:`main` with Qt's notes (platform plugin, fonts) kept off the terminal."""
+    from petfall_audit.gui.qt_messages import qt_messages_routed
+
+    with qt_messages_routed():
+        return main()
+
+
 if __name__ == "__main__":
-    raise SystemExit(main())
+    raise SystemExit(_main_quietly())
