@@ -208,14 +208,17 @@ def test_answering_no_discards_only_that_copy(qtbot, tmp_path) -> None:  # type:
 
 # --- item 3: columns fit what they show -----------------------------------------------------------
 
-def clipped_cells(table: Any, rows: int = 60) -> list[str]:
-    """Cells of ``table`` whose text is wider than its column (the last, stretched, column aside),
-    or any text at all when the table wraps words into its one-line rows."""
+def clipped_cells(table: Any, rows: int = 60, skip: tuple[int, ...] = ()) -> list[str]:
+    """Cells of ``table`` whose text is wider than its column (the last, stretched, column and
+    the columns ``skip`` aside), or any text at all when the table wraps words into its
+    one-line rows."""
     model = table.model()
     metrics = table.fontMetrics()
     header = table.horizontalHeader()
     bad = []
     for col in range(model.columnCount() - 1):
+        if col in skip:
+            continue
         width = header.sectionSize(col)
         for row in range(min(rows, model.rowCount())):
             text = str(model.data(model.index(row, col)) or "")
@@ -233,9 +236,52 @@ def test_result_columns_fit_at_the_default_size_after_the_full_results(qtbot) ->
     qtbot.waitSignal(window.results_refined, timeout=60000)
     qtbot.waitUntil(lambda: window.results_samples == 256, timeout=60000)
     qtbot.wait(50)
+    from petfall_audit.gui.views.ranked import RankedModel
+
     table = window.views.ranked.table
     assert not table.wordWrap()
-    assert clipped_cells(table) == []
+    # results are never clipped; names (floor, facade, kind) are narrowed to a cap, below
+    assert clipped_cells(table, skip=RankedModel.NAME_COLS) == []
+
+
+def test_ranked_names_are_narrowed_so_the_results_stay_in_view(qtbot) -> None:  # type: ignore[no-untyped-def]
+    # the sample tower's facade names ("South, Lanternfield Road") made the ranked list so wide
+    # that the likelihood and the drop were scrolled out of view at 1280 x 720
+    from petfall_audit.demo import sample_building
+    from petfall_audit.gui.views.ranked import RankedModel
+    from petfall_audit.gui.widgets.tables import fit_columns
+
+    window = open_window(qtbot, sample_building("tower"), refine_samples=256,
+                         refine_delay_ms=10)
+    window.resize(1280, 720)
+    qtbot.waitSignal(window.results_refined, timeout=60000)
+    qtbot.waitUntil(lambda: window.results_samples == 256, timeout=60000)
+    qtbot.wait(50)
+    table = window.views.ranked.table
+    model, header = table.model(), table.horizontalHeader()
+    metrics = table.fontMetrics()
+    cap = metrics.averageCharWidth() * RankedModel.NAME_FIT_CHARS
+    facade_col = RankedModel.KEYS.index("facade")
+    names = [str(model.data(model.index(r, facade_col))) for r in range(model.rowCount())]
+    longest = max(names, key=metrics.horizontalAdvance)
+    assert metrics.horizontalAdvance(longest) > cap  # the sample has names longer than the cap
+    assert header.sectionSize(facade_col) <= max(cap, header.sectionSizeFromContents(
+        facade_col).width())
+    # the likelihood and the median drop are in view without scrolling
+    for key in ("likelihood", "drop"):
+        col = RankedModel.KEYS.index(key)
+        right = header.sectionViewportPosition(col) + header.sectionSize(col)
+        assert 0 <= right <= table.viewport().width(), key
+    # an elided name is whole in its tooltip
+    row = names.index(longest)
+    tip = str(model.data(model.index(row, facade_col), Qt.ItemDataRole.ToolTipRole))
+    assert tip.splitlines()[0] == longest
+    assert len(tip.splitlines()) > 1  # then the result's words, as in the other columns
+    # a user who widens the column keeps it: the next fit does not narrow it again
+    wide = metrics.horizontalAdvance(longest) + 40
+    header.resizeSection(facade_col, wide)
+    fit_columns(table)
+    assert header.sectionSize(facade_col) == wide
 
 
 def test_editor_columns_fit_after_a_new_building_fills(qtbot) -> None:  # type: ignore[no-untyped-def]

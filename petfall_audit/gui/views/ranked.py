@@ -72,6 +72,11 @@ class RankedModel(QAbstractTableModel):
     KEYS = ("risk_rank", "rank", "id", "floor", "facade", "kind", "band", "likelihood", "drop",
             "speed", "risk", "factor")
     BAND_COL = 6
+    #: Columns of names (floor, facade, kind of opening) that fit to at most this many average
+    #: characters (longer names are elided and shown whole in the tooltip), so that the
+    #: results beside them stay in view on a 1280-pixel-wide screen.
+    NAME_COLS = tuple(i for i, k in enumerate(KEYS) if k in ("floor", "facade", "kind"))
+    NAME_FIT_CHARS = 20
     #: The roles that show a result as out of date (the texts stay).
     STALE_ROLES = (Qt.ItemDataRole.ForegroundRole, Qt.ItemDataRole.BackgroundRole,
                    Qt.ItemDataRole.FontRole)
@@ -269,7 +274,7 @@ class RankedModel(QAbstractTableModel):
         if orientation != Qt.Orientation.Horizontal:
             return None
         if role == Qt.ItemDataRole.DisplayRole:
-            return two_line_title(self.COLUMNS[section])
+            return two_line_title(self.COLUMNS[section], longest=9)  # "Risk\norder": narrow
         if role == Qt.ItemDataRole.ToolTipRole:
             return {
                 0: "Rank by risk score: likelihood × severity (1 = worst); the default order, "
@@ -295,6 +300,11 @@ class RankedModel(QAbstractTableModel):
             return self.sort_key(col, r)
         if role == Qt.ItemDataRole.DisplayRole:
             return self._text(index.row(), col)
+        if role == Qt.ItemDataRole.ToolTipRole and col in self.NAME_COLS:
+            # the name may be elided in its narrowed column: whole here, then the result's words
+            return self._text(index.row(), col) + "\n" + result_style(
+                r, self.KEYS[col], role, stale=self.stale, palette=self._ctx.palette,
+                system=self._ctx.options.units)
         return result_style(r, self.KEYS[col], role, stale=self.stale, palette=self._ctx.palette,
                             system=self._ctx.options.units)
 
@@ -475,6 +485,8 @@ class RankedView(QWidget):
         header = self.table.horizontalHeader()
         header.setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
         header.setStretchLastSection(True)
+        name_px = self.table.fontMetrics().averageCharWidth() * RankedModel.NAME_FIT_CHARS
+        self.table.setProperty("fit_max_px", dict.fromkeys(RankedModel.NAME_COLS, name_px))
         keep_columns_fitted(self.table)
         self.details = QTextBrowser()
         self.details.setObjectName("ranked_details")

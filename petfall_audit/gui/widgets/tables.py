@@ -49,7 +49,9 @@ _CELL_PAD_PX = 12
 
 def fit_columns(table: QTableView) -> None:
     """Size every column to its header and the cells it shows: a column the user has resized
-    is only ever widened, the others fit exactly. Reads at most :data:`_FIT_ROWS` rows, spread
+    is only ever widened, the others fit exactly. A column named in the table's
+    ``fit_max_px`` property (column -> px) grows no wider than that by itself (its longer texts
+    are elided; the user may still widen it). Reads at most :data:`_FIT_ROWS` rows, spread
     over the whole table, so that a large building stays quick."""
     model = table.model()
     if model is None:
@@ -80,11 +82,21 @@ def fit_columns(table: QTableView) -> None:
                 if width is None:
                     width = widths[t] = metrics.horizontalAdvance(t)
                 want = max(want, width + _CELL_PAD_PX)
+            want = _capped(table, col, want)
             size = header.sectionSize(col)
             if size < want or (col not in user_sized and size != want):
                 header.resizeSection(col, want)
     finally:
         table.setProperty("fitting_columns", False)
+
+
+def _capped(table: QTableView, col: int, want_px: int) -> int:
+    """``want_px`` held to the column's ``fit_max_px`` (never below its header's width)."""
+    caps: dict[int, int] = table.property("fit_max_px") or {}
+    if col not in caps:
+        return want_px
+    header_px = table.horizontalHeader().sectionSizeFromContents(col).width()
+    return min(want_px, max(caps[col], header_px))
 
 
 #: Most measured texts kept per table between fits.
@@ -127,6 +139,7 @@ def widen_columns(table: QTableView, first_row: int, last_row: int) -> None:
                 text = model.data(model.index(row, col))
                 if text is not None:
                     want = max(want, metrics.horizontalAdvance(str(text)) + _CELL_PAD_PX)
+            want = _capped(table, col, want)
             if header.sectionSize(col) < want:
                 header.resizeSection(col, want)
     finally:
