@@ -22,14 +22,12 @@ from pathlib import Path
 from _common import median_time_s  # noqa: F401  (puts the repository on the path)
 
 from petfall_audit.demo import sample_building
-from petfall_audit.figures.budget import budget_grid
+from petfall_audit.figures.budget import estate_curve
 from petfall_audit.fixes import load_catalogue, opening_options
 from petfall_audit.portfolio import (
     EstateBuilding,
     equal_share_plans,
-    estate_options,
     plan_portfolio,
-    portfolio_curve,
 )
 from petfall_audit.report.portfolio import write_portfolio_report
 from petfall_audit.risk import assess
@@ -67,8 +65,7 @@ def main() -> int:
     alone = equal_share_plans(estate, budget, currency=catalogue.currency)
     t_b = time.perf_counter() - t0
     t0 = time.perf_counter()
-    grid = budget_grid(estate_options(estate), n_points=12)
-    budgets, removed = portfolio_curve(estate, sorted({*grid.tolist(), budget}))
+    budgets, removed = estate_curve(estate, budget)
     with tempfile.TemporaryDirectory() as tmp:
         write_portfolio_report(portfolio, budgets, removed, Path(tmp) / "portfolio.pdf")
     t_c = time.perf_counter() - t0

@@ -701,15 +701,10 @@ def _write_portfolio(done: Sequence[tuple[BuildingOutcome, str]], budget: float,
                      out_dir: Path) -> list[Path]:
     """Plan ``budget`` over every opening of the assessed buildings; write DIR/portfolio-plan.json
     and the estate summary DIR/portfolio.pdf."""
-    from petfall_audit.figures.budget import budget_grid
+    from petfall_audit.figures.budget import estate_curve
     from petfall_audit.io.atomic import atomic_write_text
     from petfall_audit.io.results_envelope import results_json_text
-    from petfall_audit.portfolio import (
-        EstateBuilding,
-        estate_options,
-        plan_portfolio,
-        portfolio_curve,
-    )
+    from petfall_audit.portfolio import EstateBuilding, plan_portfolio
     from petfall_audit.report.portfolio import write_portfolio_report
 
     estate = [EstateBuilding(file=o.path, name=o.building_name, result_file=name,
@@ -719,8 +714,7 @@ def _write_portfolio(done: Sequence[tuple[BuildingOutcome, str]], budget: float,
     portfolio = plan_portfolio(estate, budget, currency=currency)
     plan_path = out_dir / "portfolio-plan.json"
     atomic_write_text(plan_path, results_json_text(portfolio=portfolio))
-    grid = budget_grid(estate_options(estate), n_points=12)
-    budgets, removed = portfolio_curve(estate, sorted({*grid.tolist(), float(budget)}))
+    budgets, removed = estate_curve(estate, budget)
     pdf_path = write_portfolio_report(portfolio, budgets, removed, out_dir / "portfolio.pdf")
     return [plan_path, pdf_path]
 

@@ -11,8 +11,13 @@ from numpy.typing import NDArray
 
 if TYPE_CHECKING:
     from petfall_audit.fixes import Option
+    from petfall_audit.portfolio import EstateBuilding
 
-__all__ = ["budget_grid", "knee_budget"]
+__all__ = ["budget_grid", "knee_budget", "estate_curve", "ESTATE_CURVE_POINTS"]
+
+#: Budgets at which the estate's curve is solved (0, then geometric: a step every quarter to
+#: third of a decade on the summary's log axis; each point is one solve over the estate).
+ESTATE_CURVE_POINTS = 20
 
 
 def knee_budget(options: Mapping[str, Sequence[Option]]) -> float:
@@ -36,3 +41,15 @@ def budget_grid(options: Mapping[str, Sequence[Option]], n_points: int = 25) -> 
         return np.zeros(1)
     low = max(cheapest, top * 1e-5, 1.0)
     return np.concatenate([[0.0], np.geomspace(low, 1.1 * top, max(int(n_points) - 1, 2))])
+
+
+def estate_curve(buildings: Sequence[EstateBuilding], budget: float
+                 ) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
+    """The estate's risk-removed-against-budget curve as its summary draws it:
+    ``(budgets, risk_removed)`` at :data:`ESTATE_CURVE_POINTS` budgets spread over the
+    estate's options and at ``budget`` (the plan's own), in increasing order (currency;
+    summed risk score; see :func:`petfall_audit.portfolio.portfolio_curve`)."""
+    from petfall_audit.portfolio import estate_options, portfolio_curve
+
+    grid = budget_grid(estate_options(buildings), n_points=ESTATE_CURVE_POINTS)
+    return portfolio_curve(buildings, sorted({*grid.tolist(), float(budget)}))

@@ -17,7 +17,8 @@ from petfall_audit.model import (
 
 __all__ = ["DRAG_AREA_NOTE", "ENUM_LABELS", "PRESET_LABELS", "BAND_LABELS", "PARAMETER_LABELS",
            "SPEED_TERMS", "enum_label", "kind_label", "preset_label", "band_label", "surface_label",
-           "surface_kind_label", "landing_names", "HIERARCHY_LABELS", "hierarchy_label"]
+           "surface_kind_label", "landing_names", "HIERARCHY_LABELS", "hierarchy_label",
+           "budget_axis_label"]
 
 #: Every enum value a user picks or reads, in plain words.
 ENUM_LABELS: dict[StrEnum, str] = {
@@ -151,3 +152,9 @@ def hierarchy_label(level: str) -> str:
     """Plain words of a control's place in the hierarchy of controls (``"engineer"`` ->
     ``"Fitted barrier"``)."""
     return HIERARCHY_LABELS.get(level, _plain(level))
+
+
+def budget_axis_label(currency: str) -> str:
+    """The budget axis of a risk-against-budget curve, which is logarithmic:
+    ``"budget (EUR, log scale)"`` (no currency: ``"budget (log scale)"``)."""
+    return f"budget ({currency}, log scale)" if currency else "budget (log scale)"

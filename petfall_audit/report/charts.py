@@ -22,7 +22,14 @@ from petfall_audit.figures import (
     SensitivityFigure,
 )
 from petfall_audit.palette import band_style, band_styles, rgb
-from petfall_audit.present import fmt_change_pct, fmt_money, fmt_risk, fmt_speed, fmt_tick
+from petfall_audit.present import (
+    budget_axis_label,
+    fmt_change_pct,
+    fmt_money,
+    fmt_risk,
+    fmt_speed,
+    fmt_tick,
+)
 from petfall_audit.report.fonts import fonts, plain
 from petfall_audit.report.styles import INK, MUTED, RULE
 
@@ -37,6 +44,7 @@ __all__ = [
     "SENSITIVITY_HIGH_FILL",
     "band_legend",
     "budget_curve_drawing",
+    "budget_log_span",
     "building_bars_drawing",
     "colour",
     "fit_label",
@@ -427,22 +435,39 @@ def sensitivity_drawing(fig: SensitivityFigure, labels: tuple[str, ...],
     return d
 
 
+def budget_log_span(budgets: np.ndarray, chosen_budget: float) -> tuple[float, float]:
+    """The span (``lo``, ``hi``, currency) of a logarithmic budget axis: from the whole decade
+    at or below the smallest positive budget to the largest budget (the chosen budget
+    included); ``(1, 10)`` when no budget is positive."""
+    values = np.asarray(budgets, float).reshape(-1)
+    positive = values[values > 0]
+    if chosen_budget > 0:
+        positive = np.append(positive, float(chosen_budget))
+    if positive.size == 0:
+        return 1.0, 10.0
+    lo = 10.0 ** math.floor(math.log10(float(positive.min())))
+    return lo, max(float(positive.max()), lo * 10.0)
+
+
 def budget_curve_drawing(budgets: np.ndarray, risk_left: np.ndarray, *, chosen_budget: float,
                          currency: str, width: float, height: float = 170) -> Drawing:
-    """Risk left (summed risk score) against budget (``currency``), a step line through the
-    solved budgets, with the chosen budget marked by a dashed line."""
+    """Risk left (summed risk score) against budget (``currency``) on a logarithmic budget axis
+    (the budgets are spaced geometrically, see :func:`petfall_audit.figures.budget.budget_grid`,
+    and most of the curve's bend lies at small budgets): a step line through the solved
+    budgets, a budget of 0 at the axis' left end, the chosen budget marked by a dashed line."""
     d = Drawing(width, height)
-    left, bottom, top_pad, right_pad = 52.0, 28.0, 14.0, 10.0
+    left, bottom, top_pad, right_pad = 52.0, 28.0, 14.0, 14.0
     w, h = width - left - right_pad, height - bottom - top_pad
     order = np.argsort(budgets, kind="stable")
     b, r = np.asarray(budgets, float)[order], np.asarray(risk_left, float)[order]
-    bmax = float(max(b.max(initial=0.0), chosen_budget)) or 1.0
+    lo, hi = budget_log_span(b, chosen_budget)
+    decades = math.log10(hi / lo)
     rmax = float(r.max(initial=0.0)) or 1.0
-    xs, ys = _nice_step(bmax, 5), _nice_step(rmax, 4)
-    xtop, ytop = math.ceil(bmax / xs) * xs, math.ceil(rmax / ys) * ys
+    ys = _nice_step(rmax, 4)
+    ytop = math.ceil(rmax / ys) * ys
 
     def x_of(v: float) -> float:
-        return left + v / xtop * w
+        return left + math.log10(max(v, lo) / lo) / decades * w
 
     def y_of(v: float) -> float:
         return bottom + v / ytop * h
@@ -450,9 +475,11 @@ def budget_curve_drawing(budgets: np.ndarray, risk_left: np.ndarray, *, chosen_b
     for v in np.arange(0, ytop + ys / 2, ys):
         d.add(Line(left, y_of(v), left + w, y_of(v), strokeColor=RULE, strokeWidth=0.3))
         d.add(_text(left - 3, y_of(v) - 2.2, fmt_risk(float(v)), 6.5, anchor="end", colour_=MUTED))
-    for v in np.arange(0, xtop + xs / 2, xs):
+    for k in range(math.floor(decades + 1e-9) + 1):  # a tick at each whole decade
+        v = lo * 10.0 ** k
+        d.add(Line(x_of(v), bottom, x_of(v), bottom + h, strokeColor=RULE, strokeWidth=0.3))
         d.add(Line(x_of(v), bottom, x_of(v), bottom - 2, strokeColor=INK, strokeWidth=0.4))
-        d.add(_text(x_of(v), bottom - 10, fmt_money(float(v)), 6.5, anchor="middle", colour_=MUTED))
+        d.add(_text(x_of(v), bottom - 10, fmt_money(v), 6.5, anchor="middle", colour_=MUTED))
     d.add(Line(left, bottom, left + w, bottom, strokeColor=INK, strokeWidth=0.6))
     d.add(Line(left, bottom, left, bottom + h, strokeColor=INK, strokeWidth=0.6))
     pts: list[float] = []
@@ -462,13 +489,13 @@ def budget_curve_drawing(budgets: np.ndarray, risk_left: np.ndarray, *, chosen_b
         pts += [x_of(bi), y_of(ri)]
     if len(pts) >= 4:
         d.add(PolyLine(pts, strokeColor=INK, strokeWidth=1.2))
-    if 0 <= chosen_budget <= xtop:
+    if 0 < chosen_budget <= hi:
         marker = Line(x_of(chosen_budget), bottom, x_of(chosen_budget), bottom + h,
                       strokeColor=MUTED, strokeWidth=0.6)
         marker.strokeDashArray = [2, 2]
         d.add(marker)
         d.add(_text(x_of(chosen_budget) + 2, bottom + h - 8, "this plan", 6, colour_=MUTED))
-    d.add(_text(left + w / 2, 2, f"budget ({currency})".strip(), 7, anchor="middle"))
+    d.add(_text(left + w / 2, 2, budget_axis_label(currency), 7, anchor="middle"))
     d.add(_text(left - 40, bottom + h + 4, "risk score left in the estate", 7))
     return d
 

@@ -151,7 +151,8 @@ def portfolio_story(ctx: PortfolioContext, st: Styles, width: float) -> list[Flo
         budget_curve_drawing(ctx.curve_budgets, ctx.curve_risk_left,
                              chosen_budget=ctx.budget, currency=ctx.currency, width=width),
         _p("Summed risk score left in the estate with the best plan at each budget; more "
-           "budget never leaves more risk. Read it for the size of a budget, not as a "
+           "budget never leaves more risk. The budget axis is logarithmic: each grid line is "
+           "ten times the money of the one before. Read it for the size of a budget, not as a "
            "prediction.", st.caption),
         PageBreak(), _p("Spend and risk removed per building", st.h1),
         building_bars_drawing(ctx.chart_labels, ctx.chart_spend, ctx.chart_removed,

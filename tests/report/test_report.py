@@ -8,6 +8,7 @@ import re
 from dataclasses import replace
 from pathlib import Path
 
+import numpy as np
 import pytest
 from pypdf import PdfReader
 from reportlab.platypus import Paragraph, SimpleDocTemplate
@@ -381,3 +382,44 @@ def test_an_audit_without_a_plan_does_not_load_scipy(tmp_path: Path) -> None:
                          text=True, check=True)
     assert out.stdout.strip() == "False"
     assert (tmp_path / "a.pdf").stat().st_size > 0
+
+
+def test_estate_budget_curve_has_a_log_budget_axis() -> None:
+    # the estate's budgets are spaced geometrically (figures.budget.budget_grid) and most of
+    # the curve's bend lies at small budgets: a linear axis squeezed it into its first tenth
+    from reportlab.graphics.shapes import Line, PolyLine, String
+
+    from petfall_audit.report.charts import budget_curve_drawing
+
+    budgets = np.array([0.0, 3.0, 30.0, 300.0, 3_000.0, 20_000.0, 205_000.0])
+    risk_left = np.array([600.0, 580.0, 500.0, 300.0, 150.0, 100.0, 40.0])
+    d = budget_curve_drawing(budgets, risk_left, chosen_budget=20_000.0, currency="EUR",
+                             width=400.0)
+    texts = {s.text: s.x for s in d.contents if isinstance(s, String)}
+    assert "budget (EUR, log scale)" in texts
+    # one tick per whole decade from the decade of the cheapest budget (1) to 100,000
+    ticks = [texts[t] for t in ("1", "10", "100", "1,000", "10,000", "100,000")]
+    steps = np.diff(ticks)
+    assert np.allclose(steps, steps[0]) and steps[0] > 0  # equal steps: logarithmic
+    assert "1,000,000" not in texts  # the axis ends at the largest budget
+    # the step line: a budget's point lies log10(budget) decades from the axis' left end
+    line = next(s for s in d.contents if isinstance(s, PolyLine))
+    xs = line.points[0::2]
+    decade_px = steps[0]
+    for budget in budgets[1:]:
+        expected = ticks[0] + np.log10(budget) * decade_px
+        assert min(abs(x - expected) for x in xs) < 1e-6, budget
+    assert xs[0] == pytest.approx(ticks[0])  # a budget of 0 at the left end
+    marker = [s for s in d.contents if isinstance(s, Line) and s.strokeDashArray]
+    assert marker[0].x1 == pytest.approx(ticks[0] + np.log10(20_000.0) * decade_px)
+
+
+def test_estate_budget_curve_without_a_currency_or_any_budget() -> None:
+    from reportlab.graphics.shapes import String
+
+    from petfall_audit.report.charts import budget_curve_drawing
+
+    d = budget_curve_drawing(np.array([0.0]), np.array([10.0]), chosen_budget=0.0,
+                             currency="", width=300.0)
+    texts = [s.text for s in d.contents if isinstance(s, String)]
+    assert "budget (log scale)" in texts

@@ -36,6 +36,7 @@ from PySide6.QtWidgets import (
 from petfall_audit.editing.commands import SetOpeningFields
 from petfall_audit.gui.views.common import Task, ViewContext, WhileHidden, run_task
 from petfall_audit.present import (
+    budget_axis_label,
     fmt_count,
     fmt_money,
     fmt_percent,
@@ -332,7 +333,7 @@ class PlanView(QWidget):
         self.budget.setSuffix(f" {self.currency}")
         if not self._budget_set_by_user:
             self._set_default_budget()
-        self.curve_plot.setLabel("bottom", f"budget ({self.currency}, log scale)",
+        self.curve_plot.setLabel("bottom", budget_axis_label(self.currency),
                                  color="#1A1A1A")
         self.options_ready.emit()
         self._start_plan()
