@@ -227,7 +227,8 @@ def clipped_cells(table: Any, rows: int = 60, skip: tuple[int, ...] = ()) -> lis
     return bad
 
 
-def test_result_columns_fit_at_the_default_size_after_the_full_results(qtbot) -> None:  # type: ignore[no-untyped-def]
+def _tower_at_1280(qtbot) -> Any:  # type: ignore[no-untyped-def]
+    """The sample tower's window at 1280 x 720 with its full results (256 cats) shown."""
     from petfall_audit.demo import sample_building
 
     window = open_window(qtbot, sample_building("tower"), refine_samples=256,
@@ -236,8 +237,13 @@ def test_result_columns_fit_at_the_default_size_after_the_full_results(qtbot) ->
     qtbot.waitSignal(window.results_refined, timeout=60000)
     qtbot.waitUntil(lambda: window.results_samples == 256, timeout=60000)
     qtbot.wait(50)
+    return window
+
+
+def test_result_columns_fit_at_the_default_size_after_the_full_results(qtbot) -> None:  # type: ignore[no-untyped-def]
     from petfall_audit.gui.views.ranked import RankedModel
 
+    window = _tower_at_1280(qtbot)
     table = window.views.ranked.table
     assert not table.wordWrap()
     # results are never clipped; names (floor, facade, kind) are narrowed to a cap, below
@@ -247,16 +253,10 @@ def test_result_columns_fit_at_the_default_size_after_the_full_results(qtbot) ->
 def test_ranked_names_are_narrowed_so_the_results_stay_in_view(qtbot) -> None:  # type: ignore[no-untyped-def]
     # the sample tower's facade names ("South, Lanternfield Road") made the ranked list so wide
     # that the likelihood and the drop were scrolled out of view at 1280 x 720
-    from petfall_audit.demo import sample_building
     from petfall_audit.gui.views.ranked import RankedModel
     from petfall_audit.gui.widgets.tables import fit_columns
 
-    window = open_window(qtbot, sample_building("tower"), refine_samples=256,
-                         refine_delay_ms=10)
-    window.resize(1280, 720)
-    qtbot.waitSignal(window.results_refined, timeout=60000)
-    qtbot.waitUntil(lambda: window.results_samples == 256, timeout=60000)
-    qtbot.wait(50)
+    window = _tower_at_1280(qtbot)
     table = window.views.ranked.table
     model, header = table.model(), table.horizontalHeader()
     metrics = table.fontMetrics()
