@@ -208,6 +208,13 @@ def main() -> int:
     args = parser.parse_args()
     os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
     sys.path.insert(0, str(ROOT))
+    from petfall_audit.gui.qt_messages import qt_messages_routed
+
+    with qt_messages_routed():  # Qt's notes off the terminal, as in the app
+        return _run(args)
+
+
+def _run(args: argparse.Namespace) -> int:
     if args.only_full:
         return _full(args.edits)
     cold = cold_start_s()
