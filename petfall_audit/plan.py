@@ -21,7 +21,10 @@ linear relaxation is solved exactly first (the greedy over each opening's upper 
 cost against risk removed), every opening far from the relaxation's break keeps the relaxation's
 whole choice, and only the :data:`CORE_OPENINGS` openings nearest the break go to the MILP with
 the budget left ("core" method). The relaxation bounds the best possible plan, so the reported
-gap is proven against it (0 when within :data:`MIP_REL_GAP`).
+gap is proven against it (0 when within :data:`MIP_REL_GAP`). The core method also takes over
+when the MILP runs out of time before it finds any plan (many near-identical openings, as in an
+estate of copies of one building); should the core's own MILP fail, the relaxation's whole steps
+are the plan, never an error, and the gap says how far from the best it may be.
 
 Tie-breaking, deterministic: within one opening, among options that remove the same risk (to a
 relative 1e-9), only the cheapest is kept, and among equally cheap ones the first in the catalogue;
@@ -139,6 +142,7 @@ def solve_choice_knapsack(
     mip_rel_gap: float = MIP_REL_GAP,
     time_limit_s: float = TIME_LIMIT_S,
     large_problem: int = LARGE_PROBLEM,
+    core_fallback: bool = True,
 ) -> tuple[np.ndarray, float]:
     """Choose at most one option per group, total cost within ``budget``, most total gain.
 
@@ -147,8 +151,9 @@ def solve_choice_knapsack(
     are never chosen); ``order`` (k,) tie-break rank within a group (catalogue position; default
     0). Returns a boolean mask (k,) of the chosen options and the proven relative optimality gap
     (0 when optimal to ``mip_rel_gap``). Raises :class:`PlanError` when the solver fails or finds
-    no plan within ``time_limit_s`` seconds. Above ``large_problem`` usable options the core
-    method of the module docstring is used.
+    no plan within ``time_limit_s`` seconds and ``core_fallback`` is off. Above ``large_problem``
+    usable options the core method of the module docstring is used; with ``core_fallback`` (the
+    default) also when the solver runs out of time before it finds any plan.
     """
     budget = _check_budget(budget)
     group = np.asarray(group, dtype=np.int64)
@@ -204,6 +209,13 @@ def solve_choice_knapsack(
             options={"disp": False, "mip_rel_gap": float(mip_rel_gap),
                      "time_limit": float(time_limit_s)},
         )
+    if res.status == 1 and res.x is None and core_fallback:
+        # out of time before any plan (many near-identical openings, e.g. an estate of copies
+        # of one building): the core method's plan, its gap proven against the relaxation
+        mask, gap = _solve_with_core(inverse, c, v, order_a[usable], budget_c,
+                                     mip_rel_gap=mip_rel_gap, time_limit_s=time_limit_s)
+        chosen[usable[mask]] = True
+        return chosen, gap
     if res.status not in (0, 1) or res.x is None:
         raise PlanError(f"the fix plan could not be solved: {res.message}")
     gap = 0.0 if res.status == 0 else float(getattr(res, "mip_gap", np.nan))
@@ -314,10 +326,14 @@ def _solve_with_core(
     elif core.size and left_c >= 0:
         # the core needs to close only the estate's gap, not a gap relative to itself
         core_gain = max(bound - float(gain[fixed].sum()), 1e-300)
-        sub, _ = solve_choice_knapsack(
-            group[core], cost_c[core] / 100.0, gain[core], left_c / 100.0, order=order[core],
-            mip_rel_gap=min(0.5, mip_rel_gap * bound / core_gain), time_limit_s=time_limit_s,
-        )
+        try:
+            sub, _ = solve_choice_knapsack(
+                group[core], cost_c[core] / 100.0, gain[core], left_c / 100.0, order=order[core],
+                mip_rel_gap=min(0.5, mip_rel_gap * bound / core_gain), time_limit_s=time_limit_s,
+                core_fallback=False,  # the core of a core is itself: no second round
+            )
+        except PlanError:
+            sub = np.zeros(core.size, dtype=bool)  # the relaxation's choice, below
         chosen[core[sub]] = True
         if float(gain[chosen].sum()) < greedy_value:  # never worse than the relaxation's choice
             chosen[core] = False
