@@ -691,7 +691,11 @@ def _cmd_batch(args: argparse.Namespace) -> int:
     writer.writerows(rows)
     atomic_write_text(out_dir / "summary.csv", buffer.getvalue())
     _say(f"assessed {len(rows)} of {len(args.files)} building(s); wrote {out_dir / 'summary.csv'}")
-    if args.portfolio_budget is not None:
+    if args.portfolio_budget is not None and not done:
+        # an estate plan of no building would read as an estate without risk
+        _say("petfall-audit: no building could be assessed, so no estate plan was written",
+             file=sys.stderr)
+    elif args.portfolio_budget is not None:
         for path in _write_portfolio(done, args.portfolio_budget, out_dir):
             _say(f"wrote {path}")
     return EXIT_INVALID if failed else EXIT_OK

@@ -192,3 +192,18 @@ def test_portfolio_budget_must_not_be_negative(tmp_path: Path,
     assert main(["batch", str(sample_path("walkup")), "--out-dir", str(tmp_path),
                  "--portfolio-budget", "-1"]) == 2
     assert "--portfolio-budget must be at least 0" in capsys.readouterr().err
+
+
+def test_no_estate_plan_when_no_building_could_be_assessed(
+    tmp_path: Path, capsys: pytest.CaptureFixture[str]
+) -> None:
+    # an estate plan of no building would say "risk 0 -> 0": as if the estate had no risk
+    bad = tmp_path / "bad.json"
+    bad.write_text("{}", "utf-8")
+    out = tmp_path / "out"
+    assert main(["batch", str(bad), "--out-dir", str(out), "--portfolio-budget", "1000",
+                 "--jobs", "1"]) == 2
+    err = capsys.readouterr().err
+    assert "no building could be assessed, so no estate plan was written" in err
+    assert not (out / "portfolio-plan.json").exists()
+    assert not (out / "portfolio.pdf").exists()
