@@ -205,6 +205,29 @@ def test_netting_a_balcony_changes_its_fill_and_its_place(app_window, qtbot) -> 
     assert views.ranked.visible_ids().index(balcony.id) == before_place
 
 
+def test_the_plan_shows_the_controls_names_at_1280_pixels(app_window, qtbot) -> None:  # type: ignore[no-untyped-def]
+    # with the plan, the options and the curve side by side, both tables elided the controls'
+    # names to their first word ("Anchored ...") on a 1280 x 720 screen
+    window, views = app_window()
+    window.resize(1280, 720)
+    window.show_view(views.plan)
+    plan_view = views.plan
+    plan_view.set_budget(2000)
+    qtbot.waitUntil(lambda: plan_view.plan is not None and plan_view.plan.budget == 2000
+                    and plan_view.chosen.rowCount() > 0, timeout=20000)
+    qtbot.wait(50)
+    metrics = plan_view.chosen.fontMetrics()
+    for table, col in ((plan_view.chosen, 1), (plan_view.options_table, 0)):
+        if table.rowCount() == 0:
+            _select_in_ranked(views, plan_view.plan.actions[0].opening_id)
+            window.show_view(views.plan)
+            qtbot.waitUntil(lambda t=table: t.rowCount() > 0, timeout=20000)
+        width = table.horizontalHeader().sectionSize(col)
+        # a typical name of the shipped catalogue, whole (8 px for the cell's margins)
+        assert width >= metrics.horizontalAdvance("Anchored enclosure net, 30 mm mesh") + 8, (
+            table.objectName(), width)
+
+
 def test_changing_the_budget_changes_the_plan(app_window, qtbot) -> None:  # type: ignore[no-untyped-def]
     window, views = app_window()
     plan_view = views.plan

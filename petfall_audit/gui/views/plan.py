@@ -182,7 +182,7 @@ class PlanView(QWidget):
         for axis in ("left", "bottom"):
             self.curve_plot.getAxis(axis).setTextPen("#1A1A1A")
             self.curve_plot.getAxis(axis).setPen("#606060")
-        self.curve_plot.setMinimumHeight(120)
+        self.curve_plot.setMinimumHeight(100)  # under the plan: a small screen has room
         self.curve_plot.setLogMode(x=True, y=False)
         self.budget_line = pg.InfiniteLine(angle=90, movable=True,
                                            pen=pg.mkPen("#D55E00", width=2),
@@ -211,12 +211,19 @@ class PlanView(QWidget):
         middle.addWidget(opts)
         middle.addWidget(conds)
         middle.setChildrenCollapsible(False)
+        # the plan and its curve on the left, the selected opening's options and conditions on
+        # the right: two columns, so that each table is wide enough for the controls' names
+        # at 1280 pixels (three columns side by side elided most names to their first word)
+        plan_side = QSplitter(Qt.Orientation.Vertical)
+        plan_side.addWidget(left)
+        plan_side.addWidget(self.curve_plot)
+        plan_side.setChildrenCollapsible(False)
+        plan_side.setSizes([300, 220])
         splitter = QSplitter(Qt.Orientation.Horizontal)
-        splitter.addWidget(left)
+        splitter.addWidget(plan_side)
         splitter.addWidget(middle)
-        splitter.addWidget(self.curve_plot)
         splitter.setChildrenCollapsible(False)
-        splitter.setSizes([500, 500, 380])
+        splitter.setSizes([640, 640])
         layout = QVBoxLayout(self)
         layout.setContentsMargins(2, 2, 2, 2)
         layout.addLayout(top)
