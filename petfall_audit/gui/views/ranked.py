@@ -60,6 +60,12 @@ _ROLES = frozenset(int(r) for r in (
 _PLAIN_SORT_KEYS = frozenset(("risk_rank", "rank", "id", "floor", "facade"))
 
 
+#: The details pane with no opening selected (a paragraph, which wraps in a narrow pane; a
+#: placeholder text does not).
+_NOTHING_SELECTED_HTML = ('<p style="color:#606060">Select an opening to see the factors '
+                          'behind its rank.</p>')
+
+
 class RankedModel(QAbstractTableModel):
     """Every opening of an assessment, one row each, in the order of the sorted column.
 
@@ -491,7 +497,7 @@ class RankedView(QWidget):
         self.details = QTextBrowser()
         self.details.setObjectName("ranked_details")
         self.details.setOpenLinks(False)
-        self.details.setPlaceholderText("Select an opening to see the factors behind its rank.")
+        self.details.setHtml(_NOTHING_SELECTED_HTML)
         splitter = QSplitter(Qt.Orientation.Horizontal)
         splitter.addWidget(self.table)
         splitter.addWidget(self.details)
@@ -655,11 +661,11 @@ class RankedView(QWidget):
         a = self._ctx.assessment
         current = self._ctx.selection.current
         if a is None or current is None:
-            self.details.setHtml("")
+            self.details.setHtml(_NOTHING_SELECTED_HTML)
             return
         try:
             r = a.result(current)
         except KeyError:
-            self.details.setHtml("")
+            self.details.setHtml(_NOTHING_SELECTED_HTML)
             return
         self.details.setHtml(_factors_html(r, self._ctx.palette, self._ctx.units))
