@@ -207,3 +207,19 @@ def test_no_estate_plan_when_no_building_could_be_assessed(
     assert "no building could be assessed, so no estate plan was written" in err
     assert not (out / "portfolio-plan.json").exists()
     assert not (out / "portfolio.pdf").exists()
+
+
+def test_the_spend_chart_tells_buildings_of_one_name_apart(estate: list[EstateBuilding]) -> None:
+    from dataclasses import replace
+
+    from petfall_audit.report.portfolio import build_portfolio_context
+
+    twins = [replace(estate[0], file="north/walkup.json", result_file="walkup.json"),
+             replace(estate[0], file="south/walkup.json", result_file="walkup-2.json"),
+             estate[1]]
+    portfolio = plan_portfolio(twins, 3000.0, currency="EUR")
+    ctx = build_portfolio_context(portfolio, np.array([0.0, 3000.0]), np.array([0.0, 1.0]),
+                                  generated_on="2026-12-04")
+    name, other = estate[0].name, estate[1].name
+    assert sorted(ctx.chart_labels) == sorted([f"{name} (walkup.json)",
+                                               f"{name} (walkup-2.json)", other])

@@ -9,6 +9,7 @@ charts come from :mod:`petfall_audit.report.charts`.
 from __future__ import annotations
 
 import datetime as _dt
+from collections import Counter
 from collections.abc import Sequence
 from dataclasses import dataclass
 from pathlib import Path
@@ -19,7 +20,7 @@ from reportlab.lib.units import mm
 from reportlab.platypus import Flowable, PageBreak, Paragraph, Spacer, Table, TableStyle
 
 from petfall_audit.cautions import CAUTIONS, CAUTIONS_SHORT
-from petfall_audit.portfolio import PortfolioPlan
+from petfall_audit.portfolio import BuildingShare, PortfolioPlan
 from petfall_audit.present import fmt_money, fmt_percent, fmt_risk
 from petfall_audit.report.charts import budget_curve_drawing, building_bars_drawing
 from petfall_audit.report.context import LIMITS
@@ -65,6 +66,15 @@ class PortfolioContext:
 
 def _label(name: str, file: str) -> str:
     return name or Path(file).stem or "Unnamed building"
+
+
+def _chart_labels(buildings: Sequence[BuildingShare]) -> tuple[str, ...]:
+    """The buildings' names, each with its results file where two buildings share a name (the
+    chart has no column that tells them apart)."""
+    names = [_label(b.name, b.file) for b in buildings]
+    seen = Counter(names)
+    return tuple(f"{n} ({b.result_file or Path(b.file).name})" if seen[n] > 1 else n
+                 for n, b in zip(names, buildings, strict=True))
 
 
 def build_portfolio_context(portfolio: PortfolioPlan, budgets: np.ndarray,
@@ -122,7 +132,7 @@ def build_portfolio_context(portfolio: PortfolioPlan, budgets: np.ndarray,
         budget=portfolio.budget,
         curve_budgets=np.asarray(budgets, float)[order],
         curve_risk_left=portfolio.risk_before - np.asarray(risk_removed, float)[order],
-        chart_labels=tuple(_label(b.name, b.file) for b in shown),
+        chart_labels=_chart_labels(shown),
         chart_spend=np.array([b.cost for b in shown], dtype=float),
         chart_removed=np.array([b.risk_removed for b in shown], dtype=float),
         chart_note=note,
