@@ -359,7 +359,8 @@ def compare_assessments(earlier: Assessment, later: Assessment, *,
             changes = [FieldChange("surroundings", None, None)]
         status: Status = "changed" if changes else "unchanged"
         cf = float(cf_risk[e_index[eid]])
-        by_fix, by_other = before.risk - cf, cf - after.risk
+        by_fix = _without_noise(before.risk - cf, before.risk, after.risk)
+        by_other = _without_noise(cf - after.risk, before.risk, after.risk)
         if status == "unchanged":
             by_fix = by_other = 0.0
         rows.append(OpeningComparison(lo.id, eid, status, tuple(changes), before, after,
@@ -380,8 +381,21 @@ def compare_assessments(earlier: Assessment, later: Assessment, *,
         risk_before=risk_before,
         risk_after=risk_after,
         removed_by_fixes=by_fixes,
-        removed_by_other=(risk_before - risk_after) - by_fixes,
+        removed_by_other=_without_noise((risk_before - risk_after) - by_fixes,
+                                        risk_before, risk_after),
     )
+
+
+#: Relative size below which a difference of risk sums is the sums' rounding, not a change.
+_NOISE_REL = 1e-9
+
+
+def _without_noise(amount: float, *scale: float) -> float:
+    """``amount`` (a difference of risk sums, score units), or 0 where it is no larger than
+    their floating-point rounding (:data:`_NOISE_REL` of the largest of ``scale``): "every
+    other change added 3.18e-11" is no change."""
+    limit = _NOISE_REL * max((abs(x) for x in scale), default=0.0)
+    return 0.0 if abs(amount) <= limit else amount
 
 
 def compare_buildings(

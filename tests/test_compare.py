@@ -188,3 +188,27 @@ def test_barrier_fields_are_the_fields_controls_fit() -> None:
     fitted = {k for c in doc["controls"] for k in c.get("effect", {})} - {"open_frequency"}
     assert fitted <= BARRIER_FIELDS
     assert "netting_mesh_mm" in BARRIER_FIELDS and "open_frequency" not in BARRIER_FIELDS
+
+
+def test_only_barriers_changed_leaves_nothing_to_every_other_change() -> None:
+    # the later tower differs from the earlier one only in its balconies' guards (barrier
+    # fields): every other change is exactly 0, not the rounding of two large sums (the window
+    # read "every other change added 3.18e-11")
+    from petfall_audit.demo import sample_building
+    from petfall_audit.model import OpeningKind
+    from petfall_audit.present.comparison import summary_lines
+
+    later = sample_building("tower")
+    balconies = [o for o in later.openings if o.kind is OpeningKind.BALCONY][:15]
+    worse = {o.id: dataclasses.replace(o, largest_gap_mm=130.0, climbable_infill=True)
+             for o in balconies}
+    earlier = dataclasses.replace(
+        later, openings=tuple(worse.get(o.id, o) for o in later.openings))
+    c = compare_buildings(earlier, later, samples=300, seed=SEED)
+    assert c.removed_by_other == 0.0
+    assert all(r.removed_by_other == 0.0 for r in c.openings)
+    assert c.removed_by_fixes > 0
+    assert c.removed_by_fixes == pytest.approx(c.risk_before - c.risk_after, rel=1e-12)
+    text = " ".join(summary_lines(c))
+    assert "every other change removed 0 (0%)" in text
+    assert "e-" not in text  # no number in scientific notation
