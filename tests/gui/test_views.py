@@ -21,6 +21,7 @@ from petfall_audit.gui.views.common import wait_for_tasks
 from petfall_audit.gui.views.ranked import ID_ROLE
 from petfall_audit.io.building_file import save_building
 from petfall_audit.model import BALCONY_LIKE, Building
+from petfall_audit.palette import palette_names
 from petfall_audit.present.explain import explain
 from petfall_audit.risk import assess
 
@@ -627,3 +628,54 @@ def test_the_floors_table_counts_each_floors_openings_after_an_edit(app_window, 
     assert int(model.index(row, column).data()) == before - 1
     window.undo()
     assert int(model.index(row, column).data()) == before
+
+
+def _line_starts(html: str, width_px: int) -> tuple[str, list[int]]:
+    """The plain text of ``html`` laid out ``width_px`` wide, and where each line starts."""
+    from PySide6.QtGui import QTextDocument
+
+    doc = QTextDocument()
+    doc.setHtml(html)
+    doc.setTextWidth(width_px)
+    doc.documentLayout()  # lays the document out
+    starts: list[int] = []
+    block = doc.begin()
+    while block.isValid():
+        layout = block.layout()
+        starts += [block.position() + layout.lineAt(i).textStart()
+                   for i in range(layout.lineCount())]
+        block = block.next()
+    return doc.toRawText(), starts  # raw: non-breaking spaces kept
+
+
+@pytest.mark.parametrize("palette", palette_names())
+def test_the_facade_key_breaks_between_keys_never_inside_one(qtbot, palette: str) -> None:  # type: ignore[no-untyped-def]
+    # at 1280 px in the audits' comparison a band's "+++" broke after its second "+"
+    from PySide6.QtGui import QFontMetrics, QTextDocument
+
+    from petfall_audit.band_names import BANDS
+    from petfall_audit.gui.views.facade import legend_html
+
+    html = legend_html(palette)
+    metrics = QFontMetrics(QTextDocument().defaultFont())
+    widest = max(metrics.horizontalAdvance(f" ++++  {name} (4)") for name in BANDS)
+    for width in range(widest + 10, 900, 5):  # a line as wide as a band's key at least
+        text, starts = _line_starts(html, width)
+        spans, at = [], 0
+        for key in text.split("\xa0\xa0 ")[:len(BANDS)]:  # the bands' keys come first
+            spans.append((at, at + len(key)))
+            at += len(key) + 3
+        for start in starts[1:]:
+            inside = [text[a:b] for a, b in spans if a < start < b]
+            assert not inside, (width, inside)
+
+
+def test_the_audits_facades_share_one_key(app_window) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.gui.views.facade import legend_html
+
+    window, views = app_window()
+    compare = views.compare
+    assert not compare.before_facade.legend.isVisibleTo(compare)
+    assert not compare.after_facade.legend.isVisibleTo(compare)
+    assert compare.facades_legend.text() == legend_html(views.context.palette)
+    assert views.facade.legend.text() == legend_html(views.context.palette)

@@ -37,7 +37,7 @@ from petfall_audit.gui.views.common import (
     load_earlier_building,
     run_task,
 )
-from petfall_audit.gui.views.facade import FacadeView
+from petfall_audit.gui.views.facade import FacadeView, legend_html
 from petfall_audit.gui.views.floors import EarlierAudit
 from petfall_audit.present.comparison import ComparisonRow
 
@@ -161,16 +161,28 @@ class CompareView(QWidget):
         self.after_facade.setObjectName("facade_after")
         self.before_title = QLabel("Earlier audit")
         self.after_title = QLabel("This audit")
-        facades = QSplitter(Qt.Orientation.Horizontal)
+        sides = QSplitter(Qt.Orientation.Horizontal)
         for title, view in ((self.before_title, self.before_facade),
                             (self.after_title, self.after_facade)):
+            view.legend.hide()  # one key for both, over them: room for the elevations
             pane = QWidget()
             pl = QVBoxLayout(pane)
             pl.setContentsMargins(0, 0, 0, 0)
             pl.addWidget(title)
             pl.addWidget(view, 1)
-            facades.addWidget(pane)
-        facades.setChildrenCollapsible(False)
+            sides.addWidget(pane)
+        sides.setChildrenCollapsible(False)
+        self.facades_legend = QLabel()
+        self.facades_legend.setObjectName("compare_facades_legend")
+        self.facades_legend.setTextFormat(Qt.TextFormat.RichText)
+        self.facades_legend.setWordWrap(True)
+        self._update_facades_legend()
+        context.options.changed.connect(self._update_facades_legend)
+        facades = QWidget()
+        fl = QVBoxLayout(facades)
+        fl.setContentsMargins(0, 0, 0, 0)
+        fl.addWidget(self.facades_legend)
+        fl.addWidget(sides, 1)
         self.facades = facades
         self.before_facade.facade_box.currentIndexChanged.connect(
             lambda _i: self._same_facade(self.before_facade, self.after_facade))
@@ -197,6 +209,9 @@ class CompareView(QWidget):
         self.search.textChanged.connect(lambda _t: self._apply_filter())
         self.table.itemSelectionChanged.connect(self._on_row_selected)
         self._hidden.follow(context.assessment_changed, self._on_assessment)
+
+    def _update_facades_legend(self) -> None:
+        self.facades_legend.setText(legend_html(self._ctx.palette))
 
     # --- public ----------------------------------------------------------------------------------
 

@@ -63,7 +63,7 @@ from petfall_audit.present import (
 from petfall_audit.present.explain import barrier_words
 from petfall_audit.present.labels import landing_names
 
-__all__ = ["FacadeView", "OpeningItem", "opening_tooltip", "SELECT_COLOUR"]
+__all__ = ["FacadeView", "OpeningItem", "opening_tooltip", "legend_html", "SELECT_COLOUR"]
 
 #: Outline of selected openings: a vermilion that stands out from the straw-to-navy bands.
 SELECT_COLOUR = "#D55E00"
@@ -235,6 +235,27 @@ class _Canvas(QGraphicsView):
 HOVER_HINT = "Hover over an opening to see its numbers; click to select it."
 
 
+def _unbroken(words: str) -> str:
+    """``words`` that a line never breaks: non-breaking spaces and hyphens."""
+    return words.replace(" ", "&nbsp;").replace("-", "\u2011")
+
+
+def legend_html(palette: str) -> str:
+    """The elevation's key (bands in ``palette``, barriers, slab, rail) as rich text: a line
+    breaks between the keys or between the words of the barrier's key, never inside a band's
+    key (a word joiner holds its marks together: Qt would break "+++" after its second "+")."""
+    cells = []
+    for b, name in enumerate(BANDS):
+        s = band_qstyle(b, palette)
+        mark = "\u2060".join(s.mark)
+        cells.append(f"<span style='background:{s.fill}; color:{s.text};'>&nbsp;{mark}"
+                     f"&nbsp;</span>&nbsp;{_unbroken(name)}&nbsp;({b + 1})")
+    cells.append("▦&nbsp;net, pet screen or limiter that holds these cats")  # wraps as words
+    cells.append("━&nbsp;balcony&nbsp;slab")
+    cells.append("┄&nbsp;rail")
+    return "&nbsp;&nbsp; ".join(cells)
+
+
 class FacadeView(QWidget):
     """Elevation of one facade at a time; the facade is chosen in a list above it."""
 
@@ -280,6 +301,7 @@ class FacadeView(QWidget):
         bar.addWidget(zoom_out)
         bar.addSpacing(12)
         bar.addWidget(self.legend, 1)
+        bar.addStretch(0)  # takes the room when the key is hidden (the audits' comparison)
 
         self.scene = QGraphicsScene(self)
         self.canvas = _Canvas(self)
@@ -632,13 +654,4 @@ class FacadeView(QWidget):
             return 10**9
 
     def _update_legend(self) -> None:
-        cells = []
-        for b, name in enumerate(BANDS):
-            s = band_qstyle(b, self._ctx.palette)
-            cells.append(f"<span style='background:{s.fill}; color:{s.text};'>&nbsp;{s.mark}"
-                         f"&nbsp;</span>&nbsp;{name.replace(' ', '&nbsp;')}&nbsp;({b + 1})")
-        cells.append("▦&nbsp;net, pet screen or limiter that holds these cats")
-        cells.append("━&nbsp;balcony&nbsp;slab")
-        cells.append("┄&nbsp;rail")
-        # a line breaks between the keys, never inside one
-        self.legend.setText("&nbsp;&nbsp; ".join(cells))
+        self.legend.setText(legend_html(self._ctx.palette))
