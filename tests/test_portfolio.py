@@ -66,22 +66,35 @@ def _exact(group: np.ndarray, cost: np.ndarray, gain: np.ndarray, budget: float)
     return float(-res.fun)
 
 
-@pytest.mark.parametrize("seed", [0, 1, 2])
-def test_the_core_method_is_within_its_reported_gap_of_the_best(
-    seed: int, monkeypatch: pytest.MonkeyPatch
-) -> None:
+def _random_knapsack(seed: int, n_groups: int = 60, per: int = 4
+                     ) -> tuple[np.ndarray, np.ndarray, np.ndarray, float]:
+    """A random multiple-choice knapsack: ``per`` options in each of ``n_groups`` groups and a
+    budget of 60% of what the cheapest option of every group costs together."""
     rng = np.random.default_rng(seed)
-    n_groups, per = 120, 4
     group = np.repeat(np.arange(n_groups), per)
     cost = np.round(rng.uniform(5, 400, group.size), 2)
     gain = np.round(cost * rng.uniform(0.2, 3.0, group.size) + rng.uniform(0, 50, group.size), 3)
     budget = float(cost.reshape(n_groups, per).min(axis=1).sum() * 0.6)
+    return group, cost, gain, budget
+
+
+def _assert_a_plan(group: np.ndarray, cost: np.ndarray, chosen: np.ndarray,
+                   budget: float) -> None:
+    """Within the budget (whole cents) and at most one option per group."""
+    assert float(np.round(cost[chosen] * 100).sum()) <= round(budget * 100)
+    assert np.bincount(group[chosen], minlength=group.max() + 1).max() <= 1
+
+
+@pytest.mark.parametrize("seed", [0, 1, 2])
+def test_the_core_method_is_within_its_reported_gap_of_the_best(
+    seed: int, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    group, cost, gain, budget = _random_knapsack(seed, n_groups=120)
     monkeypatch.setattr(plan_module, "CORE_OPENINGS", 15)  # most openings fixed by the LP
     chosen, gap = solve_choice_knapsack(group, cost, gain, budget, large_problem=10)
     best = _exact(group, cost, gain, budget)
     value = float(gain[chosen].sum())
-    assert float(np.round(cost[chosen] * 100).sum()) <= round(budget * 100)
-    assert np.bincount(group[chosen], minlength=n_groups).max() <= 1
+    _assert_a_plan(group, cost, chosen, budget)
     assert value <= best * (1 + 1e-9)
     assert (best - value) / best <= max(gap, 1e-6) + 1e-9
     exact_chosen, exact_gap = solve_choice_knapsack(group, cost, gain, budget)
@@ -95,16 +108,6 @@ class _OutOfTime:
 
     status, x, fun = 1, None, None
     message = "Time limit reached. (HiGHS Status 13: model_status is Time limit reached)"
-
-
-def _random_knapsack(seed: int) -> tuple[np.ndarray, np.ndarray, np.ndarray, float]:
-    rng = np.random.default_rng(seed)
-    n_groups, per = 60, 4
-    group = np.repeat(np.arange(n_groups), per)
-    cost = np.round(rng.uniform(5, 400, group.size), 2)
-    gain = np.round(cost * rng.uniform(0.2, 3.0, group.size) + rng.uniform(0, 50, group.size), 3)
-    budget = float(cost.reshape(n_groups, per).min(axis=1).sum() * 0.6)
-    return group, cost, gain, budget
 
 
 @pytest.mark.parametrize("seed", [0, 1])
@@ -127,8 +130,7 @@ def test_a_solver_out_of_time_without_a_plan_falls_back_to_the_core_method(
     chosen, gap = solve_choice_knapsack(group, cost, gain, budget)
     assert len(calls) == 2  # the whole problem, then the core
     value = float(gain[chosen].sum())
-    assert float(np.round(cost[chosen] * 100).sum()) <= round(budget * 100)
-    assert np.bincount(group[chosen], minlength=group.max() + 1).max() <= 1
+    _assert_a_plan(group, cost, chosen, budget)
     assert 0 < value <= best * (1 + 1e-9)
     assert (best - value) / best <= max(gap, 1e-6) + 1e-9  # the reported gap is honest
 
@@ -143,8 +145,7 @@ def test_a_core_that_cannot_be_solved_keeps_the_relaxations_plan(
     monkeypatch.setattr(scipy.optimize, "milp", lambda *a, **k: _OutOfTime())
     chosen, gap = solve_choice_knapsack(group, cost, gain, budget)
     value = float(gain[chosen].sum())
-    assert float(np.round(cost[chosen] * 100).sum()) <= round(budget * 100)
-    assert np.bincount(group[chosen], minlength=group.max() + 1).max() <= 1
+    _assert_a_plan(group, cost, chosen, budget)
     # the relaxation's whole steps: a plan, not nothing, and its gap is said
     assert value > 0.5 * best
     assert gap > 0 and (best - value) / best <= gap + 1e-9
