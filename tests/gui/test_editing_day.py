@@ -439,6 +439,25 @@ def _window_with_views(qtbot, building: Building | None = None, path: Any = None
     return window, views
 
 
+def test_a_new_building_does_not_inherit_the_last_ones_default_budget(qtbot) -> None:  # type: ignore[no-untyped-def]
+    # a new building without openings showed the sample's "4400 EUR, a default"
+    from petfall_audit.fixes import default_budget
+
+    window, views = _window_with_views(qtbot)
+    plan = views.plan
+    qtbot.waitUntil(lambda: bool(plan.options), timeout=30000)
+    assert plan.budget.value() == default_budget(plan.options) > 0
+    window.document.dirty = False
+    assert window.session.new()
+    qtbot.waitUntil(lambda: views.context.assessment is not None
+                    and not views.context.assessment.openings and not plan.options
+                    and plan.catalogue is not None, timeout=30000)
+    window.show_view(plan)
+    qtbot.waitUntil(lambda: plan.budget.value() == 0.0, timeout=30000)
+    assert plan.budget_is_default and "default" in plan.budget_note.text()
+    assert window.document.building.plan.budget is None  # nothing was set for the audit
+
+
 def test_the_budget_typed_is_saved_with_the_audit_and_comes_back(qtbot, tmp_path) -> None:  # type: ignore[no-untyped-def]
     from petfall_audit.gui.views.common import wait_for_tasks
     from petfall_audit.io.building_file import load_building

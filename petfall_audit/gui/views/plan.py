@@ -404,12 +404,12 @@ class PlanView(QWidget):
     def _set_default_budget(self) -> None:
         from petfall_audit.fixes import default_budget
 
+        # 0 when nothing can be fixed: the last building's default would read as this one's
         amount = default_budget(self.options)
-        if amount > 0:  # a default that is not the user's choice
-            self.budget.blockSignals(True)
-            self.budget.setValue(amount)
-            self.budget.blockSignals(False)
-            self._place_line()
+        self.budget.blockSignals(True)  # a default, not the user's choice
+        self.budget.setValue(amount)
+        self.budget.blockSignals(False)
+        self._place_line()
         self._show_budget_note()
 
     def _place_line(self) -> None:
