@@ -679,3 +679,24 @@ def test_the_audits_facades_share_one_key(app_window) -> None:  # type: ignore[n
     assert not compare.after_facade.legend.isVisibleTo(compare)
     assert compare.facades_legend.text() == legend_html(views.context.palette)
     assert views.facade.legend.text() == legend_html(views.context.palette)
+
+
+def test_an_empty_facade_view_says_what_to_do_where_it_can_be_seen(app_window, qtbot) -> None:  # type: ignore[no-untyped-def]
+    # after File > New the facade view was blank: its note lay out of view at the last
+    # building's scale and extent
+    from PySide6.QtWidgets import QGraphicsTextItem
+
+    window, views = app_window()
+    window.show_view(views.facade)
+    qtbot.waitUntil(lambda: bool(views.facade.items), timeout=20000)  # the walk-up drawn
+    window.document.dirty = False
+    assert window.session.new()
+    qtbot.waitUntil(lambda: views.context.assessment is not None
+                    and not views.context.assessment.openings, timeout=20000)
+    canvas = views.facade.canvas
+    qtbot.waitUntil(lambda: any(isinstance(i, QGraphicsTextItem)
+                                for i in views.facade.scene.items()), timeout=20000)
+    note = next(i for i in views.facade.scene.items() if isinstance(i, QGraphicsTextItem))
+    assert "No openings to draw yet" in note.toPlainText()
+    shown = canvas.mapFromScene(note.sceneBoundingRect()).boundingRect()
+    assert canvas.viewport().rect().contains(shown)

@@ -406,7 +406,13 @@ class FacadeView(QWidget):
         a = self._ctx.assessment
         self._facade_id = self.facade_box.currentData()
         if a is None or self._facade_id not in self._elevations:
-            self.scene.addText("No openings to draw yet.")
+            note = self.scene.addText(
+                "No openings to draw yet: add the facades, then the balconies and windows, in "
+                "the editors above (or import a schedule, File ▸ Import).")
+            note.setTextWidth(360)
+            # at the scale and extent of the last drawing the note could lie out of view
+            self.scene.setSceneRect(note.sceneBoundingRect())
+            self.canvas.resetTransform()
             return
         e = self._elevations[self._facade_id]
         building = a.building
