@@ -306,13 +306,12 @@ class RankedModel(QAbstractTableModel):
             return self.sort_key(col, r)
         if role == Qt.ItemDataRole.DisplayRole:
             return self._text(index.row(), col)
+        style = result_style(r, self.KEYS[col], role, stale=self.stale, palette=self._ctx.palette,
+                             system=self._ctx.options.units)
         if role == Qt.ItemDataRole.ToolTipRole and col in self.NAME_COLS:
             # the name may be elided in its narrowed column: whole here, then the result's words
-            return self._text(index.row(), col) + "\n" + result_style(
-                r, self.KEYS[col], role, stale=self.stale, palette=self._ctx.palette,
-                system=self._ctx.options.units)
-        return result_style(r, self.KEYS[col], role, stale=self.stale, palette=self._ctx.palette,
-                            system=self._ctx.options.units)
+            return f"{self._text(index.row(), col)}\n{style}"
+        return style
 
     def words(self, r: Any) -> list[str]:
         """The factors and hazards of result ``r`` in words, in the display units."""
