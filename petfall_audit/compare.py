@@ -33,6 +33,12 @@ per opening likewise (a removed opening's whole risk and an added one's, negativ
 "other"). A barrier taken away between the audits shows as a negative amount removed. How often
 an opening is opened (``open_frequency``) is use, not a fitting, and counts as "other".
 
+Doubts (:attr:`Comparison.doubts`): signs that the two files may not be audits of one building,
+which the comparison still makes but every output names: ``"no_common_openings"`` (both audits
+have openings and none pairs, so every opening reads as added or removed) and
+``"different_address"`` (both give an address and they differ in more than case, spacing and
+punctuation).
+
 Which recorded fixes were fitted: the later building's fix records (``Building.fixes``) with
 status ``fitted`` or ``checked`` are named on their opening (:attr:`OpeningComparison.fitted`).
 
@@ -60,6 +66,7 @@ from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
 
 __all__ = [
     "STATUSES",
+    "DOUBTS",
     "OPENING_FIELDS",
     "BARRIER_FIELDS",
     "FieldChange",
@@ -74,6 +81,9 @@ __all__ = [
 Status = Literal["added", "removed", "changed", "unchanged"]
 #: The statuses of a compared opening.
 STATUSES: tuple[Status, ...] = ("added", "removed", "changed", "unchanged")
+Doubt = Literal["no_common_openings", "different_address"]
+#: Signs that two compared audits may not be of one building (module docstring).
+DOUBTS: tuple[Doubt, ...] = ("no_common_openings", "different_address")
 #: Fields of an opening compared between two audits (its id pairs them; notes and photos are
 #: records, not the opening's state).
 OPENING_FIELDS: tuple[str, ...] = tuple(
@@ -191,6 +201,18 @@ class Comparison:
     def share_by_other(self) -> float | None:
         return self.share(self.removed_by_other)
 
+    @property
+    def doubts(self) -> tuple[Doubt, ...]:
+        """Signs that the two audits may not be of one building, in :data:`DOUBTS` order."""
+        e, la = self.earlier.building, self.later.building
+        out: list[Doubt] = []
+        if e.openings and la.openings and not self.with_status("changed", "unchanged"):
+            out.append("no_common_openings")
+        a0, a1 = _address_key(e.info.address), _address_key(la.info.address)
+        if a0 and a1 and a0 != a1:
+            out.append("different_address")
+        return tuple(out)
+
     def with_status(self, *statuses: Status) -> list[OpeningComparison]:
         return [o for o in self.openings if o.status in statuses]
 
@@ -208,6 +230,11 @@ class Comparison:
 
 
 # --- comparing -------------------------------------------------------------------------------
+
+
+def _address_key(address: str) -> str:
+    """An address without case, spacing or punctuation ("7 Tallowmere St." = "7 tallowmere st")."""
+    return "".join(ch for ch in address.casefold() if ch.isalnum())
 
 
 def _value(v: Any) -> Any:

@@ -212,3 +212,56 @@ def test_only_barriers_changed_leaves_nothing_to_every_other_change() -> None:
     text = " ".join(summary_lines(c))
     assert "every other change removed 0 (0%)" in text
     assert "e-" not in text  # no number in scientific notation
+
+
+def _with_address(b: Building, address: str) -> Building:
+    return dataclasses.replace(b, info=dataclasses.replace(b.info, address=address))
+
+
+def _every_id_renumbered(b: Building) -> Building:
+    return dataclasses.replace(b, openings=tuple(
+        dataclasses.replace(o, id=f"N{i}") for i, o in enumerate(b.openings)))
+
+
+def test_audits_sharing_no_opening_are_doubted_as_two_buildings() -> None:
+    from petfall_audit.present.comparison import doubt_line, summary_lines
+
+    e = earlier_building()
+    other = _every_id_renumbered(later_building())
+    c = compare_buildings(e, other, samples=SAMPLES, seed=SEED)
+    assert c.doubts == ("no_common_openings",)
+    line = doubt_line(c)
+    assert "two different buildings" in line and "new or removed" in line
+    assert line in summary_lines(c)
+    # the same openings paired by their new ids: no doubt left
+    pairs = {o.id: f"N{i}" for i, o in enumerate(e.openings) if i < 2}
+    paired = compare_buildings(e, _every_id_renumbered(e), renamed=pairs, samples=SAMPLES,
+                               seed=SEED)
+    assert paired.doubts == () and doubt_line(paired) == ""
+    assert not any("different buildings" in s for s in summary_lines(paired))
+
+
+def test_a_different_address_is_doubted_but_not_its_spelling() -> None:
+    from petfall_audit.present.comparison import doubt_line
+
+    e = _with_address(earlier_building(), "12 Pelling Row, Marsh End")
+    same = _with_address(e, "  12 pelling row  marsh end.")
+    moved = _with_address(e, "14 Pelling Row,\nMarsh End")
+    assert compare_buildings(e, same, samples=SAMPLES, seed=SEED).doubts == ()
+    assert compare_buildings(e, _with_address(e, ""), samples=SAMPLES, seed=SEED).doubts == ()
+    c = compare_buildings(e, moved, samples=SAMPLES, seed=SEED)
+    assert c.doubts == ("different_address",)
+    line = doubt_line(c)
+    assert "“12 Pelling Row, Marsh End” and “14 Pelling Row, Marsh End”" in line
+    assert "\n" not in line
+
+
+def test_a_what_if_is_never_doubted() -> None:
+    from petfall_audit.present.comparison import summary_lines
+
+    e = _with_address(earlier_building(), "12 Pelling Row")
+    c = compare_buildings(e, _with_address(_every_id_renumbered(e), "elsewhere"),
+                          samples=SAMPLES, seed=SEED)
+    assert len(c.doubts) == 2
+    assert not any("different buildings" in s for s in summary_lines(c, what_if=True))
+    assert any("different buildings" in s for s in summary_lines(c))

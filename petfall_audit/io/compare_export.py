@@ -4,7 +4,9 @@ a terminal table.
 JSON keys: top level ``risk_before``, ``risk_after`` (summed risk scores), ``risk_removed``,
 ``removed_by_fixes``, ``removed_by_other`` and their shares of ``risk_before``, ``samples`` and
 ``seed`` (the same for both audits), ``earlier`` / ``later`` (name, audit date, number of
-openings), ``building_changes``, ``method``, ``cautions``; ``"openings"``: one object per opening
+openings), ``doubts`` (signs that the two may not be audits of one building:
+``no_common_openings``, ``different_address``; :attr:`Comparison.doubts`), ``building_changes``,
+``method``, ``cautions``; ``"openings"``: one object per opening
 with ``id``, ``earlier_id``, ``status`` (``added``, ``removed``, ``changed``, ``unchanged``),
 ``changes`` (field names), ``field_changes`` (field, old, new, unit), ``risk_before``,
 ``risk_after``, ``band_before``, ``band_after`` (band names; ``null`` where the opening does not
@@ -31,6 +33,7 @@ from petfall_audit.present.comparison import (
     METHOD,
     building_change_lines,
     comparison_rows,
+    doubt_line,
     summary_lines,
 )
 from petfall_audit.risk import OpeningResult
@@ -133,6 +136,7 @@ def comparison_fields(c: Comparison) -> dict[str, Any]:
         "share_removed": _share(c.share_removed),
         "share_by_fixes": _share(c.share_by_fixes),
         "share_by_other": _share(c.share_by_other),
+        "doubts": list(c.doubts),
         "counts": {s: len(c.with_status(s)) for s in ("added", "removed", "changed",
                                                        "unchanged")},
         "building_changes": [_change(x) for x in c.building_changes],
@@ -164,6 +168,9 @@ def comparison_to_csv(c: Comparison) -> str:
     buf = io.StringIO()
     for line in CAUTIONS:
         buf.write(f"# {line}\n")
+    doubt = doubt_line(c)
+    if doubt:
+        buf.write(f"# {doubt}\n")
     w = csv_writer(buf)
     w.writerow(CSV_COLUMNS)
     for o in c.openings:

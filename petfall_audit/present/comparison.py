@@ -21,12 +21,14 @@ from petfall_audit.present.changes import (
 )
 from petfall_audit.present.labels import band_label, kind_label
 from petfall_audit.present.numbers import fmt_count, fmt_date, fmt_one_in, fmt_percent, fmt_risk
+from petfall_audit.safe_text import cut
 
 __all__ = [
     "METHOD",
     "ComparisonRow",
     "comparison_rows",
     "summary_lines",
+    "doubt_line",
     "building_change_lines",
     "fitted_fix_rows",
     "fmt_exported_risk",
@@ -129,6 +131,29 @@ def comparison_rows(c: Comparison, system: str = "metric", *, exact: bool = Fals
     return [_row(o, system, exact) for o in ranked]
 
 
+def _one_line(text: str) -> str:
+    """User text quoted in a sentence: on one line, cut to a readable length."""
+    return cut(" ".join(text.split()))
+
+
+def doubt_line(c: Comparison) -> str:
+    """Why the two audits may not be of one building (:attr:`Comparison.doubts`), in one
+    sentence, or ``""`` when nothing suggests it."""
+    doubts = c.doubts
+    if not doubts:
+        return ""
+    reasons = []
+    if "no_common_openings" in doubts:
+        reasons.append("no opening id of the earlier audit is in the later one, so every "
+                       "opening counts as new or removed")
+    if "different_address" in doubts:
+        e, la = c.earlier.building.info, c.later.building.info
+        reasons.append(f"they give different addresses, “{_one_line(e.address)}” and "
+                       f"“{_one_line(la.address)}”")
+    return ("These may be audits of two different buildings: " + ", and ".join(reasons)
+            + ". Check that both files are audits of the same building.")
+
+
 def summary_lines(c: Comparison, *, what_if: bool = False) -> list[str]:
     """The totals in sentences; ``what_if``: the later side is the building with the plan's
     fixes fitted (a what-if), not a later audit, and the numbers are as computed (to read
@@ -164,6 +189,9 @@ def summary_lines(c: Comparison, *, what_if: bool = False) -> list[str]:
         f"{fmt_percent(abs(share or 0.0))} {'less' if removed >= 0 else 'more'}).",
         fixes,
     ]
+    doubt = "" if what_if else doubt_line(c)
+    if doubt:
+        lines.insert(1, doubt)
     if not what_if:
         lines.append("Openings: " + ", ".join(
             fmt_count(len(c.with_status(s)), status_label(s).lower(), status_label(s).lower())

@@ -165,3 +165,19 @@ def test_pdf_without_an_earlier_audit_has_no_such_section(capsys, tmp_path, file
     assert "Since the earlier audit" not in _pdf_text(pdf)
     code, _, err = _run(capsys, "report", files[1], "-o", str(pdf), "--rename", "a=b")
     assert code == 2 and "--earlier" in err
+
+
+def test_two_different_buildings_are_named_as_such_in_every_format(capsys, tmp_path, files) -> None:  # type: ignore[no-untyped-def]
+    other = dataclasses.replace(later_building(), openings=tuple(
+        dataclasses.replace(o, id=f"Z{i}") for i, o in enumerate(later_building().openings)))
+    path = tmp_path / "other.json"
+    save_building(other, path)
+    code, out, _ = _run(capsys, "compare", files[0], str(path), "--format", "json", *_sampling())
+    assert code == 0 and json.loads(out)["doubts"] == ["no_common_openings"]
+    code, out, _ = _run(capsys, "compare", files[0], str(path), *_sampling())
+    assert code == 0 and "two different buildings" in " ".join(out.split())
+    code, out, _ = _run(capsys, "compare", files[0], str(path), "--format", "csv", *_sampling())
+    comments = [line for line in out.splitlines() if line.startswith("#")]
+    assert any("two different buildings" in line for line in comments)
+    code, out, _ = _run(capsys, "compare", *files, "--format", "json", *_sampling())
+    assert json.loads(out)["doubts"] == []

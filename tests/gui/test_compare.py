@@ -189,3 +189,18 @@ def test_an_unreadable_earlier_file_is_said_in_words(compared, tmp_path: Path) -
     assert view.summary.text().startswith("Cannot open broken.json")
     assert views.floors.open_earlier(bad) is None
     assert "Cannot open broken.json" in views.floors.note.text()
+
+
+def test_another_buildings_audit_is_said_to_be_one(compared, qtbot, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
+    import dataclasses
+
+    _window, _views, view, _doc = compared
+    assert "different buildings" not in view.summary.text()
+    e = earlier_building()
+    other = dataclasses.replace(e, openings=tuple(
+        dataclasses.replace(o, id=f"Q{i}") for i, o in enumerate(e.openings)))
+    path = tmp_path / "elsewhere.json"
+    save_building(other, path)
+    with qtbot.waitSignal(view.compared, timeout=20000):
+        view.open_earlier(path)
+    assert "These may be audits of two different buildings" in view.summary.text()
