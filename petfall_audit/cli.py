@@ -198,9 +198,12 @@ def _emit(text: str, output: str | None, *, table: bool = False) -> None:
         sys.stdout.write(terminal_safe(text) if table or sys.stdout.isatty() else text)
 
 
-def _count(items: Sized, noun: str) -> str:
-    """``"1 floor"``, ``"3 floors"``."""
-    return f"{len(items)} {noun}{'' if len(items) == 1 else 's'}"
+def _count(items: Sized, one: str, many: str | None = None) -> str:
+    """``"1 floor"``, ``"3 floors"``, ``"2 fixes"`` (``many`` where the plural is not ``one``
+    + "s"; :func:`petfall_audit.present.numbers.fmt_count`)."""
+    from petfall_audit.present.numbers import fmt_count
+
+    return fmt_count(len(items), one, many)
 
 
 def _flush_c_stdio() -> None:
@@ -272,7 +275,7 @@ def _library_chatter_held() -> Iterator[_HeldChatter]:
         yield _HeldChatter(held)
     finally:
         for stream in (sys.stdout, sys.stderr):
-            stream.flush()
+            _flush_or_drop(stream)
             stream.close()
         sys.stdout, sys.stderr = streams
         _flush_c_stdio()
@@ -280,6 +283,21 @@ def _library_chatter_held() -> Iterator[_HeldChatter]:
             os.dup2(copy, fd)
             os.close(copy)
         held.close()
+
+
+def _flush_or_drop(stream: TextIO) -> None:
+    """Flush ``stream``; when its reader has gone (a pipe closed early, as by ``| head``), what
+    is left is dropped: its descriptor is pointed at the null device, so that no later flush
+    (at close or at exit) fails."""
+    try:
+        stream.flush()
+    except BrokenPipeError:
+        null = os.open(os.devnull, os.O_WRONLY)
+        try:
+            os.dup2(null, stream.fileno())
+        finally:
+            os.close(null)
+        stream.flush()
 
 
 def _text_stream(fd: int, like: TextIO | None) -> TextIO:
@@ -380,11 +398,13 @@ def _cmd_plan(args: argparse.Namespace) -> int:
     if args.write_after:
         from petfall_audit.fix_tracking import apply_plan
         from petfall_audit.io.building_file import save_building
+        from petfall_audit.present.numbers import plural
 
         after, left = apply_plan(building, plan, catalogue)
         save_building(after, args.write_after)
         _say(f"wrote {args.write_after}: the building with the plan's fixes fitted (a what-if"
-             + (f"; {_count(left, 'fix')} that relies on people or changes no field left out)"
+             + (f"; {_count(left, 'fix', 'fixes')} that {plural(len(left), 'relies', 'rely')} "
+                f"on people or {plural(len(left), 'changes', 'change')} no field left out)"
                 if left else ")"), file=sys.stderr)
     if args.format == "json":
         text = results_json_text(plan=plan)
@@ -576,6 +596,9 @@ def _cmd_fixes(args: argparse.Namespace) -> int:
     if args.apply_fitted and not args.output:
         raise _refuse("--apply-fitted needs -o NEXT.json (the building as the next audit "
                       "starts; FILE is left as it is)")
+    if args.output and not (args.apply_fitted or args.record_plan or args.set):
+        raise _refuse("-o: nothing to write; it goes with --record-plan, --set or "
+                      "--apply-fitted")
     _check_output(args.output)
     building = _load(args.file)
     catalogue = _load_catalogue(args.controls)
@@ -587,7 +610,8 @@ def _cmd_fixes(args: argparse.Namespace) -> int:
                           "--budget")
         plan = make_plan(_assess(args, building), budget, catalogue=catalogue)
         changed = record_plan(changed, plan, date=args.date or building.info.audit_date)
-        _say(f"{args.file}: {_count(plan.actions, 'fix')} of the plan recorded as recommended")
+        _say(f"{args.file}: {_count(plan.actions, 'fix', 'fixes')} of the plan recorded as "
+             "recommended")
     if args.set:
         from petfall_audit.model import FixStatus
 
@@ -602,8 +626,11 @@ def _cmd_fixes(args: argparse.Namespace) -> int:
         changed = set_fix_status(changed, opening_id, control_id, status,
                                  date=args.date or "", note=args.note)
     if changed is not building:
-        save_building(changed, args.file)
-        _say(f"wrote {args.file}")
+        # -o without --apply-fitted: the updated records go there and FILE is left as it is
+        target = args.output if args.output and not args.apply_fitted else args.file
+        save_building(changed, target)
+        _say(f"wrote {target}" + (f" ({args.file} is left as it is)"
+                                  if target != args.file else ""))
     if args.apply_fitted:
         from dataclasses import replace
 
@@ -1027,7 +1054,8 @@ def _build_parser() -> argparse.ArgumentParser:
         "audit starts, every fitted or checked fix written into its opening (--apply-fitted "
         "-o NEXT.json).",
     )
-    p.add_argument("file", help="building file (.json); --record-plan and --set update it")
+    p.add_argument("file", help="building file (.json); --record-plan and --set update it "
+                                "(or write to -o)")
     p.add_argument("--record-plan", action="store_true",
                    help="record every fix of the plan (saved budget or --budget) as recommended")
     p.add_argument("--budget", type=float, default=None, metavar="AMOUNT",
@@ -1040,8 +1068,10 @@ def _build_parser() -> argparse.ArgumentParser:
     p.add_argument("--note", default=None, metavar="TEXT", help="with --set: a note")
     p.add_argument("--apply-fitted", action="store_true",
                    help="write the building with its fitted fixes as barriers to -o")
-    p.add_argument("-o", "--output", default=None, metavar="NEXT.json",
-                   help="with --apply-fitted: the building file to write")
+    p.add_argument("-o", "--output", default=None, metavar="OUT.json",
+                   help="with --apply-fitted: the next audit's building file to write; with "
+                        "--record-plan or --set alone: write the updated file there and "
+                        "leave FILE as it is")
     p.add_argument("--controls", default=None, metavar="FILE",
                    help="control catalogue (.json; default: the shipped catalogue)")
     _add_sampling_options(p)
@@ -1204,6 +1234,11 @@ def _run(args: argparse.Namespace) -> int:
     except PetfallError as exc:
         _say(f"petfall-audit: {exc}", file=sys.stderr)
         return EXIT_INVALID
+    except BrokenPipeError:
+        # the reader of the output went away (``| head``): stop quietly, as a pipeline expects
+        for stream in (sys.stdout, sys.stderr):
+            _flush_or_drop(stream)
+        return EXIT_FAILURE
     except OSError as exc:
         where = f"{exc.filename}: " if exc.filename else ""
         _say(f"petfall-audit: {where}{exc.strerror or exc}", file=sys.stderr)

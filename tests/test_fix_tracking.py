@@ -5,6 +5,7 @@ from __future__ import annotations
 
 import dataclasses
 import json
+import re
 from pathlib import Path
 
 import pytest
@@ -207,9 +208,40 @@ def test_cli_what_if_section_and_copy(tmp_path: Path, capsys: pytest.CaptureFixt
     assert main(["plan", str(path), "--budget", "3000", "--write-after", str(after),
                  "--samples", str(SAMPLES), "--seed", str(SEED)]) == 0
     assert path.read_text(encoding="utf-8") == before_text
+    # a small budget buys fixes that rely on people (keeping a window shut): they are named as
+    # left out, the verb agreeing with their count ("1 fix that relies", "2 fixes that rely")
+    assert main(["plan", str(path), "--budget", "200", "--write-after", str(tmp_path / "s.json"),
+                 "--samples", str(SAMPLES), "--seed", str(SEED), "-o",
+                 str(tmp_path / "p.json")]) == 0
+    said = " ".join(capsys.readouterr().err.split())
+    assert "left out" in said
+    assert ("1 fix that relies on people or changes no field" in said
+            or re.search(r"\d+ fixes that rely on people or change no field", said)), said
     assert load_building(after).opening("B-2").netting_mesh_mm is not None
     assert main(["report", str(path), "--budget", "3000", "--what-if", "-o", str(pdf),
                  "--samples", str(SAMPLES), "--seed", str(SEED)]) == 0
     text = " ".join(" ".join(p.extract_text() or "" for p in PdfReader(pdf).pages).split())
     assert "After the plan (what-if)" in text and "Openings the plan improves" in text
     assert main(["report", str(path), "--what-if", "-o", str(pdf)]) == 2
+
+
+def test_cli_fixes_with_o_writes_there_and_leaves_file_as_it_is(
+        tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
+    path, out = tmp_path / "2025.json", tmp_path / "recorded.json"
+    save_building(with_plan_settings(earlier_building(), 900.0, samples=300, seed=5), path)
+    before = path.read_bytes()
+    assert main(["fixes", str(path), "--record-plan", "-o", str(out)]) == 0
+    said = capsys.readouterr().out
+    assert path.read_bytes() == before  # FILE untouched
+    recorded = load_building(out).fixes
+    assert recorded and all(r.status is FixStatus.RECOMMENDED for r in recorded)
+    n = len(recorded)
+    assert f"{n} {'fix' if n == 1 else 'fixes'} of the plan recorded" in said  # not "fixs"
+    assert f"wrote {out}" in said and "is left as it is" in said
+    assert main(["fixes", str(out), "--set", "B-2", "net_anchored_30", "fitted",
+                 "-o", str(out)]) == 0
+    assert any(r.status is FixStatus.FITTED for r in load_building(out).fixes)
+    # -o with nothing to write is refused in words, FILE still untouched
+    assert main(["fixes", str(path), "-o", str(tmp_path / "x.json")]) == 2
+    assert "nothing to write" in capsys.readouterr().err
+    assert not (tmp_path / "x.json").exists() and path.read_bytes() == before

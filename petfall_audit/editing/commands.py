@@ -33,6 +33,7 @@ from petfall_audit.model import (
     PlanSettings,
     Surface,
 )
+from petfall_audit.present.numbers import fmt_count
 
 __all__ = [
     "EditRefused",
@@ -240,10 +241,6 @@ def _named(noun: str, item_id: str) -> str:
     return f"{noun} {item_id}"
 
 
-def _plural(n: int, word: str) -> str:
-    return f"{n} {word}" if n == 1 else f"{n} {word}s"
-
-
 # --- openings ------------------------------------------------------------------------------------
 
 
@@ -259,7 +256,7 @@ class SetOpeningFields(BuildingCommand):
         if "id" in self.changes and len(self.ids) > 1:
             raise _refuse(Place("openings", None, "id"), "several openings cannot take the same id")
         fields = field_words("openings", self.changes)
-        target = self.ids[0] if len(self.ids) == 1 else _plural(len(self.ids), "opening")
+        target = self.ids[0] if len(self.ids) == 1 else fmt_count(len(self.ids), "opening")
         self._default_label = label is None
         self._base_label = label or f"Set {fields} of {target}"
         super().__init__(self._base_label, merge_key)
@@ -292,7 +289,7 @@ class AddOpenings(BuildingCommand):
                  label: str | None = None) -> None:
         self.openings = tuple(openings)
         self.index = index
-        what = self.openings[0].id if len(self.openings) == 1 else _plural(len(self.openings),
+        what = self.openings[0].id if len(self.openings) == 1 else fmt_count(len(self.openings),
                                                                              "opening")
         super().__init__(label or f"Add {what}")
 
@@ -320,7 +317,7 @@ class PasteOpenings(BuildingCommand):
         self.rows = [dict(r) for r in rows]
         self.added: tuple[str, ...] = ()
         self.updated: tuple[str, ...] = ()
-        super().__init__(label or f"Paste {_plural(len(self.rows), 'row')}")
+        super().__init__(label or f"Paste {fmt_count(len(self.rows), 'row')}")
 
     def apply(self, building: Building) -> Building:
         openings = list(building.openings)
@@ -352,7 +349,7 @@ class RemoveOpenings(BuildingCommand):
 
     def __init__(self, ids: Iterable[str], *, label: str | None = None) -> None:
         self.ids = tuple(ids)
-        what = self.ids[0] if len(self.ids) == 1 else _plural(len(self.ids), "opening")
+        what = self.ids[0] if len(self.ids) == 1 else fmt_count(len(self.ids), "opening")
         super().__init__(label or f"Remove {what}")
 
     def apply(self, building: Building) -> Building:
@@ -390,7 +387,7 @@ class AddFloors(BuildingCommand):
 
     def __init__(self, floors: Sequence[Floor], *, label: str | None = None) -> None:
         self.floors = tuple(floors)
-        super().__init__(label or f"Add {_plural(len(self.floors), 'floor')}")
+        super().__init__(label or f"Add {fmt_count(len(self.floors), 'floor')}")
 
     def apply(self, building: Building) -> Building:
         taken = {f.level for f in building.floors}
@@ -411,7 +408,7 @@ class PasteFloors(BuildingCommand):
         self.rows = [dict(r) for r in rows]
         self.added: tuple[int, ...] = ()
         self.updated: tuple[int, ...] = ()
-        super().__init__(label or f"Paste {_plural(len(self.rows), 'floor')}")
+        super().__init__(label or f"Paste {fmt_count(len(self.rows), 'floor')}")
 
     def apply(self, building: Building) -> Building:
         floors = {f.level: f for f in building.floors}
@@ -454,7 +451,7 @@ class RemoveFloor(BuildingCommand):
         self.removed_openings = tuple(o.id for o in building.openings if o.floor == self.level)
         if self._default_label and self.removed_openings:
             self.label = (f"Remove floor {self.level} and its "
-                          f"{_plural(len(self.removed_openings), 'opening')}")
+                          f"{fmt_count(len(self.removed_openings), 'opening')}")
         return dataclasses.replace(
             building,
             floors=tuple(f for f in building.floors if f.level != self.level),
@@ -666,7 +663,7 @@ class RemoveFacade(BuildingCommand):
             raise _refuse("facades", f"not found: {self.facade_id}")
         on_it = sum(o.facade == self.facade_id for o in building.openings)
         if on_it:
-            raise _refuse("facades", f"{_plural(on_it, 'opening')} sit on facade "
+            raise _refuse("facades", f"{fmt_count(on_it, 'opening')} sit on facade "
                           f"{self.facade_id!r}; move or remove them first")
         return dataclasses.replace(
             building,

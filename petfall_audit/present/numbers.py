@@ -26,6 +26,7 @@ __all__ = [
     "fmt_percent",
     "fmt_risk",
     "fmt_count",
+    "plural",
     "fmt_date",
     "fmt_number",
     "fmt_int",
@@ -245,10 +246,15 @@ def fmt_change_pct(pct: float | None) -> str:
     return f"{pct:+.0f}%" if abs(pct) >= 9.95 else f"{pct:+.1f}%"
 
 
+def plural(n: int, one: str, many: str | None = None) -> str:
+    """The word that goes with a count of ``n``: ``one`` for 1, else ``many`` (default ``one``
+    + "s"); also a verb: ``plural(n, "relies", "rely")``."""
+    return one if n == 1 else (many if many is not None else one + "s")
+
+
 def fmt_count(n: int, one: str, many: str | None = None) -> str:
     """``3 openings`` / ``1 opening``, with thousands separators."""
-    word = one if n == 1 else (many if many is not None else one + "s")
-    return f"{n:,} {word}"
+    return f"{n:,} {plural(n, one, many)}"
 
 
 _MONTHS = ("January", "February", "March", "April", "May", "June", "July", "August",

@@ -5,6 +5,7 @@ from __future__ import annotations
 
 import gc
 import json
+import os
 import subprocess
 import sys
 from pathlib import Path
@@ -67,3 +68,20 @@ def test_a_worker_process_collects_rarely_and_freezes_its_survivors_at_exit() ->
     assert done.returncode == 0, done.stderr
     assert f"thresholds: {COMMAND_GC_THRESHOLDS}" in done.stdout
     assert "frozen at exit: True" in done.stdout
+
+
+def test_output_piped_to_a_reader_that_has_gone_ends_quietly(tmp_path: Path) -> None:
+    # `petfall-audit assess FILE | head -1`: the reader closes the pipe early. A pipe whose
+    # read end is closed before the program starts fails every write (EPIPE) deterministically.
+    read_end, write_end = os.pipe()
+    os.close(read_end)
+    code = "import sys; from petfall_audit.cli import run; sys.argv[1:] = sys.argv[2:]; run()"
+    try:
+        done = subprocess.run(
+            [sys.executable, "-c", code, "--", "assess", str(WALKUP), "--samples", "64"],
+            stdout=write_end, stderr=subprocess.PIPE, text=True, cwd=ROOT, timeout=300)
+    finally:
+        os.close(write_end)
+    assert done.returncode == 1
+    assert "Traceback" not in done.stderr and "Exception ignored" not in done.stderr
+    assert "Broken pipe" not in done.stderr, done.stderr

@@ -108,3 +108,12 @@ def test_presets_and_drag_terms_are_explained() -> None:
     assert preset_label(None) == "Custom cat profile"
     assert all("C_d·A" in PARAMETER_LABELS[k] for k in ("cda_tense_m2", "cda_spread_m2"))
     assert "drag coefficient" in DRAG_AREA_NOTE and "area" in DRAG_AREA_NOTE
+
+
+def test_plural_agrees_with_the_count() -> None:
+    from petfall_audit.present.numbers import fmt_count, plural
+
+    assert [plural(n, "relies", "rely") for n in (0, 1, 2)] == ["rely", "relies", "rely"]
+    assert [plural(n, "opening") for n in (0, 1, 2)] == ["openings", "opening", "openings"]
+    assert fmt_count(2, "fix", "fixes") == "2 fixes" and fmt_count(1, "fix", "fixes") == "1 fix"
+    assert fmt_count(1200, "row") == "1,200 rows"

@@ -370,14 +370,16 @@ class CompareView(QWidget):
             self.summary.setToolTip("A copy of this building with the plan's fixes fitted, "
                                     "assessed with the same simulated cats; nothing is fitted "
                                     "until you accept it.")
-            from petfall_audit.present import fmt_count, fmt_percent, fmt_risk
+            from petfall_audit.present import fmt_count, fmt_percent, fmt_risk, plural
 
             left, p = len(self.what_if_left), self.what_if_plan
             text = "Nothing is changed until you choose Fit the plan's fixes."
             if left:
-                text += (f" {fmt_count(left, 'fix', 'fixes')} of the plan rely on people or "
-                         "change no field of an opening (keeping a window shut, tenant "
-                         "guidance) and are not shown here")
+                text += (f" {fmt_count(left, 'fix', 'fixes')} of the plan "
+                         f"{plural(left, 'relies', 'rely')} on people or "
+                         f"{plural(left, 'changes', 'change')} no field of an opening (keeping "
+                         f"a window shut, tenant guidance) and {plural(left, 'is', 'are')} not "
+                         "shown here")
                 if p is not None and p.risk_before > 0:
                     text += (f"; with them the plan's estimate is {fmt_risk(p.risk_after)} "
                              f"({fmt_percent(p.risk_removed / p.risk_before)} less)")
