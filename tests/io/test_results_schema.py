@@ -87,7 +87,11 @@ def test_compare_json(validator: Any, tmp_path: Path, capsys: pytest.CaptureFixt
     assert doc["contents"] == ["comparison"]
     assert doc["results"] is None and doc["plan"] is None
     assert {o["status"] for o in doc["openings"]} == {"unchanged"}
-    assert doc["risk_before"] == doc["risk_after"]
+    assert doc["risk_before"] == doc["risk_after"] and doc["doubts"] == []
+    # two different buildings: the doubts are in the envelope and valid
+    assert main(["compare", walkup, str(sample_path("block")), "--format", "json", *FAST]) == 0
+    other = _valid(validator, capsys.readouterr().out)
+    assert other["doubts"] == ["no_common_openings", "different_address"]
     # a comparison without its openings is refused by the schema
     broken = dict(doc)
     del broken["openings"]
