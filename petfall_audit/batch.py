@@ -110,7 +110,9 @@ def describe_problems(exc: PetfallError, path: str) -> str:
 
     problems = getattr(exc, "problems", None)
     if isinstance(exc, ValidationFailed | CatalogueError) and problems:
-        return "\n".join([f"{path}: {len(problems)} problem(s):",
+        from petfall_audit.present.numbers import fmt_count
+
+        return "\n".join([f"{path}: {fmt_count(len(problems), 'problem')}:",
                           *(f"  {problem}" for problem in problems)])
     return f"{path}: {exc}"
 

@@ -350,7 +350,7 @@ def _print_warnings(warnings: Sequence[object], path: str, *, stream: object = N
     if not warnings:
         return
     out = stream if stream is not None else sys.stderr
-    _say(f"{path}: {len(warnings)} warning(s): information still missing", file=out)  # type: ignore[arg-type]
+    _say(f"{path}: {_count(warnings, 'warning')}: information still missing", file=out)  # type: ignore[arg-type]
     for warning in list(warnings)[:limit]:
         _say(f"  {warning}", file=out)  # type: ignore[arg-type]
     if len(warnings) > limit:
@@ -717,7 +717,8 @@ def _cmd_batch(args: argparse.Namespace) -> int:
     writer.writerow(SUMMARY_COLUMNS)
     writer.writerows(rows)
     atomic_write_text(out_dir / "summary.csv", buffer.getvalue())
-    _say(f"assessed {len(rows)} of {len(args.files)} building(s); wrote {out_dir / 'summary.csv'}")
+    _say(f"assessed {len(rows)} of {_count(args.files, 'building')}; "
+         f"wrote {out_dir / 'summary.csv'}")
     if args.portfolio_budget is not None and not done:
         # an estate plan of no building would read as an estate without risk
         _say("petfall-audit: no building could be assessed, so no estate plan was written",
@@ -784,6 +785,11 @@ def _cmd_import(args: argparse.Namespace) -> int:
         return _cmd_import_model(args)
     if args.facade or args.ground:
         raise _refuse("--facade and --ground are for a building model (.ifc) only")
+    if not Path(args.into).exists():
+        raise _refuse(f"{args.into}: no such building file. A schedule adds floors and openings "
+                      "to a building file that already has its facades and what lies below "
+                      "them: start one in the app (File > New building, then save it), or "
+                      "create one from the building's model (import MODEL.ifc --into FILE)")
     building = _load(args.into)
     table = read_table(Path(args.schedule))
     for note in table.notes:
@@ -796,12 +802,12 @@ def _cmd_import(args: argparse.Namespace) -> int:
         units = {**units, **loaded.units}
     preview = preview_import(table, mapping, building, units=units)
     if preview.problems:
-        _say(f"{args.schedule}: {len(preview.problems)} problem(s):", file=sys.stderr)
+        _say(f"{args.schedule}: {_count(preview.problems, 'problem')}:", file=sys.stderr)
         for problem in preview.problems:
             _say(f"  {problem}", file=sys.stderr)
         if not args.accept_valid or not preview.openings:
             hint = (
-                f"fix the rows above, or import the {len(preview.openings)} valid row(s) with "
+                f"fix the rows above, or import the {_count(preview.openings, 'valid row')} with "
                 "--accept-valid"
                 if preview.openings
                 else "fix the problems above (a mapping file may help: --map MAPPING.json)"
@@ -811,7 +817,7 @@ def _cmd_import(args: argparse.Namespace) -> int:
     updated = apply_import(building, preview, mode=args.mode, accept_valid_rows=args.accept_valid)
     after = validate_building(updated)
     if after:  # never write a building file that would not load again
-        _say(f"{args.into}: the imported building would have {len(after)} problem(s):",
+        _say(f"{args.into}: the imported building would have {_count(after, 'problem')}:",
               file=sys.stderr)
         for building_problem in after:
             _say(f"  {building_problem}", file=sys.stderr)
@@ -891,13 +897,13 @@ def _cmd_import_model(args: argparse.Namespace) -> int:
         assert building is not None
         preview = preview_model(model, building, facade_map=facade_map)
     if preview.problems:
-        _say(f"{args.schedule}: {len(preview.problems)} problem(s) (row n is the model's "
+        _say(f"{args.schedule}: {_count(preview.problems, 'problem')} (row n is the model's "
               "opening n - 1 in the list above):", file=sys.stderr)
         for problem in preview.problems:
             _say(f"  {problem}", file=sys.stderr)
         if not args.accept_valid or not preview.openings:
             _say(f"{args.schedule}: nothing imported; fix the model, or import the "
-                  f"{len(preview.openings)} valid opening(s) with --accept-valid",
+                  f"{_count(preview.openings, 'valid opening')} with --accept-valid",
                   file=sys.stderr)
             return EXIT_INVALID
     if not preview.openings:
@@ -910,7 +916,7 @@ def _cmd_import_model(args: argparse.Namespace) -> int:
                               accept_valid_rows=args.accept_valid, facade_map=facade_map)
         after = validate_building(updated)
         if after:  # never turn a building file that loads into one that does not
-            _say(f"{args.into}: the imported building would have {len(after)} problem(s):",
+            _say(f"{args.into}: the imported building would have {_count(after, 'problem')}:",
                   file=sys.stderr)
             for building_problem in after:
                 _say(f"  {building_problem}", file=sys.stderr)
@@ -923,14 +929,14 @@ def _cmd_import_model(args: argparse.Namespace) -> int:
           f"{_count(updated.facades, 'facade')}, {_count(updated.openings, 'opening')}")
     missing = validate_building(updated)
     if missing:
-        _say(f"{args.into}: not ready to assess yet, {len(missing)} problem(s) (the model "
+        _say(f"{args.into}: not ready to assess yet, {_count(missing, 'problem')} (the model "
               "does not hold what lies below each facade: add the surfaces, or import again "
               f"into a new file with --ground KIND), then run petfall-audit check {args.into}")
         for building_problem in missing:
             _say(f"  {building_problem}")
     warnings = survey_warnings(updated)
     if warnings:
-        _say(f"{args.into}: {len(warnings)} opening(s) still to survey (guards, limiters, "
+        _say(f"{args.into}: {_count(warnings, 'opening')} still to survey (guards, limiters, "
               "screens, netting, how often opened, cats); petfall-audit check lists them")
     _say(CAUTIONS_SHORT)
     return EXIT_OK

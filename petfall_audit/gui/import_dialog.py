@@ -62,6 +62,7 @@ from petfall_audit.io.schedule import (
 from petfall_audit.io.schedule.columns import human
 from petfall_audit.io.schedule.grid import STATUS_WORDS
 from petfall_audit.model import Building
+from petfall_audit.present.numbers import fmt_count
 
 __all__ = ["ImportDialog", "ImportPrompts", "import_schedule", "FIELD_CHOICES"]
 
@@ -374,7 +375,8 @@ class ImportDialog(QDialog):
         p = self.preview
         self.summary.setText(
             p.summary() + (". No problems." if not p.problems else
-                           f". {len(p.problems)} problem(s): the bad cells are marked in the "
+                           f". {fmt_count(len(p.problems), 'problem')}: the bad cells are "
+                           "marked in the "
                            "rows (point at one for its problem) and listed under Problems, by "
                            "spreadsheet row (the header is row 1) and column."))
         self.problems.setRowCount(len(p.problems))

@@ -48,6 +48,7 @@ from petfall_audit.io.ifc_import import (
 from petfall_audit.io.schedule import ImportPreview
 from petfall_audit.model import Building
 from petfall_audit.present import (
+    fmt_count,
     fmt_length,
     fmt_survey_length,
     kind_label,
@@ -211,8 +212,8 @@ class ModelImportDialog(QDialog):
         lines = ["Assumed for the whole model:"]
         lines += [f"  • {a}" for a in m.assumptions] or ["  (nothing)"]
         per_opening = sum(bool(o.assumptions) for o in m.openings)
-        lines.append(f"Assumed for {per_opening} opening(s): see the Openings tab; each is kept "
-                     "in the opening's notes.")
+        lines.append(f"Assumed for {fmt_count(per_opening, 'opening')}: see the Openings tab; "
+                     "each is kept in the opening's notes.")
         lines.append("Left out of the import:")
         lines += [f"  • {s}" for s in m.skipped] or ["  (nothing)"]
         lines.append("Not in the model, left for you (each opening's notes list them, and "
@@ -243,7 +244,7 @@ class ModelImportDialog(QDialog):
         self.preview = preview_model(self.model, self.building, facade_map=self.facade_map())
         p = self.preview
         self.summary.setText(p.summary() + (". No problems." if not p.problems else
-                                            f". {len(p.problems)} problem(s) below."))
+                                            f". {fmt_count(len(p.problems), 'problem')} below."))
         self.problems.setRowCount(len(p.problems))
         for i, prob in enumerate(p.problems):
             opening = opening_of_row(self.model, prob.row)

@@ -14,6 +14,7 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from petfall_audit.model import OpeningKind
+from petfall_audit.present.numbers import fmt_count
 
 if TYPE_CHECKING:
     from petfall_audit.io.ifc_import import ModelStorey
@@ -366,7 +367,8 @@ def _outward(raws: Sequence[_Raw], assumptions: list[str]) -> None:
         "the plan; check the facades of a courtyard or an inner corner"
     )
     if unclear:
-        assumptions.append(f"{unclear} opening(s) on the plan's middle line: side assumed")
+        assumptions.append(f"{fmt_count(unclear, 'opening')} on the plan's middle line: "
+                           "side assumed")
 
 
 def _balcony_reason(slab: Any, element_util: Any) -> str:

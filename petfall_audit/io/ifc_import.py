@@ -69,6 +69,7 @@ from petfall_audit.io.schedule import (
 )
 from petfall_audit.io.survey import survey_line
 from petfall_audit.model import Building, BuildingInfo, Facade, OpeningKind
+from petfall_audit.present.numbers import fmt_count, plural
 
 __all__ = [
     "INSTALL_HINT",
@@ -190,8 +191,10 @@ class ModelRead:
         balconies = len(self.openings) - windows
         return (
             f"{self.source} ({self.schema}, lengths in {self.length_unit}): "
-            f"{len(self.storeys)} storey(s), {windows} window(s), {balconies} balcony(ies) on "
-            f"{len(self.facades)} facade(s); {len(self.skipped)} element(s) left out"
+            f"{fmt_count(len(self.storeys), 'storey')}, {fmt_count(windows, 'window')}, "
+            f"{fmt_count(balconies, 'balcony', 'balconies')} on "
+            f"{fmt_count(len(self.facades), 'facade')}; "
+            f"{fmt_count(len(self.skipped), 'element')} left out"
         )
 
 
@@ -339,12 +342,14 @@ def read_model(path: str | Path, *, progress: Progress | None = None) -> ModelRe
                   and d.level is not None and d.level > 0]
     if free_doors:
         skipped.append(
-            f"{len(free_doors)} door(s) above the lowest floor open onto no balcony slab and "
-            "were left out (a door onto a Juliet balcony is not in the model as a balcony: add "
-            "it by hand)"
+            f"{fmt_count(len(free_doors), 'door')} above the lowest floor "
+            f"{plural(len(free_doors), 'opens', 'open')} onto no balcony slab and "
+            f"{plural(len(free_doors), 'was', 'were')} left out (a door onto a Juliet balcony "
+            "is not in the model as a balcony: add it by hand)"
         )
     if geometry.failed:
-        skipped.append(f"{geometry.failed} element(s) whose body geometry could not be read")
+        skipped.append(f"{fmt_count(geometry.failed, 'element')} whose body geometry could "
+                       "not be read")
 
     everything = raws + balconies
     true_north = _true_north(model)

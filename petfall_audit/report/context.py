@@ -650,11 +650,13 @@ def _default_scope(assessment: Assessment) -> str:
     outside = ("Common areas, roofs without access and the building's structure are outside "
                "this audit.")
     if not b.openings:
-        return (f"No openings are recorded for this building ({len(b.floors)} floor(s), "
-                f"{len(b.facades)} facade(s)), so no fall was assessed. {outside}")
+        return ("No openings are recorded for this building "
+                f"({fmt_count(len(b.floors), 'floor')}, {fmt_count(len(b.facades), 'facade')}), "
+                f"so no fall was assessed. {outside}")
     return (
-        f"All {len(b.openings)} recorded opening(s) ({', '.join(kinds)}) on {len(b.floors)} "
-        f"floor(s) and {len(b.facades)} facade(s), assessed for the risk that a resident cat "
+        f"All {fmt_count(len(b.openings), 'recorded opening')} ({', '.join(kinds)}) on "
+        f"{fmt_count(len(b.floors), 'floor')} and {fmt_count(len(b.facades), 'facade')}, "
+        "assessed for the risk that a resident cat "
         f"falls from them. {outside}"
     )
 

@@ -31,7 +31,7 @@ def test_check_lists_located_problems_and_exits_2(
     out, err = capsys.readouterr()
     lines = err.splitlines()
     assert out == ""
-    assert lines[0] == f"{path}: 3 problem(s):"
+    assert lines[0] == f"{path}: 3 problems:"
     assert [line.strip() for line in lines[1:]] == [
         "building.site_altitude_m: expected a number, got 'abc'",
         "facades[0].colour: unknown field 'colour'",

@@ -200,7 +200,7 @@ def test_the_blank_buildings_unused_facade_goes_when_the_schedule_brings_its_own
     assert [f.id for f in before.facades] == ["front"]
     answers = Answers()
     assert import_schedule(window, _csv(tmp_path / "t.csv", _NEW_TOWER), prompts=answers) is None
-    assert "unused facade(s) removed: front" in answers.dialogs[0].summary.text()
+    assert "unused facade removed: front" in answers.dialogs[0].summary.text()
     after = window.document.building
     assert [f.id for f in after.facades] == ["north", "east"]
     assert [s.id for s in after.surfaces] == ["ground"]  # it lies in front of every facade

@@ -433,7 +433,7 @@ def test_cli_import_and_template(tmp_path: Path, capsys: pytest.CaptureFixture[s
     save_building(_building(), into)
     assert main(["import", str(FIXTURES / "imperial.csv"), "--into", str(into)]) == 0
     out = capsys.readouterr().out
-    assert "5 new opening(s)" in out and "not a structural" in out
+    assert "5 new openings" in out and "not a structural" in out
     loaded = load_building(into)
     assert [o.id for o in loaded.openings] == [o.id for o in _preview("metric.csv").openings]
 
@@ -546,3 +546,13 @@ def test_a_facade_the_building_lacks_is_named_as_the_cause(tmp_path: Path) -> No
     [problem] = preview.problems
     assert (problem.row, problem.column) == (2, "facade")
     assert "facade 'nowhere' is not in the building" in problem.message
+
+
+def test_cli_import_into_a_missing_file_says_how_to_start_one(
+    tmp_path: Path, capsys: pytest.CaptureFixture[str]
+) -> None:
+    into = tmp_path / "new.json"
+    assert main(["import", str(FIXTURES / "metric.csv"), "--into", str(into)]) == 2
+    err = " ".join(capsys.readouterr().err.split())
+    assert "no such building file" in err and "New building" in err and "MODEL.ifc" in err
+    assert not into.exists()

@@ -117,3 +117,19 @@ def test_plural_agrees_with_the_count() -> None:
     assert [plural(n, "opening") for n in (0, 1, 2)] == ["openings", "opening", "openings"]
     assert fmt_count(2, "fix", "fixes") == "2 fixes" and fmt_count(1, "fix", "fixes") == "1 fix"
     assert fmt_count(1200, "row") == "1,200 rows"
+
+
+def test_no_message_counts_with_a_bracketed_plural() -> None:
+    # "3 problem(s)" reads as a form, not a sentence: counts go through fmt_count / plural
+    import ast
+    import re
+    from pathlib import Path
+
+    root = Path(__file__).resolve().parents[2] / "petfall_audit"
+    found = []
+    for path in sorted(root.rglob("*.py")):
+        for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
+            if isinstance(node, ast.Constant) and isinstance(node.value, str):
+                if re.search(r"[a-z]\((?:s|es|ies)\)", node.value):
+                    found.append(f"{path.relative_to(root)}:{node.lineno}: {node.value[:60]!r}")
+    assert found == []

@@ -45,6 +45,7 @@ from petfall_audit.gui.widgets.tables import (
     table_action,
 )
 from petfall_audit.model import Building, Floor
+from petfall_audit.present.numbers import plural
 
 __all__ = ["FloorsPanel"]
 
@@ -115,7 +116,9 @@ class FloorsPanel(QWidget):
         self.add_count = QSpinBox()
         self.add_count.setObjectName("add_floor_count")
         self.add_count.setRange(1, 200)
-        self.add_count.setSuffix(" floor(s)")
+        self.add_count.setSuffix(" floor")
+        self.add_count.valueChanged.connect(
+            lambda n: self.add_count.setSuffix(f" {plural(n, 'floor')}"))
         self.add_count.setToolTip("How many floors 'Add floors on top' adds, one storey apart")
         bar.insertWidget(bar.actions()[1], self.add_count)
         SK = QKeySequence.StandardKey

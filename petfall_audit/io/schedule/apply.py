@@ -16,6 +16,7 @@ from petfall_audit.errors import ScheduleImportError
 from petfall_audit.io.schedule.columns import FLOOR_FIELDS, OPENING_DEFAULTS
 from petfall_audit.limits import LIMITS
 from petfall_audit.model import Building, Facade, Floor, Opening
+from petfall_audit.present.numbers import fmt_count
 
 if TYPE_CHECKING:
     from petfall_audit.io.schedule.preview import ImportPreview
@@ -51,8 +52,8 @@ def apply_import(
         raise ValueError(f"mode must be 'merge' or 'replace', not {mode!r}")
     if preview.problems and not accept_valid_rows:
         raise ScheduleImportError(
-            f"the schedule has {len(preview.problems)} problem(s) in {len(preview.bad_rows)} "
-            "row(s); fix them, or accept the valid rows only"
+            f"the schedule has {fmt_count(len(preview.problems), 'problem')} in "
+            f"{fmt_count(len(preview.bad_rows), 'row')}; fix them, or accept the valid rows only"
         )
     if not preview.openings:
         raise ScheduleImportError("no valid row to import; nothing was changed")

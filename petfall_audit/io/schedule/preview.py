@@ -29,6 +29,7 @@ from petfall_audit.io.schedule.columns import (
 from petfall_audit.io.schedule.mapping import header_units
 from petfall_audit.io.schedule.read import RawTable
 from petfall_audit.model import WINDOW_KINDS, Building, Facade, Floor, Opening
+from petfall_audit.present.numbers import fmt_count, plural
 from petfall_audit.present.numbers import fmt_length as format_length
 from petfall_audit.safe_text import MAX_MESSAGE_CHARS, cut
 from petfall_audit.units import parse_length_m
@@ -104,22 +105,23 @@ class ImportPreview:
         """One line: rows read, openings, floors and facades it would add, rows refused."""
         new = len(self.openings) - len(self.updates)
         parts = [
-            f"{self.rows_read} row(s) read",
-            f"{new} new opening(s)",
-            f"{len(self.updates)} existing opening(s) matched",
+            f"{fmt_count(self.rows_read, 'row')} read",
+            f"{fmt_count(new, 'new opening')}",
+            f"{fmt_count(len(self.updates), 'existing opening')} matched",
         ]
         if self.floors:
-            parts.append(f"{len(self.floors)} floor(s) added or changed")
+            parts.append(f"{fmt_count(len(self.floors), 'floor')} added or changed")
         if self.facades:
             parts.append(
-                f"{len(self.facades)} new facade(s): "
+                f"{fmt_count(len(self.facades), 'new facade')}: "
                 + ", ".join(f"{f.id} ({format_length(f.length_m, self.system)} long)"
                             for f in self.facades)
             )
         if self.removed_facades:
-            parts.append("unused facade(s) removed: " + ", ".join(self.removed_facades))
+            parts.append(f"{plural(len(self.removed_facades), 'unused facade')} removed: "
+                         + ", ".join(self.removed_facades))
         if self.bad_rows:
-            parts.append(f"{len(self.bad_rows)} row(s) with problems")
+            parts.append(f"{fmt_count(len(self.bad_rows), 'row')} with problems")
         return "; ".join(parts)
 
 

@@ -22,6 +22,7 @@ from typing import Any
 
 from petfall_audit.errors import ScheduleImportError
 from petfall_audit.io.schedule.columns import column_letter
+from petfall_audit.present.numbers import plural
 
 __all__ = [
     "RawTable",
@@ -294,9 +295,11 @@ def _sheet_to_read(workbook: Any, name: str, notes: list[str]) -> Any:
     if len(sheets) > 1:
         notes.append(f"sheet {sheet.title!r} read")
     if hidden:
-        notes.append("hidden sheet(s) not read: " + ", ".join(repr(t) for t in hidden))
+        notes.append(f"hidden {plural(len(hidden), 'sheet')} not read: "
+                     + ", ".join(repr(t) for t in hidden))
     if others:
-        notes.append("other sheet(s) not read: " + ", ".join(repr(t) for t in others))
+        notes.append(f"other {plural(len(others), 'sheet')} not read: "
+                     + ", ".join(repr(t) for t in others))
     return sheet
 
 
