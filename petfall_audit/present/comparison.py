@@ -154,10 +154,11 @@ def doubt_line(c: Comparison) -> str:
             + ". Check that both files are audits of the same building.")
 
 
-def summary_lines(c: Comparison, *, what_if: bool = False) -> list[str]:
+def summary_lines(c: Comparison, *, what_if: bool = False, doubt: bool = True) -> list[str]:
     """The totals in sentences; ``what_if``: the later side is the building with the plan's
     fixes fitted (a what-if), not a later audit, and the numbers are as computed (to read
-    beside the fix plan's)."""
+    beside the fix plan's). ``doubt``: with :func:`doubt_line` as the second sentence (a
+    caller that shows it on its own passes ``False``)."""
     e, la = c.earlier.building.info, c.later.building.info
     exact = what_if
 
@@ -189,9 +190,9 @@ def summary_lines(c: Comparison, *, what_if: bool = False) -> list[str]:
         f"{fmt_percent(abs(share or 0.0))} {'less' if removed >= 0 else 'more'}).",
         fixes,
     ]
-    doubt = "" if what_if else doubt_line(c)
-    if doubt:
-        lines.insert(1, doubt)
+    warning = "" if what_if or not doubt else doubt_line(c)
+    if warning:
+        lines.insert(1, warning)
     if not what_if:
         lines.append("Openings: " + ", ".join(
             fmt_count(len(c.with_status(s)), status_label(s).lower(), status_label(s).lower())

@@ -203,4 +203,33 @@ def test_another_buildings_audit_is_said_to_be_one(compared, qtbot, tmp_path: Pa
     save_building(other, path)
     with qtbot.waitSignal(view.compared, timeout=20000):
         view.open_earlier(path)
-    assert "These may be audits of two different buildings" in view.summary.text()
+    # said apart from the totals, in view, and gone with a comparison that is not in doubt
+    assert not view.doubt.isHidden()
+    assert view.doubt.text().startswith("These may be audits of two different buildings")
+    assert "different buildings" not in view.summary.text()
+    same = tmp_path / "same.json"
+    save_building(e, same)
+    with qtbot.waitSignal(view.compared, timeout=20000):
+        view.open_earlier(same)
+    assert view.doubt.isHidden()
+
+
+def test_a_long_list_of_building_changes_is_cut(compared, qtbot, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
+    import dataclasses
+
+    from petfall_audit.gui.views.compare import NOTE_CHANGES
+
+    _window, _views, view, _doc = compared
+    e = earlier_building()
+    floors = tuple(dataclasses.replace(f, label=f"Storey {f.level} (old name)") for f in e.floors)
+    path = tmp_path / "renamed_floors.json"
+    info = dataclasses.replace(e.info, site_altitude_m=120.0, air_temperature_c=28.0)
+    save_building(dataclasses.replace(e, floors=floors, info=info), path)
+    with qtbot.waitSignal(view.compared, timeout=20000):
+        view.open_earlier(path)
+    changes = len(view.comparison.building_changes)
+    assert changes > NOTE_CHANGES
+    note = view.note.text()
+    assert f"and {changes - NOTE_CHANGES} more" in note
+    assert note.count(";") == NOTE_CHANGES  # the shown changes and the "and N more"
+    assert len(view.note.toolTip().splitlines()) == changes  # the whole list

@@ -39,6 +39,7 @@ from petfall_audit.gui.views.common import (
 )
 from petfall_audit.gui.views.facade import FacadeView, legend_html
 from petfall_audit.gui.views.floors import EarlierAudit
+from petfall_audit.gui.widgets.tables import error_label
 from petfall_audit.present.comparison import ComparisonRow
 
 __all__ = ["CompareView", "COLUMNS", "FILTERS", "ID_ROLE"]
@@ -57,6 +58,11 @@ FILTERS: tuple[tuple[str, str], ...] = (
 )
 ID_ROLE = int(Qt.ItemDataRole.UserRole) + 1
 _RIGHT = {3, 4, 5, 6}
+
+
+#: Changes outside the openings listed under the table; the rest are in its tooltip, so that
+#: a long list (another building's file, a rebuilt estate) never squeezes the table.
+NOTE_CHANGES = 6
 
 
 def _keep(row: ComparisonRow, key: str) -> bool:
@@ -138,6 +144,8 @@ class CompareView(QWidget):
         self.summary.setObjectName("compare_summary")
         self.summary.setWordWrap(True)
         self.summary.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
+        # a file that may be another building's audit: said apart, in the error style
+        self.doubt = error_label("compare_doubt")
         self.table = QTableWidget(0, len(COLUMNS))
         self.table.setObjectName("compare_table")
         self.table.setHorizontalHeaderLabels(list(COLUMNS))
@@ -201,6 +209,7 @@ class CompareView(QWidget):
         layout = QVBoxLayout(self)
         layout.setContentsMargins(2, 2, 2, 2)
         layout.addLayout(bar)
+        layout.addWidget(self.doubt)
         layout.addWidget(self.summary)
         layout.addWidget(self.pages, 1)
         layout.addWidget(self.note)
@@ -229,6 +238,7 @@ class CompareView(QWidget):
             return None
         if isinstance(loaded, str):
             self.summary.setText(loaded)
+            self.doubt.hide()
             return None
         building, path = loaded
         self.earlier_building, self.earlier_name = building, path.name
@@ -269,10 +279,12 @@ class CompareView(QWidget):
                                  "that audit; it is assessed with the same simulated cats as "
                                  "this one.")
             self.note.setText("")
+            self.note.setToolTip("")
             self.pages.setCurrentIndex(0)
 
     def _set_mode(self, mode: str) -> None:
         self.mode = mode
+        self.doubt.hide()
         what_if = mode == "what_if"
         self.accept_button.setVisible(what_if)
         self.close_button.setVisible(what_if)
@@ -360,12 +372,16 @@ class CompareView(QWidget):
             METHOD,
             building_change_lines,
             comparison_rows,
+            doubt_line,
             summary_lines,
         )
 
         self.comparison = c
         self.rows = comparison_rows(c, self._ctx.options.units, exact=what_if)
-        self.summary.setText("\n".join(summary_lines(c, what_if=what_if)))
+        self.summary.setText("\n".join(summary_lines(c, what_if=what_if, doubt=False)))
+        doubt = "" if what_if else doubt_line(c)
+        self.doubt.setText(doubt)
+        self.doubt.setVisible(bool(doubt))
         if what_if:
             self.summary.setToolTip("A copy of this building with the plan's fixes fitted, "
                                     "assessed with the same simulated cats; nothing is fitted "
@@ -385,13 +401,18 @@ class CompareView(QWidget):
                              f"({fmt_percent(p.risk_removed / p.risk_before)} less)")
                 text += "."
             self.note.setText(text)
+            self.note.setToolTip("")
             self.before_title.setText("As audited")
             self.after_title.setText("After the plan (what-if)")
         else:
             self.summary.setToolTip(f"Compared with {self.earlier_name}. {METHOD}")
             building = building_change_lines(c, self._ctx.options.units)
-            self.note.setText("Changed in the building: " + "; ".join(building) + "."
-                              if building else "")
+            shown = building[:NOTE_CHANGES]
+            more = len(building) - len(shown)
+            self.note.setText("Changed in the building: " + "; ".join(shown)
+                              + (f"; and {more} more (point here for the whole list)."
+                                 if more else ".") if building else "")
+            self.note.setToolTip("\n".join(building) if more else "")
             self.before_title.setText(f"Earlier audit: {self.earlier_name}")
             self.after_title.setText("This audit")
         self._fill()
