@@ -330,7 +330,7 @@ def _cmd_check(args: argparse.Namespace) -> int:
     except ValidationFailed as exc:
         _print_problems(exc, args.file)
         if isinstance(exc.building, Building):
-            _print_warnings(check_warnings(exc.building), args.file)
+            _print_warnings(check_warnings(exc.building, Path(args.file).parent), args.file)
         return EXIT_INVALID
     except BuildingFileError as exc:
         _print_problems(exc, args.file)
@@ -340,7 +340,8 @@ def _cmd_check(args: argparse.Namespace) -> int:
         f"{_count(building.facades, 'facade')}, {_count(building.surfaces, 'surface')}, "
         f"{_count(building.openings, 'opening')}"
     )
-    _print_warnings(check_warnings(building), args.file, stream=sys.stdout)
+    _print_warnings(check_warnings(building, Path(args.file).parent), args.file,
+                    stream=sys.stdout)
     return EXIT_OK
 
 

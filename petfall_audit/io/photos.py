@@ -16,9 +16,16 @@ import os
 import shutil
 import stat
 from pathlib import Path, PurePosixPath, PureWindowsPath
+from typing import TYPE_CHECKING
+
+from petfall_audit.errors import Place, Problem
+
+if TYPE_CHECKING:
+    from petfall_audit.model import Building
 
 __all__ = ["PHOTO_SUFFIXES", "PHOTO_FOLDER", "MAX_PHOTO_BYTES", "photo_name", "photo_file",
-           "photo_problem", "read_photo", "read_regular_file", "import_photo"]
+           "photo_problem", "read_photo", "read_regular_file", "import_photo",
+           "missing_photo_warnings"]
 
 #: File name endings of the photos the app accepts (compared in lower case).
 PHOTO_SUFFIXES: tuple[str, ...] = (".jpg", ".jpeg", ".png")
@@ -89,6 +96,24 @@ def photo_file(root: Path | None, stored: str) -> Path | None:
     names = _parts(stored)
     assert names is not None  # checked by photo_problem
     return Path(Path(root).resolve(), *names).resolve()
+
+
+def missing_photo_warnings(building: Building, root: Path) -> list[Problem]:
+    """One located warning (``openings[3].photos[0]``) per photo that the building file in
+    folder ``root`` names but that is not there, so it is found before the PDF audit prints
+    "photo not found" in its place. Paths the file may not use are errors of loading, not
+    warnings here."""
+    out: list[Problem] = []
+    for i, opening in enumerate(building.openings):
+        for j, stored in enumerate(opening.photos):
+            path = photo_file(root, stored)
+            if path is not None and not path.exists():
+                out.append(Problem(
+                    Place("openings", i, f"photos[{j}]"),
+                    f"{opening.id!r}: photo {stored!r} is not in the building file's folder; "
+                    "the PDF audit prints 'photo not found' in its place",
+                    severity="warning"))
+    return out
 
 
 def read_photo(root: Path | None, stored: str, *, max_bytes: int = MAX_PHOTO_BYTES) -> bytes:

@@ -11,9 +11,11 @@ Delete the line from the notes once the opening has been surveyed.
 from __future__ import annotations
 
 from collections.abc import Iterable
+from pathlib import Path
 
 from petfall_audit.errors import Place, Problem
 from petfall_audit.io._checks import code_profile_warnings
+from petfall_audit.io.photos import missing_photo_warnings
 from petfall_audit.model import Building
 
 __all__ = [
@@ -63,7 +65,9 @@ def survey_warnings(building: Building) -> list[Problem]:
     return warnings
 
 
-def check_warnings(building: Building) -> list[Problem]:
+def check_warnings(building: Building, folder: Path | None = None) -> list[Problem]:
     """Every warning ``check`` lists: the openings still to survey, then what the building's code
-    profile finds (an escape window whose limiter leaves less than the minimum clear opening)."""
-    return [*survey_warnings(building), *code_profile_warnings(building)]
+    profile finds (an escape window whose limiter leaves less than the minimum clear opening),
+    then, when the building file's ``folder`` is given, the photos it names that are not there."""
+    photos = missing_photo_warnings(building, folder) if folder is not None else []
+    return [*survey_warnings(building), *code_profile_warnings(building), *photos]

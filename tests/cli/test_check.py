@@ -87,3 +87,19 @@ def test_the_app_without_a_screen_says_so_instead_of_crashing(
     monkeypatch.setattr(sys, "platform", "linux")
     assert main([]) == 1
     assert "no screen" in capsys.readouterr().err
+
+
+def test_check_names_photos_that_are_not_in_the_folder(
+    tmp_path: Path, capsys: pytest.CaptureFixture[str]
+) -> None:
+    doc = json.loads(sample_path("walkup").read_text(encoding="utf-8"))
+    (tmp_path / "photos").mkdir()
+    (tmp_path / "photos" / "here.png").write_bytes(b"\x89PNG\r\n\x1a\n")
+    doc["openings"][2]["photos"] = ["photos/here.png", "photos/gone.jpg"]
+    path = tmp_path / "walkup.json"
+    path.write_text(json.dumps(doc), "utf-8")
+    assert main(["check", str(path)]) == 0  # a missing photo is a warning, not an error
+    out = capsys.readouterr().out
+    opening = doc["openings"][2]["id"]
+    assert f"openings[2].photos[1]: {opening!r}: photo 'photos/gone.jpg' is not in" in out
+    assert "here.png" not in out
