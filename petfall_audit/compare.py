@@ -37,7 +37,8 @@ Doubts (:attr:`Comparison.doubts`): signs that the two files may not be audits o
 which the comparison still makes but every output names: ``"no_common_openings"`` (both audits
 have openings and none pairs, so every opening reads as added or removed) and
 ``"different_address"`` (both give an address and they differ in more than case, spacing and
-punctuation).
+punctuation); and a sign that the two are given the other way round: ``"dates_reversed"`` (the
+earlier audit is dated after the later one).
 
 Which recorded fixes were fitted: the later building's fix records (``Building.fixes``) with
 status ``fitted`` or ``checked`` are named on their opening (:attr:`OpeningComparison.fitted`).
@@ -49,6 +50,7 @@ Units: risk in the risk-score units of :func:`petfall_audit.risk.risk_score`; le
 from __future__ import annotations
 
 import dataclasses
+import datetime
 import math
 from collections.abc import Callable, Mapping
 from dataclasses import dataclass
@@ -81,9 +83,10 @@ __all__ = [
 Status = Literal["added", "removed", "changed", "unchanged"]
 #: The statuses of a compared opening.
 STATUSES: tuple[Status, ...] = ("added", "removed", "changed", "unchanged")
-Doubt = Literal["no_common_openings", "different_address"]
-#: Signs that two compared audits may not be of one building (module docstring).
-DOUBTS: tuple[Doubt, ...] = ("no_common_openings", "different_address")
+Doubt = Literal["no_common_openings", "different_address", "dates_reversed"]
+#: Signs that two compared audits may not be of one building, or are the other way round
+#: (module docstring).
+DOUBTS: tuple[Doubt, ...] = ("no_common_openings", "different_address", "dates_reversed")
 #: Fields of an opening compared between two audits (its id pairs them; notes and photos are
 #: records, not the opening's state).
 OPENING_FIELDS: tuple[str, ...] = tuple(
@@ -203,7 +206,8 @@ class Comparison:
 
     @property
     def doubts(self) -> tuple[Doubt, ...]:
-        """Signs that the two audits may not be of one building, in :data:`DOUBTS` order."""
+        """Signs that the two audits may not be of one building or are the other way round,
+        in :data:`DOUBTS` order."""
         e, la = self.earlier.building, self.later.building
         out: list[Doubt] = []
         if e.openings and la.openings and not self.with_status("changed", "unchanged"):
@@ -211,6 +215,9 @@ class Comparison:
         a0, a1 = _address_key(e.info.address), _address_key(la.info.address)
         if a0 and a1 and a0 != a1:
             out.append("different_address")
+        d0, d1 = _date(e.info.audit_date), _date(la.info.audit_date)
+        if d0 is not None and d1 is not None and d0 > d1:
+            out.append("dates_reversed")
         return tuple(out)
 
     def with_status(self, *statuses: Status) -> list[OpeningComparison]:
@@ -230,6 +237,14 @@ class Comparison:
 
 
 # --- comparing -------------------------------------------------------------------------------
+
+
+def _date(text: str) -> datetime.date | None:
+    """An audit date (ISO 8601 text), or ``None`` when it is empty or not a date."""
+    try:
+        return datetime.date.fromisoformat(text)
+    except ValueError:
+        return None
 
 
 def _address_key(address: str) -> str:

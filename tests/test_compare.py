@@ -265,3 +265,18 @@ def test_a_what_if_is_never_doubted() -> None:
     assert len(c.doubts) == 2
     assert not any("different buildings" in s for s in summary_lines(c, what_if=True))
     assert any("different buildings" in s for s in summary_lines(c))
+
+
+def test_audits_given_the_other_way_round_are_doubted(comparison) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.present.comparison import doubt_line
+
+    assert comparison.doubts == ()  # 2025-05-02 then 2026-05-04: in order
+    swapped = compare_buildings(later_building(), earlier_building(), samples=SAMPLES, seed=SEED)
+    assert swapped.doubts == ("dates_reversed",)
+    line = doubt_line(swapped)
+    assert "dated 2026-05-04, after the later one (2025-05-02)" in line
+    assert "other way round" in line and "different buildings" not in line
+    undated = dataclasses.replace(later_building(), info=dataclasses.replace(
+        later_building().info, audit_date=""))
+    assert compare_buildings(undated, earlier_building(), samples=SAMPLES,
+                             seed=SEED).doubts == ()

@@ -137,21 +137,27 @@ def _one_line(text: str) -> str:
 
 
 def doubt_line(c: Comparison) -> str:
-    """Why the two audits may not be of one building (:attr:`Comparison.doubts`), in one
-    sentence, or ``""`` when nothing suggests it."""
+    """Why the two audits may not be of one building, or may be the other way round
+    (:attr:`Comparison.doubts`), in a sentence each, or ``""`` when nothing suggests it."""
     doubts = c.doubts
-    if not doubts:
-        return ""
+    e, la = c.earlier.building.info, c.later.building.info
     reasons = []
     if "no_common_openings" in doubts:
         reasons.append("no opening id of the earlier audit is in the later one, so every "
                        "opening counts as new or removed")
     if "different_address" in doubts:
-        e, la = c.earlier.building.info, c.later.building.info
         reasons.append(f"they give different addresses, “{_one_line(e.address)}” and "
                        f"“{_one_line(la.address)}”")
-    return ("These may be audits of two different buildings: " + ", and ".join(reasons)
-            + ". Check that both files are audits of the same building.")
+    sentences = []
+    if reasons:
+        sentences.append("These may be audits of two different buildings: "
+                         + ", and ".join(reasons)
+                         + ". Check that both files are audits of the same building.")
+    if "dates_reversed" in doubts:
+        sentences.append(f"The earlier audit is dated {fmt_date(e.audit_date)}, after the later "
+                         f"one ({fmt_date(la.audit_date)}): check that the two files are not "
+                         "the other way round.")
+    return " ".join(sentences)
 
 
 def summary_lines(c: Comparison, *, what_if: bool = False, doubt: bool = True) -> list[str]:
