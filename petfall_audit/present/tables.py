@@ -27,10 +27,12 @@ from petfall_audit.present.numbers import (
 )
 
 if TYPE_CHECKING:
+    from petfall_audit.fixes import Option
     from petfall_audit.plan import Plan
     from petfall_audit.risk import Assessment
 
-__all__ = ["TEXT_WIDTH", "assessment_to_table", "plan_to_table", "whole_percents"]
+__all__ = ["TEXT_WIDTH", "assessment_to_table", "plan_to_table", "plan_notes", "note_numbers",
+           "whole_percents"]
 
 #: Prose under the terminal table (hazards, cautions) is wrapped to this many columns.
 TEXT_WIDTH = 80
@@ -100,9 +102,24 @@ def assessment_to_table(a: Assessment, *, by: Literal["band", "risk"] = "risk",
     return "\n".join(lines)
 
 
+def plan_notes(plan: Plan | None) -> tuple[str, ...]:
+    """Every distinct condition of the plan once, in the order the plan first meets them: the
+    numbered notes the terminal table and the PDF audit refer to (note 1 is the first)."""
+    if plan is None:
+        return ()
+    return tuple(dict.fromkeys(str(c) for a in plan.actions for c in a.conditions))
+
+
+def note_numbers(action: Option, notes: tuple[str, ...]) -> tuple[int, ...]:
+    """The 1-based numbers in ``notes`` (:func:`plan_notes`) of ``action``'s conditions."""
+    number = {c: i + 1 for i, c in enumerate(notes)}
+    return tuple(sorted({number[str(c)] for c in action.conditions}))
+
+
 def plan_to_table(plan: Plan) -> str:
-    """A plain-text table for a terminal: summary, one line per action with its conditions
-    below it, then the cautions; prose wrapped to :data:`TEXT_WIDTH` columns."""
+    """A plain-text table for a terminal: summary, one line per action with the numbers of its
+    conditions, each condition once as a numbered note below, then the cautions; prose wrapped
+    to :data:`TEXT_WIDTH` columns."""
     cur = plan.currency
     share = plan.risk_removed / plan.risk_before if plan.risk_before > 0 else 0.0
     lines = [
@@ -116,22 +133,34 @@ def plan_to_table(plan: Plan) -> str:
                      f"{fmt_percent(plan.gap, 2)} of the best possible.")
     lines.append("")
     if plan.actions:
+        notes = plan_notes(plan)
         rows = [(a.opening_id, a.control_name, fmt_money(a.cost), fmt_risk(a.risk_before),
-                 fmt_risk(a.risk_after)) for a in plan.actions]
-        head = ("Opening", "Control", "Cost", "Risk before", "Risk after")
-        widths = [max(len(h), *(len(r[i]) for r in rows)) for i, h in enumerate(head)]
+                 fmt_risk(a.risk_after), ",".join(str(n) for n in note_numbers(a, notes)) or "-")
+                for a in plan.actions]
+        # a two-line head keeps the columns narrow: "Risk" over "before" and "after"
+        over = ("", "", "", "Risk", "Risk", "")
+        head = ("Opening", "Control", "Cost", "before", "after", "Notes")
+        widths = [max(len(h), len(o), *(len(r[i]) for r in rows))
+                  for i, (h, o) in enumerate(zip(head, over, strict=True))]
+        # the control's name wraps within what the other columns leave of the text width
+        room = TEXT_WIDTH - sum(widths) + widths[1] - 2 * (len(head) - 1)
+        widths[1] = max(min(widths[1], room), len(head[1]), 16)
 
         def line(cells: tuple[str, ...]) -> str:
-            return "  ".join(c.ljust(w) if i < 2 else c.rjust(w)
-                             for i, (c, w) in enumerate(zip(cells, widths, strict=True)))
+            return "  ".join(c.ljust(w) if i in (0, 1, 5) else c.rjust(w)
+                             for i, (c, w) in enumerate(zip(cells, widths, strict=True))
+                             ).rstrip()
 
-        lines.append(line(head))
-        for a, row in zip(plan.actions, rows, strict=True):
-            lines.append(line(row))
-            for c in a.conditions:
-                lines += textwrap.wrap(f"condition: {c}", TEXT_WIDTH,
-                                       initial_indent=" " * (widths[0] + 4),
-                                       subsequent_indent=" " * (widths[0] + 6))
+        lines += [line(over), line(head), line(tuple("-" * w for w in widths))]
+        for row in rows:
+            name = textwrap.wrap(row[1], widths[1]) or [""]
+            lines.append(line((row[0], name[0], *row[2:])))
+            lines += [line(("", more, "", "", "", "")) for more in name[1:]]
+        if notes:
+            lines += ["", "Notes (the conditions of the fixes above):"]
+            for i, c in enumerate(notes, start=1):
+                lines += textwrap.wrap(c, TEXT_WIDTH, initial_indent=f"{i:>3}. ",
+                                       subsequent_indent="     ")
     else:
         lines.append("No action fits the budget or lowers the risk.")
     lines.append("")

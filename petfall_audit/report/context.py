@@ -46,6 +46,7 @@ from petfall_audit.present import (
 from petfall_audit.present.code import CodeRuleRow, code_profile_lead, code_rule_rows
 from petfall_audit.present.explain import explain_all
 from petfall_audit.present.labels import landing_names
+from petfall_audit.present.tables import note_numbers, plan_notes
 from petfall_audit.report.leaflet_sections import (
     LeafletChoice,
     LeafletSection,
@@ -492,8 +493,7 @@ def _plan_parts(plan: Plan | None, saved_budget: float | None = None, *,
             f"building's code profile ({profile.name}) prices in {profile.currency}: put local "
             "prices in the catalogue before planning a real budget.",
         )
-    notes = _plan_notes(plan)
-    number = {c: i + 1 for i, c in enumerate(notes)}
+    notes = plan_notes(plan)
     rows = tuple(
         PlanRow(
             opening_id=a.opening_id,
@@ -502,18 +502,11 @@ def _plan_parts(plan: Plan | None, saved_budget: float | None = None, *,
             risk_before=fmt_risk(float(a.risk_before)),
             risk_after=fmt_risk(float(a.risk_after)),
             conditions=tuple(str(c) for c in a.conditions),
-            notes=tuple(sorted({number[str(c)] for c in a.conditions})),
+            notes=note_numbers(a, notes),
         )
         for a in plan.actions
     )
     return summary, rows
-
-
-def _plan_notes(plan: Plan | None) -> tuple[str, ...]:
-    """Every distinct condition of the plan once, in the order the plan first meets them."""
-    if plan is None:
-        return ()
-    return tuple(dict.fromkeys(str(c) for a in plan.actions for c in a.conditions))
 
 
 def _plan_controls(plan: Plan | None, rows: tuple[PlanRow, ...]) -> tuple[PlanControlRow, ...]:
@@ -726,7 +719,7 @@ def build_audit_context(assessment: Assessment, plan: Plan | None, *,
         plan_summary=plan_summary,
         plan_rows=plan_rows,
         plan_controls=_plan_controls(plan, plan_rows),
-        plan_notes=_plan_notes(plan),
+        plan_notes=plan_notes(plan),
         cautions=CAUTIONS,
         limits=LIMITS,
         signoff=("Audited by", "Signature", "Date", "Reviewed by", "Signature", "Date"),

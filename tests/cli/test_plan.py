@@ -141,8 +141,35 @@ def test_table_fits_an_80_column_terminal(capsys) -> None:  # type: ignore[no-un
     # The tower's plan has long control names and conditions; every line once ran past 200.
     code, out, _ = _run(capsys, "plan", str(sample_path("tower")), "--budget", "3000",
                         "--samples", "200")
-    assert code == 0 and "condition:" in out
+    assert code == 0 and "Notes (the conditions of the fixes above):" in out
     assert max(len(line) for line in out.splitlines()) <= 80
+
+
+def test_table_states_each_condition_once_and_rows_refer_to_it() -> None:
+    # 42 actions once repeated the same two conditions under every row (~200 lines)
+    from petfall_audit.io.building_file import load_building
+    from petfall_audit.plan import make_plan
+    from petfall_audit.present.tables import plan_to_table
+    from petfall_audit.risk import assess
+
+    plan = make_plan(assess(load_building(sample_path("walkup")), samples=200, seed=1), 3000.0)
+    text = plan_to_table(plan)
+    flat = " ".join(text.split())
+    distinct: list[str] = []  # the reference: first-met order, written here
+    for a in plan.actions:
+        for c in a.conditions:
+            if str(c) not in distinct:
+                distinct.append(str(c))
+    assert len(distinct) >= 2 and len(plan.actions) > len(distinct)
+    for i, c in enumerate(distinct, start=1):
+        assert flat.count(" ".join(c.split())) == 1, c
+        assert f"{i}. {' '.join(c.split())}" in flat
+    rows = {line.split()[0]: line for line in text.splitlines()
+            if line and line.split()[0] in {a.opening_id for a in plan.actions}}
+    for a in plan.actions:
+        want = ",".join(str(distinct.index(str(c)) + 1)
+                        for c in sorted(set(a.conditions), key=lambda c: distinct.index(str(c))))
+        assert rows[a.opening_id].rstrip().endswith(want or "-"), a.opening_id
 
 
 def test_plan_json_rounds_risks_like_the_results_json(tmp_path: Path) -> None:
