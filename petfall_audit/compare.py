@@ -367,6 +367,15 @@ def compare_assessments(earlier: Assessment, later: Assessment, *,
     if missing:
         raise ValueError(f"renamed: no later opening called {', '.join(missing)}")
     to_later = {o.id: rename.get(o.id, o.id) for o in e_b.openings}
+    pairs: dict[str, list[str]] = {}
+    for k, v in to_later.items():
+        pairs.setdefault(v, []).append(k)
+    twice = sorted(v for v, ks in pairs.items() if len(ks) > 1 and v in later_ids)
+    if twice:
+        v = twice[0]
+        raise ValueError(f"renamed: two earlier openings ({' and '.join(pairs[v])}) would pair "
+                         f"with the later opening {v}; rename the other one too, or pair it "
+                         "with another id")
     from_later = {v: k for k, v in to_later.items() if v in later_ids}
     e_index = {o.id: i for i, o in enumerate(e_b.openings)}
 

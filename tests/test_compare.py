@@ -13,6 +13,8 @@ import json
 from pathlib import Path
 
 import pytest
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
 
 from petfall_audit.compare import BARRIER_FIELDS, compare_assessments, compare_buildings
 from petfall_audit.io.building_file import load_building, save_building
@@ -280,3 +282,46 @@ def test_audits_given_the_other_way_round_are_doubted(comparison) -> None:  # ty
         later_building().info, audit_date=""))
     assert compare_buildings(undated, earlier_building(), samples=SAMPLES,
                              seed=SEED).doubts == ()
+
+
+def test_a_rename_onto_an_id_that_still_pairs_is_refused() -> None:
+    # W-3 renamed to B-2 while the earlier B-2 still pairs with the later B-2: one of the two
+    # earlier openings would drop out of the comparison without a word
+    e = earlier_building()
+    later = dataclasses.replace(e, openings=tuple(o for o in e.openings if o.id != "W-3"))
+    with pytest.raises(ValueError, match="two earlier openings .*W-3.* would pair with the "
+                                         "later opening B-2"):
+        compare_buildings(e, later, renamed={"W-3": "B-2"}, samples=SAMPLES, seed=SEED)
+    with pytest.raises(ValueError, match="would pair with the later opening W-1"):
+        compare_buildings(e, later, renamed={"B-4": "W-1", "W-3": "B-2", "B-2": "B-4"},
+                          samples=SAMPLES, seed=SEED)
+    # a swap of two ids pairs each with the other, every earlier opening accounted for
+    c = compare_buildings(e, later, renamed={"B-2": "B-4", "B-4": "B-2"}, samples=SAMPLES,
+                          seed=SEED)
+    assert {o.earlier_id for o in c.openings} == {o.id for o in e.openings}
+
+
+_IDS = ("B-2", "W-3", "W-1", "B-4", "Z-9")
+
+
+@pytest.fixture(scope="module")
+def two_assessments():  # type: ignore[no-untyped-def]
+    e = earlier_building()
+    later = dataclasses.replace(e, openings=tuple(o for o in e.openings if o.id != "W-3"))
+    return assess(e, samples=200, seed=SEED), assess(later, samples=200, seed=SEED)
+
+
+@settings(max_examples=60, deadline=None,
+          suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(st.dictionaries(st.sampled_from(_IDS[:4]), st.sampled_from(_IDS), max_size=4))
+def test_every_earlier_opening_is_accounted_for_once_or_the_rename_refused(
+        two_assessments, renamed: dict[str, str]) -> None:  # type: ignore[no-untyped-def]
+    a0, a1 = two_assessments
+    try:
+        c = compare_assessments(a0, a1, renamed=renamed)
+    except ValueError:
+        return  # refused in words (an unknown id, or two openings paired with one)
+    earlier_ids = [o.earlier_id for o in c.openings if o.earlier_id is not None]
+    assert sorted(earlier_ids) == sorted(o.id for o in a0.building.openings)
+    later_ids = [o.id for o in c.openings if o.status != "removed"]
+    assert sorted(later_ids) == sorted(o.id for o in a1.building.openings)
