@@ -284,6 +284,24 @@ def test_ranked_names_are_narrowed_so_the_results_stay_in_view(qtbot) -> None:  
     assert header.sectionSize(facade_col) == wide
 
 
+def test_ranked_order_reads_whole_and_filters_list_every_choice(qtbot) -> None:  # type: ignore[no-untyped-def]
+    # the filter boxes were as wide as their longest choice while showing "All", and the order
+    # box was cut to "Risk score (likelihood × severi" at 1280 x 720
+    window = _tower_at_1280(qtbot)
+    ranked = window.views.ranked
+    box = ranked.order_box
+    text_px = box.fontMetrics().horizontalAdvance(box.currentText())
+    assert box.width() >= text_px + 20  # the text and the arrow
+    for f in (ranked.floor_box, ranked.facade_box, ranked.kind_box, ranked.band_box):
+        f.showPopup()
+        try:
+            widest = max(f.fontMetrics().horizontalAdvance(f.itemText(i))
+                         for i in range(f.count()))
+            assert f.view().width() >= widest, f.objectName()  # the list shows each whole
+        finally:
+            f.hidePopup()
+
+
 def test_editor_columns_fit_after_a_new_building_fills(qtbot) -> None:  # type: ignore[no-untyped-def]
     window = open_window(qtbot)
     assert window.session.new()

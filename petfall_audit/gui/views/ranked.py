@@ -424,6 +424,10 @@ def _factors_html(r: Any, palette: str, units: Any) -> str:
     )
 
 
+#: Characters a filter box of the ranked list is sized for (its list shows every choice whole).
+FILTER_CHARS = 8
+
+
 class RankedView(QWidget):
     """Filter bar, ranked table and the factors of the selected opening."""
 
@@ -448,7 +452,11 @@ class RankedView(QWidget):
         for box, name in ((self.floor_box, "floor_filter"), (self.facade_box, "facade_filter"),
                           (self.kind_box, "kind_filter"), (self.band_box, "band_filter")):
             box.setObjectName(name)
-            box.setSizeAdjustPolicy(QComboBox.SizeAdjustPolicy.AdjustToContents)
+            # as wide as a short choice ("All", "Floor 12"), not as the longest one, so that the
+            # order's name reads whole; the list that drops down shows every choice whole
+            box.setSizeAdjustPolicy(
+                QComboBox.SizeAdjustPolicy.AdjustToMinimumContentsLengthWithIcon)
+            box.setMinimumContentsLength(FILTER_CHARS)
             box.setSizePolicy(QSizePolicy.Policy.Maximum, QSizePolicy.Policy.Fixed)
             box.currentIndexChanged.connect(self._on_filter_changed)
         # full width when there is room; on a small or scaled screen the boxes shrink (their
