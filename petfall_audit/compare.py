@@ -40,6 +40,11 @@ have openings and none pairs, so every opening reads as added or removed) and
 punctuation); and a sign that the two are given the other way round: ``"dates_reversed"`` (the
 earlier audit is dated after the later one).
 
+Renumbered openings (:func:`renumbered_openings`): an earlier opening left unpaired and a later
+one left unpaired that sit at the same place (same floor, facade and kind, left edge and width
+within :data:`SAME_PLACE_M`), each the only such match of the other, are most likely one opening
+renumbered. They are only suggested: the comparison pairs them when ``renamed`` says so.
+
 Which recorded fixes were fitted: the later building's fix records (``Building.fixes``) with
 status ``fitted`` or ``checked`` are named on their opening (:attr:`OpeningComparison.fitted`).
 
@@ -76,6 +81,8 @@ __all__ = [
     "Comparison",
     "compare_buildings",
     "compare_assessments",
+    "renumbered_openings",
+    "SAME_PLACE_M",
     "field_unit",
     "fitted_records",
 ]
@@ -94,6 +101,8 @@ OPENING_FIELDS: tuple[str, ...] = tuple(
 )
 #: Fields a fitted control changes (a fix), as opposed to changes of use or of the building.
 BARRIER_FIELDS: frozenset[str] = frozenset(EFFECT_FIELDS) - {"open_frequency"}
+#: Distance (m) within which two openings' left edges and widths count as the same place.
+SAME_PLACE_M = 0.05
 #: Relative difference of risk below which two results are the same.
 _SAME_RTOL = 1e-9
 
@@ -163,7 +172,8 @@ class Comparison:
 
     ``openings``: later openings in building order, then the removed ones. ``building_changes``:
     what changed outside the openings (floors, facades, surfaces, site, cat profile, injury
-    thresholds). Totals in risk-score units.
+    thresholds). Totals in risk-score units. ``renumbered``: (earlier id, later id) of openings
+    that look renumbered but were not paired (:func:`renumbered_openings`), a suggestion.
     """
 
     earlier: Assessment
@@ -174,6 +184,7 @@ class Comparison:
     risk_after: float
     removed_by_fixes: float
     removed_by_other: float
+    renumbered: tuple[tuple[str, str], ...] = ()
 
     @property
     def samples(self) -> int:
@@ -434,6 +445,7 @@ def compare_assessments(earlier: Assessment, later: Assessment, *,
         removed_by_fixes=by_fixes,
         removed_by_other=_without_noise((risk_before - risk_after) - by_fixes,
                                         risk_before, risk_after),
+        renumbered=tuple(renumbered_openings(e_b, l_b, renamed=rename).items()),
     )
 
 
@@ -447,6 +459,34 @@ def _without_noise(amount: float, *scale: float) -> float:
     other change added 3.18e-11" is no change."""
     limit = _NOISE_REL * max((abs(x) for x in scale), default=0.0)
     return 0.0 if abs(amount) <= limit else amount
+
+
+def _place(o: Opening) -> tuple[int, str, str]:
+    return (o.floor, o.facade, str(o.kind))
+
+
+def renumbered_openings(earlier: Building, later: Building, *,
+                        renamed: Mapping[str, str] | None = None) -> dict[str, str]:
+    """Earlier id -> later id of openings that look renumbered between the audits: an earlier
+    opening that pairs with none (by id or ``renamed``) and a later one that pairs with none,
+    on the same floor, facade and kind, with left edge and width within :data:`SAME_PLACE_M`
+    of each other, each the other's only such match. In earlier building order."""
+    rename = dict(renamed or {})
+    later_ids = {o.id for o in later.openings}
+    taken = {rename.get(o.id, o.id) for o in earlier.openings} & later_ids
+    lone_e = [o for o in earlier.openings if rename.get(o.id, o.id) not in later_ids]
+    lone_l = [o for o in later.openings if o.id not in taken]
+
+    def near(a: Opening, b: Opening) -> bool:
+        return (_place(a) == _place(b) and abs(a.x_m - b.x_m) <= SAME_PLACE_M
+                and abs(a.width_m - b.width_m) <= SAME_PLACE_M)
+
+    out: dict[str, str] = {}
+    for a in lone_e:
+        matches = [b for b in lone_l if near(a, b)]
+        if len(matches) == 1 and sum(near(x, matches[0]) for x in lone_e) == 1:
+            out[a.id] = matches[0].id
+    return out
 
 
 def compare_buildings(

@@ -325,3 +325,35 @@ def test_every_earlier_opening_is_accounted_for_once_or_the_rename_refused(
     assert sorted(earlier_ids) == sorted(o.id for o in a0.building.openings)
     later_ids = [o.id for o in c.openings if o.status != "removed"]
     assert sorted(later_ids) == sorted(o.id for o in a1.building.openings)
+
+
+def _renumbered(b: Building, ids: dict[str, str], **changes: object) -> Building:
+    return dataclasses.replace(b, openings=tuple(
+        dataclasses.replace(o, id=ids[o.id], **changes) if o.id in ids else o
+        for o in b.openings))
+
+
+def test_openings_at_the_same_place_are_suggested_as_renumbered() -> None:
+    from petfall_audit.compare import SAME_PLACE_M, renumbered_openings
+
+    e = earlier_building()
+    later = _renumbered(e, {"W-1": "W-1a", "B-4": "B-4a"})
+    assert renumbered_openings(e, later) == {"W-1": "W-1a", "B-4": "B-4a"}
+    c = compare_buildings(e, later, samples=SAMPLES, seed=SEED)
+    assert c.renumbered == (("W-1", "W-1a"), ("B-4", "B-4a"))  # earlier building order
+    # paired by the user: no longer suggested, and the pair compares unchanged
+    paired = compare_buildings(e, later, renamed={"W-1": "W-1a"}, samples=SAMPLES, seed=SEED)
+    assert paired.renumbered == (("B-4", "B-4a"),)
+    assert paired.opening("W-1a").status == "unchanged"
+    # not the same place: moved along the facade, another kind, another floor
+    w1 = e.opening("W-1")
+    moved = _renumbered(e, {"W-1": "W-1a"}, x_m=w1.x_m + 2 * SAME_PLACE_M)
+    assert renumbered_openings(e, moved) == {}
+    nudged = _renumbered(e, {"W-1": "W-1a"}, x_m=w1.x_m + SAME_PLACE_M / 2)
+    assert renumbered_openings(e, nudged) == {"W-1": "W-1a"}
+    other_kind = _renumbered(e, {"W-1": "W-1a"}, kind=OpeningKind.WINDOW_SLIDING)
+    assert renumbered_openings(e, other_kind) == {}
+    # two new openings at that place: which one is meant cannot be told, none is suggested
+    twin = dataclasses.replace(later.opening("W-1a"), id="W-1b")
+    twice = dataclasses.replace(later, openings=(*later.openings, twin))
+    assert renumbered_openings(e, twice) == {"B-4": "B-4a"}

@@ -6,7 +6,8 @@ JSON keys: top level ``risk_before``, ``risk_after`` (summed risk scores), ``ris
 ``seed`` (the same for both audits), ``earlier`` / ``later`` (name, audit date, number of
 openings), ``doubts`` (signs that the two may not be audits of one building:
 ``no_common_openings``, ``different_address``, or the two the other way round:
-``dates_reversed``; :attr:`Comparison.doubts`), ``building_changes``,
+``dates_reversed``; :attr:`Comparison.doubts`), ``renumbered`` (earlier id -> later id of
+openings that look renumbered but were not paired, a suggestion), ``building_changes``,
 ``method``, ``cautions``; ``"openings"``: one object per opening
 with ``id``, ``earlier_id``, ``status`` (``added``, ``removed``, ``changed``, ``unchanged``),
 ``changes`` (field names), ``field_changes`` (field, old, new, unit), ``risk_before``,
@@ -21,6 +22,7 @@ risk the barrier changes removed at that opening). Numbers to 4 significant digi
 from __future__ import annotations
 
 import io
+import shlex
 import textwrap
 from typing import Any
 
@@ -35,6 +37,7 @@ from petfall_audit.present.comparison import (
     building_change_lines,
     comparison_rows,
     doubt_line,
+    renumbered_line,
     summary_lines,
 )
 from petfall_audit.risk import OpeningResult
@@ -138,6 +141,7 @@ def comparison_fields(c: Comparison) -> dict[str, Any]:
         "share_by_fixes": _share(c.share_by_fixes),
         "share_by_other": _share(c.share_by_other),
         "doubts": list(c.doubts),
+        "renumbered": dict(c.renumbered),
         "counts": {s: len(c.with_status(s)) for s in ("added", "removed", "changed",
                                                        "unchanged")},
         "building_changes": [_change(x) for x in c.building_changes],
@@ -169,9 +173,9 @@ def comparison_to_csv(c: Comparison) -> str:
     buf = io.StringIO()
     for line in CAUTIONS:
         buf.write(f"# {line}\n")
-    doubt = doubt_line(c)
-    if doubt:
-        buf.write(f"# {doubt}\n")
+    for note in (doubt_line(c), renumbered_line(c)):
+        if note:
+            buf.write(f"# {note}\n")
     w = csv_writer(buf)
     w.writerow(CSV_COLUMNS)
     for o in c.openings:
@@ -209,6 +213,10 @@ def comparison_to_table(c: Comparison, *, system: str = "metric") -> str:
     lines: list[str] = []
     for s in summary_lines(c):
         lines += textwrap.wrap(s, TEXT_WIDTH)
+    if c.renumbered:  # the command line's way to pair them
+        pairs = " ".join(f"--rename {shlex.quote(f'{a}={b}')}" for a, b in c.renumbered)
+        lines += textwrap.wrap(f"To pair them, compare again with {pairs}", TEXT_WIDTH,
+                               break_on_hyphens=False)
     lines += ["", fmt(head), fmt(tuple("-" * wd for wd in widths)), *(fmt(r) for r in body)]
     if not rows:
         lines.append("(every opening is unchanged)")

@@ -20,7 +20,14 @@ from petfall_audit.present.changes import (
     status_label,
 )
 from petfall_audit.present.labels import band_label, kind_label
-from petfall_audit.present.numbers import fmt_count, fmt_date, fmt_one_in, fmt_percent, fmt_risk
+from petfall_audit.present.numbers import (
+    fmt_count,
+    fmt_date,
+    fmt_one_in,
+    fmt_percent,
+    fmt_risk,
+    plural,
+)
 from petfall_audit.safe_text import cut
 
 __all__ = [
@@ -29,6 +36,7 @@ __all__ = [
     "comparison_rows",
     "summary_lines",
     "doubt_line",
+    "renumbered_line",
     "building_change_lines",
     "fitted_fix_rows",
     "fmt_exported_risk",
@@ -160,6 +168,24 @@ def doubt_line(c: Comparison) -> str:
     return " ".join(sentences)
 
 
+#: Renumbered pairs named in :func:`renumbered_line`; the rest are counted.
+RENUMBERED_NAMED = 8
+
+
+def renumbered_line(c: Comparison) -> str:
+    """The openings that look renumbered but were not paired (:attr:`Comparison.renumbered`)
+    in one sentence, or ``""``."""
+    pairs = c.renumbered
+    if not pairs:
+        return ""
+    named = ", ".join(f"{_one_line(a)} as {_one_line(b)}" for a, b in pairs[:RENUMBERED_NAMED])
+    more = len(pairs) - RENUMBERED_NAMED
+    return (f"{fmt_count(len(pairs), 'opening')} {plural(len(pairs), 'looks', 'look')} "
+            "renumbered since the earlier audit (same floor, facade, kind and place) and "
+            f"{plural(len(pairs), 'counts', 'count')} as removed and new: {named}"
+            + (f", and {more} more" if more > 0 else "") + ".")
+
+
 def summary_lines(c: Comparison, *, what_if: bool = False, doubt: bool = True) -> list[str]:
     """The totals in sentences; ``what_if``: the later side is the building with the plan's
     fixes fitted (a what-if), not a later audit, and the numbers are as computed (to read
@@ -199,10 +225,13 @@ def summary_lines(c: Comparison, *, what_if: bool = False, doubt: bool = True) -
     warning = "" if what_if or not doubt else doubt_line(c)
     if warning:
         lines.insert(1, warning)
+    renumbered = "" if what_if else renumbered_line(c)
     if not what_if:
         lines.append("Openings: " + ", ".join(
             fmt_count(len(c.with_status(s)), status_label(s).lower(), status_label(s).lower())
             for s in ("changed", "added", "removed", "unchanged")) + ".")
+    if renumbered:
+        lines.append(renumbered)
     return lines
 
 

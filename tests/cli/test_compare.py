@@ -181,3 +181,21 @@ def test_two_different_buildings_are_named_as_such_in_every_format(capsys, tmp_p
     assert any("two different buildings" in line for line in comments)
     code, out, _ = _run(capsys, "compare", *files, "--format", "json", *_sampling())
     assert json.loads(out)["doubts"] == []
+
+
+def test_renumbered_openings_are_suggested_with_a_rename(capsys, tmp_path, files) -> None:  # type: ignore[no-untyped-def]
+    later = dataclasses.replace(earlier_building(), openings=tuple(
+        dataclasses.replace(o, id="W 1") if o.id == "W-1" else o
+        for o in earlier_building().openings))
+    path = tmp_path / "renumbered.json"
+    save_building(later, path)
+    code, out, _ = _run(capsys, "compare", files[0], str(path), *_sampling())
+    flat = " ".join(out.split())
+    assert code == 0 and "1 opening looks renumbered" in flat and "W-1 as W 1" in flat
+    assert "compare again with --rename 'W-1=W 1'" in flat  # quoted for the shell
+    code, out, _ = _run(capsys, "compare", files[0], str(path), "--format", "json", *_sampling())
+    assert json.loads(out)["renumbered"] == {"W-1": "W 1"}
+    code, out, _ = _run(capsys, "compare", files[0], str(path), "--rename", "W-1=W 1",
+                        "--format", "json", *_sampling())
+    doc = json.loads(out)
+    assert doc["renumbered"] == {} and doc["counts"]["unchanged"] == 4

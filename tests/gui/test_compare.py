@@ -233,3 +233,39 @@ def test_a_long_list_of_building_changes_is_cut(compared, qtbot, tmp_path: Path)
     assert f"and {changes - NOTE_CHANGES} more" in note
     assert note.count(";") == NOTE_CHANGES  # the shown changes and the "and N more"
     assert len(view.note.toolTip().splitlines()) == changes  # the whole list
+
+
+def test_renumbered_openings_are_paired_on_request(qtbot, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
+    import dataclasses
+
+    e = earlier_building()
+    # this audit: W-1 renumbered W-1a, nothing else changed
+    now = dataclasses.replace(e, openings=tuple(
+        dataclasses.replace(o, id="W-1a") if o.id == "W-1" else o for o in e.openings))
+    window = MainWindow(Document(now), prompts=QuietPrompts(), samples=SAMPLES,
+                        refine_samples=0)
+    qtbot.addWidget(window)
+    window.show()
+    views = window.views
+    qtbot.waitUntil(lambda: views.context.assessment is not None and not window.results_stale,
+                    timeout=20000)
+    path = tmp_path / "earlier.json"
+    save_building(e, path)
+    view = views.compare
+    with qtbot.waitSignal(view.compared, timeout=20000):
+        view.open_earlier(path)
+    assert not view.pair_renumbered.isHidden() and not view.pair_renumbered.isChecked()
+    assert {(o.id, o.status) for o in view.comparison.openings if o.status != "unchanged"} == {
+        ("W-1a", "added"), ("W-1", "removed")}
+    assert "W-1 as W-1a" in view.summary.text()
+    with qtbot.waitSignal(view.compared, timeout=20000):
+        view.pair_renumbered.setChecked(True)
+    row = view.comparison.opening("W-1a")
+    assert (row.status, row.earlier_id) == ("unchanged", "W-1")
+    assert "renumbered" not in view.summary.text()
+    with qtbot.waitSignal(view.compared, timeout=20000):
+        view.pair_renumbered.setChecked(False)
+    assert view.comparison.opening("W-1a").status == "added"
+    window.recomputer.cancel()
+    window.recomputer.wait(10000)
+    wait_for_tasks(20000)

@@ -16,6 +16,7 @@ from typing import Any
 from PySide6.QtCore import Qt, Signal
 from PySide6.QtWidgets import (
     QAbstractItemView,
+    QCheckBox,
     QComboBox,
     QHBoxLayout,
     QHeaderView,
@@ -130,6 +131,15 @@ class CompareView(QWidget):
         self.close_button.clicked.connect(lambda _c=False: self.close_what_if())
         for b in (self.accept_button, self.close_button):
             b.hide()
+        # openings that look renumbered (same floor, facade, kind and place) are paired on
+        # request, as the command line's --rename pairs them
+        self.pair_renumbered = QCheckBox("&Pair renumbered openings")
+        self.pair_renumbered.setObjectName("pair_renumbered")
+        self.pair_renumbered.setToolTip(
+            "Pair each opening of the earlier audit that has no match by id with the one new "
+            "opening on the same floor, facade and kind, at the same place along the facade")
+        self.pair_renumbered.hide()
+        self.pair_renumbered.toggled.connect(lambda _on: self._compare())
         bar = QHBoxLayout()
         bar.setContentsMargins(0, 0, 0, 0)
         bar.addWidget(self.open_button)
@@ -138,6 +148,7 @@ class CompareView(QWidget):
         bar.addWidget(show)
         bar.addWidget(self.filter_box)
         bar.addWidget(self.search, 1)
+        bar.addWidget(self.pair_renumbered)
 
         self.summary = QLabel("Open an earlier building file to see what changed since that "
                               "audit; it is assessed with the same simulated cats as this one.")
@@ -243,6 +254,9 @@ class CompareView(QWidget):
         building, path = loaded
         self.earlier_building, self.earlier_name = building, path.name
         self.earlier = None
+        self.pair_renumbered.blockSignals(True)  # a new file: nothing paired unless asked
+        self.pair_renumbered.setChecked(False)
+        self.pair_renumbered.blockSignals(False)
         self._set_mode("earlier")
         return self._assess_earlier()
 
@@ -285,6 +299,7 @@ class CompareView(QWidget):
     def _set_mode(self, mode: str) -> None:
         self.mode = mode
         self.doubt.hide()
+        self.pair_renumbered.hide()
         what_if = mode == "what_if"
         self.accept_button.setVisible(what_if)
         self.close_button.setVisible(what_if)
@@ -355,13 +370,16 @@ class CompareView(QWidget):
             self._compare()
 
     def _compare(self) -> None:
-        from petfall_audit.compare import compare_assessments
+        from petfall_audit.compare import compare_assessments, renumbered_openings
 
         current = self._ctx.assessment
-        if self.earlier is None or current is None:
+        if self.earlier is None or current is None or self.mode != "earlier":
             return
+        pairs = renumbered_openings(self.earlier.building, current.building)
+        self.pair_renumbered.setVisible(bool(pairs))
+        renamed = pairs if pairs and self.pair_renumbered.isChecked() else None
         try:
-            c = compare_assessments(self.earlier, current)
+            c = compare_assessments(self.earlier, current, renamed=renamed)
         except ValueError:  # newer results with other cats are on their way
             self._assess_earlier()
             return
