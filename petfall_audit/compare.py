@@ -54,6 +54,7 @@ Units: risk in the risk-score units of :func:`petfall_audit.risk.risk_score`; le
 
 from __future__ import annotations
 
+import bisect
 import dataclasses
 import datetime
 import math
@@ -470,23 +471,35 @@ def renumbered_openings(earlier: Building, later: Building, *,
     """Earlier id -> later id of openings that look renumbered between the audits: an earlier
     opening that pairs with none (by id or ``renamed``) and a later one that pairs with none,
     on the same floor, facade and kind, with left edge and width within :data:`SAME_PLACE_M`
-    of each other, each the other's only such match. In earlier building order."""
+    of each other, each the other's only such match. In earlier building order. Openings are
+    only compared within their floor, facade and kind, so a large building stays quick."""
     rename = dict(renamed or {})
     later_ids = {o.id for o in later.openings}
     taken = {rename.get(o.id, o.id) for o in earlier.openings} & later_ids
     lone_e = [o for o in earlier.openings if rename.get(o.id, o.id) not in later_ids]
-    lone_l = [o for o in later.openings if o.id not in taken]
+    groups: dict[tuple[int, str, str], tuple[list[Opening], list[Opening]]] = {}
+    for o in lone_e:
+        groups.setdefault(_place(o), ([], []))[0].append(o)
+    for o in later.openings:
+        if o.id not in taken and _place(o) in groups:
+            groups[_place(o)][1].append(o)
 
-    def near(a: Opening, b: Opening) -> bool:
-        return (_place(a) == _place(b) and abs(a.x_m - b.x_m) <= SAME_PLACE_M
-                and abs(a.width_m - b.width_m) <= SAME_PLACE_M)
+    def near(a: Opening, among: list[Opening], xs: list[float]) -> list[Opening]:
+        """The openings of ``among`` (sorted by left edge ``xs``) at ``a``'s place."""
+        lo = bisect.bisect_left(xs, a.x_m - SAME_PLACE_M)
+        hi = bisect.bisect_right(xs, a.x_m + SAME_PLACE_M)
+        return [b for b in among[lo:hi] if abs(a.width_m - b.width_m) <= SAME_PLACE_M]
 
-    out: dict[str, str] = {}
-    for a in lone_e:
-        matches = [b for b in lone_l if near(a, b)]
-        if len(matches) == 1 and sum(near(x, matches[0]) for x in lone_e) == 1:
-            out[a.id] = matches[0].id
-    return out
+    found: dict[str, str] = {}
+    for olds, news in groups.values():
+        olds.sort(key=lambda o: o.x_m)
+        news.sort(key=lambda o: o.x_m)
+        old_xs, new_xs = [o.x_m for o in olds], [o.x_m for o in news]
+        for a in olds:
+            matches = near(a, news, new_xs)
+            if len(matches) == 1 and len(near(matches[0], olds, old_xs)) == 1:
+                found[a.id] = matches[0].id
+    return {o.id: found[o.id] for o in lone_e if o.id in found}
 
 
 def compare_buildings(

@@ -357,3 +357,43 @@ def test_openings_at_the_same_place_are_suggested_as_renumbered() -> None:
     twin = dataclasses.replace(later.opening("W-1a"), id="W-1b")
     twice = dataclasses.replace(later, openings=(*later.openings, twin))
     assert renumbered_openings(e, twice) == {"B-4": "B-4a"}
+
+
+def _brute_renumbered(e: Building, la: Building) -> dict[str, str]:
+    """The definition, pair by pair (no renames given): the reference for the indexed search."""
+    later_ids = {o.id for o in la.openings}
+    olds = [o for o in e.openings if o.id not in later_ids]
+    earlier_ids = {o.id for o in e.openings}
+    news = [o for o in la.openings if o.id not in earlier_ids]
+
+    def same(a: Opening, b: Opening) -> bool:
+        return ((a.floor, a.facade, a.kind) == (b.floor, b.facade, b.kind)
+                and abs(a.x_m - b.x_m) <= 0.05 and abs(a.width_m - b.width_m) <= 0.05)
+
+    out = {}
+    for a in olds:
+        m = [b for b in news if same(a, b)]
+        if len(m) == 1 and sum(same(x, m[0]) for x in olds) == 1:
+            out[a.id] = m[0].id
+    return out
+
+
+_places = st.tuples(st.integers(0, 2), st.sampled_from([0.0, 0.03, 0.06, 1.0, 1.04, 2.0]),
+                   st.sampled_from([1.0, 1.04, 1.2]))
+
+
+@settings(max_examples=80, deadline=None)
+@given(st.lists(_places, max_size=8), st.lists(_places, max_size=8))
+def test_renumbered_suggestions_follow_their_definition(old: list[tuple[int, float, float]],
+                                                        new: list[tuple[int, float, float]]
+                                                        ) -> None:
+    from petfall_audit.compare import renumbered_openings
+
+    def building(prefix: str, places: list[tuple[int, float, float]]) -> Building:
+        b = earlier_building()
+        return dataclasses.replace(b, openings=tuple(
+            Opening(f"{prefix}{i}", floor=f, facade="S", kind=OpeningKind.WINDOW_CASEMENT,
+                    x_m=x, width_m=w) for i, (f, x, w) in enumerate(places)))
+
+    e, la = building("E", old), building("L", new)
+    assert list(renumbered_openings(e, la).items()) == list(_brute_renumbered(e, la).items())
