@@ -83,6 +83,7 @@ __all__ = [
     "compare_buildings",
     "compare_assessments",
     "renumbered_openings",
+    "audit_doubts",
     "SAME_PLACE_M",
     "field_unit",
     "fitted_records",
@@ -219,18 +220,10 @@ class Comparison:
     @property
     def doubts(self) -> tuple[Doubt, ...]:
         """Signs that the two audits may not be of one building or are the other way round,
-        in :data:`DOUBTS` order."""
-        e, la = self.earlier.building, self.later.building
-        out: list[Doubt] = []
-        if e.openings and la.openings and not self.with_status("changed", "unchanged"):
-            out.append("no_common_openings")
-        a0, a1 = _address_key(e.info.address), _address_key(la.info.address)
-        if a0 and a1 and a0 != a1:
-            out.append("different_address")
-        d0, d1 = _date(e.info.audit_date), _date(la.info.audit_date)
-        if d0 is not None and d1 is not None and d0 > d1:
-            out.append("dates_reversed")
-        return tuple(out)
+        in :data:`DOUBTS` order (:func:`audit_doubts`, the openings as this comparison paired
+        them)."""
+        return audit_doubts(self.earlier.building, self.later.building,
+                            paired=bool(self.with_status("changed", "unchanged")))
 
     def with_status(self, *statuses: Status) -> list[OpeningComparison]:
         return [o for o in self.openings if o.status in statuses]
@@ -249,6 +242,25 @@ class Comparison:
 
 
 # --- comparing -------------------------------------------------------------------------------
+
+
+def audit_doubts(earlier: Building, later: Building, *, paired: bool | None = None
+                 ) -> tuple[Doubt, ...]:
+    """Signs that ``earlier`` and ``later`` may not be audits of one building, or are the other
+    way round, in :data:`DOUBTS` order (module docstring). ``paired``: whether any opening of
+    the two pairs (default: any opening id in both)."""
+    if paired is None:
+        paired = bool({o.id for o in earlier.openings} & {o.id for o in later.openings})
+    out: list[Doubt] = []
+    if earlier.openings and later.openings and not paired:
+        out.append("no_common_openings")
+    a0, a1 = _address_key(earlier.info.address), _address_key(later.info.address)
+    if a0 and a1 and a0 != a1:
+        out.append("different_address")
+    d0, d1 = _date(earlier.info.audit_date), _date(later.info.audit_date)
+    if d0 is not None and d1 is not None and d0 > d1:
+        out.append("dates_reversed")
+    return tuple(out)
 
 
 def _date(text: str) -> datetime.date | None:

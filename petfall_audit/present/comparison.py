@@ -13,6 +13,7 @@ from dataclasses import dataclass
 
 from petfall_audit.compare import Comparison, OpeningComparison, fitted_records
 from petfall_audit.io.results_export import round_significant
+from petfall_audit.model import BuildingInfo
 from petfall_audit.present.changes import (
     fix_status_label,
     fmt_field_change,
@@ -36,6 +37,7 @@ __all__ = [
     "comparison_rows",
     "summary_lines",
     "doubt_line",
+    "doubt_words",
     "renumbered_line",
     "building_change_lines",
     "fitted_fix_rows",
@@ -147,8 +149,13 @@ def _one_line(text: str) -> str:
 def doubt_line(c: Comparison) -> str:
     """Why the two audits may not be of one building, or may be the other way round
     (:attr:`Comparison.doubts`), in a sentence each, or ``""`` when nothing suggests it."""
-    doubts = c.doubts
-    e, la = c.earlier.building.info, c.later.building.info
+    return doubt_words(c.doubts, c.earlier.building.info, c.later.building.info)
+
+
+def doubt_words(doubts: tuple[str, ...], e: BuildingInfo, la: BuildingInfo) -> str:
+    """:func:`doubt_line` for ``doubts`` (:func:`petfall_audit.compare.audit_doubts`) of an
+    earlier audit ``e`` and a later one ``la``; also for views that compare two audits without
+    a whole comparison (the floor comparison)."""
     reasons = []
     if "no_common_openings" in doubts:
         reasons.append("no opening id of the earlier audit is in the later one, so every "

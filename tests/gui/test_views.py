@@ -314,6 +314,18 @@ def test_floor_comparison_of_two_facades_and_of_an_earlier_audit(app_window, qtb
     assert np.array_equal(before.worst_band, expected.worst_band)
     assert np.allclose(this.falls_per_year, level_summary(a).falls_per_year)
     assert "last-year.json" in floors.note.text()
+    assert "different buildings" not in floors.note.text()
+    # another building's file (no opening in common, another address) is named as such
+    other = dataclasses.replace(earlier, info=dataclasses.replace(
+        earlier.info, address="3 Nowhere Lane (invented)"), openings=tuple(
+        dataclasses.replace(o, id=f"Q{i}") for i, o in enumerate(earlier.openings)))
+    elsewhere = tmp_path / "elsewhere.json"
+    save_building(other, elsewhere)
+    with qtbot.waitSignal(floors.earlier_ready, timeout=20000):
+        floors.open_earlier(elsewhere)
+    note = floors.note.text()
+    assert "These may be audits of two different buildings" in note
+    assert "3 Nowhere Lane (invented)" in note
 
 
 def test_views_follow_the_units_and_the_palette(app_window) -> None:  # type: ignore[no-untyped-def]

@@ -241,11 +241,17 @@ class FloorsView(QWidget):
                 self.note.setText("Open an earlier building file to compare it with this audit "
                                   "(it is assessed with the same simulated cats).")
                 return this, level_summary(a, "\0none", title="(no earlier audit)")
+            from petfall_audit.compare import audit_doubts
+            from petfall_audit.present.comparison import doubt_words
+
             name = self.earlier_path.name if self.earlier_path else "earlier audit"
             earlier = level_summary(self.earlier, facade, title=f"{name}{where}")
+            before, now = self.earlier.building, a.building
+            doubt = doubt_words(audit_doubts(before, now), before.info, now.info)
             self.note.setText(f"A (solid) = this audit; B (hatched) = {name}, assessed with "
                               f"{self.earlier.samples} simulated cats per opening, seed "
-                              f"{self.earlier.seed}. Levels are matched by number.")
+                              f"{self.earlier.seed}. Levels are matched by number."
+                              + (f" {doubt}" if doubt else ""))
             return align_levels(this, earlier)
         fa, fb = self.a_box.currentData(), self.b_box.currentData()
         if fa is None or fb is None:
