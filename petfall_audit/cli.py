@@ -459,6 +459,11 @@ def _cmd_report(args: argparse.Namespace) -> int:
                 renamed=renamed)
         except ValueError as exc:
             raise _refuse(str(exc)) from None
+        from petfall_audit.present.comparison import doubt_line, renumbered_line
+
+        for note in (doubt_line(comparison), renumbered_line(comparison)):
+            if note:  # said in the PDF too; here so that it is not missed
+                _say(f"{args.earlier}: {note}", file=sys.stderr)
     budget = _budget_of(args, building)
     plan = make_plan(assessment, budget) if budget is not None else None
     what_if = None

@@ -156,6 +156,13 @@ def test_pdf_section_shows_the_numbers_of_the_json(capsys, tmp_path, files) -> N
     assert fmt_risk(by_id["W-5"]["risk_after"]) in text
     assert fmt_risk(by_id["W-3"]["risk_before"]) in text
     assert "Netting mesh: no net → 30 mm" in text
+    assert "different buildings" not in err and "other way round" not in err
+    # the two files swapped: the PDF asks, and so does the terminal, where it is not missed
+    code, _, err = _run(capsys, "report", files[0], "--earlier", files[1], "-o", str(pdf),
+                        *_sampling())
+    assert code == 0
+    assert f"{files[1]}: The earlier audit is dated 2026-05-04" in " ".join(err.split())
+    assert "other way round" in " ".join(_pdf_text(pdf).split())
 
 
 def test_pdf_without_an_earlier_audit_has_no_such_section(capsys, tmp_path, files) -> None:  # type: ignore[no-untyped-def]
