@@ -97,17 +97,30 @@ def _require_at_least(name: str, value: float | None, low: float) -> None:
         raise _refuse(f"{name} must be at least {fmt_tick(low)}")
 
 
-def _check_output(path: str | Path | None) -> None:
+def _check_output(path: str | Path | None, *inputs: str | None) -> None:
     """Refuse (exit 2) before any work an output path whose folder is missing or that is a
-    folder, so a long computation never ends in "cannot write"."""
+    folder, so a long computation never ends in "cannot write", and one that is one of the
+    command's ``inputs`` (a results file written over the building file would lose it)."""
     if not path:
         return
     from petfall_audit.io.atomic import check_writable_path
 
+    for given in inputs:
+        if given and _same_file(path, given):
+            raise _refuse(f"{path}: that is the input file {given} itself; write to another "
+                          "file, so that the input is kept")
     try:
         check_writable_path(path)
     except OSError as exc:
         raise _refuse(f"{path}: {exc.strerror}") from None
+
+
+def _same_file(a: str | Path, b: str | Path) -> bool:
+    """Whether paths ``a`` and ``b`` name one file (also through links)."""
+    try:
+        return os.path.samefile(a, b)
+    except OSError:  # one of them does not exist (yet)
+        return Path(a).resolve() == Path(b).resolve()
 
 
 def _load(path: str) -> Building:
@@ -363,7 +376,7 @@ def _cmd_assess(args: argparse.Namespace) -> int:
     from petfall_audit.io.results_export import assessment_to_csv
     from petfall_audit.present.tables import assessment_to_table
 
-    _check_output(args.output)
+    _check_output(args.output, args.file)
     _check_sampling(args)
     building = _load(args.file)
     assessment = _assess(
@@ -387,8 +400,8 @@ def _cmd_plan(args: argparse.Namespace) -> int:
 
     if args.budget is not None and (not math.isfinite(args.budget) or args.budget < 0):
         raise _refuse("--budget must be an amount of 0 or more")
-    _check_output(args.output)
-    _check_output(args.write_after)
+    _check_output(args.output, args.file, args.controls)
+    _check_output(args.write_after, args.file, args.controls)
     _check_sampling(args)
     building = _load(args.file)
     budget = _budget_of(args, building)
@@ -437,8 +450,9 @@ def _cmd_report(args: argparse.Namespace) -> int:
     _require_at_least("--top", args.top, 0)
     _require_at_least("--budget", args.budget, 0)
     _check_sampling(args)
-    _check_output(args.output)
-    _check_output(args.leaflet)
+    inputs = (args.file, args.earlier, getattr(args, "controls", None), args.leaflet_text)
+    _check_output(args.output, *inputs)
+    _check_output(args.leaflet, *inputs, args.output)
     if (args.leaflet_omit or args.leaflet_text) and not args.leaflet:
         raise _refuse("--leaflet-omit and --leaflet-text shape the leaflet: add --leaflet PDF")
     renamed = _renames(args.rename)
@@ -540,7 +554,7 @@ def _cmd_leaflet_text(args: argparse.Namespace) -> int:
     if args.output in (None, "-"):
         sys.stdout.write(text)
     else:
-        _check_output(args.output)
+        _check_output(args.output, args.file)
         atomic_write_text(Path(args.output), text)
         _say(f"wrote {args.output}")
     return EXIT_OK
@@ -566,7 +580,7 @@ def _cmd_compare(args: argparse.Namespace) -> int:
     )
     from petfall_audit.sampling import DEFAULT_SAMPLES, DEFAULT_SEED
 
-    _check_output(args.output)
+    _check_output(args.output, args.earlier, args.later)
     _check_sampling(args)
     renamed = _renames(args.rename)
     earlier = _load(args.earlier)
@@ -605,7 +619,8 @@ def _cmd_fixes(args: argparse.Namespace) -> int:
     if args.output and not (args.apply_fitted or args.record_plan or args.set):
         raise _refuse("-o: nothing to write; it goes with --record-plan, --set or "
                       "--apply-fitted")
-    _check_output(args.output)
+    # --record-plan / --set may write the file back in place; the next audit may not
+    _check_output(args.output, args.controls, *((args.file,) if args.apply_fitted else ()))
     building = _load(args.file)
     catalogue = _load_catalogue(args.controls)
     changed = building
@@ -689,6 +704,11 @@ def _cmd_batch(args: argparse.Namespace) -> int:
     out_dir = Path(args.out_dir)
     if out_dir.exists() and not out_dir.is_dir():
         raise _refuse(f"--out-dir {out_dir}: is a file, not a folder")
+    inside = [f for f in args.files if _same_file(Path(f).parent, out_dir)]
+    if inside:  # a result named after its building would be written over the building file
+        raise _refuse(f"--out-dir {out_dir}: {inside[0]} is in that folder, and its results "
+                      "could be written over it; write the results to a folder of their own "
+                      "(e.g. --out-dir results)")
     out_dir.mkdir(parents=True, exist_ok=True)
     jobs = [
         BatchJob(index=n, path=name, out_dir=str(out_dir), fmt=args.format,
