@@ -103,24 +103,16 @@ def _check_output(path: str | Path | None, *inputs: str | None) -> None:
     command's ``inputs`` (a results file written over the building file would lose it)."""
     if not path:
         return
-    from petfall_audit.io.atomic import check_writable_path
+    from petfall_audit.io.atomic import check_writable_path, same_file
 
     for given in inputs:
-        if given and _same_file(path, given):
+        if given and same_file(path, given):
             raise _refuse(f"{path}: that is the input file {given} itself; write to another "
                           "file, so that the input is kept")
     try:
         check_writable_path(path)
     except OSError as exc:
         raise _refuse(f"{path}: {exc.strerror}") from None
-
-
-def _same_file(a: str | Path, b: str | Path) -> bool:
-    """Whether paths ``a`` and ``b`` name one file (also through links)."""
-    try:
-        return os.path.samefile(a, b)
-    except OSError:  # one of them does not exist (yet)
-        return Path(a).resolve() == Path(b).resolve()
 
 
 def _load(path: str) -> Building:
@@ -704,7 +696,9 @@ def _cmd_batch(args: argparse.Namespace) -> int:
     out_dir = Path(args.out_dir)
     if out_dir.exists() and not out_dir.is_dir():
         raise _refuse(f"--out-dir {out_dir}: is a file, not a folder")
-    inside = [f for f in args.files if _same_file(Path(f).parent, out_dir)]
+    from petfall_audit.io.atomic import same_file
+
+    inside = [f for f in args.files if same_file(Path(f).parent, out_dir)]
     if inside:  # a result named after its building would be written over the building file
         raise _refuse(f"--out-dir {out_dir}: {inside[0]} is in that folder, and its results "
                       "could be written over it; write the results to a folder of their own "

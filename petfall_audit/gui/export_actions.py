@@ -27,6 +27,7 @@ from PySide6.QtWidgets import (
 )
 
 from petfall_audit.gui.views.common import Task, run_task
+from petfall_audit.io.atomic import same_file
 from petfall_audit.model import Building
 
 __all__ = ["ExportActions", "ExportPrompts", "EXPORTS", "report_inputs"]
@@ -218,6 +219,11 @@ class ExportActions(QObject):
             if not Path(path).suffix:  # "audit" typed without an extension
                 path = Path(path).with_suffix(suffix)
         path = Path(path)
+        if doc.path is not None and same_file(path, doc.path):
+            self.prompts.show_error(self.window, "Export",
+                                    f"{path.name} is this building's own file. Choose another "
+                                    "file name, so that the audit is kept.")
+            return None
         budget = self._budget()
         is_default = bool(self._budget_is_default())
         if kind.startswith("plan") and budget is None:

@@ -28,7 +28,8 @@ import time
 from dataclasses import dataclass
 from pathlib import Path
 
-__all__ = ["atomic_write_text", "atomic_write_bytes", "check_writable_path", "FileStamp",
+__all__ = ["atomic_write_text", "atomic_write_bytes", "check_writable_path", "same_file",
+           "FileStamp",
            "file_stamp", "changed_since", "STALE_TEMP_S"]
 
 #: A temporary file of a save older than this (seconds) is a leftover of a crash.
@@ -104,6 +105,15 @@ def atomic_write_bytes(path: str | Path, data: bytes) -> None:
             raise type(exc)(exc.errno, exc.strerror or str(exc), shown) from None
         raise
     _fsync_folder(folder)
+
+
+def same_file(a: str | Path, b: str | Path) -> bool:
+    """Whether paths ``a`` and ``b`` name one file (also through links or another spelling),
+    so that an output is never written over an input."""
+    try:
+        return os.path.samefile(a, b)
+    except OSError:  # one of them does not exist (yet)
+        return Path(a).resolve() == Path(b).resolve()
 
 
 def check_writable_path(path: str | Path) -> None:

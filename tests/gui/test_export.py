@@ -136,3 +136,24 @@ def test_asking_for_a_path_and_refusing_a_second_export(qtbot, window, tmp_path:
         assert exports.export("results_json") is None  # one at a time
     assert (tmp_path / "chosen.json").exists()
     assert prompts.errors == ["An export is already running."]
+
+
+def test_an_export_over_the_building_file_itself_is_refused(qtbot, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
+    from petfall_audit.io.building_file import save_building
+
+    path = tmp_path / "court.json"
+    save_building(sample_building("walkup"), path)
+    before = path.read_bytes()
+    w = MainWindow(Document(sample_building("walkup"), path=path), prompts=QuietPrompts(),
+                   samples=SAMPLES, refine_samples=0)
+    qtbot.addWidget(w)
+    try:
+        prompts = SaveTo(tmp_path / "." / "court.json")  # the same file, spelt otherwise
+        w.views.exports.prompts = prompts
+        assert w.views.exports.export("results_json") is None
+        assert prompts.errors and "this building's own file" in prompts.errors[0]
+        assert path.read_bytes() == before
+    finally:
+        w.recomputer.cancel()
+        w.recomputer.wait(10000)
+        wait_for_tasks(30000)
