@@ -115,6 +115,15 @@ def _check_output(path: str | Path | None, *inputs: str | None) -> None:
         raise _refuse(f"{path}: {exc.strerror}") from None
 
 
+def _keep_edited(path: str | Path | None, force: bool, what: str) -> None:
+    """Refuse (exit 2) to replace an existing file at ``path`` that a person fills in or edits
+    (``what`` it may hold: a filled-in schedule, an edited leaflet text, the next audit) unless
+    ``force``: hours of survey work would be lost to a blank template."""
+    if path and not force and Path(path).exists():
+        raise _refuse(f"{path} already exists and may hold {what}; give another name, or "
+                      "--force to replace it")
+
+
 def _load(path: str) -> Building:
     """The building in ``path``; its problems go to stderr and end the command with exit 2."""
     from petfall_audit.io.building_file import load_building
@@ -547,6 +556,7 @@ def _cmd_leaflet_text(args: argparse.Namespace) -> int:
         sys.stdout.write(text)
     else:
         _check_output(args.output, args.file)
+        _keep_edited(args.output, args.force, "an edited leaflet text")
         atomic_write_text(Path(args.output), text)
         _say(f"wrote {args.output}")
     return EXIT_OK
@@ -613,6 +623,8 @@ def _cmd_fixes(args: argparse.Namespace) -> int:
                       "--apply-fitted")
     # --record-plan / --set may write the file back in place; the next audit may not
     _check_output(args.output, args.controls, *((args.file,) if args.apply_fitted else ()))
+    if args.apply_fitted:
+        _keep_edited(args.output, args.force, "the next audit as surveyed")
     building = _load(args.file)
     catalogue = _load_catalogue(args.controls)
     changed = building
@@ -966,6 +978,7 @@ def _cmd_template(args: argparse.Namespace) -> int:
     from petfall_audit.io.template import template_headers, write_template
 
     _check_output(args.out)
+    _keep_edited(args.out, args.force, "a filled-in schedule")
     write_template(Path(args.out), system=args.units)
     _say(
         f"{args.out}: blank {args.units} schedule, {len(template_headers(args.units))} columns "
@@ -1100,6 +1113,8 @@ def _build_parser() -> argparse.ArgumentParser:
                         "leave FILE as it is")
     p.add_argument("--controls", default=None, metavar="FILE",
                    help="control catalogue (.json; default: the shipped catalogue)")
+    p.add_argument("--force", action="store_true",
+                   help="with --apply-fitted: replace OUT.json if it exists")
     _add_sampling_options(p)
     p.set_defaults(handler=_cmd_fixes)
 
@@ -1150,6 +1165,8 @@ def _build_parser() -> argparse.ArgumentParser:
     )
     p.add_argument("file", help="building file (.json)")
     p.add_argument("-o", "--output", default=None, help="text file to write (default: stdout)")
+    p.add_argument("--force", action="store_true",
+                   help="replace the text file if it exists (its edits would be lost)")
     p.set_defaults(handler=_cmd_leaflet_text)
 
     p = sub.add_parser(
@@ -1206,6 +1223,8 @@ def _build_parser() -> argparse.ArgumentParser:
 
     p = sub.add_parser("template", help="write a blank opening schedule (.csv or .xlsx)")
     p.add_argument("out", metavar="OUT", help="OUT.csv or OUT.xlsx")
+    p.add_argument("--force", action="store_true",
+                   help="replace OUT if it exists (a filled-in schedule would be lost)")
     p.add_argument(
         "--units", choices=("metric", "imperial"), default="metric",
         help="header units: metric (m, mm) or imperial (ft, in)",

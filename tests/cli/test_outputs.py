@@ -69,3 +69,24 @@ def test_batch_refuses_to_write_results_among_its_buildings(
     out = tmp_path / "results"
     assert main(["batch", str(building), "--out-dir", str(out), "--jobs", "1", *FAST]) == 0
     assert (out / "court.json").exists() and building.read_bytes() == before
+
+
+@pytest.mark.parametrize("argv, what", [
+    (("template", "{out}"), "a filled-in schedule"),
+    (("leaflet-text", "{f}", "-o", "{out}"), "an edited leaflet text"),
+    (("fixes", "{f}", "--apply-fitted", "-o", "{out}"), "the next audit as surveyed"),
+])
+def test_a_document_a_person_edits_is_replaced_only_with_force(
+        argv: tuple[str, ...], what: str, building: Path, tmp_path: Path,
+        capsys: pytest.CaptureFixture[str]) -> None:
+    suffix = ".xlsx" if argv[0] == "template" else (".txt" if argv[0] == "leaflet-text"
+                                                      else ".json")
+    out = tmp_path / f"filled-in{suffix}"
+    out.write_bytes(b"hours of survey work")
+    args = [a.format(f=building, out=out) for a in argv]
+    assert main(args) == 2
+    err = " ".join(capsys.readouterr().err.split())
+    assert f"already exists and may hold {what}" in err and "--force" in err
+    assert out.read_bytes() == b"hours of survey work"
+    assert main([*args, "--force"]) == 0
+    assert out.read_bytes() != b"hours of survey work"
