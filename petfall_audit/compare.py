@@ -35,10 +35,11 @@ an opening is opened (``open_frequency``) is use, not a fitting, and counts as "
 
 Doubts (:attr:`Comparison.doubts`): signs that the two files may not be audits of one building,
 which the comparison still makes but every output names: ``"no_common_openings"`` (both audits
-have openings and none pairs, so every opening reads as added or removed) and
+have openings and none pairs, so every opening reads as added or removed),
 ``"different_address"`` (both give an address and they differ in more than case, spacing and
-punctuation); and a sign that the two are given the other way round: ``"dates_reversed"`` (the
-earlier audit is dated after the later one).
+punctuation) and ``"different_name"`` (the buildings' names differ likewise); and a sign that
+the two are given the other way round: ``"dates_reversed"`` (the earlier audit is dated after
+the later one).
 
 Renumbered openings (:func:`renumbered_openings`): an earlier opening left unpaired and a later
 one left unpaired that sit at the same place (same floor, facade and kind, left edge and width
@@ -92,10 +93,11 @@ __all__ = [
 Status = Literal["added", "removed", "changed", "unchanged"]
 #: The statuses of a compared opening.
 STATUSES: tuple[Status, ...] = ("added", "removed", "changed", "unchanged")
-Doubt = Literal["no_common_openings", "different_address", "dates_reversed"]
+Doubt = Literal["no_common_openings", "different_address", "different_name", "dates_reversed"]
 #: Signs that two compared audits may not be of one building, or are the other way round
 #: (module docstring).
-DOUBTS: tuple[Doubt, ...] = ("no_common_openings", "different_address", "dates_reversed")
+DOUBTS: tuple[Doubt, ...] = ("no_common_openings", "different_address", "different_name",
+                             "dates_reversed")
 #: Fields of an opening compared between two audits (its id pairs them; notes and photos are
 #: records, not the opening's state).
 OPENING_FIELDS: tuple[str, ...] = tuple(
@@ -257,6 +259,9 @@ def audit_doubts(earlier: Building, later: Building, *, paired: bool | None = No
     a0, a1 = _address_key(earlier.info.address), _address_key(later.info.address)
     if a0 and a1 and a0 != a1:
         out.append("different_address")
+    n0, n1 = _address_key(earlier.info.name), _address_key(later.info.name)
+    if n0 and n1 and n0 != n1:
+        out.append("different_name")
     d0, d1 = _date(earlier.info.audit_date), _date(later.info.audit_date)
     if d0 is not None and d1 is not None and d0 > d1:
         out.append("dates_reversed")
@@ -272,7 +277,8 @@ def _date(text: str) -> datetime.date | None:
 
 
 def _address_key(address: str) -> str:
-    """An address without case, spacing or punctuation ("7 Tallowmere St." = "7 tallowmere st")."""
+    """An address or name without case, spacing or punctuation ("7 Tallowmere St." =
+    "7 tallowmere st")."""
     return "".join(ch for ch in address.casefold() if ch.isalnum())
 
 

@@ -397,3 +397,23 @@ def test_renumbered_suggestions_follow_their_definition(old: list[tuple[int, flo
 
     e, la = building("E", old), building("L", new)
     assert list(renumbered_openings(e, la).items()) == list(_brute_renumbered(e, la).items())
+
+
+def test_another_name_is_doubted_and_a_share_of_no_risk_is_not_printed() -> None:
+    from petfall_audit.present.comparison import doubt_line, summary_lines
+
+    e = earlier_building()
+    renamed = dataclasses.replace(e, info=dataclasses.replace(e.info, name="Gull Wharf"))
+    respaced = dataclasses.replace(e, info=dataclasses.replace(
+        e.info, name="  harbour view 3 (INVENTED)"))
+    assert compare_buildings(e, respaced, samples=SAMPLES, seed=SEED).doubts == ()
+    c = compare_buildings(e, renamed, samples=SAMPLES, seed=SEED)
+    assert c.doubts == ("different_name",)
+    assert "the names differ, “Harbour View 3 (invented)” and “Gull Wharf”" in doubt_line(c)
+    # an earlier audit without risk (no openings yet): no "0% more" of nothing
+    bare = dataclasses.replace(e, openings=())
+    grown = compare_buildings(bare, e, samples=SAMPLES, seed=SEED)
+    assert grown.share_removed is None
+    text = " ".join(summary_lines(grown))
+    assert "%" not in text, text
+    assert "0 before" in text and "every other change added" in text

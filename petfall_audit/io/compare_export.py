@@ -5,7 +5,8 @@ JSON keys: top level ``risk_before``, ``risk_after`` (summed risk scores), ``ris
 ``removed_by_fixes``, ``removed_by_other`` and their shares of ``risk_before``, ``samples`` and
 ``seed`` (the same for both audits), ``earlier`` / ``later`` (name, audit date, number of
 openings), ``doubts`` (signs that the two may not be audits of one building:
-``no_common_openings``, ``different_address``, or the two the other way round:
+``no_common_openings``, ``different_address``, ``different_name``, or the two the other way
+round:
 ``dates_reversed``; :attr:`Comparison.doubts`), ``renumbered`` (earlier id -> later id of
 openings that look renumbered but were not paired, a suggestion), ``building_changes``,
 ``method``, ``cautions``; ``"openings"``: one object per opening

@@ -163,6 +163,9 @@ def doubt_words(doubts: tuple[str, ...], e: BuildingInfo, la: BuildingInfo) -> s
     if "different_address" in doubts:
         reasons.append(f"they give different addresses, “{_one_line(e.address)}” and "
                        f"“{_one_line(la.address)}”")
+    if "different_name" in doubts:
+        reasons.append(f"the names differ, “{_one_line(e.name)}” and "
+                       f"“{_one_line(la.name)}”")
     sentences = []
     if reasons:
         sentences.append("These may be audits of two different buildings: "
@@ -207,26 +210,31 @@ def summary_lines(c: Comparison, *, what_if: bool = False, doubt: bool = True) -
     removed = _rounded(c.risk_removed, exact) or 0.0
     share = _rounded(c.share_removed)
     cats = f"{fmt_count(c.samples, 'sampled cat')} (seed {c.seed})"
+    def of(x: float | None, tail: str = "") -> str:
+        """`` (12% of the earlier risk)``, or nothing when the earlier risk is 0 (a share of
+        nothing is no number)."""
+        return "" if x is None else f" ({fmt_percent(abs(_rounded(x) or 0.0))}{tail})"
+
     if what_if:
         first = (f"{e.name} as audited on {fmt_date(e.audit_date)}, and the same building with "
                  f"the plan's fixes fitted (a what-if), both assessed with {cats}.")
-        fixes = (f"Removed by the plan's fixes: {risk(c.removed_by_fixes)} "
-                 f"({fmt_percent(_rounded(c.share_by_fixes))} of the risk).")
+        fixes = (f"Removed by the plan's fixes: {risk(c.removed_by_fixes)}"
+                 f"{of(c.share_by_fixes, ' of the risk')}.")
     else:
         first = (f"Earlier audit: {e.name}, {fmt_date(e.audit_date)}; later audit: {la.name}, "
                  f"{fmt_date(la.audit_date)}. Both assessed with {cats}.")
         other = _rounded(c.removed_by_other) or 0.0
-        other_share = fmt_percent(abs(_rounded(c.share_by_other) or 0.0))
-        other_text = (f"every other change removed {risk(other)} ({other_share})" if other >= 0
-                      else f"every other change added {risk(-other)} ({other_share})")
-        fixes = (f"Removed by barriers fitted since: {risk(c.removed_by_fixes)} "
-                 f"({fmt_percent(_rounded(c.share_by_fixes))} of the earlier risk); "
-                 f"{other_text}.")
+        other_text = (f"every other change removed {risk(other)}" if other >= 0
+                      else f"every other change added {risk(-other)}")
+        fixes = (f"Removed by barriers fitted since: {risk(c.removed_by_fixes)}"
+                 f"{of(c.share_by_fixes, ' of the earlier risk')}; "
+                 f"{other_text}{of(c.share_by_other)}.")
+    moved = ("" if share is None else
+             f", {fmt_percent(abs(share))} {'less' if removed >= 0 else 'more'}")
     lines = [
         first,
         f"Summed risk score: {risk(c.risk_before)} before, "
-        f"{risk(c.risk_after)} after ({fmt_risk_change(-removed)}, "
-        f"{fmt_percent(abs(share or 0.0))} {'less' if removed >= 0 else 'more'}).",
+        f"{risk(c.risk_after)} after ({fmt_risk_change(-removed)}{moved}).",
         fixes,
     ]
     warning = "" if what_if or not doubt else doubt_line(c)

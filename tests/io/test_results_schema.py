@@ -91,7 +91,8 @@ def test_compare_json(validator: Any, tmp_path: Path, capsys: pytest.CaptureFixt
     # two different buildings: the doubts are in the envelope and valid
     assert main(["compare", walkup, str(sample_path("block")), "--format", "json", *FAST]) == 0
     other = _valid(validator, capsys.readouterr().out)
-    assert other["doubts"] == ["no_common_openings", "different_address", "dates_reversed"]
+    assert other["doubts"] == ["no_common_openings", "different_address", "different_name",
+                              "dates_reversed"]
     # a comparison without its openings is refused by the schema
     broken = dict(doc)
     del broken["openings"]
