@@ -651,3 +651,39 @@ def test_notes_take_several_lines_and_the_audit_date_is_picked(qtbot) -> None:  
     date.calendarWidget().setSelectedDate(QDate(2026, 5, 14))
     date.calendarWidget().clicked.emit(QDate(2026, 5, 14))  # a click on the day
     assert window.document.building.info.audit_date == "2026-05-14"
+
+
+def test_no_two_controls_of_a_page_share_an_alt_key(qtbot) -> None:  # type: ignore[no-untyped-def]
+    # Alt+O meant both "Open earlier audit" and the page "Openings that changed"; Alt+F the
+    # File menu, "Fit this control" and "Facade:"
+    import collections
+    import re
+
+    from PySide6.QtWidgets import QAbstractButton, QGroupBox, QLabel, QTabWidget
+
+    from petfall_audit.demo import sample_building
+
+    window = open_window(qtbot, sample_building("walkup"))
+
+    def key(text: str) -> str | None:
+        m = re.search(r"&([^&])", text.replace("&&", ""))
+        return m.group(1).lower() if m else None
+
+    menus = [a.text() for a in window.menuBar().actions()]
+    clashes = {}
+    for tabs in (window.view_tabs, window.editor_tabs):
+        for i in range(tabs.count()):
+            page = tabs.widget(i)
+            texts = [*menus, *(b.text() for b in page.findChildren(QAbstractButton)),
+                     *(lb.text() for lb in page.findChildren(QLabel) if lb.buddy() is not None),
+                     *(t.tabText(j) for t in page.findChildren(QTabWidget)
+                       for j in range(t.count())),
+                     *(g.title() for g in page.findChildren(QGroupBox))]
+            by_key = collections.defaultdict(set)
+            for text in texts:
+                if key(text):
+                    by_key[key(text)].add(text)
+            shared = {k: sorted(v) for k, v in by_key.items() if len(v) > 1}
+            if shared:
+                clashes[tabs.tabText(i)] = shared
+    assert clashes == {}

@@ -115,18 +115,18 @@ class CompareView(QWidget):
         self.filter_box.setObjectName("compare_filter")
         for key, label in FILTERS:
             self.filter_box.addItem(label, key)
-        show = QLabel("&Show:")
+        show = QLabel("Sho&w:")
         show.setBuddy(self.filter_box)
         self.search = QLineEdit()
         self.search.setObjectName("compare_search")
         self.search.setPlaceholderText("Opening id contains…")
         self.search.setClearButtonEnabled(True)
-        self.accept_button = QPushButton("&Fit the plan's fixes")
+        self.accept_button = QPushButton("F&it the plan's fixes")
         self.accept_button.setObjectName("accept_what_if")
         self.accept_button.setToolTip("Write the plan's fixes into the openings of this "
                                       "building (undo with Ctrl+Z)")
         self.accept_button.clicked.connect(lambda _c=False: self.accept_what_if())
-        self.close_button = QPushButton("&Close the what-if")
+        self.close_button = QPushButton("C&lose the what-if")
         self.close_button.setObjectName("close_what_if")
         self.close_button.clicked.connect(lambda _c=False: self.close_what_if())
         for b in (self.accept_button, self.close_button):
@@ -214,7 +214,7 @@ class CompareView(QWidget):
         self.pages = QTabWidget()
         self.pages.setObjectName("compare_pages")
         self.pages.setDocumentMode(True)
-        self.pages.addTab(self.table, "&Openings that changed")
+        self.pages.addTab(self.table, "Openin&gs that changed")
         self.pages.addTab(self.facades, "Facades &before and after")
         self.pages.setMinimumHeight(110)  # the window still fits a small or scaled screen
         layout = QVBoxLayout(self)
@@ -303,8 +303,8 @@ class CompareView(QWidget):
         what_if = mode == "what_if"
         self.accept_button.setVisible(what_if)
         self.close_button.setVisible(what_if)
-        self.pages.setTabText(0, "&Openings the plan improves" if what_if
-                              else "&Openings that changed")
+        self.pages.setTabText(0, "Openin&gs the plan improves" if what_if
+                              else "Openin&gs that changed")
 
     def _start_what_if(self) -> Task | None:
         from petfall_audit.fix_tracking import apply_plan

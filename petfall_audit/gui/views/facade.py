@@ -274,7 +274,7 @@ class FacadeView(QWidget):
         self.facade_box.setObjectName("facade_box")
         self.facade_box.setToolTip("Which facade to show")
         self.facade_box.setSizeAdjustPolicy(QComboBox.SizeAdjustPolicy.AdjustToContents)
-        label = QLabel("&Facade:")
+        label = QLabel("Fa&cade:")
         label.setBuddy(self.facade_box)
         fit = QToolButton()
         fit.setText("Fit")

@@ -199,7 +199,7 @@ class FloorsView(QWidget):
 
     def _on_mode_changed(self, _index: int) -> None:
         audits = self.mode == "audits"
-        self.a_label.setText("&Facade:" if audits else "&A (solid):")
+        self.a_label.setText("Fa&cade:" if audits else "&A (solid):")
         self.b_label.setVisible(not audits)
         self.b_box.setVisible(not audits)
         self.open_button.setVisible(audits)

@@ -166,7 +166,7 @@ class PlanView(QWidget):
         self.chosen.itemSelectionChanged.connect(self._on_plan_row)
         self.options_title = QLabel("Options for the selected opening")
         self.options_title.setWordWrap(True)
-        self.fit_button = QPushButton("&Fit this control")
+        self.fit_button = QPushButton("F&it this control")
         self.fit_button.setObjectName("fit_button")
         self.fit_button.setToolTip("Record the chosen control on the opening (undo with Ctrl+Z)")
         self.fit_button.setEnabled(False)
