@@ -652,10 +652,12 @@ def _cmd_fixes(args: argparse.Namespace) -> int:
                                  date=args.date or "", note=args.note)
     if changed is not building:
         # -o without --apply-fitted: the updated records go there and FILE is left as it is
+        from petfall_audit.io.atomic import same_file
+
         target = args.output if args.output and not args.apply_fitted else args.file
         save_building(changed, target)
-        _say(f"wrote {target}" + (f" ({args.file} is left as it is)"
-                                  if target != args.file else ""))
+        _say(f"wrote {target}" + ("" if same_file(target, args.file)
+                                  else f" ({args.file} is left as it is)"))
     if args.apply_fitted:
         from dataclasses import replace
 

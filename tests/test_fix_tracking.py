@@ -238,8 +238,10 @@ def test_cli_fixes_with_o_writes_there_and_leaves_file_as_it_is(
     n = len(recorded)
     assert f"{n} {'fix' if n == 1 else 'fixes'} of the plan recorded" in said  # not "fixs"
     assert f"wrote {out}" in said and "is left as it is" in said
+    capsys.readouterr()
     assert main(["fixes", str(out), "--set", "B-2", "net_anchored_30", "fitted",
-                 "-o", str(out)]) == 0
+                 "-o", str(out.parent / "." / out.name)]) == 0
+    assert "is left as it is" not in capsys.readouterr().out  # the same file, spelt otherwise
     assert any(r.status is FixStatus.FITTED for r in load_building(out).fixes)
     # -o with nothing to write is refused in words, FILE still untouched
     assert main(["fixes", str(path), "-o", str(tmp_path / "x.json")]) == 2
