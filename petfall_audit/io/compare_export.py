@@ -35,6 +35,7 @@ from petfall_audit.io.results_export import round_significant as _r
 from petfall_audit.model import FixRecord
 from petfall_audit.present.comparison import (
     METHOD,
+    RENUMBERED_NAMED,
     building_change_lines,
     comparison_rows,
     doubt_line,
@@ -215,9 +216,13 @@ def comparison_to_table(c: Comparison, *, system: str = "metric") -> str:
     for s in summary_lines(c):
         lines += textwrap.wrap(s, TEXT_WIDTH)
     if c.renumbered:  # the command line's way to pair them
-        pairs = " ".join(f"--rename {shlex.quote(f'{a}={b}')}" for a, b in c.renumbered)
-        lines += textwrap.wrap(f"To pair them, compare again with {pairs}", TEXT_WIDTH,
-                               break_on_hyphens=False)
+        if len(c.renumbered) <= RENUMBERED_NAMED:
+            pairs = " ".join(f"--rename {shlex.quote(f'{a}={b}')}" for a, b in c.renumbered)
+            how = f"To pair them, compare again with {pairs}"
+        else:
+            how = ("To pair them, compare again with --rename OLD=NEW for each (--format json "
+                   "lists them under renumbered)")
+        lines += textwrap.wrap(how, TEXT_WIDTH, break_on_hyphens=False)
     lines += ["", fmt(head), fmt(tuple("-" * wd for wd in widths)), *(fmt(r) for r in body)]
     if not rows:
         lines.append("(every opening is unchanged)")

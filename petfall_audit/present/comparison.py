@@ -33,6 +33,7 @@ from petfall_audit.safe_text import cut
 
 __all__ = [
     "METHOD",
+    "RENUMBERED_NAMED",
     "ComparisonRow",
     "comparison_rows",
     "summary_lines",

@@ -206,3 +206,22 @@ def test_renumbered_openings_are_suggested_with_a_rename(capsys, tmp_path, files
                         "--format", "json", *_sampling())
     doc = json.loads(out)
     assert doc["renumbered"] == {} and doc["counts"]["unchanged"] == 4
+
+
+def test_many_renumbered_openings_are_counted_not_all_spelt_out(tmp_path: Path) -> None:
+    from petfall_audit.compare import compare_buildings
+    from petfall_audit.io.compare_export import comparison_to_table
+    from petfall_audit.model import Opening, OpeningKind
+    from petfall_audit.present.comparison import RENUMBERED_NAMED
+
+    base = earlier_building()
+    many = tuple(Opening(f"R{i}", floor=1, facade="S", kind=OpeningKind.WINDOW_CASEMENT,
+                         x_m=0.5 * i, width_m=0.4) for i in range(RENUMBERED_NAMED + 5))
+    e = dataclasses.replace(base, openings=many)
+    la = dataclasses.replace(base, openings=tuple(
+        dataclasses.replace(o, id=f"N{i}") for i, o in enumerate(many)))
+    c = compare_buildings(e, la, samples=64, seed=SEED)
+    assert len(c.renumbered) == RENUMBERED_NAMED + 5
+    text = " ".join(comparison_to_table(c).split())
+    assert "and 5 more." in text and "--rename OLD=NEW for each" in text
+    assert text.count("--rename") == 1
