@@ -718,12 +718,13 @@ def _cmd_batch(args: argparse.Namespace) -> int:
                       "could be written over it; write the results to a folder of their own "
                       "(e.g. --out-dir results)")
     out_dir.mkdir(parents=True, exist_ok=True)
+    files = _once_each(args.files)
     jobs = [
         BatchJob(index=n, path=name, out_dir=str(out_dir), fmt=args.format,
                  samples=DEFAULT_SAMPLES if args.samples is None else args.samples,
                  seed=DEFAULT_SEED if args.seed is None else args.seed, budget=args.budget,
                  want_options=args.portfolio_budget is not None)
-        for n, name in enumerate(args.files)
+        for n, name in enumerate(files)
     ]
     workers = args.jobs if args.jobs is not None else _default_jobs()
     outcomes = run_all(jobs, workers=workers, progress=_stderr_progress("batch"))
@@ -751,7 +752,7 @@ def _cmd_batch(args: argparse.Namespace) -> int:
     writer.writerow(SUMMARY_COLUMNS)
     writer.writerows(rows)
     atomic_write_text(out_dir / "summary.csv", buffer.getvalue())
-    _say(f"assessed {len(rows)} of {_count(args.files, 'building')}; "
+    _say(f"assessed {len(rows)} of {_count(files, 'building')}; "
          f"wrote {out_dir / 'summary.csv'}")
     if args.portfolio_budget is not None and not done:
         # an estate plan of no building would read as an estate without risk
@@ -761,6 +762,26 @@ def _cmd_batch(args: argparse.Namespace) -> int:
         for path in _write_portfolio(done, args.portfolio_budget, out_dir):
             _say(f"wrote {path}")
     return EXIT_INVALID if failed else EXIT_OK
+
+
+def _once_each(paths: Sequence[str]) -> list[str]:
+    """``paths`` with a file given again (the same file, however spelt) left out and said on
+    stderr: an estate must not count one building twice."""
+    kept: list[str] = []
+    seen: dict[object, str] = {}
+    for path in paths:
+        try:
+            st = os.stat(path)
+            key: object = (st.st_dev, st.st_ino)  # one file, however spelt or linked
+        except OSError:  # reported when it is read
+            key = str(Path(path).resolve())
+        if key in seen:
+            _say(f"{path}: the same file as {seen[key]}, given again; assessed once",
+                 file=sys.stderr)
+            continue
+        seen[key] = path
+        kept.append(path)
+    return kept
 
 
 def _write_portfolio(done: Sequence[tuple[BuildingOutcome, str]], budget: float,

@@ -90,3 +90,25 @@ def test_a_document_a_person_edits_is_replaced_only_with_force(
     assert out.read_bytes() == b"hours of survey work"
     assert main([*args, "--force"]) == 0
     assert out.read_bytes() != b"hours of survey work"
+
+
+def test_batch_counts_a_building_given_twice_once(
+        building: Path, tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
+    # batch a.json ./a.json --portfolio-budget ... planned the estate with the building twice
+    import json
+
+    out = tmp_path / "results"
+    again = str(building.parent / "." / building.name)
+    assert main(["batch", str(building), again, "--out-dir", str(out), "--jobs", "1",
+                 "--portfolio-budget", "500", *FAST]) == 0
+    err = capsys.readouterr().err
+    assert f"{again}: the same file as {building}, given again; assessed once" in err
+    assert sorted(p.name for p in out.glob("*.json")) == ["court.json", "portfolio-plan.json"]
+    doc = json.loads((out / "portfolio-plan.json").read_text(encoding="utf-8"))
+    assert len(doc["portfolio"]["buildings"]) == 1
+    # a copy is another building (an identical block): both count
+    copy = tmp_path / "court-copy.json"
+    shutil.copyfile(building, copy)
+    assert main(["batch", str(building), str(copy), "--out-dir", str(tmp_path / "r2"),
+                 "--jobs", "1", *FAST]) == 0
+    assert (tmp_path / "r2" / "court-copy.json").exists()
