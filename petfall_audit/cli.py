@@ -124,6 +124,24 @@ def _keep_edited(path: str | Path | None, force: bool, what: str) -> None:
                       "--force to replace it")
 
 
+def _save_with_photos(building: Building, source: str, target: str) -> None:
+    """Save ``building`` (read from the file ``source``) to ``target``; in another folder, its
+    photos go with it (:func:`petfall_audit.io.photos.carry_photos`), and a photo not found is
+    said on stderr."""
+    from petfall_audit.io.building_file import save_building
+    from petfall_audit.io.photos import carry_photos
+
+    try:
+        building, missing = carry_photos(building, Path(source).parent, Path(target).parent)
+    except OSError as exc:
+        raise _refuse(f"{target}: the photos could not be copied beside it: "
+                      f"{exc.strerror or exc}") from None
+    for stored in missing:
+        _say(f"{source}: photo {stored!r} not found, so not copied beside {target}",
+             file=sys.stderr)
+    save_building(building, target)
+
+
 def _load(path: str) -> Building:
     """The building in ``path``; its problems go to stderr and end the command with exit 2."""
     from petfall_audit.io.building_file import load_building
@@ -412,11 +430,10 @@ def _cmd_plan(args: argparse.Namespace) -> int:
     plan = make_plan(_assess(args, building), budget, catalogue=catalogue)
     if args.write_after:
         from petfall_audit.fix_tracking import apply_plan
-        from petfall_audit.io.building_file import save_building
         from petfall_audit.present.numbers import plural
 
         after, left = apply_plan(building, plan, catalogue)
-        save_building(after, args.write_after)
+        _save_with_photos(after, args.file, args.write_after)
         _say(f"wrote {args.write_after}: the building with the plan's fixes fitted (a what-if"
              + (f"; {_count(left, 'fix', 'fixes')} that {plural(len(left), 'relies', 'rely')} "
                 f"on people or {plural(len(left), 'changes', 'change')} no field left out)"
@@ -609,7 +626,6 @@ def _cmd_compare(args: argparse.Namespace) -> int:
 def _cmd_fixes(args: argparse.Namespace) -> int:
     from petfall_audit.fix_tracking import apply_fitted, record_plan, set_fix_status
     from petfall_audit.io._schema import is_iso_date
-    from petfall_audit.io.building_file import save_building
     from petfall_audit.plan import make_plan
     from petfall_audit.present.changes import fix_status_label
 
@@ -655,7 +671,7 @@ def _cmd_fixes(args: argparse.Namespace) -> int:
         from petfall_audit.io.atomic import same_file
 
         target = args.output if args.output and not args.apply_fitted else args.file
-        save_building(changed, target)
+        _save_with_photos(changed, args.file, target)
         _say(f"wrote {target}" + ("" if same_file(target, args.file)
                                   else f" ({args.file} is left as it is)"))
     if args.apply_fitted:
@@ -666,7 +682,7 @@ def _cmd_fixes(args: argparse.Namespace) -> int:
             _say(f"{args.file}: {s.record.control_id} on {s.record.opening_id} not applied: "
                  f"{s.reason}", file=sys.stderr)
         after = replace(after, info=replace(after.info, audit_date=args.date or ""))
-        save_building(after, args.output)
+        _save_with_photos(after, args.file, args.output)
         _say(f"wrote {args.output}: the fitted fixes are the openings' barriers")
         return EXIT_OK
     if not changed.fixes:

@@ -152,10 +152,36 @@ class FileSession:
             if path is None:
                 return False
         old = doc.path
+        if old is not None and not self._carry_photos(old.parent, Path(path).parent):
+            return False
         doc.path = Path(path)
         if not self.save():
             doc.path = old
             return False
+        return True
+
+    def _carry_photos(self, old_root: Path, new_root: Path) -> bool:
+        """Before a Save As into another folder: the photos go with the file
+        (:func:`petfall_audit.io.photos.carry_photos`); a photo that had to take another name
+        changes its opening in one undoable step. False (nothing saved) when a photo cannot be
+        copied."""
+        from petfall_audit.editing.commands import ReplaceBuilding
+        from petfall_audit.io.photos import carry_photos
+
+        doc = self.document
+        try:
+            carried, missing = carry_photos(doc.building, old_root, new_root)
+        except OSError as exc:
+            self.prompts.show_error("Cannot save", f"The photos could not be copied to "
+                                    f"{new_root}:\n{exc}")
+            return False
+        if carried is not doc.building:
+            self.workspace.push(ReplaceBuilding(carried, label="Photos renamed in the new folder"))
+        if missing:
+            from petfall_audit.present.numbers import fmt_count
+
+            self.status.emit(f"! {fmt_count(len(missing), 'photo')} not found, so not copied: "
+                             + ", ".join(missing[:3]) + ("…" if len(missing) > 3 else ""))
         return True
 
     # --- recovery ---------------------------------------------------------------------------

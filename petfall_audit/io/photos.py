@@ -25,7 +25,7 @@ if TYPE_CHECKING:
 
 __all__ = ["PHOTO_SUFFIXES", "PHOTO_FOLDER", "MAX_PHOTO_BYTES", "photo_name", "photo_file",
            "photo_problem", "read_photo", "read_regular_file", "import_photo",
-           "missing_photo_warnings"]
+           "missing_photo_warnings", "carry_photos"]
 
 #: File name endings of the photos the app accepts (compared in lower case).
 PHOTO_SUFFIXES: tuple[str, ...] = (".jpg", ".jpeg", ".png")
@@ -150,6 +150,69 @@ def read_regular_file(path: Path, *, max_bytes: int = MAX_PHOTO_BYTES) -> bytes:
     if len(data) > max_bytes:
         raise OSError(errno.EFBIG, f"larger than {max_bytes // 2**20} MiB", str(path))
     return data
+
+
+def _copy_new(src: Path, target: Path) -> bool:
+    """Copy ``src`` to ``target`` if no file is there (never overwrites); True if copied."""
+    target.parent.mkdir(parents=True, exist_ok=True)
+    with src.open("rb") as fin:
+        try:
+            fout = target.open("xb")  # "x": never overwrite a file
+        except FileExistsError:
+            return False
+        try:
+            with fout:
+                shutil.copyfileobj(fin, fout)
+        except OSError:
+            target.unlink(missing_ok=True)
+            raise
+    return True
+
+
+def _carry_one(src: Path, new_root: Path, stored: str) -> str:
+    """Photo file ``src`` (stored as ``stored``) placed for a building file in ``new_root``:
+    at the same relative path when that is free or holds the same photo, else as
+    :func:`import_photo` places it. The path to store."""
+    names = _parts(stored)
+    if names is not None and photo_problem(new_root, stored) is None:
+        target = Path(new_root, *names)
+        if _copy_new(src, target) or (target.is_file()
+                                      and filecmp.cmp(src, target, shallow=False)):
+            return "/".join(names)
+    return import_photo(src, new_root)
+
+
+def carry_photos(building: Building, old_root: Path, new_root: Path
+                 ) -> tuple[Building, tuple[str, ...]]:
+    """``building``, whose file was in folder ``old_root``, saved into folder ``new_root`` with
+    its photos: each photo found under ``old_root`` is copied to the same relative path under
+    ``new_root`` (an identical file there is kept; a different one is never overwritten: the
+    copy then takes a free name in ``photos/``, as :func:`import_photo` does) and its stored
+    path follows. Returns the building (the same object when no path changed) and the stored
+    paths of the photos that were not found (left as they are). ``OSError`` when a photo
+    cannot be copied."""
+    from dataclasses import replace
+
+    from petfall_audit.io.atomic import same_file
+
+    if same_file(old_root, new_root):
+        return building, ()
+    missing: list[str] = []
+    openings = []
+    for opening in building.openings:
+        photos = []
+        for stored in opening.photos:
+            src = photo_file(old_root, stored)
+            if src is None or not src.is_file():
+                missing.append(stored)
+                photos.append(stored)
+            else:
+                photos.append(_carry_one(src, new_root, stored))
+        moved = tuple(photos) != tuple(opening.photos)
+        openings.append(replace(opening, photos=tuple(photos)) if moved else opening)
+    if all(a is b for a, b in zip(openings, building.openings, strict=True)):
+        return building, tuple(missing)
+    return replace(building, openings=tuple(openings)), tuple(missing)
 
 
 def _relative_to(path: Path, root: Path) -> str | None:
