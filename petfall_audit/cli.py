@@ -10,6 +10,7 @@ from __future__ import annotations
 import argparse
 import math
 import os
+import re
 import sys
 from collections.abc import Callable, Iterator, Sequence, Sized
 from contextlib import contextmanager
@@ -95,6 +96,30 @@ def _require_at_least(name: str, value: float | None, low: float) -> None:
         from petfall_audit.present import fmt_tick
 
         raise _refuse(f"{name} must be at least {fmt_tick(low)}")
+
+
+#: An amount with its thousands grouped by spaces, underscores or apostrophes ("250 000").
+_GROUPED = re.compile(r"\d{1,3}(?:[ _'\u00a0\u202f]\d{3})+(?:\.\d+)?")
+
+
+def _amount(text: str) -> float:
+    """An amount of money from the command line (``--budget 250000``, ``250 000``, ``1e5``);
+    a plain-words refusal for one that cannot be read without guessing (``5,000`` is five
+    thousand in one country and five in another) or is not a finite number."""
+    t = text.strip()
+    if _GROUPED.fullmatch(t):
+        t = re.sub(r"[ _'\u00a0\u202f]", "", t)
+    try:
+        value = float(t)
+    except ValueError:
+        hint = (" (a comma separates thousands in some countries and decimals in others)"
+                if "," in t else "")
+        raise argparse.ArgumentTypeError(
+            f"{text!r} is not an amount{hint}: write digits, e.g. 5000 or 5000.50, in the "
+            "control catalogue's currency, without its sign") from None
+    if not math.isfinite(value):
+        raise argparse.ArgumentTypeError(f"{text!r} is not a finite amount")
+    return value
 
 
 def _check_output(path: str | Path | None, *inputs: str | None) -> None:
@@ -1094,7 +1119,7 @@ def _build_parser() -> argparse.ArgumentParser:
         "risk is removed within AMOUNT. Indicative costs and model only.",
     )
     p.add_argument("file", help="building file (.json)")
-    p.add_argument("--budget", type=float, default=None, metavar="AMOUNT",
+    p.add_argument("--budget", type=_amount, default=None, metavar="AMOUNT",
                    help="budget in the control catalogue's currency (default: the budget "
                         "saved with the audit)")
     _add_table_output_options(p)
@@ -1136,7 +1161,7 @@ def _build_parser() -> argparse.ArgumentParser:
                                 "(or write to -o)")
     p.add_argument("--record-plan", action="store_true",
                    help="record every fix of the plan (saved budget or --budget) as recommended")
-    p.add_argument("--budget", type=float, default=None, metavar="AMOUNT",
+    p.add_argument("--budget", type=_amount, default=None, metavar="AMOUNT",
                    help="with --record-plan: the budget (default: the one saved)")
     p.add_argument("--set", nargs=3, metavar=("OPENING", "CONTROL", "STATUS"),
                    help="set the status of CONTROL on OPENING: recommended, approved, fitted, "
@@ -1167,7 +1192,7 @@ def _build_parser() -> argparse.ArgumentParser:
     p.add_argument("-o", "--output", required=True, help="output file (.pdf, .csv or .json)")
     p.add_argument("--format", choices=("pdf", "csv", "json"), default=None,
                    help="output format (default: from the output file's extension, else pdf)")
-    p.add_argument("--budget", type=float, default=None, metavar="AMOUNT",
+    p.add_argument("--budget", type=_amount, default=None, metavar="AMOUNT",
                    help="budget for the fix plan, in the control catalogue's currency "
                         "(default: the budget saved with the audit; none: no plan)")
     p.add_argument("--leaflet", default=None, metavar="PDF", help="also write a tenant leaflet")
@@ -1219,9 +1244,9 @@ def _build_parser() -> argparse.ArgumentParser:
     p.add_argument("--out-dir", required=True, metavar="DIR", help="folder for the results")
     p.add_argument("--format", choices=("json", "csv", "pdf"), default="json",
                    help="result file per building (default: json)")
-    p.add_argument("--budget", type=float, default=None, metavar="AMOUNT",
+    p.add_argument("--budget", type=_amount, default=None, metavar="AMOUNT",
                    help="also plan fixes within AMOUNT per building")
-    p.add_argument("--portfolio-budget", type=float, default=None, metavar="AMOUNT",
+    p.add_argument("--portfolio-budget", type=_amount, default=None, metavar="AMOUNT",
                    help="also plan one budget of AMOUNT over every opening of every building: "
                         "writes DIR/portfolio-plan.json and the estate summary DIR/portfolio.pdf")
     p.add_argument("--jobs", type=int, default=None, metavar="N",

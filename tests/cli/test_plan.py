@@ -185,3 +185,24 @@ def test_plan_json_rounds_risks_like_the_results_json(tmp_path: Path) -> None:
     numbers = [doc["risk_before"], doc["risk_after"]]
     numbers += [a[k] for a in doc["actions"] for k in ("risk_before", "risk_after")]
     assert numbers and all(float(f"{x:.4g}") == x for x in numbers)
+
+
+@pytest.mark.parametrize("text, value", [("5000", 5000.0), ("250 000", 250000.0),
+                                         ("250_000", 250000.0), ("1'500.5", 1500.5),
+                                         ("1e4", 10000.0)])
+def test_budget_amounts_are_read_as_written(text: str, value: float) -> None:
+    from petfall_audit.cli import _build_parser
+
+    args = _build_parser().parse_args(["plan", WALKUP, "--budget", text])
+    assert args.budget == value
+
+
+@pytest.mark.parametrize("text, words", [("5,000", "a comma separates thousands"),
+                                         ("€500", "without its sign"),
+                                         ("1e400", "not a finite amount"),
+                                         ("nan", "not a finite amount")])
+def test_a_budget_that_cannot_be_read_without_guessing_is_refused_in_words(
+        capsys, text: str, words: str) -> None:  # type: ignore[no-untyped-def]
+    code, _, err = _run(capsys, "plan", WALKUP, "--budget", text)
+    assert code == 2 and words in " ".join(err.split())
+    assert "invalid float value" not in err
