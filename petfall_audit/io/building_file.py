@@ -47,6 +47,7 @@ from petfall_audit.io._schema import (
 from petfall_audit.io.atomic import atomic_write_text
 from petfall_audit.io.migrations import migrate
 from petfall_audit.io.photos import photo_problem, read_regular_file
+from petfall_audit.io.text_bytes import bom_encoding
 from petfall_audit.model import (
     CAT_PRESETS,
     Building,
@@ -121,11 +122,13 @@ def load_building(path: str | Path) -> Building:
         data = read_regular_file(Path(path), max_bytes=MAX_FILE_BYTES)
     except OSError as exc:
         raise FileFormatError(f"cannot read the file: {exc.strerror or exc}") from exc
+    encoding = bom_encoding(data) or "utf-8"  # a byte-order mark names its encoding
     try:
-        text = data.decode("utf-8-sig")
+        text = data.decode(encoding)
     except UnicodeDecodeError as exc:
+        name = encoding.upper().replace("-SIG", "")
         raise FileFormatError(
-            f"not a building file: not UTF-8 text (byte {exc.start} cannot be decoded)"
+            f"not a building file: not {name} text (byte {exc.start} cannot be decoded)"
         ) from exc
     if not text.strip():
         raise FileFormatError("not a building file: the file is empty")
@@ -203,8 +206,9 @@ def validate_building(building: Building) -> list[Problem]:
 
 
 _SURROGATE = re.compile("[\ud800-\udfff]")
-#: A JSON escape of a surrogate (``\\ud800`` to ``\\udfff``): strictly decoded UTF-8 holds no
-#: surrogate itself, so a file's text without one of these decodes to texts without any.
+#: A JSON escape of a surrogate (``\\ud800`` to ``\\udfff``): strictly decoded UTF-8 (and
+#: UTF-16 or UTF-32 after a byte-order mark) holds no lone surrogate itself, so a file's text
+#: without one of these decodes to texts without any.
 _SURROGATE_ESCAPE = re.compile(r"\\u[dD][89abcdefABCDEF]")
 _MAX_SURROGATE_PROBLEMS = 20
 

@@ -485,6 +485,29 @@ def test_a_byte_order_mark_is_accepted(tmp_path: Path) -> None:
     assert load_building(path).info.name == "Minimal"
 
 
+@pytest.mark.parametrize("bom, encoding", [
+    (b"\xff\xfe", "utf-16-le"), (b"\xfe\xff", "utf-16-be"),
+    (b"\xff\xfe\x00\x00", "utf-32-le"), (b"\x00\x00\xfe\xff", "utf-32-be"),
+])
+def test_a_file_saved_as_utf16_or_utf32_with_its_mark_loads(tmp_path: Path, bom: bytes,
+                                                             encoding: str) -> None:
+    # Windows Notepad's "Unicode" is UTF-16 with a byte-order mark (codecs.BOM_UTF16_LE)
+    doc = minimal_doc()
+    doc["building"]["name"] = "Kestrel Yard ☂ 🐈"  # BMP and non-BMP characters
+    path = tmp_path / "wide.json"
+    path.write_bytes(bom + json.dumps(doc, ensure_ascii=False).encode(encoding))
+    assert load_building(path).info.name == "Kestrel Yard ☂ 🐈"
+    # without the mark nothing is guessed: the bytes are read as UTF-8 and refused
+    path.write_bytes(json.dumps(doc).encode(encoding))
+    with pytest.raises((FileFormatError, ValidationFailed)):
+        load_building(path)
+    # a lone surrogate in UTF-16 is refused in words, never loaded
+    path.write_bytes(b"\xff\xfe" + '{"a": "'.encode("utf-16-le") + b"\x00\xd8"
+                     + '"}'.encode("utf-16-le"))
+    with pytest.raises(FileFormatError, match="not UTF-16 text"):
+        load_building(path)
+
+
 # --- versions and migrations -----------------------------------------------------------------
 
 

@@ -7,7 +7,6 @@ or refused file raises :class:`~petfall_audit.errors.ScheduleImportError` with i
 
 from __future__ import annotations
 
-import codecs
 import csv
 import dataclasses
 import datetime as _dt
@@ -22,6 +21,7 @@ from typing import Any
 
 from petfall_audit.errors import ScheduleImportError
 from petfall_audit.io.schedule.columns import column_letter
+from petfall_audit.io.text_bytes import bom_encoding
 from petfall_audit.present.numbers import plural
 
 __all__ = [
@@ -155,11 +155,7 @@ def _looks_utf16(data: bytes) -> str | None:
 def _decode(data: bytes, name: str = "the file", notes: list[str] | None = None) -> str:
     """The text of a CSV file, its encoding detected honestly (see :func:`read_table`)."""
     said = notes if notes is not None else []
-    boms = ((codecs.BOM_UTF32_LE, "utf-32"), (codecs.BOM_UTF32_BE, "utf-32"),
-            (codecs.BOM_UTF8, "utf-8-sig"), (codecs.BOM_UTF16_LE, "utf-16"),
-            (codecs.BOM_UTF16_BE, "utf-16"))
-    encoding = next((enc for bom, enc in boms if data.startswith(bom)), None)
-    encoding = encoding or _looks_utf16(data) or ""
+    encoding = bom_encoding(data) or _looks_utf16(data) or ""
     if encoding:
         try:
             text = data.decode(encoding)
