@@ -572,7 +572,9 @@ def _leaflet_choice(args: argparse.Namespace, building: Building) -> LeafletChoi
         try:
             if path.stat().st_size > _LEAFLET_TEXT_MAX_BYTES:
                 raise _refuse(f"{args.leaflet_text}: larger than 100 kB: not a leaflet text")
-            text = path.read_text(encoding="utf-8")
+            from petfall_audit.io.text_bytes import decode_text
+
+            text = decode_text(path.read_bytes())
         except (OSError, UnicodeDecodeError) as exc:
             why = getattr(exc, "strerror", None) or "not readable as UTF-8 text"
             raise _refuse(f"{args.leaflet_text}: {why}") from None

@@ -47,7 +47,7 @@ from petfall_audit.io._schema import (
 from petfall_audit.io.atomic import atomic_write_text
 from petfall_audit.io.migrations import migrate
 from petfall_audit.io.photos import photo_problem, read_regular_file
-from petfall_audit.io.text_bytes import bom_encoding
+from petfall_audit.io.text_bytes import bom_encoding, decode_text
 from petfall_audit.model import (
     CAT_PRESETS,
     Building,
@@ -122,11 +122,10 @@ def load_building(path: str | Path) -> Building:
         data = read_regular_file(Path(path), max_bytes=MAX_FILE_BYTES)
     except OSError as exc:
         raise FileFormatError(f"cannot read the file: {exc.strerror or exc}") from exc
-    encoding = bom_encoding(data) or "utf-8"  # a byte-order mark names its encoding
     try:
-        text = data.decode(encoding)
+        text = decode_text(data)  # a byte-order mark names its encoding, else UTF-8
     except UnicodeDecodeError as exc:
-        name = encoding.upper().replace("-SIG", "")
+        name = (bom_encoding(data) or "utf-8").upper().replace("-SIG", "")
         raise FileFormatError(
             f"not a building file: not {name} text (byte {exc.start} cannot be decoded)"
         ) from exc

@@ -31,6 +31,7 @@ from petfall_audit.io._schema import (
     OpeningKindName,
     ScreenName,
 )
+from petfall_audit.io.text_bytes import decode_text
 from petfall_audit.model import (
     BALCONY_LIKE,
     WINDOW_KINDS,
@@ -428,7 +429,11 @@ def load_catalogue(path: str | Path | None = None) -> Catalogue:
     if p.stat().st_size > _MAX_BYTES:
         raise CatalogueError([Problem("file", "larger than 4 MB: not a control catalogue")],
                              p.name)
-    text = p.read_text(encoding="utf-8")
+    try:
+        text = decode_text(p.read_bytes())
+    except UnicodeDecodeError as exc:
+        raise CatalogueError([Problem("file", f"not UTF-8 text (byte {exc.start} cannot be "
+                                              "decoded)")], p.name) from None
     try:
         doc = json.loads(text)
     except json.JSONDecodeError as exc:

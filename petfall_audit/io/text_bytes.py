@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import codecs
 
-__all__ = ["bom_encoding"]
+__all__ = ["bom_encoding", "decode_text"]
 
 #: Byte-order marks and the codec that reads the text after them (longest marks first: the
 #: UTF-32 little-endian mark begins with the UTF-16 one).
@@ -24,3 +24,10 @@ def bom_encoding(data: bytes) -> str | None:
     """The codec for ``data`` that starts with a byte-order mark (``"utf-8-sig"``,
     ``"utf-16"``, ``"utf-32"``: each drops the mark), or ``None`` when it has none."""
     return next((enc for bom, enc in _BOMS if data.startswith(bom)), None)
+
+
+def decode_text(data: bytes) -> str:
+    """The text of a file a person may have saved by hand (a building file, a control
+    catalogue, a leaflet's text): in the encoding its byte-order mark names, else UTF-8, the
+    mark dropped. ``UnicodeDecodeError`` when it is not such text."""
+    return data.decode(bom_encoding(data) or "utf-8")

@@ -836,3 +836,26 @@ def test_injury_section_round_trips_and_is_checked() -> None:
         parse_building(doc)
     assert any(p.where.startswith("injury") and "must rise" in p.message
                for p in info.value.problems)
+
+
+def test_hand_saved_catalogue_and_leaflet_text_with_a_byte_order_mark_load(
+        tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
+    # Notepad's "UTF-8 with BOM": the catalogue read "Unexpected UTF-8 BOM", the leaflet's
+    # text "text before the first section"
+    from petfall_audit._resources import resource_path, sample_path
+    from petfall_audit.cli import main
+    from petfall_audit.fixes import load_catalogue
+
+    shipped = resource_path("controls.json").read_bytes()
+    bom_cat = tmp_path / "controls.json"
+    bom_cat.write_bytes(b"\xef\xbb\xbf" + shipped)
+    assert load_catalogue(bom_cat) == load_catalogue(None)
+    text_file = tmp_path / "leaflet.txt"
+    assert main(["leaflet-text", str(sample_path("walkup")), "-o", str(text_file)]) == 0
+    text = text_file.read_text(encoding="utf-8")
+    for name, data in (("bom8.txt", b"\xef\xbb\xbf" + text.encode("utf-8")),
+                       ("wide.txt", text.encode("utf-16"))):
+        (tmp_path / name).write_bytes(data)
+        assert main(["report", str(sample_path("walkup")), "-o", str(tmp_path / "a.pdf"),
+                     "--leaflet", str(tmp_path / "l.pdf"), "--leaflet-text",
+                     str(tmp_path / name), "--samples", "64"]) == 0, capsys.readouterr().err
