@@ -253,18 +253,9 @@ def import_photo(source: str | Path, root: str | Path) -> str:
             if target.is_file() and filecmp.cmp(src, target, shallow=False):
                 break  # the same photo was added before: share it
             continue
-        with src.open("rb") as fin:
-            try:
-                fout = target.open("xb")  # "x": never overwrite a file
-            except FileExistsError:  # appeared in between: try the next name
-                continue
-            try:
-                with fout:
-                    shutil.copyfileobj(fin, fout)
-            except OSError:
-                target.unlink(missing_ok=True)
-                raise
-        break
+        if _copy_new(src, target):
+            break
+        # a file of that name appeared in between: try the next name
     else:  # pragma: no cover - ten thousand photos of the same name
         raise OSError(f"{src.name}: no free name left in {PHOTO_FOLDER}/")
     return f"{PHOTO_FOLDER}/{target.name}"
