@@ -810,14 +810,12 @@ def _cmd_batch(args: argparse.Namespace) -> int:
 def _once_each(paths: Sequence[str]) -> list[str]:
     """``paths`` with a file given again (the same file, however spelt) left out and said on
     stderr: an estate must not count one building twice."""
+    from petfall_audit.io.atomic import file_key
+
     kept: list[str] = []
     seen: dict[object, str] = {}
     for path in paths:
-        try:
-            st = os.stat(path)
-            key: object = (st.st_dev, st.st_ino)  # one file, however spelt or linked
-        except OSError:  # reported when it is read
-            key = str(Path(path).resolve())
+        key = file_key(path)  # one file, however spelt or linked
         if key in seen:
             _say(f"{path}: the same file as {seen[key]}, given again; assessed once",
                  file=sys.stderr)

@@ -29,6 +29,7 @@ from dataclasses import dataclass
 from pathlib import Path
 
 __all__ = ["atomic_write_text", "atomic_write_bytes", "check_writable_path", "same_file",
+           "file_key",
            "FileStamp",
            "file_stamp", "changed_since", "STALE_TEMP_S"]
 
@@ -107,13 +108,20 @@ def atomic_write_bytes(path: str | Path, data: bytes) -> None:
     _fsync_folder(folder)
 
 
-def same_file(a: str | Path, b: str | Path) -> bool:
-    """Whether paths ``a`` and ``b`` name one file (also through links or another spelling),
-    so that an output is never written over an input."""
+def file_key(path: str | Path) -> object:
+    """What names one file however it is spelt or linked: its device and inode when it exists,
+    else its resolved path (a file not written yet)."""
     try:
-        return os.path.samefile(a, b)
-    except OSError:  # one of them does not exist (yet)
-        return Path(a).resolve() == Path(b).resolve()
+        st = os.stat(path)
+    except OSError:
+        return str(Path(path).resolve())
+    return (st.st_dev, st.st_ino)
+
+
+def same_file(a: str | Path, b: str | Path) -> bool:
+    """Whether paths ``a`` and ``b`` name one file (:func:`file_key`), so that an output is
+    never written over an input."""
+    return file_key(a) == file_key(b)
 
 
 def check_writable_path(path: str | Path) -> None:

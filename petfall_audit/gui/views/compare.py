@@ -375,14 +375,16 @@ class CompareView(QWidget):
         current = self._ctx.assessment
         if self.earlier is None or current is None or self.mode != "earlier":
             return
-        pairs = renumbered_openings(self.earlier.building, current.building)
-        self.pair_renumbered.setVisible(bool(pairs))
-        renamed = pairs if pairs and self.pair_renumbered.isChecked() else None
+        # unpaired, the comparison names its renumbered openings itself; paired, they are found
+        # first and given as renames
+        pairs = (renumbered_openings(self.earlier.building, current.building)
+                 if self.pair_renumbered.isChecked() else None)
         try:
-            c = compare_assessments(self.earlier, current, renamed=renamed)
+            c = compare_assessments(self.earlier, current, renamed=pairs or None)
         except ValueError:  # newer results with other cats are on their way
             self._assess_earlier()
             return
+        self.pair_renumbered.setVisible(bool(pairs if pairs is not None else c.renumbered))
         self._show(c, what_if=False)
 
     def _show(self, c: Any, *, what_if: bool) -> None:
